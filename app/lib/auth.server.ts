@@ -1,0 +1,187 @@
+// Sign-in through @auth/core (Credentials provider, JWT strategy) and the guards every route uses.
+import { Auth, setEnvDefaults, type AuthConfig } from "@auth/core";
+import { CredentialsSignin } from "@auth/core/errors";
+import { decode } from "@auth/core/jwt";
+import Credentials from "@auth/core/providers/credentials";
+import { redirect } from "react-router";
+import { z } from "zod";
+import { loadSession, revokeSession, SESSION_HOURS, signIn, type SessionUser } from "../models/sign-in.server";
+import type { Ctx } from "./context";
+import { env } from "./env.server";
+import { HOME_PATH, type Role } from "./roles";
+
+class WrongCredentials extends CredentialsSignin {
+  override code = "credentials";
+}
+class TooManyAttempts extends CredentialsSignin {
+  override code = "too_many";
+}
+
+const credentials = z.object({ email: z.string().trim().min(1).max(254), password: z.string().min(1).max(1024) });
+
+export function sessionCookieName(): string {
+  return env().secureCookies ? "__Secure-authjs.session-token" : "authjs.session-token";
+}
+
+export function authConfig(address: string): AuthConfig {
+  const e = env();
+  const config: AuthConfig = {
+    basePath: "/auth",
+    secret: e.AUTH_SECRET,
+    trustHost: true,
+    useSecureCookies: e.secureCookies,
+    session: { strategy: "jwt", maxAge: SESSION_HOURS * 3600 },
+    pages: { signIn: "/login", error: "/login" },
+    logger: { error: (err) => { if (!(err instanceof CredentialsSignin)) console.error(err); }, warn: () => {}, debug: () => {} },
+    providers: [
+      Credentials({
+        credentials: { email: { label: "Email", type: "email" }, password: { label: "Password", type: "password" } },
+        async authorize(raw) {
+          const parsed = credentials.safeParse(raw);
+          if (!parsed.success) throw new WrongCredentials();
+          const result = await signIn(parsed.data.email, parsed.data.password, address);
+          if (result.kind === "rate-limited") throw new TooManyAttempts();
+          if (result.kind !== "ok") throw new WrongCredentials();
+          return { id: result.userId, name: result.name, email: result.email, sessionId: result.sessionId } as never;
+        },
+      }),
+    ],
+    callbacks: {
+      jwt({ token, user }) {
+        // Only the session id travels in the cookie; everything else is read from its row.
+        if (user) return { sid: (user as { sessionId: string }).sessionId, sub: user.id };
+        return token;
+      },
+    },
+    events: {
+      async signOut(message) {
+        const sid = "token" in message ? (message.token as { sid?: unknown } | null)?.sid : undefined;
+        if (typeof sid === "string") await revokeSession(sid);
+      },
+    },
+  };
+  setEnvDefaults(process.env, config);
+  return config;
+}
+
+/** The /auth/* resource route hands every request to Auth.js. */
+export function handleAuth(request: Request, address: string): Promise<Response> {
+  return Auth(request, authConfig(address));
+}
+
+function readCookie(request: Request, name: string): string | undefined {
+  const header = request.headers.get("cookie") ?? "";
+  for (const part of header.split(/;\s*/)) {
+    const eq = part.indexOf("=");
+    if (eq > 0 && part.slice(0, eq) === name) return decodeURIComponent(part.slice(eq + 1));
+  }
+  return undefined;
+}
+
+async function sessionIdFrom(request: Request): Promise<string | null> {
+  const raw = readCookie(request, sessionCookieName());
+  if (!raw) return null;
+  try {
+    const token = await decode<{ sid?: string }>({ token: raw, secret: env().AUTH_SECRET, salt: sessionCookieName() });
+    return typeof token?.sid === "string" ? token.sid : null;
+  } catch {
+    return null;
+  }
+}
+
+/** The signed-in user, or null. The cookie alone is not enough: its session row must be live. */
+export async function getUser(request: Request): Promise<SessionUser | null> {
+  const sid = await sessionIdFrom(request);
+  return sid ? loadSession(sid) : null;
+}
+
+function isApi(request: Request): boolean {
+  return new URL(request.url).pathname.startsWith("/api/");
+}
+
+export async function requireUser(request: Request): Promise<SessionUser & { ctx: Ctx }> {
+  const user = await getUser(request);
+  if (!user) {
+    if (isApi(request)) throw Response.json({ error: "Sign in first." }, { status: 401 });
+    const url = new URL(request.url);
+    const next = url.pathname + url.search;
+    throw redirect(next && next !== "/" ? `/login?next=${encodeURIComponent(next)}` : "/login");
+  }
+  return { ...user, ctx: { shopId: user.shopId, userId: user.userId, role: user.role } };
+}
+
+/** Owners may do what leads do; every other role is exactly itself. */
+export function roleAllows(role: Role, allowed: readonly Role[]): boolean {
+  return allowed.includes(role) || (role === "owner" && allowed.includes("lead"));
+}
+
+export async function requireRole(request: Request, allowed: readonly Role[]) {
+  const user = await requireUser(request);
+  if (!roleAllows(user.role, allowed)) {
+    throw Response.json({ error: `This page is for ${allowed.join(" or ")} roles.` }, { status: 403 });
+  }
+  return user;
+}
+
+function setCookies(response: Response): string[] {
+  return response.headers.getSetCookie();
+}
+
+function cookiePairs(setCookie: string[]): string {
+  return setCookie.map((c) => c.split(";")[0]).join("; ");
+}
+
+export type PasswordSignIn = { ok: true; headers: Headers; home: string } | { ok: false; reason: "credentials" | "too_many" };
+
+/**
+ * The /login form's action: runs the Credentials sign-in through Auth.js on the server, so the
+ * form can show its errors beside the fields. Returns the cookies to set on success.
+ */
+export async function signInWithPassword(request: Request, address: string, email: string, password: string): Promise<PasswordSignIn> {
+  const origin = new URL(request.url).origin;
+  const config = authConfig(address);
+  const csrf = await Auth(new Request(`${origin}/auth/csrf`), config);
+  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+  const csrfCookies = setCookies(csrf);
+  const body = new URLSearchParams({ csrfToken, email, password, callbackUrl: `${origin}/` });
+  const response = await Auth(
+    new Request(`${origin}/auth/callback/credentials`, {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded", cookie: cookiePairs(csrfCookies) },
+      body,
+    }),
+    config,
+  );
+  const location = response.headers.get("location") ?? "";
+  const sessionCookie = setCookies(response).find((c) => c.startsWith(`${sessionCookieName()}=`));
+  if (location.includes("error=") || !sessionCookie) {
+    const code = new URL(location || "/", origin).searchParams.get("code");
+    return { ok: false, reason: code === "too_many" ? "too_many" : "credentials" };
+  }
+  const headers = new Headers();
+  for (const c of [...csrfCookies, ...setCookies(response)]) headers.append("set-cookie", c);
+  const sid = await sessionIdFromCookie(sessionCookie);
+  const user = sid ? await loadSession(sid) : null;
+  return { ok: true, headers, home: user ? HOME_PATH[user.role] : "/" };
+}
+
+async function sessionIdFromCookie(setCookie: string): Promise<string | null> {
+  const pair = setCookie.split(";")[0] ?? "";
+  return sessionIdFrom(new Request("http://local/", { headers: { cookie: pair } }));
+}
+
+/** Ends the session for real: the row is revoked (a copied cookie stops working) and the cookie cleared. */
+export async function signOut(request: Request): Promise<Headers> {
+  const sid = await sessionIdFrom(request);
+  if (sid) await revokeSession(sid);
+  const headers = new Headers();
+  const secure = env().secureCookies ? "; Secure" : "";
+  headers.append("set-cookie", `${sessionCookieName()}=; Path=/; HttpOnly; SameSite=Lax; Max-Age=0${secure}`);
+  return headers;
+}
+
+/** Where to go after sign-in: a same-site path from ?next=, else the role's home. */
+export function safeNext(next: string | null | undefined, fallback: string): string {
+  if (!next || !next.startsWith("/") || next.startsWith("//") || next.startsWith("/\\")) return fallback;
+  return next;
+}

@@ -1,0 +1,4 @@
+import type { Role } from "./roles";
+
+/** The caller, always taken from the session. Every model function takes it first. */
+export type Ctx = { shopId: string; userId: string; role: Role };

@@ -1,0 +1,97 @@
+// Shop members and invitations.
+import { and, asc, eq, gt, isNull } from "drizzle-orm";
+import { createHash } from "node:crypto";
+import { invitations, memberships, shops, users } from "../../db/schema";
+import type { Ctx } from "../lib/context";
+import { db } from "../lib/db.server";
+import { hashPassword, verifyPassword } from "../lib/password.server";
+import type { Role } from "../lib/roles";
+import { normaliseEmail } from "./sign-in.server";
+
+export const INVITATION_DAYS = 7;
+
+export async function listMembers(ctx: Ctx) {
+  return db()
+    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, since: memberships.createdAt })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(eq(memberships.shopId, ctx.shopId))
+    .orderBy(asc(users.name));
+}
+
+export async function listOpenInvitations(ctx: Ctx, now = new Date()) {
+  return db()
+    .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt })
+    .from(invitations)
+    .where(and(eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
+    .orderBy(asc(invitations.createdAt));
+}
+
+const sha256 = (s: string) => createHash("sha256").update(s).digest("hex");
+
+/** Creates an invitation and returns the token for the link (only its hash is stored). */
+export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ id: string; token: string }> {
+  const token = Buffer.from(crypto.getRandomValues(new Uint8Array(24))).toString("base64url");
+  const id = crypto.randomUUID();
+  await db().insert(invitations).values({
+    id,
+    shopId: ctx.shopId,
+    email: normaliseEmail(emailRaw),
+    role,
+    tokenHash: sha256(token),
+    invitedBy: ctx.userId,
+    expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
+  });
+  return { id, token };
+}
+
+export async function revokeInvitation(ctx: Ctx, id: string): Promise<boolean> {
+  const [res] = await db()
+    .update(invitations)
+    .set({ revokedAt: new Date() })
+    .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt)));
+  return res.affectedRows > 0;
+}
+
+export type OpenInvitation = { id: string; email: string; role: Role; shopId: string; shopName: string; hasAccount: boolean };
+
+/** The invitation behind a link, if it is still open. No session needed: the token is the key. */
+export async function findInvitation(token: string, now = new Date()): Promise<OpenInvitation | null> {
+  const [row] = await db()
+    .select({ id: invitations.id, email: invitations.email, role: invitations.role, shopId: shops.id, shopName: shops.name })
+    .from(invitations)
+    .innerJoin(shops, eq(shops.id, invitations.shopId))
+    .where(and(eq(invitations.tokenHash, sha256(token)), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
+    .limit(1);
+  if (!row) return null;
+  const [user] = await db().select({ id: users.id }).from(users).where(eq(users.email, row.email)).limit(1);
+  return { ...row, hasAccount: Boolean(user) };
+}
+
+export type AcceptResult = { ok: true } | { ok: false; field: "password" | "token"; message: string };
+
+/**
+ * Accepts an invitation: a new person sets their name and password; someone who already has an
+ * account confirms with their password. Either way they become a member with the invited role.
+ */
+export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<AcceptResult> {
+  const inv = await findInvitation(token);
+  if (!inv) return { ok: false, field: "token", message: "This invitation has expired, was withdrawn, or was already used." };
+  return db().transaction(async (tx) => {
+    const [existing] = await tx.select().from(users).where(eq(users.email, inv.email)).limit(1);
+    let userId: string;
+    if (existing) {
+      if (!(await verifyPassword(existing.passwordHash, input.password)))
+        return { ok: false, field: "password", message: "That password doesn't match your existing account." } as const;
+      userId = existing.id;
+    } else {
+      userId = crypto.randomUUID();
+      await tx.insert(users).values({ id: userId, email: inv.email, name: input.name?.trim() || inv.email, passwordHash: await hashPassword(input.password) });
+    }
+    const [member] = await tx.select().from(memberships).where(and(eq(memberships.shopId, inv.shopId), eq(memberships.userId, userId))).limit(1);
+    if (member) await tx.update(memberships).set({ role: inv.role }).where(eq(memberships.id, member.id));
+    else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });
+    await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));
+    return { ok: true } as const;
+  });
+}

@@ -1,0 +1,120 @@
+import { data, Form, useNavigation } from "react-router";
+import { z } from "zod";
+import { Field } from "~/components/Field";
+import { requireRole } from "~/lib/auth.server";
+import { ROLE_LABEL, ROLES } from "~/lib/roles";
+import { invite, listMembers, listOpenInvitations, revokeInvitation } from "~/models/people.server";
+import type { Route } from "./+types/people";
+
+export const meta: Route.MetaFunction = () => [{ title: "People · Cluepath" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, ["owner"]);
+  const [members, invitations] = await Promise.all([listMembers(user.ctx), listOpenInvitations(user.ctx)]);
+  return { members, invitations };
+}
+
+const inviteForm = z.object({
+  intent: z.literal("invite"),
+  email: z.string().trim().min(1, "Enter the person's e-mail address.").email("That doesn't look like an e-mail address."),
+  role: z.enum(ROLES, { message: "Choose a role." }),
+});
+const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid() });
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireRole(request, ["owner"]);
+  const raw = Object.fromEntries(await request.formData());
+  if (raw.intent === "revoke") {
+    const parsed = revokeForm.safeParse(raw);
+    if (!parsed.success || !(await revokeInvitation(user.ctx, parsed.data.id)))
+      return data({ kind: "error" as const, message: "That invitation was not found." }, { status: 404 });
+    return { kind: "revoked" as const };
+  }
+  const parsed = inviteForm.safeParse(raw);
+  if (!parsed.success) {
+    const f = z.flattenError(parsed.error).fieldErrors;
+    return data(
+      { kind: "invalid" as const, values: { email: String(raw.email ?? ""), role: String(raw.role ?? "") }, errors: { email: f.email?.[0], role: f.role?.[0] } },
+      { status: 400 },
+    );
+  }
+  const { token } = await invite(user.ctx, parsed.data.email, parsed.data.role);
+  const link = new URL(`/invite/${token}`, request.url).toString();
+  return { kind: "invited" as const, email: parsed.data.email, link };
+}
+
+export default function People({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state !== "idle";
+  const invalid = actionData?.kind === "invalid" ? actionData : undefined;
+  return (
+    <div className="space-y-6">
+      <h1 className="text-2xl font-bold">People</h1>
+      <section className="card space-y-3">
+        <h2 className="text-lg font-bold">Invite someone</h2>
+        {actionData?.kind === "invited" && (
+          <div role="status" className="rounded-lg bg-within-soft p-3 text-within">
+            <p className="font-semibold">Invitation made for {actionData.email}.</p>
+            <p className="text-ink">
+              Send them this link (valid 7 days). E-mailing it from Cluepath arrives with the mail module.
+            </p>
+            <input readOnly aria-label="Invitation link" className="field-input mt-2 text-base" value={actionData.link} />
+          </div>
+        )}
+        <Form method="post" className="grid gap-4 sm:grid-cols-[1fr_12rem_auto] sm:items-end" noValidate>
+          <input type="hidden" name="intent" value="invite" />
+          <Field label="Email" name="email" type="email" defaultValue={invalid?.values.email} error={invalid?.errors.email} />
+          <div>
+            <label htmlFor="invite-role" className="field-label">
+              Role
+            </label>
+            <select id="invite-role" name="role" className="field-input" defaultValue={invalid?.values.role || "technician"}>
+              {ROLES.map((r) => (
+                <option key={r} value={r}>
+                  {ROLE_LABEL[r]}
+                </option>
+              ))}
+            </select>
+            {invalid?.errors.role && <p className="field-error">{invalid.errors.role}</p>}
+          </div>
+          <button className="btn-primary" disabled={busy}>
+            Invite
+          </button>
+        </Form>
+      </section>
+      <section>
+        <h2 className="mb-2 text-lg font-bold">Members</h2>
+        <ul className="space-y-2">
+          {loaderData.members.map((m) => (
+            <li key={m.userId} className="card flex flex-wrap justify-between gap-2">
+              <span>
+                <span className="font-semibold">{m.name}</span> <span className="text-ink-soft">{m.email}</span>
+              </span>
+              <span className="font-semibold">{ROLE_LABEL[m.role]}</span>
+            </li>
+          ))}
+        </ul>
+      </section>
+      <section>
+        <h2 className="mb-2 text-lg font-bold">Open invitations</h2>
+        {loaderData.invitations.length === 0 ? (
+          <p className="text-ink-soft">None.</p>
+        ) : (
+          <ul className="space-y-2">
+            {loaderData.invitations.map((i) => (
+              <li key={i.id} className="card flex flex-wrap items-center justify-between gap-2">
+                <span>
+                  {i.email} · {ROLE_LABEL[i.role]} · until {i.expiresAt.toISOString().slice(0, 10)}
+                </span>
+                <Form method="post">
+                  <input type="hidden" name="intent" value="revoke" />
+                  <input type="hidden" name="id" value={i.id} />
+                  <button className="btn-quiet min-h-11 text-base">Withdraw</button>
+                </Form>
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,2 @@
+export * from "./platform";
+export * from "./equipment";

@@ -1,0 +1,74 @@
+// Idempotent demo seed: run it any number of times; it adds what is missing and changes nothing else.
+import { createHash } from "node:crypto";
+import { fileURLToPath } from "node:url";
+import { customers, equipmentUnits, memberships, shops, sites, users } from "./schema";
+import { DEMO_CUSTOMERS, DEMO_PASSWORD, DEMO_SHOP, DEMO_USERS, OTHER_SHOP } from "./demo";
+import { closeDb, db } from "../app/lib/db.server";
+import { hashPassword } from "../app/lib/password.server";
+import type { EquipmentCategory } from "./schema";
+
+/** A UUID-shaped id derived from a stable key, so the seed can upsert. */
+export function stableId(key: string): string {
+  const h = createHash("sha256").update(`cluepath-demo:${key}`).digest("hex");
+  return `${h.slice(0, 8)}-${h.slice(8, 12)}-4${h.slice(13, 16)}-a${h.slice(17, 20)}-${h.slice(20, 32)}`;
+}
+
+export async function seed(): Promise<void> {
+  const d = db();
+  const shopIds = { demo: stableId(DEMO_SHOP.key), other: stableId(OTHER_SHOP.key) };
+  for (const [which, shop] of [["demo", DEMO_SHOP], ["other", OTHER_SHOP]] as const) {
+    await d
+      .insert(shops)
+      .values({ id: shopIds[which], name: shop.name, town: shop.town, settings: { timeZone: "America/Chicago" } })
+      .onDuplicateKeyUpdate({ set: { id: shopIds[which] } });
+  }
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  for (const u of DEMO_USERS) {
+    const userId = stableId(`user:${u.email}`);
+    await d.insert(users).values({ id: userId, email: u.email, name: u.name, passwordHash }).onDuplicateKeyUpdate({ set: { id: userId } });
+    const membershipId = stableId(`member:${u.email}:${u.shop}`);
+    await d
+      .insert(memberships)
+      .values({ id: membershipId, shopId: shopIds[u.shop], userId, role: u.role })
+      .onDuplicateKeyUpdate({ set: { id: membershipId } });
+  }
+  for (const c of DEMO_CUSTOMERS) {
+    const shopId = shopIds[c.shop];
+    const customerId = stableId(c.key);
+    await d.insert(customers).values({ id: customerId, shopId, name: c.name, phone: c.phone }).onDuplicateKeyUpdate({ set: { id: customerId } });
+    for (const s of c.sites) {
+      const siteId = stableId(s.key);
+      await d
+        .insert(sites)
+        .values({ id: siteId, shopId, customerId, name: s.name, address: s.address, contactName: s.contactName, contactEmail: s.contactEmail })
+        .onDuplicateKeyUpdate({ set: { id: siteId } });
+      for (const u of s.units) {
+        const unitId = stableId(u.key);
+        await d
+          .insert(equipmentUnits)
+          .values({
+            id: unitId,
+            shopId,
+            siteId,
+            category: u.category as EquipmentCategory,
+            make: u.make,
+            model: u.model,
+            serial: u.serial,
+            installedOn: u.installedOn,
+            nameplate: u.nameplate,
+          })
+          .onDuplicateKeyUpdate({ set: { id: unitId } });
+      }
+    }
+  }
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  seed()
+    .then(() => console.log(`› demo data ready: ${DEMO_SHOP.name} (${DEMO_SHOP.town}) and ${OTHER_SHOP.name}`))
+    .catch((e) => {
+      console.error("Seeding failed:", e instanceof Error ? e.message : e);
+      process.exitCode = 1;
+    })
+    .finally(() => closeDb());
+}
