@@ -13,6 +13,7 @@ export default [
     route("training", "routes/home-trainer.tsx"),
     route("overview", "routes/home-owner.tsx"),
     route("equipment", "routes/equipment.tsx"),
+    route("equipment/:unitId", "routes/equipment-unit.tsx"),
     route("people", "routes/people.tsx"),
   ]),
 ] satisfies RouteConfig;

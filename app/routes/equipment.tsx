@@ -20,9 +20,10 @@ export default function Equipment({ loaderData }: Route.ComponentProps) {
         <ul className="space-y-2">
           {loaderData.units.map((u) => (
             <li key={u.id} className="card">
-              <p className="font-semibold">
-                {u.make} {u.model} <span className="font-normal text-ink-soft">· {u.category}</span>
-              </p>
+              <a href={`/equipment/${u.id}`} className="font-semibold">
+                {u.make} {u.model}
+              </a>{" "}
+              <span className="text-ink-soft">· {u.category}</span>
               <p className="text-ink-soft">
                 {u.customerName} — {u.siteName} · serial {u.serial}
               </p>

@@ -1,0 +1,43 @@
+# Shared by scripts/start and scripts/test. Source it; do not run it.
+
+# npm ci when node_modules is missing or older than package-lock.json.
+ensure_node_deps() {
+  local stamp=node_modules/.cluepath-lock-sha
+  local want; want="$(sha256sum package-lock.json | cut -d' ' -f1)"
+  if [ ! -f "$stamp" ] || [ "$(cat "$stamp")" != "$want" ]; then
+    echo "› installing npm packages (npm ci)"
+    npm ci --no-audit --no-fund --loglevel=error
+    echo "$want" >"$stamp"
+  fi
+}
+
+# A free TCP port on 127.0.0.1.
+free_port() {
+  node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})'
+}
+
+# Waits until URL answers 200, or fails after ~30 s.
+wait_for_http() {
+  local url="$1"
+  for _ in $(seq 1 150); do
+    if node -e 'fetch(process.argv[1]).then(r=>process.exit(r.ok?0:1),()=>process.exit(1))' "$url"; then return 0; fi
+    sleep 0.2
+  done
+  echo "no answer from $url" >&2
+  return 1
+}
+
+# Debian's chromium for the browser tests (never a downloaded browser).
+ensure_chromium() {
+  [ -x /usr/bin/chromium ] && return 0
+  if [ "$(id -u)" = "0" ] && command -v apt-get >/dev/null; then
+    echo "› installing Debian's chromium for the browser tests"
+    export DEBIAN_FRONTEND=noninteractive
+    apt-get update -qq
+    apt-get install -y -qq chromium >/dev/null
+  else
+    echo "Chromium is needed for the browser tests. Install it with:" >&2
+    echo "  sudo apt-get update && sudo apt-get install -y chromium" >&2
+    return 1
+  fi
+}

@@ -1,0 +1,41 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { stableId } from "../../db/seed";
+import { closeDb } from "../../app/lib/db.server";
+import type { Ctx } from "../../app/lib/context";
+import { acceptInvitation, findInvitation, invite, listMembers, listOpenInvitations, revokeInvitation } from "../../app/models/people.server";
+import { signIn } from "../../app/models/sign-in.server";
+
+afterAll(() => closeDb());
+
+const owner: Ctx = { shopId: stableId("shop:tinderbox"), userId: stableId("user:owner@tinderbox.example"), role: "owner" };
+const otherOwner: Ctx = { shopId: stableId("shop:pellham"), userId: stableId("user:owner@pellham.example"), role: "owner" };
+
+describe("invitations", () => {
+  it("an owner invites by e-mail; the link's token opens it; accepting makes a member who can sign in", async () => {
+    const email = `new-${crypto.randomUUID().slice(0, 8)}@tinderbox.example`;
+    const { token } = await invite(owner, email, "technician");
+    const found = await findInvitation(token);
+    expect(found).toMatchObject({ email, role: "technician", hasAccount: false });
+    expect((await listOpenInvitations(owner)).some((i) => i.email === email)).toBe(true);
+    expect((await listOpenInvitations(otherOwner)).some((i) => i.email === email)).toBe(false);
+
+    expect(await acceptInvitation(token, { name: "New Person", password: "three short words" })).toEqual({ ok: true });
+    expect((await listMembers(owner)).find((m) => m.email === email)?.role).toBe("technician");
+    expect(await findInvitation(token)).toBeNull(); // used once only
+    expect((await signIn(email, "three short words", "test-invite")).kind).toBe("ok");
+  });
+
+  it("a withdrawn invitation cannot be used, and another shop cannot withdraw it", async () => {
+    const { id, token } = await invite(owner, `w-${crypto.randomUUID().slice(0, 8)}@tinderbox.example`, "lead");
+    expect(await revokeInvitation(otherOwner, id)).toBe(false);
+    expect(await findInvitation(token)).not.toBeNull();
+    expect(await revokeInvitation(owner, id)).toBe(true);
+    expect(await findInvitation(token)).toBeNull();
+  });
+
+  it("someone with an account confirms with their own password", async () => {
+    const { token } = await invite(otherOwner, "tech@tinderbox.example", "technician");
+    expect(await acceptInvitation(token, { password: "wrong password here" })).toMatchObject({ ok: false, field: "password" });
+    expect(await findInvitation(token)).not.toBeNull();
+  });
+});

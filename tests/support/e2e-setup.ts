@@ -1,0 +1,65 @@
+// Vitest global setup for browser tests: a seeded database and two app processes on it (to show
+// that app servers hold no state). Needs a production build (scripts/test runs it first).
+import { spawn, type ChildProcess } from "node:child_process";
+import { existsSync } from "node:fs";
+import { createServer } from "node:net";
+import type { TestProject } from "vitest/node";
+import { migrateDatabase } from "../../db/migrate";
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = createServer();
+    s.listen(0, "127.0.0.1", () => {
+      const addr = s.address();
+      s.close(() => (typeof addr === "object" && addr ? resolve(addr.port) : reject(new Error("no port"))));
+    });
+  });
+}
+
+async function waitFor(url: string, child: ChildProcess, log: () => string) {
+  for (let i = 0; i < 150; i++) {
+    if (child.exitCode !== null) throw new Error(`app server exited early:\n${log()}`);
+    try {
+      if ((await fetch(url)).ok) return;
+    } catch {
+      /* not up yet */
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`app server did not answer ${url}:\n${log()}`);
+}
+
+export default async function setup(project: TestProject) {
+  const dbUrl = process.env.E2E_DATABASE_URL;
+  if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test sets it).");
+  if (!existsSync("build/server/index.js")) throw new Error("Browser tests need a build: run `npm run build` first.");
+  await migrateDatabase(dbUrl);
+  process.env.DATABASE_URL = dbUrl;
+  const { seed } = await import("../../db/seed");
+  const { closeDb } = await import("../../app/lib/db.server");
+  await seed();
+  await closeDb();
+
+  const children: ChildProcess[] = [];
+  const urls: string[] = [];
+  for (let i = 0; i < 2; i++) {
+    const port = await freePort();
+    let output = "";
+    const child = spawn(process.execPath, ["server.js"], {
+      env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-e2e" },
+      stdio: ["ignore", "pipe", "pipe"],
+    });
+    child.stdout?.on("data", (d) => (output += d));
+    child.stderr?.on("data", (d) => (output += d));
+    children.push(child);
+    const url = `http://127.0.0.1:${port}`;
+    await waitFor(`${url}/healthz`, child, () => output);
+    urls.push(url);
+  }
+  project.provide("baseUrl", urls[0]!);
+  project.provide("secondBaseUrl", urls[1]!);
+  return async () => {
+    for (const c of children) c.kill("SIGTERM");
+    await Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once("exit", r)))));
+  };
+}
