@@ -26,6 +26,7 @@ export default defineConfig({
         test: {
           name: "integration",
           include: ["tests/integration/**/*.test.ts"],
+          globalSetup: ["tests/support/integration-setup.ts"],
           environment: "node",
           fileParallelism: false,
           testTimeout: 30_000,
@@ -37,6 +38,7 @@ export default defineConfig({
         test: {
           name: "e2e",
           include: ["tests/e2e/**/*.test.ts"],
+          globalSetup: ["tests/support/e2e-setup.ts"],
           environment: "node",
           fileParallelism: false,
           testTimeout: 90_000,
