@@ -146,3 +146,8 @@ export const DEMO_CUSTOMERS: DemoCustomer[] = [
     ],
   },
 ];
+
+export function demoLoginsText(): string {
+  const rows = DEMO_USERS.map((u) => `    ${u.role.padEnd(11)} ${u.email.padEnd(27)} ${u.shop === "other" ? "(second shop)" : ""}`);
+  return [`  Demo sign-ins (password for all: ${DEMO_PASSWORD}):`, ...rows].join("\n");
+}

@@ -28,14 +28,21 @@ async function postLogin(email: string, password: string, addr: string) {
   return { status: d.init.status, body: d.data, headers: null };
 }
 
+/** The parameters written into a PHC-format argon2 hash string. */
+function argonParams(hash: string) {
+  const [, type, , params] = hash.split("$");
+  const kv = Object.fromEntries(params!.split(",").map((p) => p.split("=") as [string, string]));
+  return { type, m: Number(kv.m), t: Number(kv.t), p: Number(kv.p) };
+}
+
 describe("password hashing (OWASP Password Storage Cheat Sheet: argon2id, m ≥ 19 MiB, t ≥ 2, p = 1)", () => {
   it("new hashes are argon2id with m=19456 KiB, t=2, p=1", async () => {
     const h = await hashPassword("a long test pass phrase");
-    expect(h).toMatch(/^\$argon2id\$v=19\$m=19456,t=2,p=1\$/);
+    expect(argonParams(h)).toEqual({ type: "argon2id", m: 19456, t: 2, p: 1 });
   });
   it("the seeded demo users are stored that way too, never in clear", async () => {
     const [u] = await db().select().from(users).where(eq(users.email, TECH));
-    expect(u!.passwordHash).toMatch(/^\$argon2id\$v=19\$m=19456,t=2,p=1\$/);
+    expect(argonParams(u!.passwordHash)).toEqual({ type: "argon2id", m: 19456, t: 2, p: 1 });
     expect(u!.passwordHash).not.toContain(DEMO_PASSWORD);
   });
 });
@@ -46,7 +53,9 @@ describe("sign-in answers", () => {
     const unknown = await postLogin("nobody-here@tinderbox.example", "not the password at all", address());
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(wrong.status);
-    expect(unknown.body).toEqual(wrong.body);
+    expect(unknown.body?.formError).toBe(wrong.body?.formError);
+    expect(unknown.body).toMatchObject({ fieldErrors: {} });
+    expect(wrong.body).toMatchObject({ fieldErrors: {} });
     expect(wrong.body?.formError).toMatch(/don't match an account/);
   });
 
