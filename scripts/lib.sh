@@ -16,11 +16,11 @@ free_port() {
   node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})'
 }
 
-# Waits until URL answers 200, or fails after ~30 s.
+# Waits until URL answers 200 (ANY=1: any HTTP status), or fails after ~30 s.
 wait_for_http() {
   local url="$1"
   for _ in $(seq 1 150); do
-    if node -e 'fetch(process.argv[1]).then(r=>process.exit(r.ok?0:1),()=>process.exit(1))' "$url"; then return 0; fi
+    if node -e 'fetch(process.argv[1]).then(r=>process.exit(r.ok||process.env.ANY?0:1),()=>process.exit(1))' "$url"; then return 0; fi
     sleep 0.2
   done
   echo "no answer from $url" >&2
@@ -40,4 +40,21 @@ ensure_chromium() {
     echo "  sudo apt-get update && sudo apt-get install -y chromium" >&2
     return 1
   fi
+}
+
+# The local S3 fake and SMTP catcher (scripts/fakes.ts) in the background; sets fakes_pid.
+# Uses S3_PORT, SMTP_PORT, S3_DIR, MAIL_CAPTURE_DIR and exports what the app reads.
+start_fakes() {
+  export S3_ENDPOINT="http://127.0.0.1:$S3_PORT" SMTP_URL="smtp://127.0.0.1:$SMTP_PORT"
+  export S3_DIR MAIL_CAPTURE_DIR S3_PORT SMTP_PORT
+  mkdir -p "$S3_DIR" "$MAIL_CAPTURE_DIR"
+  node --import tsx scripts/fakes.ts &
+  fakes_pid=$!
+  for _ in $(seq 1 100); do
+    if node -e 'const s=require("net").connect(+process.argv[1],"127.0.0.1");s.on("connect",()=>process.exit(0));s.on("error",()=>process.exit(1))' "$SMTP_PORT" \
+      && ANY=1 wait_for_http "$S3_ENDPOINT/" >/dev/null 2>&1; then return 0; fi
+    sleep 0.2
+  done
+  echo "the local S3 fake and mail catcher did not start" >&2
+  return 1
 }

@@ -11,6 +11,17 @@ const schema = z.object({
     .transform((v) => v === "1"),
   /** Secure cookies (HTTPS). On in production unless explicitly turned off for a loopback demo. */
   SECURE_COOKIES: z.enum(["0", "1"]).optional(),
+  /** Outgoing mail: an SMTP server (scripts/start and scripts/test run a local catcher). */
+  SMTP_URL: z.string().default("smtp://127.0.0.1:2525"),
+  MAIL_FROM: z.string().default("Cluepath <no-reply@cluepath.example>"),
+  /** Where the local mail catcher stores what it receives (dev and tests only; unset in production). */
+  MAIL_CAPTURE_DIR: z.string().optional(),
+  /** Object storage for photos and images: any S3-compatible endpoint. */
+  S3_ENDPOINT: z.string().url().default("http://127.0.0.1:4569"),
+  S3_REGION: z.string().default("us-east-1"),
+  S3_BUCKET: z.string().default("cluepath"),
+  S3_ACCESS_KEY_ID: z.string().default("S3RVER"),
+  S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
 });
 
 export type Env = z.infer<typeof schema> & { secureCookies: boolean };

@@ -4,8 +4,9 @@ import { createHash } from "node:crypto";
 import { invitations, memberships, shops, users } from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
+import { sendMail } from "../lib/mail.server";
 import { hashPassword, verifyPassword } from "../lib/password.server";
-import type { Role } from "../lib/roles";
+import { ROLE_LABEL, type Role } from "../lib/roles";
 import { normaliseEmail } from "./sign-in.server";
 
 export const INVITATION_DAYS = 7;
@@ -43,6 +44,31 @@ export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ 
     expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
   });
   return { id, token };
+}
+
+/** E-mails the invitation link. Returns false when the mail server refused it (the link still works). */
+export async function sendInvitationMail(ctx: Ctx, to: string, role: Role, link: string): Promise<boolean> {
+  const [shop] = await db().select({ name: shops.name }).from(shops).where(eq(shops.id, ctx.shopId)).limit(1);
+  const [from] = await db().select({ name: users.name }).from(users).where(eq(users.id, ctx.userId)).limit(1);
+  try {
+    await sendMail({
+      shopId: ctx.shopId,
+      to,
+      subject: `Join ${shop?.name ?? "your shop"} on Cluepath`,
+      text: [
+        `${from?.name ?? "Your shop owner"} has invited you to ${shop?.name ?? "their shop"} on Cluepath as ${ROLE_LABEL[role]}.`,
+        "",
+        `Open this link to set your password and join (valid ${INVITATION_DAYS} days):`,
+        link,
+        "",
+        "If you did not expect this, ignore this message.",
+      ].join("\n"),
+    });
+    return true;
+  } catch (e) {
+    console.error("invitation mail failed:", e instanceof Error ? e.message : e);
+    return false;
+  }
 }
 
 export async function revokeInvitation(ctx: Ctx, id: string): Promise<boolean> {

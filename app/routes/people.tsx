@@ -3,7 +3,7 @@ import { z } from "zod";
 import { Field } from "~/components/Field";
 import { requireRole } from "~/lib/auth.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
-import { invite, listMembers, listOpenInvitations, revokeInvitation } from "~/models/people.server";
+import { invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "~/models/people.server";
 import type { Route } from "./+types/people";
 
 export const meta: Route.MetaFunction = () => [{ title: "People · Cluepath" }];
@@ -40,7 +40,8 @@ export async function action({ request }: Route.ActionArgs) {
   }
   const { token } = await invite(user.ctx, parsed.data.email, parsed.data.role);
   const link = new URL(`/invite/${token}`, request.url).toString();
-  return { kind: "invited" as const, email: parsed.data.email, link };
+  const mailed = await sendInvitationMail(user.ctx, parsed.data.email, parsed.data.role, link);
+  return { kind: "invited" as const, email: parsed.data.email, link, mailed };
 }
 
 export default function People({ loaderData, actionData }: Route.ComponentProps) {
@@ -55,7 +56,9 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
           <div role="status" className="rounded-lg bg-within-soft p-3 text-within">
             <p className="font-semibold">Invitation made for {actionData.email}.</p>
             <p className="text-ink">
-              Send them this link (valid 7 days). E-mailing it from Cluepath arrives with the mail module.
+              {actionData.mailed
+                ? "We e-mailed them this link (valid 7 days). You can also pass it on yourself:"
+                : "The mail server did not take the message. Pass this link on yourself (valid 7 days):"}
             </p>
             <input readOnly aria-label="Invitation link" className="field-input mt-2 text-base" value={actionData.link} />
           </div>

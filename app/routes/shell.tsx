@@ -17,7 +17,7 @@ const linkClass = ({ isActive }: { isActive: boolean }) =>
 export default function Shell({ loaderData }: Route.ComponentProps) {
   const nav = navFor(loaderData.role);
   return (
-    <div className="min-h-dvh pb-20 md:grid md:grid-cols-[14rem_1fr] md:pb-0">
+    <div className="min-h-dvh pb-20 md:grid md:grid-cols-[14rem_1fr] md:grid-rows-[auto_1fr] md:pb-0">
       <header className="flex items-center justify-between gap-3 border-b border-rule bg-card px-4 py-2 md:col-span-2">
         <div className="min-w-0">
           <p className="text-xl font-bold leading-tight">

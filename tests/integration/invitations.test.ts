@@ -2,7 +2,8 @@ import { afterAll, describe, expect, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { closeDb } from "../../app/lib/db.server";
 import type { Ctx } from "../../app/lib/context";
-import { acceptInvitation, findInvitation, invite, listMembers, listOpenInvitations, revokeInvitation } from "../../app/models/people.server";
+import { capturedMail } from "../../app/lib/mail.server";
+import { acceptInvitation, findInvitation, invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "../../app/models/people.server";
 import { signIn } from "../../app/models/sign-in.server";
 
 afterAll(() => closeDb());
@@ -23,6 +24,18 @@ describe("invitations", () => {
     expect((await listMembers(owner)).find((m) => m.email === email)?.role).toBe("technician");
     expect(await findInvitation(token)).toBeNull(); // used once only
     expect((await signIn(email, "three short words", "test-invite")).kind).toBe("ok");
+  });
+
+  it("the invitation is e-mailed through SMTP (the local catcher receives it, scoped to the shop)", async () => {
+    const email = `mail-${crypto.randomUUID().slice(0, 8)}@tinderbox.example`;
+    const { token } = await invite(owner, email, "trainer");
+    const link = `http://localhost/invite/${token}`;
+    expect(await sendInvitationMail(owner, email, "trainer", link)).toBe(true);
+    const got = (await capturedMail(owner.shopId)).find((m) => m.to.includes(email));
+    expect(got?.subject).toBe("Join Tinderbox Kitchen Repair on Cluepath");
+    expect(got?.text).toContain(link);
+    expect(got?.text).toContain("as Trainer");
+    expect((await capturedMail(otherOwner.shopId)).some((m) => m.to.includes(email))).toBe(false);
   });
 
   it("a withdrawn invitation cannot be used, and another shop cannot withdraw it", async () => {
