@@ -6,8 +6,9 @@ import { readFile, stat } from "node:fs/promises";
 import { extname, join, normalize } from "node:path";
 import { gzipSync } from "node:zlib";
 
-const root = new URL("./build/client/", import.meta.url).pathname;
-const build = await import("./build/server/index.js");
+const buildDir = new URL(`./${process.env.BUILD_DIR ?? "build"}/`, import.meta.url);
+const root = new URL("client/", buildDir).pathname;
+const build = await import(new URL("server/index.js", buildDir).href);
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "0.0.0.0";
 const trustProxy = process.env.TRUST_PROXY === "1";

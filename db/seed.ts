@@ -1,16 +1,43 @@
 // Idempotent demo seed: run it any number of times; it adds what is missing and changes nothing else.
+import { eq } from "drizzle-orm";
 import { createHash } from "node:crypto";
+import { readdirSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { customers, equipmentUnits, memberships, shops, sites, users } from "./schema";
+import { customers, equipmentUnits, memberships, shops, sites, trees, users } from "./schema";
 import { DEMO_CUSTOMERS, DEMO_PASSWORD, DEMO_SHOP, DEMO_USERS, OTHER_SHOP } from "./demo";
 import { closeDb, db } from "../app/lib/db.server";
 import { hashPassword } from "../app/lib/password.server";
+import { formatParseError, parseTree } from "../app/engine/markdown/parse";
+import { errorsOf, validateTree } from "../app/engine/validate";
+import { createPublishedTree } from "../app/models/trees.server";
 import type { EquipmentCategory } from "./schema";
 
 /** A UUID-shaped id derived from a stable key, so the seed can upsert. */
 export function stableId(key: string): string {
   const h = createHash("sha256").update(`cluepath-demo:${key}`).digest("hex");
   return `${h.slice(0, 8)}-${h.slice(8, 12)}-4${h.slice(13, 16)}-a${h.slice(17, 20)}-${h.slice(20, 32)}`;
+}
+
+const TREES_DIR = fileURLToPath(new URL("../trees/", import.meta.url));
+
+/** The starter trees in trees/, imported into the demo shop as published version 1. */
+export async function seedStarterTrees(shopId: string, authorId: string): Promise<number> {
+  let added = 0;
+  for (const file of readdirSync(TREES_DIR).filter((f) => f.endsWith(".md")).sort()) {
+    const treeId = stableId(`tree:${file}`);
+    const [exists] = await db().select({ id: trees.id }).from(trees).where(eq(trees.id, treeId)).limit(1);
+    if (exists) continue;
+    const parsed = parseTree(readFileSync(TREES_DIR + file, "utf8"));
+    if (!parsed.ok) throw new Error(`trees/${file}: ${parsed.errors.map(formatParseError).join("; ")}`);
+    const errors = errorsOf(validateTree(parsed.tree).findings);
+    if (errors.length) throw new Error(`trees/${file} does not validate: ${errors.map((e) => e.message).join("; ")}`);
+    await createPublishedTree({ shopId, userId: authorId, role: "lead" }, parsed.tree, "Starter tree shipped with Cluepath", {
+      treeId,
+      versionId: stableId(`tree-version:${file}:1`),
+    });
+    added++;
+  }
+  return added;
 }
 
 export async function seed(): Promise<void> {
@@ -61,6 +88,7 @@ export async function seed(): Promise<void> {
       }
     }
   }
+  await seedStarterTrees(shopIds.demo, stableId("user:lead@tinderbox.example"));
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {

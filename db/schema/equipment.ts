@@ -2,8 +2,8 @@ import { date, index, mysqlTable, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, json, uuidPk, uuidRef } from "./columns";
 import { shops } from "./platform";
 
-export const EQUIPMENT_CATEGORIES = ["rotisserie", "fryer", "oven", "griddle", "hot-holding", "other"] as const;
-export type EquipmentCategory = (typeof EQUIPMENT_CATEGORIES)[number];
+import type { EquipmentCategory } from "../../app/engine/types";
+export { CATEGORIES as EQUIPMENT_CATEGORIES, type EquipmentCategory } from "../../app/engine/types";
 
 /** Ratings read off the unit's nameplate, kept as entered (value + unit). */
 export type NameplateRatings = Record<string, { value: number; unit: string }>;

@@ -1,2 +1,3 @@
 export * from "./platform";
 export * from "./equipment";
+export * from "./trees";

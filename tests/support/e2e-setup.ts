@@ -32,7 +32,8 @@ async function waitFor(url: string, child: ChildProcess, log: () => string) {
 export default async function setup(project: TestProject) {
   const dbUrl = process.env.E2E_DATABASE_URL;
   if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test sets it).");
-  if (!existsSync("build/server/index.js")) throw new Error("Browser tests need a build: run `npm run build` first.");
+  const buildDir = process.env.BUILD_DIR ?? "build";
+  if (!existsSync(`${buildDir}/server/index.js`)) throw new Error(`Browser tests need a build in ${buildDir}/: run \`npm run build\` first.`);
   await migrateDatabase(dbUrl);
   process.env.DATABASE_URL = dbUrl;
   const { seed } = await import("../../db/seed");
