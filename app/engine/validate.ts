@@ -1,0 +1,748 @@
+// Validation: the gate before a tree can be published. Findings are written for a lead tech.
+// Everything here is linear in the size of the tree, except the data-flow pass, which costs
+// O((nodes + branches) × ⌈tracked variables / 32⌉ × passes); passes stay at 2–3 because the
+// only cycles allowed are marked re-check loops.
+import type { Finding, Limits, LimitValue, MeasurementNode, Quantity, Tree, TreeNode } from "./types";
+import { QUANTITY_INFO, kindNoun, resolveUnit, convertQty } from "./units";
+import { compileFormula, isReservedName } from "./formula";
+import { limitFormulas, possibleVerdicts } from "./limits";
+import { branchName, describeNode, nodeBranches } from "./graph";
+import { TreeSchema } from "./schema";
+
+export interface ValidationResult {
+  findings: Finding[];
+  errors: number;
+  warnings: number;
+  ok: boolean;
+}
+
+type Add = (f: Omit<Finding, "nodeIndex"> & { nodeIndex?: number }) => void;
+
+const VERDICT_WORD: Record<string, string> = {
+  low: "a low reading",
+  within: "a reading within limits",
+  high: "a high reading",
+  marginal: "a marginal reading",
+};
+
+// --- per-node checks ---------------------------------------------------------------------------
+
+function checkUnit(node: TreeNode & { quantity: Quantity; unit: string }, i: number, add: Add): boolean {
+  const r = resolveUnit(node.unit, node.quantity);
+  const info = QUANTITY_INFO[node.quantity];
+  if (!r) {
+    add({
+      severity: "error",
+      code: "unit-unknown",
+      nodeId: node.id,
+      nodeIndex: i,
+      field: "unit",
+      message: `${describeNode(node)} uses the unit ‘${node.unit}’, which Cluepath doesn't know: for ${info.noun} use ${info.units.join(", ")}.`,
+    });
+    return false;
+  }
+  if (r.kind !== info.kind || (node.quantity === "temperature" && !r.absoluteTemperature)) {
+    add({
+      severity: "error",
+      code: "unit-quantity",
+      nodeId: node.id,
+      nodeIndex: i,
+      field: "unit",
+      message: `${describeNode(node)} records ${info.noun}, but its unit ‘${node.unit}’ is ${kindNoun(r.kind)}: use ${info.units.join(", ")}.`,
+    });
+    return false;
+  }
+  return true;
+}
+
+function limitValues(l: Limits): LimitValue[] {
+  return l.kind === "range" ? [l.min, l.max] : l.kind === "atLeast" ? [l.min] : l.kind === "atMost" ? [l.max] : [l.nominal];
+}
+
+function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
+  const at = { nodeId: node.id, nodeIndex: i };
+  const name = describeNode(node);
+  const unitOk = checkUnit(node, i, add);
+  const L = node.limits;
+  const display = unitOk ? resolveUnit(node.unit, node.quantity)! : null;
+
+  // Units of limit values.
+  const fixed: (number | null)[] = [];
+  for (const v of limitValues(L)) {
+    let x: number | null = null;
+    if (v.unit !== undefined) {
+      const r = resolveUnit(v.unit, node.quantity);
+      if (!r) {
+        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${name} is in ‘${v.unit}’, which Cluepath doesn't know.` });
+      } else if (display && (r.kind !== display.kind || r.absoluteTemperature !== display.absoluteTemperature)) {
+        add({
+          severity: "error",
+          code: "limit-dimension",
+          ...at,
+          field: "limits",
+          message: `A limit of ${name} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
+        });
+      } else if (display && "value" in v) {
+        x = convertQty(v.value, r.qty, display.qty);
+      }
+    } else if ("value" in v) {
+      x = v.value;
+    }
+    fixed.push(x);
+    if ("formula" in v) checkFormula(v.formula, node, i, "limits", add);
+  }
+
+  if (L.kind === "range") {
+    const [a, b] = fixed;
+    if (a != null && b != null) {
+      if (a > b) {
+        add({
+          severity: "error",
+          code: "limits-inverted",
+          ...at,
+          field: "limits",
+          message: `${name} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
+        });
+      } else if (a === b) {
+        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${name} has the same minimum and maximum: no real reading will land exactly on it.` });
+      }
+    }
+  }
+  if (L.kind === "nominal") {
+    const t = L.tolerance;
+    if (t.kind === "percent" || t.kind === "absolute") {
+      if (t.plus < 0 || t.minus < 0) {
+        add({
+          severity: "error",
+          code: "negative-tolerance",
+          ...at,
+          field: "limits",
+          message: `${name} has a negative tolerance: write it as a size, like ± 6 % (or +10 % / −5 % when the sides differ).`,
+        });
+      }
+      if (t.kind === "percent" && t.minus > 100) {
+        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${name} allows more than −100 %, so its lower limit is below zero.` });
+      }
+      if (t.kind === "percent" && node.quantity === "temperature") {
+        add({
+          severity: "warning",
+          code: "percent-of-temperature",
+          ...at,
+          field: "limits",
+          message: `${name} gives a temperature tolerance in percent, which changes with the scale (°F or °C): write it in degrees, like ± 15 °F.`,
+        });
+      }
+      if (t.kind === "absolute" && t.unit !== undefined) {
+        const r = resolveUnit(t.unit, node.quantity, true);
+        const d = resolveUnit(node.unit, node.quantity, true);
+        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${name} is in ‘${t.unit}’, which Cluepath doesn't know.` });
+        else if (d && r.kind !== d.kind) {
+          add({
+            severity: "error",
+            code: "limit-dimension",
+            ...at,
+            field: "limits",
+            message: `The tolerance of ${name} is in ${t.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun}.`,
+          });
+        }
+      }
+    }
+  }
+
+  // Meter and acceptance.
+  const m = node.meter;
+  if (m) {
+    if (m.percent < 0 || m.counts < 0 || m.resolution <= 0) {
+      add({
+        severity: "error",
+        code: "meter-invalid",
+        ...at,
+        field: "meter",
+        message: `The meter accuracy of ${name} needs a percentage and counts of zero or more and a resolution above zero, like ±(1 % + 3 counts) at 0.1 ${node.unit}.`,
+      });
+    }
+    if (m.unit !== undefined) {
+      const r = resolveUnit(m.unit, node.quantity, true);
+      if (!r || (display && r.kind !== display.kind)) {
+        add({
+          severity: "error",
+          code: "limit-dimension",
+          ...at,
+          field: "meter",
+          message: `The meter resolution of ${name} is in ‘${m.unit}’, which isn't ${QUANTITY_INFO[node.quantity].noun} unit.`,
+        });
+      }
+    }
+  }
+  const guarded = node.acceptance === "guarded";
+  if (guarded && !m) {
+    add({
+      severity: "warning",
+      code: "guarded-without-meter",
+      ...at,
+      field: "acceptance",
+      message: `${name} uses guarded acceptance but gives no meter accuracy: verdicts stay simple unless the technician enters their meter's accuracy.`,
+    });
+  }
+
+  // Verdict branches.
+  const possible = possibleVerdicts(L, guarded);
+  for (const v of possible) {
+    if (!node.branches[v]) {
+      add({
+        severity: "error",
+        code: "missing-branch",
+        ...at,
+        message: `${name} has nowhere to go on ${VERDICT_WORD[v]}: add ‘- ${v} → …’.`,
+      });
+    }
+  }
+  for (const v of ["low", "high", "marginal"] as const) {
+    if (node.branches[v] && !possible.includes(v)) {
+      const why =
+        v === "marginal"
+          ? "only guarded acceptance gives marginal readings (add ‘- acceptance: guarded’ and a meter)"
+          : v === "high"
+            ? "‘at least’ limits never read high"
+            : "‘at most’ limits never read low";
+      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${name} has a ‘${v}’ branch that is never taken: ${why}.` });
+    }
+  }
+}
+
+function checkFormula(src: string, node: TreeNode, i: number, field: string, add: Add): void {
+  const c = compileFormula(src);
+  if (!c.ok) {
+    add({
+      severity: "error",
+      code: c.code === "unknown-function" ? "formula-function" : "formula-syntax",
+      nodeId: node.id,
+      nodeIndex: i,
+      field,
+      message: `The formula ‘${src}’ in ${describeNode(node)} can't be used: ${c.message}.`,
+    });
+  }
+}
+
+function describeValue(v: LimitValue, unit: string): string {
+  return "formula" in v ? `\`${v.formula}\`` : `${v.value} ${v.unit ?? unit}`;
+}
+
+// --- the whole tree ------------------------------------------------------------------------------
+
+/** Validate a tree. Returns findings in node order, tree-level findings first. */
+export function validateTree(tree: Tree): ValidationResult {
+  const findings: Finding[] = [];
+  const add: Add = (f) => {
+    findings.push(f as Finding);
+  };
+  const nodes = tree.nodes;
+  const N = nodes.length;
+
+  // Ids.
+  const index = new Map<string, number>();
+  for (let i = 0; i < N; i++) {
+    const n = nodes[i]!;
+    const first = index.get(n.id);
+    if (first !== undefined) {
+      add({
+        severity: "error",
+        code: "duplicate-id",
+        nodeId: n.id,
+        nodeIndex: i,
+        message: `Two steps use the id ‘${n.id}’ (${describeNode(nodes[first]!)} and ${describeNode(n)}): give each its own id.`,
+      });
+    } else index.set(n.id, i);
+  }
+  const start = index.get(tree.start);
+  if (N === 0) {
+    add({ severity: "error", code: "empty-tree", message: "The tree has no steps yet: add a first step." });
+  } else if (start === undefined) {
+    add({ severity: "error", code: "start-missing", message: `The tree starts at ‘${tree.start}’, but no step has that id.` });
+  }
+
+  // Per node: kinds, units, limits, branches, variables.
+  const definers = new Map<string, { index: number; quantity: Quantity; unit: string }>();
+  // CSR adjacency: edges[from] → to index; flags per edge.
+  const edgeFrom: number[] = [];
+  const edgeTo: number[] = [];
+  const edgeLoop: boolean[] = [];
+  const edgeKey: string[] = [];
+
+  for (let i = 0; i < N; i++) {
+    const n = nodes[i]!;
+    const at = { nodeId: n.id, nodeIndex: i };
+    const name = describeNode(n);
+
+    switch (n.kind) {
+      case "question": {
+        if (n.answers.length === 1) {
+          add({ severity: "error", code: "too-few-answers", ...at, message: `${name} has only one answer: a question needs two or more (or make it a step).` });
+        }
+        const seen = new Set<string>();
+        for (const a of n.answers) {
+          if (seen.has(a.label)) {
+            add({ severity: "error", code: "duplicate-answer", ...at, field: `answer:${a.label}`, message: `${name} lists the answer ‘${a.label}’ twice.` });
+          }
+          seen.add(a.label);
+        }
+        break;
+      }
+      case "measurement":
+        checkMeasurement(n, i, add);
+        break;
+      case "nameplate":
+        checkUnit(n, i, add);
+        break;
+      default:
+        break;
+    }
+
+    // Variables recorded here.
+    const variable = n.kind === "measurement" || n.kind === "nameplate" ? n.variable : undefined;
+    if (variable !== undefined && (n.kind === "measurement" || n.kind === "nameplate")) {
+      if (isReservedName(variable)) {
+        add({ severity: "error", code: "variable-reserved", ...at, field: "variable", message: `${name} records ‘${variable}’, which is the name of a formula function: pick another name.` });
+      }
+      const prev = definers.get(variable);
+      if (!prev) definers.set(variable, { index: i, quantity: n.quantity, unit: n.unit });
+      else if (prev.unit !== n.unit || prev.quantity !== n.quantity) {
+        add({
+          severity: "error",
+          code: "variable-units",
+          ...at,
+          field: "variable",
+          message: `‘${variable}’ is recorded in ${prev.unit} by ${describeNode(nodes[prev.index]!)} but in ${n.unit} by ${name}: formulas would mix units, so use one unit or two names.`,
+        });
+      }
+    }
+
+    // Branches.
+    const branches = nodeBranches(n);
+    if (branches.length === 0 && n.kind !== "outcome" && n.kind !== "escalate") {
+      const fix =
+        n.kind === "question"
+          ? "add answers, each with a next step"
+          : n.kind === "measurement"
+            ? "add branches for low, within and high"
+            : "add a next step or make it an outcome";
+      add({ severity: "error", code: "dead-end", ...at, message: `${name} has no way on: ${fix}.` });
+    }
+    for (const { key, branch } of branches) {
+      const to = index.get(branch.to);
+      if (to === undefined) {
+        add({
+          severity: "error",
+          code: "unknown-target",
+          ...at,
+          field: key,
+          message: `${name} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
+        });
+      } else {
+        edgeFrom.push(i);
+        edgeTo.push(to);
+        edgeLoop.push(Boolean(branch.recheck));
+        edgeKey.push(key);
+      }
+      if (branch.recheck) {
+        const r = branch.recheck;
+        if (!Number.isInteger(r.max) || r.max < 1) {
+          add({ severity: "error", code: "recheck-bound", ...at, field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${name} needs a limit of 1 or more times.` });
+        }
+        if (r.onExceed !== undefined) {
+          const ex = index.get(r.onExceed);
+          if (ex === undefined) {
+            add({
+              severity: "error",
+              code: "unknown-target",
+              ...at,
+              field: key,
+              message: `${name} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
+            });
+          } else {
+            edgeFrom.push(i);
+            edgeTo.push(ex);
+            edgeLoop.push(false);
+            edgeKey.push(key);
+          }
+        }
+      }
+    }
+  }
+
+  if (start !== undefined) graphChecks(tree, index, start, { edgeFrom, edgeTo, edgeLoop, edgeKey }, definers, add);
+
+  findings.sort((a, b) => (a.nodeIndex ?? -1) - (b.nodeIndex ?? -1));
+  let errors = 0;
+  for (const f of findings) if (f.severity === "error") errors++;
+  return { findings, errors, warnings: findings.length - errors, ok: errors === 0 };
+}
+
+interface Edges {
+  edgeFrom: number[];
+  edgeTo: number[];
+  edgeLoop: boolean[];
+  edgeKey: string[];
+}
+
+function csr(N: number, from: number[], to: number[], keep: (e: number) => boolean, reverse = false) {
+  const off = new Int32Array(N + 1);
+  const E = from.length;
+  for (let e = 0; e < E; e++) if (keep(e)) off[(reverse ? to[e]! : from[e]!) + 1]!++;
+  for (let i = 0; i < N; i++) off[i + 1]! += off[i]!;
+  const adj = new Int32Array(off[N]!);
+  const eid = new Int32Array(off[N]!);
+  const fill = off.slice(0, N);
+  for (let e = 0; e < E; e++) {
+    if (!keep(e)) continue;
+    const a = reverse ? to[e]! : from[e]!;
+    const k = fill[a]!++;
+    adj[k] = reverse ? from[e]! : to[e]!;
+    eid[k] = e;
+  }
+  return { off, adj, eid };
+}
+
+/** Strongly connected components (iterative Tarjan). comp[i] = component id; size per component. */
+function scc(N: number, g: { off: Int32Array; adj: Int32Array }): { comp: Int32Array; size: Int32Array; count: number } {
+  const idx = new Int32Array(N).fill(-1);
+  const low = new Int32Array(N);
+  const onStack = new Uint8Array(N);
+  const stack = new Int32Array(N);
+  let sp = 0;
+  const comp = new Int32Array(N).fill(-1);
+  const callNode = new Int32Array(N);
+  const callEdge = new Int32Array(N);
+  let counter = 0;
+  let count = 0;
+  const sizes: number[] = [];
+  for (let s = 0; s < N; s++) {
+    if (idx[s] !== -1) continue;
+    let depth = 0;
+    callNode[0] = s;
+    callEdge[0] = g.off[s]!;
+    idx[s] = low[s] = counter++;
+    stack[sp++] = s;
+    onStack[s] = 1;
+    while (depth >= 0) {
+      const v = callNode[depth]!;
+      const e = callEdge[depth]!;
+      if (e < g.off[v + 1]!) {
+        callEdge[depth] = e + 1;
+        const w = g.adj[e]!;
+        if (idx[w] === -1) {
+          idx[w] = low[w] = counter++;
+          stack[sp++] = w;
+          onStack[w] = 1;
+          depth++;
+          callNode[depth] = w;
+          callEdge[depth] = g.off[w]!;
+        } else if (onStack[w]) {
+          if (idx[w]! < low[v]!) low[v] = idx[w]!;
+        }
+      } else {
+        if (low[v] === idx[v]) {
+          let size = 0;
+          let w: number;
+          do {
+            w = stack[--sp]!;
+            onStack[w] = 0;
+            comp[w] = count;
+            size++;
+          } while (w !== v);
+          sizes.push(size);
+          count++;
+        }
+        depth--;
+        if (depth >= 0) {
+          const u = callNode[depth]!;
+          if (low[v]! < low[u]!) low[u] = low[v]!;
+        }
+      }
+    }
+  }
+  return { comp, size: Int32Array.from(sizes), count };
+}
+
+function graphChecks(
+  tree: Tree,
+  index: Map<string, number>,
+  start: number,
+  E: Edges,
+  definers: Map<string, { index: number }>,
+  add: Add,
+): void {
+  const nodes = tree.nodes;
+  const N = nodes.length;
+  const all = csr(N, E.edgeFrom, E.edgeTo, () => true);
+
+  // Reachability (BFS) and reverse post-order (iterative DFS) from the start.
+  const reach = new Uint8Array(N);
+  const order: number[] = [];
+  {
+    const stackN = new Int32Array(N);
+    const stackE = new Int32Array(N);
+    let d = 0;
+    stackN[0] = start;
+    stackE[0] = all.off[start]!;
+    reach[start] = 1;
+    while (d >= 0) {
+      const v = stackN[d]!;
+      const e = stackE[d]!;
+      if (e < all.off[v + 1]!) {
+        stackE[d] = e + 1;
+        const w = all.adj[e]!;
+        if (!reach[w]) {
+          reach[w] = 1;
+          d++;
+          stackN[d] = w;
+          stackE[d] = all.off[w]!;
+        }
+      } else {
+        order.push(v);
+        d--;
+      }
+    }
+    order.reverse();
+  }
+  for (let i = 0; i < N; i++) {
+    if (!reach[i] && index.get(nodes[i]!.id) === i) {
+      const n = nodes[i]!;
+      add({
+        severity: "warning",
+        code: "unreachable",
+        nodeId: n.id,
+        nodeIndex: i,
+        message: `${describeNode(n)} can't be reached from the start: link to it from another step or delete it.`,
+      });
+    }
+  }
+
+  // Cycles: without the marked re-check branches the graph must have none.
+  const plain = csr(N, E.edgeFrom, E.edgeTo, (e) => !E.edgeLoop[e]);
+  const p = scc(N, plain);
+  const reported = new Uint8Array(p.count);
+  for (let i = 0; i < N; i++) {
+    const c = p.comp[i]!;
+    let cyclic = p.size[c]! > 1;
+    if (!cyclic) {
+      for (let k = plain.off[i]!; k < plain.off[i + 1]!; k++) if (plain.adj[k] === i) cyclic = true;
+    }
+    if (!cyclic || reported[c]) continue;
+    reported[c] = 1;
+    const loop = sampleCycle(i, plain, p.comp);
+    const n = nodes[i]!;
+    add({
+      severity: "error",
+      code: "cycle",
+      nodeId: n.id,
+      nodeIndex: i,
+      message: `These steps loop with no limit: ${loop.map((j) => nodes[j]!.id).join(" → ")}. Mark the branch that goes back as a re-check loop, like ‘(re-check up to 2 times, then escalate-id)’, or remove it.`,
+    });
+  }
+  // Re-check branches that don't actually loop back.
+  const full = scc(N, all);
+  for (let e = 0; e < E.edgeFrom.length; e++) {
+    if (!E.edgeLoop[e]) continue;
+    const a = E.edgeFrom[e]!;
+    const b = E.edgeTo[e]!;
+    if (full.comp[a] !== full.comp[b]) {
+      const n = nodes[a]!;
+      add({
+        severity: "warning",
+        code: "recheck-not-a-loop",
+        nodeId: n.id,
+        nodeIndex: a,
+        field: E.edgeKey[e]!,
+        message: `${describeNode(n)} marks ‘${branchName(E.edgeKey[e]!)}’ as a re-check loop, but ‘${nodes[b]!.id}’ never leads back to it.`,
+      });
+    }
+  }
+
+  dataFlow(tree, start, reach, order, all, E, definers, add);
+}
+
+/** One cycle through i inside its component (for the message). */
+function sampleCycle(i: number, g: { off: Int32Array; adj: Int32Array }, comp: Int32Array): number[] {
+  const c = comp[i]!;
+  const prev = new Map<number, number>();
+  const queue = [i];
+  for (let q = 0; q < queue.length; q++) {
+    const v = queue[q]!;
+    for (let k = g.off[v]!; k < g.off[v + 1]!; k++) {
+      const w = g.adj[k]!;
+      if (comp[w] !== c) continue;
+      if (w === i) {
+        const back: number[] = [];
+        for (let x = v; x !== i; x = prev.get(x)!) back.push(x);
+        return [i, ...back.reverse(), i];
+      }
+      if (!prev.has(w)) {
+        prev.set(w, v);
+        queue.push(w);
+      }
+    }
+  }
+  return [i, i];
+}
+
+/**
+ * Must-be-recorded analysis: a formula's variable has to be recorded on every path from the
+ * start into the node that uses it. Forward data-flow with bitsets over the variables that
+ * formulas use: IN(n) = ⋂ OUT(pred), OUT(n) = IN(n) ∪ DEF(n), IN(start) = ∅, iterated in
+ * reverse post-order to the greatest fixed point.
+ */
+function dataFlow(
+  tree: Tree,
+  start: number,
+  reach: Uint8Array,
+  order: number[],
+  all: { off: Int32Array; adj: Int32Array },
+  E: Edges,
+  definers: Map<string, { index: number }>,
+  add: Add,
+): void {
+  const nodes = tree.nodes;
+  const N = nodes.length;
+  // Uses per reachable node.
+  const uses = new Map<number, { name: string; formula: string }[]>();
+  const tracked = new Map<string, number>();
+  for (const i of order) {
+    const n = nodes[i]!;
+    if (n.kind !== "measurement") continue;
+    for (const src of limitFormulas(n.limits)) {
+      const c = compileFormula(src);
+      if (!c.ok) continue;
+      for (const name of c.formula.variables) {
+        if (!definers.has(name)) {
+          add({
+            severity: "error",
+            code: "unknown-variable",
+            nodeId: n.id,
+            nodeIndex: i,
+            field: "limits",
+            message: `${describeNode(n)} uses ‘${name}’ in its limits, but no nameplate input or measurement records ‘${name}’.`,
+          });
+          continue;
+        }
+        if (!tracked.has(name)) tracked.set(name, tracked.size);
+        let u = uses.get(i);
+        if (!u) uses.set(i, (u = []));
+        u.push({ name, formula: src });
+      }
+    }
+  }
+  if (tracked.size === 0) return;
+
+  const W = Math.ceil(tracked.size / 32);
+  const def = new Uint32Array(N * W);
+  for (const i of order) {
+    const n = nodes[i]!;
+    const v = n.kind === "measurement" || n.kind === "nameplate" ? n.variable : undefined;
+    const b = v === undefined ? undefined : tracked.get(v);
+    if (b !== undefined) def[i * W + (b >>> 5)]! |= 1 << (b & 31);
+  }
+  const preds = csr(N, E.edgeFrom, E.edgeTo, (e) => reach[E.edgeFrom[e]!] === 1, true);
+  const IN = new Uint32Array(N * W);
+  const OUT = new Uint32Array(N * W).fill(0xffffffff);
+  const tmp = new Uint32Array(W);
+  let changed = true;
+  while (changed) {
+    changed = false;
+    for (const n of order) {
+      if (n === start) tmp.fill(0);
+      else {
+        tmp.fill(0xffffffff);
+        for (let k = preds.off[n]!; k < preds.off[n + 1]!; k++) {
+          const p = preds.adj[k]!;
+          const base = p * W;
+          for (let w = 0; w < W; w++) tmp[w]! &= OUT[base + w]!;
+        }
+      }
+      const base = n * W;
+      for (let w = 0; w < W; w++) {
+        IN[base + w] = tmp[w]!;
+        const out = tmp[w]! | def[base + w]!;
+        if (out !== OUT[base + w]) {
+          OUT[base + w] = out;
+          changed = true;
+        }
+      }
+    }
+  }
+
+  for (const [i, list] of uses) {
+    const seen = new Set<string>();
+    for (const { name } of list) {
+      if (seen.has(name)) continue;
+      seen.add(name);
+      const b = tracked.get(name)!;
+      if (IN[i * W + (b >>> 5)]! & (1 << (b & 31))) continue;
+      const n = nodes[i]!;
+      const path = pathAvoiding(start, i, name, nodes, all);
+      const via = path ? ` — for example ${path.map((j) => nodes[j]!.id).join(" → ")}` : "";
+      add({
+        severity: "error",
+        code: "variable-not-always-set",
+        nodeId: n.id,
+        nodeIndex: i,
+        field: "limits",
+        message: `${describeNode(n)} uses ‘${name}’ in its limits, but some ways into it don't record ‘${name}’ first${via}. Record it earlier on every path, or use fixed limits.`,
+      });
+    }
+  }
+}
+
+/** A path from start to target on which no node before target records `name` (for messages). */
+function pathAvoiding(start: number, target: number, name: string, nodes: TreeNode[], g: { off: Int32Array; adj: Int32Array }): number[] | null {
+  const records = (i: number) => {
+    const n = nodes[i]!;
+    return (n.kind === "measurement" || n.kind === "nameplate") && n.variable === name;
+  };
+  if (records(start) && start !== target) return null;
+  const prev = new Int32Array(nodes.length).fill(-2);
+  prev[start] = -1;
+  const queue = [start];
+  for (let q = 0; q < queue.length; q++) {
+    const v = queue[q]!;
+    for (let k = g.off[v]!; k < g.off[v + 1]!; k++) {
+      const w = g.adj[k]!;
+      if (prev[w] !== -2) continue;
+      prev[w] = v;
+      if (w === target) {
+        const path: number[] = [];
+        for (let x = w; x !== -1; x = prev[x]!) path.push(x);
+        return path.reverse();
+      }
+      if (!records(w)) queue.push(w);
+    }
+  }
+  return target === start ? [start] : null;
+}
+
+/** Shorthand: the error findings only. */
+export function errorsOf(findings: Finding[]): Finding[] {
+  return findings.filter((f) => f.severity === "error");
+}
+
+/**
+ * Validate data of unknown shape (a request body, a DB row): first the zod schema, then the
+ * tree checks. Shape problems come back as findings with code "shape".
+ */
+export function validateTreeData(data: unknown): { tree: Tree | null; result: ValidationResult } {
+  const parsed = TreeSchema.safeParse(data);
+  if (!parsed.success) {
+    const findings: Finding[] = parsed.error.issues.map((i) => {
+      const f: Finding = { severity: "error", code: "shape", message: `${i.path.map(String).join(".") || "tree"}: ${i.message}` };
+      if (i.path[0] === "nodes" && typeof i.path[1] === "number") {
+        f.nodeIndex = i.path[1];
+        const id = (data as { nodes?: { id?: unknown }[] }).nodes?.[i.path[1]]?.id;
+        if (typeof id === "string") f.nodeId = id;
+      }
+      return f;
+    });
+    return { tree: null, result: { findings, errors: findings.length, warnings: 0, ok: false } };
+  }
+  const tree = parsed.data as Tree;
+  return { tree, result: validateTree(tree) };
+}
