@@ -43,14 +43,26 @@ export const treeVersions = mysqlTable(
     startKey: varchar("start_key", { length: 64 }).notNull(),
     changeNote: varchar("change_note", { length: 500 }),
     authorId: uuidRef("author_id").notNull().references(() => users.id),
+    /** Who saved it last (a draft can have more than one editor). */
+    updatedBy: uuidRef("updated_by"),
+    publishedBy: uuidRef("published_by"),
     basedOnId: uuidRef("based_on_id"),
+    /**
+     * The tree's id while this version is its open draft, else null. The unique index makes "one
+     * open draft per tree" a fact of the database, even for two editors clicking at once.
+     */
+    openDraftOf: uuidRef("open_draft_of"),
     revision: int("revision").notNull().default(1),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at").notNull(),
     publishedAt: timestamp("published_at"),
     retiredAt: timestamp("retired_at"),
   },
-  (t) => [index("tree_versions_tree_idx").on(t.treeId), uniqueIndex("tree_versions_tree_number_uq").on(t.treeId, t.number)],
+  (t) => [
+    index("tree_versions_tree_idx").on(t.treeId),
+    uniqueIndex("tree_versions_tree_number_uq").on(t.treeId, t.number),
+    uniqueIndex("tree_versions_open_draft_uq").on(t.openDraftOf),
+  ],
 );
 
 /** A node of a version: the common fields as columns, the kind's own fields in `data`. */
@@ -90,4 +102,25 @@ export const treeBranches = mysqlTable(
     recheckOnExceed: varchar("recheck_on_exceed", { length: 64 }),
   },
   (t) => [index("tree_branches_version_idx").on(t.versionId, t.fromKey)],
+);
+
+/**
+ * An image used in a tree's step bodies (a wiring diagram, a photo of the part). The bytes live in
+ * object storage under a server-made key; bodies link to /trees/:treeId/images/:id.
+ */
+export const treeImages = mysqlTable(
+  "tree_images",
+  {
+    id: uuidPk(),
+    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    treeId: uuidRef("tree_id").notNull().references(() => trees.id),
+    objectKey: varchar("object_key", { length: 200 }).notNull(),
+    mime: varchar("mime", { length: 40 }).notNull(),
+    bytes: int("bytes").notNull(),
+    /** The uploader's file name, shown and used as the download name; never part of the key. */
+    filename: varchar("filename", { length: 200 }).notNull(),
+    createdBy: uuidRef("created_by").notNull().references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("tree_images_tree_idx").on(t.shopId, t.treeId)],
 );
