@@ -1,3 +1,4 @@
 export * from "./platform";
 export * from "./equipment";
 export * from "./trees";
+export * from "./runs";
