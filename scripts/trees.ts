@@ -47,8 +47,9 @@ function validate(files: string[]): number {
       continue;
     }
     const result = validateTree(parsed.tree);
-    for (const f of result.findings) {
-      process.stdout.write(`${file}:${lineOf(f, parsed.map)}: ${f.severity} ${f.message} [${f.code}]\n`);
+    const rows = result.findings.map((f) => ({ f, line: lineOf(f, parsed.map) })).sort((a, b) => a.line - b.line);
+    for (const { f, line } of rows) {
+      process.stdout.write(`${file}:${line}: ${f.severity} ${f.message} [${f.code}]\n`);
     }
     const summary = `${result.errors} error${result.errors === 1 ? "" : "s"}, ${result.warnings} warning${result.warnings === 1 ? "" : "s"}`;
     process.stdout.write(`${file}: ${result.ok ? "ok" : "not ready to publish"} (${parsed.tree.nodes.length} steps; ${summary})\n`);

@@ -45,6 +45,9 @@ export interface ComputedLimits {
   unit: string;
   /** "1.41–1.59 µF", "at least 135 °F", "at most 41 °F". */
   text: string;
+  /** Each limit as shown: "1.41 µF". */
+  loText?: string;
+  hiText?: string;
   /** How they came about: "1.5 µF ± 6 %", "10.91 Ω ± 10 %, from volts^2 / watts", "191 V to 218 V". */
   derivation: string;
   /** True when the limits are plain numbers in the display unit (then the derivation adds nothing). */
@@ -54,7 +57,7 @@ export interface ComputedLimits {
 
 export type LimitsResult =
   | { ok: true; limits: ComputedLimits }
-  | { ok: false; code: "unknown-unit" | "wrong-dimension" | "formula" | "missing-variable" | "inverted"; message: string };
+  | { ok: false; code: "unknown-unit" | "wrong-dimension" | "formula" | "missing-variable" | "inverted" | "impossible"; message: string };
 
 class LimitsError extends Error {
   constructor(
@@ -67,6 +70,10 @@ class LimitsError extends Error {
 
 /** The display text of a unit suffix: "µF" → " µF", "%" → " %". */
 const withUnit = (n: string, unit: string) => `${n} ${unit}`;
+
+function trimZeros(s: string): string {
+  return s.includes(".") ? s.replace(/0+$/, "").replace(/\.$/, "") : s;
+}
 
 function fmt(x: number): string {
   return formatCompact(x, 4);
@@ -206,27 +213,47 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
         break;
       }
     }
-    if (!ctx.exact) {
-      if (lo !== undefined) lo = roundSig(lo);
-      if (hi !== undefined) hi = roundSig(hi);
-    }
     if (lo !== undefined && hi !== undefined && lo > hi) {
       throw new LimitsError("inverted", `the lower limit ${fmt(lo)} ${node.unit} is above the upper limit ${fmt(hi)} ${node.unit}`);
     }
+    // Computed limits are rounded so that what the screen shows is what is applied: to a step
+    // of at most 1 % of the span between them (1.41–1.59 µF, 4695.3–4704.7 Ω), or to 4
+    // significant figures for a lone computed limit.
+    let show: (x: number) => string = (x) => formatCompact(x, 6);
+    if (!ctx.exact) {
+      const span = lo !== undefined && hi !== undefined ? hi - lo : 0;
+      if (span > 0) {
+        const decimals = Math.min(12, Math.max(0, -Math.floor(Math.log10(span / 100))));
+        const step = 10 ** -decimals;
+        const snap = (x: number) => Number((Math.round(x / step) * step).toFixed(decimals));
+        lo = snap(lo!);
+        hi = snap(hi!);
+        show = (x) => trimZeros(x.toFixed(decimals));
+      } else {
+        if (lo !== undefined) lo = roundSig(lo);
+        if (hi !== undefined) hi = roundSig(hi);
+        show = (x) => formatCompact(x, 4);
+      }
+    }
+    const loText = lo !== undefined ? `${show(lo)} ${node.unit}` : undefined;
+    const hiText = hi !== undefined ? `${show(hi)} ${node.unit}` : undefined;
     const text =
       lo !== undefined && hi !== undefined
-        ? `${fmt(lo)}–${fmt(hi)} ${node.unit}`
-        : lo !== undefined
-          ? `at least ${fmt(lo)} ${node.unit}`
-          : `at most ${fmt(hi!)} ${node.unit}`;
+        ? `${show(lo)}–${hiText}`
+        : loText !== undefined
+          ? `at least ${loText}`
+          : `at most ${hiText}`;
     const limits: ComputedLimits = { unit: node.unit, text, derivation, fixed: ctx.exact && ctx.formulas.length === 0, formulas: ctx.formulas };
     if (lo !== undefined) limits.lo = lo;
     if (hi !== undefined) limits.hi = hi;
+    if (loText !== undefined) limits.loText = loText;
+    if (hiText !== undefined) limits.hiText = hiText;
     if (nominal !== undefined) limits.nominal = nominal;
     return { ok: true, limits };
   } catch (e) {
     if (e instanceof LimitsError) return { ok: false, code: e.code, message: e.message };
-    throw e;
+    // js-quantities refuses temperatures below absolute zero.
+    return { ok: false, code: "impossible", message: e instanceof Error ? e.message.toLowerCase() : String(e) };
   }
 }
 

@@ -185,7 +185,15 @@ export function convertQty(value: number, from: string, to: string): number {
   let c = converters.get(key);
   if (!c) {
     const swift = Qty.swiftConverter(from, to);
-    c = (x: number) => swift(x) as number;
+    // js-quantities' "safe" multiply counts decimal places and returns NaN for values below
+    // about 1e-290 (found by the property tests). Every unit conversion is affine, so fall back
+    // to offset + factor × value, both taken from the library at 0 and 1.
+    const at0 = swift(0) as number;
+    const factor = (swift(1) as number) - at0;
+    c = (x: number) => {
+      const y = swift(x) as number;
+      return Number.isNaN(y) && Number.isFinite(x) ? at0 + factor * x : y;
+    };
     converters.set(key, c);
   }
   return c(value);
@@ -243,7 +251,7 @@ export interface ParsedReading {
 }
 
 export type ReadingError = {
-  code: "empty" | "not-a-number" | "ambiguous-comma" | "unknown-unit" | "wrong-dimension" | "not-finite";
+  code: "empty" | "not-a-number" | "ambiguous-comma" | "unknown-unit" | "wrong-dimension" | "not-finite" | "below-absolute-zero";
   message: string;
 };
 
@@ -314,7 +322,12 @@ export function parseReading(text: string, quantity: Quantity, displayUnit: stri
     };
   }
   const typedValue = Number(split.number);
-  const value = convertQty(typedValue, typed.qty, display.qty);
+  let value: number;
+  try {
+    value = convertQty(typedValue, typed.qty, display.qty);
+  } catch {
+    return { ok: false, code: "below-absolute-zero", message: `‘${text.trim()}’ is below absolute zero: check the reading and its unit.` };
+  }
   if (!Number.isFinite(typedValue) || !Number.isFinite(value)) {
     return { ok: false, code: "not-finite", message: `‘${text.trim()}’ is too large to be a reading.` };
   }

@@ -93,8 +93,6 @@ export function judge(x: number, lo: number | undefined, hi: number | undefined,
   return { verdict: "within" };
 }
 
-const f = (x: number) => formatCompact(x, 4);
-
 export interface EvaluateOptions {
   /** The run's variables (name → value in the recording step's unit). */
   variables?: Readonly<Record<string, number>>;
@@ -136,8 +134,8 @@ export function evaluateReading(
   if (!limits.fixed) notes.push(limits.derivation);
   if (uncertainty) notes.push(`meter ${uncertainty.text}`);
   const paren = notes.length ? ` (${notes.join("; ")})` : "";
-  const loText = limits.lo !== undefined ? `${f(limits.lo)} ${node.unit}` : "";
-  const hiText = limits.hi !== undefined ? `${f(limits.hi)} ${node.unit}` : "";
+  const loText = limits.loText ?? "";
+  const hiText = limits.hiText ?? "";
   let message: string;
   let preview: string;
   switch (verdict) {

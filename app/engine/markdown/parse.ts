@@ -68,7 +68,7 @@ export function formatParseError(e: ParseError): string {
 const KIND_BY_WORD = new Map<string, TreeNode["kind"]>(
   (Object.entries(KIND_HEADING) as [TreeNode["kind"], string][]).map(([k, w]) => [w.toLowerCase(), k]),
 );
-const KIND_LIST = Object.values(KIND_HEADING).join(", ");
+const KIND_WORDS = Object.values(KIND_HEADING);
 
 const FIELDS: Record<TreeNode["kind"] | "tree", readonly string[]> = {
   tree: ["category", "symptom", "equipment", "start"],
@@ -98,7 +98,7 @@ interface Item {
   col: number;
 }
 
-const list = (xs: readonly string[]) => (xs.length > 1 ? `${xs.slice(0, -1).join(", ")} or ${xs[xs.length - 1]}` : (xs[0] ?? ""));
+const list = (xs: readonly string[]): string => (xs.length > 1 ? `${xs.slice(0, -1).join(", ")} or ${xs[xs.length - 1]}` : (xs[0] ?? ""));
 const clip = (s: string) => (s.length > 60 ? s.slice(0, 57) + "…" : s);
 
 class Parser {
@@ -317,7 +317,7 @@ export function parseTree(source: string): ParseResult {
     if (!hm) {
       const word = head.split(/\s+/)[0] ?? "";
       if (word && !KIND_BY_WORD.has(word.toLowerCase())) {
-        p.err(line, 4, `expected a heading like ${example}: ‘${clip(word)}’ isn't a kind of step (${KIND_LIST})`);
+        p.err(line, 4, `expected a heading like ${example}: ‘${clip(word)}’ isn't a kind of step (${list(KIND_WORDS)})`);
       } else if (!/`/.test(head)) {
         p.err(line, 4 + word.length, `expected the step's id in backticks after ‘${word}’, like ${example}`);
       } else {
@@ -327,7 +327,7 @@ export function parseTree(source: string): ParseResult {
     }
     const kind = KIND_BY_WORD.get(hm[1]!.toLowerCase());
     if (!kind) {
-      p.err(line, 4, `‘${clip(hm[1]!)}’ isn't a kind of step: use ${KIND_LIST}`);
+      p.err(line, 4, `‘${clip(hm[1]!)}’ isn't a kind of step: use ${list(KIND_WORDS)}`);
       return;
     }
     const id = hm[2]!.trim();
@@ -433,7 +433,7 @@ export function parseTree(source: string): ParseResult {
   tree.nodes = nodes;
   if (tree.start === undefined && nodes[0]) tree.start = nodes[0].id;
   if (tree.start === undefined) p.err(map.title, 1, "the tree has no steps: add a ‘## Step `id`: …’ heading");
-  if (p.errors.length) return { ok: false, errors: p.errors, map };
+  if (p.errors.length) return { ok: false, errors: sortErrors(p.errors), map };
 
   const checked = TreeSchema.safeParse(tree);
   if (!checked.success) {
@@ -444,6 +444,10 @@ export function parseTree(source: string): ParseResult {
     return { ok: false, errors: p.errors, map };
   }
   return { ok: true, tree: checked.data as Tree, map };
+}
+
+function sortErrors(errors: ParseError[]): ParseError[] {
+  return errors.sort((a, b) => a.line - b.line || a.column - b.column);
 }
 
 function looksLikeField(kind: TreeNode["kind"], line: string): boolean {

@@ -114,7 +114,7 @@ class Cursor {
 }
 
 function isUnitToken(s: string): boolean {
-  return s !== "to" && s !== "letter" && s !== "/" && s !== "%" && s !== "±" && s !== "+/-" && !/^[+\-−]?[\d.]/.test(s) && !s.startsWith("`");
+  return s !== "to" && s !== "letter" && s !== "/" && s !== "%" && s !== "±" && s !== "+/-" && s !== "+-" && !/^[+\-−]?[\d.]/.test(s) && !s.startsWith("`");
 }
 
 function readValue(c: Cursor): LimitValue {
@@ -184,7 +184,7 @@ export function parseLimits(text: string): Limits {
         throw new SyntaxError_(`expected a tolerance letter (${TOLERANCE_LETTERS.join(", ")})${l ? `, got ‘${l.s}’` : ""}`, l?.at ?? text.length);
       }
       limits = { kind: "nominal", nominal: v, tolerance: { kind: "letter", letter: l.s as ToleranceLetter } };
-    } else if (op.s === "±" || op.s === "+/-") {
+    } else if (op.s === "±" || op.s === "+/-" || op.s === "+-") {
       const t = c.next();
       if (!t || !NUM.test(t.s)) throw new SyntaxError_(`expected a number after ±${t ? `, got ‘${t.s}’` : ""}`, t?.at ?? text.length);
       const u = c.peek();
