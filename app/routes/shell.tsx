@@ -43,9 +43,9 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
         aria-label="Main"
         className="fixed inset-x-0 bottom-0 z-10 border-t border-rule bg-card px-2 py-1 md:static md:border-t-0 md:border-r md:px-3 md:py-4"
       >
-        <ul className="flex gap-1 md:flex-col">
+        <ul className="flex gap-1 overflow-x-auto md:flex-col md:overflow-visible">
           {nav.map((item) => (
-            <li key={item.to} className="flex-1 md:flex-none">
+            <li key={item.to} className="min-w-[5.5rem] flex-1 shrink-0 md:min-w-0 md:flex-none">
               <NavLink to={item.to} className={linkClass}>
                 {item.label}
               </NavLink>
