@@ -662,7 +662,7 @@ function dataFlow(
       const base = n * W;
       for (let w = 0; w < W; w++) {
         IN[base + w] = tmp[w]!;
-        const out = tmp[w]! | def[base + w]!;
+        const out = (tmp[w]! | def[base + w]!) >>> 0; // keep it unsigned, like the array it is compared with
         if (out !== OUT[base + w]) {
           OUT[base + w] = out;
           changed = true;

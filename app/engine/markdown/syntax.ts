@@ -114,7 +114,7 @@ class Cursor {
 }
 
 function isUnitToken(s: string): boolean {
-  return s !== "to" && s !== "letter" && s !== "/" && s !== "%" && s !== "±" && s !== "+/-" && s !== "+-" && !/^[+\-−]?[\d.]/.test(s) && !s.startsWith("`");
+  return !/^[+\-−]/.test(s) && s !== "to" && s !== "letter" && s !== "/" && s !== "%" && s !== "±" && s !== "+/-" && s !== "+-" && !/^[+\-−]?[\d.]/.test(s) && !s.startsWith("`");
 }
 
 function readValue(c: Cursor): LimitValue {
