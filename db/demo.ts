@@ -151,3 +151,58 @@ export function demoLoginsText(): string {
   const rows = DEMO_USERS.map((u) => `    ${u.role.padEnd(11)} ${u.email.padEnd(27)} ${u.shop === "other" ? "(second shop)" : ""}`);
   return [`  Demo sign-ins (password for all: ${DEMO_PASSWORD}):`, ...rows].join("\n");
 }
+
+// --- Field runs: the shop's meters and open service calls (invented) ------------------------------
+
+export type DemoMeter = { key: string; name: string; quantity: string; unit: string; rangeMax: number; resolution: number; percent: number; counts: number };
+
+/** One row per meter function and range, with the accuracy printed in its (invented) manual. */
+export const DEMO_METERS: DemoMeter[] = [
+  { key: "meter:van1-volts", name: "Van 1 multimeter — AC volts, 600 V range", quantity: "voltage", unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 },
+  { key: "meter:van1-cap", name: "Van 1 multimeter — capacitance, 100 µF range", quantity: "capacitance", unit: "µF", rangeMax: 100, resolution: 0.01, percent: 1.9, counts: 2 },
+  { key: "meter:van1-ohms", name: "Van 1 multimeter — resistance, 600 Ω range", quantity: "resistance", unit: "Ω", rangeMax: 600, resolution: 0.1, percent: 0.9, counts: 2 },
+  { key: "meter:bench-lcr", name: "Bench LCR meter — capacitance, 2000 nF range", quantity: "capacitance", unit: "nF", rangeMax: 2000, resolution: 1, percent: 0.5, counts: 2 },
+  { key: "meter:probe-thermo", name: "Probe thermometer", quantity: "temperature", unit: "°C", rangeMax: 300, resolution: 0.1, percent: 0.5, counts: 5 },
+];
+
+export type DemoCall = { key: string; number: number; unit: string; symptom: string; priority: "low" | "normal" | "high" | "urgent"; assignedTo: string | null; notes?: string; shop: "demo" | "other" };
+
+export const DEMO_CALLS: DemoCall[] = [
+  {
+    key: "call:larkspur-uneven",
+    number: 1041,
+    unit: "unit:larkspur-rotisserie",
+    symptom: "heats unevenly",
+    priority: "high",
+    assignedTo: "tech@tinderbox.example",
+    notes: "Deli manager says the left spits come out pale by the lunch rush. Counter opens at 7:00.",
+    shop: "demo",
+  },
+  {
+    key: "call:hollin-fryer",
+    number: 1042,
+    unit: "unit:hollin-fryer",
+    symptom: "slow to recover temperature after a basket drop",
+    priority: "normal",
+    assignedTo: "tech@tinderbox.example",
+    shop: "demo",
+  },
+  {
+    key: "call:gilded-griddle",
+    number: 1043,
+    unit: "unit:gilded-griddle",
+    symptom: "right-hand section stays cold",
+    priority: "urgent",
+    assignedTo: null,
+    shop: "demo",
+  },
+  {
+    key: "call:pellham-fryer",
+    number: 2001,
+    unit: "unit:pellham-fryer",
+    symptom: "pilot will not stay lit",
+    priority: "high",
+    assignedTo: "tech@pellham.example",
+    shop: "other",
+  },
+];

@@ -3,14 +3,15 @@ import { eq } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { readdirSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { customers, equipmentUnits, memberships, shops, sites, trees, users } from "./schema";
-import { DEMO_CUSTOMERS, DEMO_PASSWORD, DEMO_SHOP, DEMO_USERS, OTHER_SHOP } from "./demo";
+import { customers, equipmentUnits, memberships, meters, serviceCalls, shops, sites, trees, users } from "./schema";
+import { DEMO_CALLS, DEMO_CUSTOMERS, DEMO_METERS, DEMO_PASSWORD, DEMO_SHOP, DEMO_USERS, OTHER_SHOP } from "./demo";
 import { closeDb, db } from "../app/lib/db.server";
 import { hashPassword } from "../app/lib/password.server";
 import { formatParseError, parseTree } from "../app/engine/markdown/parse";
 import { errorsOf, validateTree } from "../app/engine/validate";
 import { createPublishedTree } from "../app/models/trees.server";
 import type { EquipmentCategory } from "./schema";
+import type { Quantity } from "../app/engine/types";
 
 /** A UUID-shaped id derived from a stable key, so the seed can upsert. */
 export function stableId(key: string): string {
@@ -89,6 +90,43 @@ export async function seed(): Promise<void> {
     }
   }
   await seedStarterTrees(shopIds.demo, stableId("user:lead@tinderbox.example"));
+  await seedFieldWork(shopIds);
+}
+
+/** The demo shop's meters and the open service calls of both shops (added once, then left alone). */
+export async function seedFieldWork(shopIds: { demo: string; other: string }): Promise<void> {
+  const d = db();
+  const now = new Date();
+  for (const m of DEMO_METERS) {
+    const id = stableId(m.key);
+    const { key: _key, quantity, ...fields } = m;
+    await d
+      .insert(meters)
+      .values({ id, shopId: shopIds.demo, ...fields, quantity: quantity as Quantity, updatedAt: now })
+      .onDuplicateKeyUpdate({ set: { id } });
+  }
+  for (const c of DEMO_CALLS) {
+    const id = stableId(c.key);
+    const shopId = shopIds[c.shop];
+    const opener = c.shop === "demo" ? "lead@tinderbox.example" : "owner@pellham.example";
+    await d
+      .insert(serviceCalls)
+      .values({
+        id,
+        shopId,
+        number: c.number,
+        unitId: stableId(c.unit),
+        symptom: c.symptom,
+        priority: c.priority,
+        status: "open",
+        assignedTo: c.assignedTo ? stableId(`user:${c.assignedTo}`) : null,
+        notes: c.notes ?? null,
+        openedBy: stableId(`user:${opener}`),
+        openedAt: now,
+        updatedAt: now,
+      })
+      .onDuplicateKeyUpdate({ set: { id } });
+  }
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {

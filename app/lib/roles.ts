@@ -24,7 +24,9 @@ export const NAV: readonly NavItem[] = [
   { to: "/authoring", label: "Authoring", roles: ["lead"] },
   { to: "/training", label: "Training", roles: ["trainer"] },
   { to: "/overview", label: "Overview", roles: ["owner"] },
+  { to: "/calls/all", label: "Calls", roles: ["lead", "owner"] },
   { to: "/equipment", label: "Equipment", roles: ["technician", "lead", "trainer", "owner"] },
+  { to: "/outbox", label: "Outbox", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },
 ];
 

@@ -8,12 +8,8 @@ import { equipmentUnits } from "./equipment";
 import { shops, users } from "./platform";
 import { trees, treeVersions } from "./trees";
 
-export const CALL_PRIORITIES = ["low", "normal", "high", "urgent"] as const;
-export type CallPriority = (typeof CALL_PRIORITIES)[number];
-
-/** open → in_progress (a run started) → escalated ⇄ in_progress → done; cancelled from any but done. */
-export const CALL_STATUSES = ["open", "in_progress", "escalated", "done", "cancelled"] as const;
-export type CallStatus = (typeof CALL_STATUSES)[number];
+import { CALL_PRIORITIES, CALL_STATUSES } from "../../app/lib/calls";
+export { CALL_PRIORITIES, CALL_STATUSES, type CallPriority, type CallStatus } from "../../app/lib/calls";
 
 /** A meter function and range the shop owns, with its stated accuracy ±(percent % of reading + counts). */
 export const meters = mysqlTable(

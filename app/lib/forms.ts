@@ -1,0 +1,38 @@
+// Small helpers for zod-validated forms: numbers from text inputs, and errors keyed by field.
+import { z } from "zod";
+
+/** A number typed into a form field; an empty field is "missing", not 0. */
+export function formNumber(message: string) {
+  return z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.coerce.number({ message }).refine(Number.isFinite, message));
+}
+
+/** An optional text field: empty becomes null. */
+export function optionalText(max: number, message: string) {
+  return z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? null : v), z.string().trim().max(max, message).nullable());
+}
+
+/** The first error of each field, for showing beside it. */
+export function fieldErrors(error: z.ZodError): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".");
+    if (!(key in out)) out[key] = issue.message;
+  }
+  return out;
+}
+
+/** Form fields as strings (what was typed goes back to the form). */
+export function formStrings(form: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of form) if (typeof v === "string") out[k] = v;
+  return out;
+}
+
+export type ParsedForm<T> = { ok: true; data: T; values: Record<string, string> } | { ok: false; values: Record<string, string>; errors: Record<string, string> };
+
+/** A submitted form checked against `schema`, with what was typed kept for re-showing. */
+export async function parseForm<S extends z.ZodType>(request: Request, schema: S): Promise<ParsedForm<z.infer<S>>> {
+  const values = formStrings(await request.formData());
+  const parsed = schema.safeParse(values);
+  return parsed.success ? { ok: true, data: parsed.data, values } : { ok: false, values, errors: fieldErrors(parsed.error) };
+}

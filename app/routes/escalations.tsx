@@ -1,0 +1,73 @@
+// /escalations — runs technicians handed to a lead, oldest first: read the run, take it over.
+import { data, Form, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import { requireRole } from "~/lib/auth.server";
+import { changeRunStatus, listOpenEscalations } from "~/models/runs.server";
+import { placeName } from "~/lib/place";
+import type { Route } from "./+types/escalations";
+
+export const meta: Route.MetaFunction = () => [{ title: "Escalations · Cluepath" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, ["lead"]);
+  return { escalations: await listOpenEscalations(user.ctx) };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireRole(request, ["lead"]);
+  const parsed = z.object({ runId: z.string().uuid() }).safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) return data({ message: "Choose a run to take over." }, { status: 400 });
+  const r = await changeRunStatus(user.ctx, parsed.data.runId, { action: "take-over" });
+  if (!r.ok) return data({ message: r.message }, { status: r.status });
+  throw redirect(`/runs/${parsed.data.runId}`);
+}
+
+export default function Escalations({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state !== "idle";
+  const list = loaderData.escalations;
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">Escalations</h1>
+      <p className="text-ink-soft">Runs a technician has handed to a lead. Read the run so far, then take it over to carry on.</p>
+      {actionData?.message && (
+        <p role="alert" className="field-error">
+          {actionData.message}
+        </p>
+      )}
+      {list.length === 0 ? (
+        <p className="card">No open escalations.</p>
+      ) : (
+        <ul className="space-y-3">
+          {list.map((e) => (
+            <li key={e.id} className="card space-y-2">
+              <p className="text-sm font-bold uppercase tracking-wide text-marginal">
+                {e.fromTree ? "The procedure sent it on" : "Asked for help"} · {e.raisedAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+              </p>
+              <p className="text-lg font-semibold">“{e.reason}”</p>
+              <p>
+                {e.raisedBy}
+                {e.callNumber ? ` · call ${e.callNumber}` : ""}
+                {e.customerName ? ` · ${placeName(e.customerName, e.siteName ?? "")}` : ""}
+                {e.model ? ` · ${e.model}` : ""}
+              </p>
+              <p className="text-ink-soft">
+                {e.treeTitle}: stopped at “{e.nodeTitle ?? "the start"}” after {e.stepCount} step{e.stepCount === 1 ? "" : "s"}
+              </p>
+              <div className="flex flex-wrap gap-2">
+                <a href={`/runs/${e.runId}`} className="btn-quiet">
+                  Read the run
+                </a>
+                <Form method="post">
+                  <input type="hidden" name="runId" value={e.runId} />
+                  <button className="btn-primary" disabled={busy}>
+                    Take it over
+                  </button>
+                </Form>
+              </div>
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,53 @@
+// /outbox — what the shop has e-mailed (service reports, invitations), as the local mail catcher
+// received it. Owners and leads.
+import { requireRole } from "~/lib/auth.server";
+import { listOutbox } from "~/models/outbox.server";
+import type { Route } from "./+types/outbox";
+
+export const meta: Route.MetaFunction = () => [{ title: "Outbox · Cluepath" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireRole(request, ["lead"]);
+  return await listOutbox(user.ctx);
+}
+
+export default function Outbox({ loaderData }: Route.ComponentProps) {
+  const { enabled, messages } = loaderData;
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">Outbox</h1>
+      {!enabled ? (
+        <p className="card">This server sends mail straight to your mail server, which keeps the copies. The outbox lists messages only where Cluepath runs with its local mail catcher (demo and test setups).</p>
+      ) : (
+        <p className="text-ink-soft">Messages sent for your shop, newest first, as the local mail catcher received them.</p>
+      )}
+      {enabled && messages.length === 0 && <p className="card">Nothing sent yet.</p>}
+      <ul className="space-y-3">
+        {messages.map((m) => (
+          <li key={m.id} className="card">
+            <details>
+              <summary className="cursor-pointer list-none">
+                <p className="text-lg font-semibold">{m.subject || "(no subject)"}</p>
+                <p className="text-ink-soft">
+                  To {m.to.join(", ")} · {new Date(m.receivedAt).toISOString().slice(0, 16).replace("T", " ")} UTC
+                  {m.attachments.length > 0 ? ` · ${m.attachments.length} attachment${m.attachments.length === 1 ? "" : "s"}` : ""}
+                </p>
+                <p className="mt-1 text-base font-semibold text-copper-dark underline">Show the message</p>
+              </summary>
+              <pre className="mt-3 overflow-x-auto whitespace-pre-wrap rounded-lg bg-paper p-3 font-sans text-base">{m.text}</pre>
+              {m.attachments.length > 0 && (
+                <ul className="mt-2 text-ink-soft">
+                  {m.attachments.map((a, i) => (
+                    <li key={i}>
+                      {a.filename} ({a.contentType}, {Math.ceil(a.size / 1024)} KB)
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </details>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}

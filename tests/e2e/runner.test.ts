@@ -1,0 +1,275 @@
+// A technician works the demo call on the two-fan rotisserie end to end on a phone-sized browser:
+// cautions, the supply reading, the fans, the run capacitor (1.47 µF, then 1470 nF after going
+// back), a photo, the root cause, parts, and the report e-mailed to the site contact.
+// Screenshots of every runner screen go to tests/screenshots/runner-*.png.
+import { readdirSync, readFileSync } from "node:fs";
+import { join } from "node:path";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { stableId } from "../../db/seed";
+import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { TINY_PNG } from "../support/photo";
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+let runUrl = "";
+let reportUrl = "";
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(() => browser?.close());
+
+let shot = 0;
+/** Runner screens are shot as the phone shows them (the viewport); pages with `fullPage` whole. */
+async function snap(page: Page, name: string, fullPage = false) {
+  shot++;
+  await page.screenshot({ path: screenshotPath(`runner-${String(shot).padStart(2, "0")}-${name}`), fullPage });
+}
+
+/** The runner's heading: the current step's title. */
+async function atStep(page: Page, title: string) {
+  await page.getByRole("heading", { level: 1, name: title }).waitFor({ timeout: 10_000 });
+}
+
+async function acknowledge(page: Page, title: string, name: string) {
+  await atStep(page, title);
+  const go = page.getByRole("button", { name: "Continue" });
+  await expect(go.isDisabled()).resolves.toBe(true);
+  await snap(page, name);
+  const tick = page.getByLabel("I have read this and made the work safe");
+  await tick.scrollIntoViewIfNeeded();
+  await tick.check();
+  if (name === "caution-lockout") await snap(page, `${name}-ticked`);
+  await go.click();
+}
+
+async function saved(page: Page) {
+  await page.getByRole("status").filter({ hasText: "✓ Saved" }).waitFor({ timeout: 10_000 });
+}
+
+const startedAt = new Date().toISOString();
+
+/** Mail the catcher received since this file started, by subject (the catcher's folder outlives runs). */
+function mailFor(subjectStart: string) {
+  const dir = process.env.MAIL_CAPTURE_DIR;
+  if (!dir) throw new Error("the browser tests need MAIL_CAPTURE_DIR (the SMTP catcher's folder)");
+  return readdirSync(dir)
+    .filter((f) => f.endsWith(".json"))
+    .map((f) => JSON.parse(readFileSync(join(dir, f), "utf8")) as { receivedAt: string; subject: string; to: string[]; text: string; html: string | null; shopId: string; attachments: { filename: string; contentType: string; size: number }[] })
+    .filter((m) => m.receivedAt >= startedAt && m.subject.startsWith(subjectStart));
+}
+
+describe("the phone runner (390×844)", () => {
+  it("a technician works the rotisserie call from My calls to the e-mailed service report", async () => {
+    const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const page = await context.newPage();
+    const editorChunks: string[] = [];
+    page.on("request", (r) => {
+      if (/\/assets\/(Canvas|Editor|tree-edit)[-\w]*\.js$/.test(r.url())) editorChunks.push(r.url());
+    });
+    await signInAs(page, baseUrl, "tech@tinderbox.example");
+    await page.waitForURL(`${baseUrl}/calls`);
+    await snap(page, "my-calls", true);
+
+    await page.getByRole("link", { name: /Call 1041: heats unevenly/ }).click();
+    await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
+    await page.getByText("Best match for “heats unevenly”").waitFor();
+    await snap(page, "call", true);
+    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
+    await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
+    runUrl = page.url();
+
+    // Three cautions, each with the safety wording and an explicit acknowledgement.
+    await snap(page, "start");
+    await page.getByRole("button", { name: "Step 1: show the 0 steps done" }).waitFor({ timeout: 5000 });
+    await expect(page.getByText(/^Safety first · 4 to 17 steps to an answer$/).isVisible()).resolves.toBe(true);
+    await expect(page.getByText("local codes or licensed practice").first().isVisible()).resolves.toBe(true);
+    await acknowledge(page, "Disconnect and lock out power before opening the panel", "caution-lockout");
+    await page.getByText("rated discharge tool and confirm 0 V").waitFor();
+    await acknowledge(page, "Discharge the fan-motor run capacitors with a rated tool", "caution-discharge");
+    await acknowledge(page, "The next reading is taken live", "caution-live");
+
+    // 208 V across L1–L2 with the van's voltmeter: the verdict shows as it is typed.
+    await atStep(page, "Supply voltage across L1–L2");
+    await page.getByLabel("Meter").selectOption({ label: "Van 1 multimeter — AC volts, 600 V range" });
+    await page.getByLabel("Reading", { exact: true }).fill("208");
+    await page.getByText("Within limits").waitFor();
+    await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
+    await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
+    await snap(page, "supply-reading");
+    await page.getByRole("button", { name: "Save reading" }).click();
+
+    // One fan slow, the other stopped: the question takes one answer; the other fan goes in a note.
+    await atStep(page, "With the elements heating, do both convection fans run at full speed?");
+    await expect(page.getByLabel("Last reading").getByText(/208 V — within 191–218 V/).isVisible()).resolves.toBe(true);
+    await page.getByRole("button", { name: "Note", exact: true }).click();
+    await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan hums but is stopped.");
+    await page.getByRole("button", { name: "Save note" }).click();
+    await page.getByText("Left fan runs slow; right fan hums but is stopped.").waitFor();
+    await saved(page);
+    await snap(page, "fans-question");
+    await page.getByRole("button", { name: "One slow" }).click();
+
+    await acknowledge(page, "Power down again and discharge the capacitor", "caution-cap");
+
+    // The rating from the capacitor's body; the unit's nameplate on file offers it.
+    await atStep(page, "Rated capacitance of the slow fan's run capacitor");
+    await page.getByRole("button", { name: "Use 1.5 µF" }).click();
+    await page.getByText("Recorded as").waitFor();
+    await snap(page, "cap-rating");
+    await page.getByRole("button", { name: "Save rating" }).click();
+
+    // 1.47 µF against 1.5 µF ± 6 % (REFERENCES.md: fan-motor run capacitor, common practice).
+    await atStep(page, "Run capacitor against its rating");
+    await expect(page.getByText("1.41–1.59 µF", { exact: true }).isVisible()).resolves.toBe(true);
+    await page.getByLabel("Meter").selectOption({ label: "Van 1 multimeter — capacitance, 100 µF range" });
+    await page.getByLabel("Reading", { exact: true }).fill("1.47");
+    await page.getByText("Within limits").waitFor();
+    await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF \(1\.5 µF ± 6 %/).first().isVisible()).resolves.toBe(true);
+    await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
+    await snap(page, "cap-reading-uF");
+    await page.getByRole("button", { name: "Save reading" }).click();
+    await atStep(page, "With power locked out, does the slow fan's shaft spin freely by hand?");
+    await expect(page.getByLabel("Last reading").getByText(/1\.47 µF — within/).isVisible()).resolves.toBe(true);
+    await saved(page);
+    await snap(page, "after-cap-reading");
+
+    // Back (an undo in the log), and the same capacitor read on the nF range.
+    await page.getByRole("button", { name: "↶ Step back" }).click();
+    await atStep(page, "Run capacitor against its rating");
+    await page.getByLabel("Reading", { exact: true }).fill("1470");
+    await page.getByRole("radio", { name: "nF" }).click();
+    await page.getByText("Within limits").waitFor();
+    await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF/).first().isVisible()).resolves.toBe(true);
+
+    // A photo of the capacitor, from the camera input.
+    const file = page.getByLabel("Add a photo to this step");
+    await expect(file.getAttribute("accept")).resolves.toBe("image/*");
+    await expect(file.getAttribute("capture")).resolves.toBe("environment");
+    await file.setInputFiles({ name: "capacitor.png", mimeType: "image/png", buffer: Buffer.from(TINY_PNG) });
+    await page.getByRole("img", { name: "Photo on this step" }).waitFor();
+    await saved(page);
+    await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
+    await snap(page, "cap-reading-nF-with-photo");
+    await page.getByRole("button", { name: "Save reading" }).click();
+
+    await atStep(page, "With power locked out, does the slow fan's shaft spin freely by hand?");
+    await snap(page, "shaft-question");
+    await page.getByRole("button", { name: "Stiff, gritty or seized" }).click();
+
+    // The root cause, the action, the parts and the time.
+    await page.getByText("Root cause found").waitFor();
+    await expect(page.getByText("Failed fan motor — seized or dragging shaft").first().isVisible()).resolves.toBe(true);
+    await saved(page);
+    await snap(page, "outcome");
+    await page.getByRole("button", { name: "Start from the usual remedy" }).click();
+    await page.getByRole("button", { name: "+ Convection fan motor, 208 V, same frame and rotation as the original" }).click();
+    await page.getByLabel("Part number").first().fill("FM-208-R");
+    await page.getByRole("button", { name: "+ Add another part" }).click();
+    await page.getByLabel("Description").nth(1).fill("Motor-run capacitor 1.5 µF 370 V");
+    await page.getByLabel("Part number").nth(1).fill("RC-15-370");
+    await page.getByLabel("Time on the job (minutes)").fill("75");
+    await page.getByRole("button", { name: "Finish and make the report" }).scrollIntoViewIfNeeded();
+    await snap(page, "outcome-form");
+    await page.getByRole("button", { name: "Finish and make the report" }).click();
+
+    // The report, e-mailed to the site contact.
+    await page.getByText("Job finished").waitFor();
+    await snap(page, "finished", true);
+    await page.getByRole("button", { name: "E-mail the report to Hal Brennick" }).click();
+    await page.getByText("✓ E-mailed to deli@larkspur.example").waitFor();
+    await snap(page, "report-sent");
+    reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
+    expect(reportUrl).toMatch(/^\/reports\/[0-9a-f-]{36}$/);
+
+    const number = (await page.getByRole("heading", { name: /Service report R-\d{4}/ }).textContent())!.replace("Service report ", "");
+    const mails = mailFor(`Service report ${number}`);
+    expect(mails).toHaveLength(1);
+    const mail = mails[0]!;
+    expect(mail.to).toEqual(["deli@larkspur.example"]);
+    expect(mail.shopId).toBe(stableId("shop:tinderbox"));
+    expect(mail.text).toContain("What we found: Failed fan motor — seized or dragging shaft");
+    expect(mail.text).toContain("Supply voltage across L1–L2: 208 V — Within limits (limits 191–218 V)");
+    expect(mail.text).toContain("Run capacitor against its rating: 1470 nF (1.47 µF) — Within limits (limits 1.41–1.59 µF)");
+    expect(mail.text).toContain("1 × Convection fan motor, 208 V, same frame and rotation as the original (FM-208-R)");
+    expect(mail.attachments).toEqual([{ filename: "photo-1.png", contentType: "image/png", size: TINY_PNG.byteLength }]);
+    expect(editorChunks).toEqual([]);
+    await context.close();
+  });
+
+  it("the report page shows the readings table with verdicts and limits, the photo and the cautions; prints without the toolbar", async () => {
+    expect(reportUrl).not.toBe("");
+    for (const [size, viewport] of [["phone", PHONE], ["laptop", LAPTOP]] as const) {
+      const context = await browser.newContext({ viewport });
+      const page = await context.newPage();
+      await signInAs(page, baseUrl, "tech@tinderbox.example");
+      await page.waitForURL(`${baseUrl}/calls`);
+      await page.goto(`${baseUrl}${reportUrl}`);
+      const table = page.getByRole("table").filter({ hasText: "Meter accuracy" });
+      await expect(table.getByRole("row").count()).resolves.toBe(3);
+      await expect(table.getByRole("row", { name: /Run capacitor against its rating/ }).textContent()).resolves.toMatch(/1470 nF \(1\.47 µF\).*Within limits.*1\.41–1\.59 µF/);
+      await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(true);
+      const img = page.getByRole("img", { name: "Photo at: Run capacitor against its rating" });
+      await expect(img.evaluate((el) => (el as HTMLImageElement).naturalWidth)).resolves.toBe(1);
+      await snap(page, `report-${size}`, true);
+      if (size === "laptop") {
+        await page.emulateMedia({ media: "print" });
+        await expect(page.getByRole("button", { name: "Print" }).isVisible()).resolves.toBe(false);
+        await snap(page, "report-print", true);
+      }
+      await context.close();
+    }
+  });
+
+  it("at laptop size: the lead reads the finished run, and the owner sees the report in the outbox", async () => {
+    const lead = await browser.newContext({ viewport: LAPTOP });
+    const page = await lead.newPage();
+    await signInAs(page, baseUrl, "lead@tinderbox.example");
+    await page.waitForURL(`${baseUrl}/authoring`);
+    await page.goto(runUrl);
+    await page.getByText("Job finished").waitFor();
+    await expect(page.getByRole("region", { name: "Steps so far" }).getByText("(taken back)").count()).resolves.toBe(1);
+    await snap(page, "lead-reads-run-laptop", true);
+    await page.goto(`${baseUrl}/escalations`);
+    await snap(page, "escalations-laptop");
+    await lead.close();
+
+    const leadPhone = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const lp = await leadPhone.newPage();
+    await signInAs(lp, baseUrl, "lead@tinderbox.example");
+    await lp.waitForURL(`${baseUrl}/authoring`);
+    await lp.goto(`${baseUrl}/calls/all`);
+    await snap(lp, "lead-calls-phone");
+    await leadPhone.close();
+
+    const owner = await browser.newContext({ viewport: LAPTOP });
+    const op = await owner.newPage();
+    await signInAs(op, baseUrl, "owner@tinderbox.example");
+    await op.waitForURL(`${baseUrl}/overview`);
+    await op.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
+    await op.waitForURL(`${baseUrl}/outbox`);
+    await op.getByText(/^Service report R-\d{4} — Vantor RCF-2208/).first().waitFor();
+    await snap(op, "outbox-laptop");
+    await owner.close();
+  });
+
+  it("another shop cannot open the run, and the fryer call lists its own procedures first; the technician's phone never sees another shop's run", async () => {
+    const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const page = await context.newPage();
+    await signInAs(page, baseUrl, "tech@pellham.example");
+    await page.waitForURL(`${baseUrl}/calls`);
+    const res = await page.goto(runUrl);
+    expect(res?.status()).toBe(404);
+    await context.close();
+
+    const own = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const p2 = await own.newPage();
+    await signInAs(p2, baseUrl, "tech@tinderbox.example");
+    await p2.waitForURL(`${baseUrl}/calls`);
+    await p2.getByRole("link", { name: /Call 1042/ }).click();
+    await p2.waitForURL(/\/calls\//);
+    await snap(p2, "call-fryer", true);
+    await own.close();
+  });
+});
