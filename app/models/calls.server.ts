@@ -10,6 +10,7 @@ import {
   memberships,
   runs,
   serviceCalls,
+  shops,
   sites,
   users,
   type CallPriority,
@@ -266,4 +267,10 @@ export async function callsOfUnit(ctx: Ctx, unitId: string) {
   return callsQuery()
     .where(and(eq(serviceCalls.shopId, ctx.shopId), eq(serviceCalls.unitId, unitId)))
     .orderBy(desc(serviceCalls.openedAt));
+}
+
+/** The shop's time zone (from its settings), for showing times. */
+export async function shopTimeZone(ctx: Ctx): Promise<string> {
+  const [row] = await db().select({ settings: shops.settings }).from(shops).where(eq(shops.id, ctx.shopId)).limit(1);
+  return row?.settings.timeZone || "UTC";
 }

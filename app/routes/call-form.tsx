@@ -8,7 +8,7 @@ import { fieldErrors, formStrings } from "~/lib/forms";
 import { orNotFound } from "~/lib/http.server";
 import { assignablePeople, callEditInput, callInput, createCall, getCall, updateCall } from "~/models/calls.server";
 import { searchUnits } from "~/models/equipment.server";
-import { placeName } from "~/lib/place";
+import { placeName } from "~/lib/display";
 import type { Route } from "./+types/call-form";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.callId ? "Edit call" : "New call"} · Cluepath` }];

@@ -4,10 +4,10 @@ import { z } from "zod";
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { requireRole, requireUser, roleAllows } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
-import { getCall, suggestTrees } from "~/models/calls.server";
+import { getCall, shopTimeZone, suggestTrees } from "~/models/calls.server";
 import { reportNumber } from "~/models/report-data";
 import { runsOfCall, startRun } from "~/models/runs.server";
-import { placeName } from "~/lib/place";
+import { atShop, placeName } from "~/lib/display";
 import type { Route } from "./+types/call";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${data.call.call.number} · Cluepath` : "Call · Cluepath" }];
@@ -15,10 +15,10 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${d
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const call = orNotFound(await getCall(user.ctx, params.callId), "That service call");
-  const [runs, trees] = await Promise.all([runsOfCall(user.ctx, call.call.id), suggestTrees(user.ctx, call.unit.category, call.call.symptom)]);
+  const [runs, trees, tz] = await Promise.all([runsOfCall(user.ctx, call.call.id), suggestTrees(user.ctx, call.unit.category, call.call.symptom), shopTimeZone(user.ctx)]);
   const openRun = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated") ?? null;
   const canRun = roleAllows(user.role, ["technician", "lead"]) && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
-  return { call, runs, trees, openRun, canRun, canEdit: roleAllows(user.role, ["technician", "lead"]) };
+  return { call, runs, trees, openRun, canRun, tz, canEdit: roleAllows(user.role, ["technician", "lead"]) };
 }
 
 const startForm = z.object({ treeId: z.string().uuid() });
@@ -87,7 +87,7 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
         <dt className="text-ink-soft">Assigned to</dt>
         <dd>{c.assigneeName ?? "Nobody yet"}</dd>
         <dt className="text-ink-soft">Opened</dt>
-        <dd>{c.call.openedAt.toISOString().slice(0, 16).replace("T", " ")} UTC</dd>
+        <dd>{atShop(c.call.openedAt, loaderData.tz)}</dd>
         {c.call.notes && (
           <>
             <dt className="text-ink-soft">Notes</dt>

@@ -5,9 +5,9 @@ import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { SelectField } from "~/components/FormFields";
 import { requireUser, roleAllows } from "~/lib/auth.server";
 import { CALL_PRIORITIES, CALL_STATUSES, PRIORITY_LABEL, STATUS_LABEL } from "~/lib/calls";
-import { assignablePeople, listCalls } from "~/models/calls.server";
+import { assignablePeople, listCalls, shopTimeZone } from "~/models/calls.server";
 import { countOpenEscalations } from "~/models/runs.server";
-import { placeName } from "~/lib/place";
+import { atShop, placeName } from "~/lib/display";
 import type { Route } from "./+types/calls";
 
 export const meta: Route.MetaFunction = () => [{ title: "Service calls · Cluepath" }];
@@ -24,12 +24,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   const params = Object.fromEntries(new URL(request.url).searchParams);
   const f = filterSchema.parse({ q: "", status: "active", assigned: "", priority: "", ...params });
   const isLead = roleAllows(user.role, ["lead"]);
-  const [calls, people, escalated] = await Promise.all([
+  const [calls, people, escalated, tz] = await Promise.all([
     listCalls(user.ctx, { q: f.q, status: f.status === "any" ? undefined : f.status, assigned: f.assigned || undefined, priority: f.priority || undefined }),
     assignablePeople(user.ctx),
     isLead ? countOpenEscalations(user.ctx) : Promise.resolve(null),
+    shopTimeZone(user.ctx),
   ]);
-  return { calls, people, filter: f, escalated, canCreate: roleAllows(user.role, ["technician", "lead"]) };
+  return { calls, people, filter: f, escalated, tz, canCreate: roleAllows(user.role, ["technician", "lead"]) };
 }
 
 export default function Calls({ loaderData }: Route.ComponentProps) {
@@ -109,7 +110,7 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
             <p className="text-ink-soft">
               {placeName(c.customerName, c.siteName)} · {c.make} {c.model}
             </p>
-            <p className="text-ink-soft">{c.assigneeName ? `Assigned to ${c.assigneeName}` : "Not assigned"} · opened {c.openedAt.toISOString().slice(0, 10)}</p>
+            <p className="text-ink-soft">{c.assigneeName ? `Assigned to ${c.assigneeName}` : "Not assigned"} · opened {atShop(c.openedAt, loaderData.tz, "date")}</p>
           </li>
         ))}
       </ul>

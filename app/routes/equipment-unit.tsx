@@ -1,7 +1,8 @@
 import { StatusBadge } from "~/components/CallBadges";
+import { atShop } from "~/lib/display";
 import { requireUser, roleAllows } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
-import { callsOfUnit } from "~/models/calls.server";
+import { callsOfUnit, shopTimeZone } from "~/models/calls.server";
 import { getUnit } from "~/models/equipment.server";
 import { reportNumber } from "~/models/report-data";
 import { historyOfUnit } from "~/models/runs.server";
@@ -12,14 +13,14 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.unit.mo
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const found = orNotFound(await getUnit(user.ctx, params.unitId), "That equipment unit");
-  const [calls, history] = await Promise.all([callsOfUnit(user.ctx, found.unit.id), historyOfUnit(user.ctx, found.unit.id)]);
-  return { ...found, calls, history, canEdit: roleAllows(user.role, ["technician", "lead"]) };
+  const [calls, history, tz] = await Promise.all([callsOfUnit(user.ctx, found.unit.id), historyOfUnit(user.ctx, found.unit.id), shopTimeZone(user.ctx)]);
+  return { ...found, calls, history, tz, canEdit: roleAllows(user.role, ["technician", "lead"]) };
 }
 
-const day = (d: Date | null) => (d ? d.toISOString().slice(0, 10) : "—");
 
 export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
   const { unit, site, customer, calls, history } = loaderData;
+  const day = (d: Date | null) => atShop(d, loaderData.tz, "date");
   const causes = history.runs.filter((r) => r.status === "done" && r.rootCause);
   return (
     <div className="space-y-4">

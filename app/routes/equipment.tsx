@@ -4,7 +4,7 @@ import { SelectField } from "~/components/FormFields";
 import { CATEGORIES } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { searchUnits } from "~/models/equipment.server";
-import { placeName } from "~/lib/place";
+import { placeName } from "~/lib/display";
 import type { Route } from "./+types/equipment";
 
 export const meta: Route.MetaFunction = () => [{ title: "Equipment · Cluepath" }];

@@ -2,15 +2,17 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireRole } from "~/lib/auth.server";
+import { shopTimeZone } from "~/models/calls.server";
 import { changeRunStatus, listOpenEscalations } from "~/models/runs.server";
-import { placeName } from "~/lib/place";
+import { atShop, placeName } from "~/lib/display";
 import type { Route } from "./+types/escalations";
 
 export const meta: Route.MetaFunction = () => [{ title: "Escalations · Cluepath" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, ["lead"]);
-  return { escalations: await listOpenEscalations(user.ctx) };
+  const [escalations, tz] = await Promise.all([listOpenEscalations(user.ctx), shopTimeZone(user.ctx)]);
+  return { escalations, tz };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -41,7 +43,7 @@ export default function Escalations({ loaderData, actionData }: Route.ComponentP
           {list.map((e) => (
             <li key={e.id} className="card space-y-2">
               <p className="text-sm font-bold uppercase tracking-wide text-marginal">
-                {e.fromTree ? "The procedure sent it on" : "Asked for help"} · {e.raisedAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                {e.fromTree ? "The procedure sent it on" : "Asked for help"} · {atShop(e.raisedAt, loaderData.tz)}
               </p>
               <p className="text-lg font-semibold">“{e.reason}”</p>
               <p>

@@ -1,6 +1,8 @@
 // /outbox — what the shop has e-mailed (service reports, invitations), as the local mail catcher
 // received it. Owners and leads.
 import { requireRole } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { shopTimeZone } from "~/models/calls.server";
 import { listOutbox } from "~/models/outbox.server";
 import type { Route } from "./+types/outbox";
 
@@ -8,7 +10,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Outbox · Cluepath" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireRole(request, ["lead"]);
-  return await listOutbox(user.ctx);
+  const [outbox, tz] = await Promise.all([listOutbox(user.ctx), shopTimeZone(user.ctx)]);
+  return { ...outbox, tz };
 }
 
 export default function Outbox({ loaderData }: Route.ComponentProps) {
@@ -29,7 +32,7 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
               <summary className="cursor-pointer list-none">
                 <p className="text-lg font-semibold">{m.subject || "(no subject)"}</p>
                 <p className="text-ink-soft">
-                  To {m.to.join(", ")} · {new Date(m.receivedAt).toISOString().slice(0, 16).replace("T", " ")} UTC
+                  To {m.to.join(", ")} · {atShop(m.receivedAt, loaderData.tz)}
                   {m.attachments.length > 0 ? ` · ${m.attachments.length} attachment${m.attachments.length === 1 ? "" : "s"}` : ""}
                 </p>
                 <p className="mt-1 text-base font-semibold text-copper-dark underline">Show the message</p>

@@ -1,6 +1,7 @@
 // /reports/:reportId — the service report: printable (print stylesheet), e-mailed to the site contact.
 import { data, Form, useNavigation } from "react-router";
-import { ReportDocument, REPORT_CSS, when } from "~/components/report/ReportDocument";
+import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
+import { atShop } from "~/lib/display";
 import { requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { reportNumber } from "~/models/report-data";
@@ -57,7 +58,7 @@ export default function Report({ loaderData, actionData }: Route.ComponentProps)
         )}
         {report.sentAt && !actionData && (
           <p className="mb-3 text-ink-soft">
-            Last e-mailed to {report.sentTo} on {when(report.sentAt, report.shop.timeZone)}.
+            Last e-mailed to {report.sentTo} on {atShop(report.sentAt, report.shop.timeZone)}.
           </p>
         )}
       </div>

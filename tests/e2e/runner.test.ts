@@ -136,7 +136,7 @@ describe("the phone runner (390×844)", () => {
     await snap(page, "after-cap-reading");
 
     // Back (an undo in the log), and the same capacitor read on the nF range.
-    await page.getByRole("button", { name: "↶ Step back" }).click();
+    await page.getByRole("button", { name: "↶ Undo" }).click();
     await atStep(page, "Run capacitor against its rating");
     await page.getByLabel("Reading", { exact: true }).fill("1470");
     await page.getByRole("radio", { name: "nF" }).click();
@@ -272,4 +272,59 @@ describe("the phone runner (390×844)", () => {
     await snap(p2, "call-fryer", true);
     await own.close();
   });
+
+  it("pause and resume keep the run; escalating hands it to a lead, who reads it on a phone and takes it over", async () => {
+    const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const page = await context.newPage();
+    await signInAs(page, baseUrl, "tech@tinderbox.example");
+    await page.waitForURL(`${baseUrl}/calls`);
+    await page.goto(`${baseUrl}/calls/all?q=1043`);
+    await page.getByRole("link", { name: "Call 1043" }).click();
+    await page.getByRole("button", { name: "Start: Electric griddle section does not heat" }).click();
+    await page.waitForURL(/\/runs\//);
+    const griddleRun = page.url();
+    await acknowledge(page, "Hot plate and live terminals", "griddle-caution");
+    await atStep(page, "Turn the cold section's thermostat to maximum. Does its heat light come on?");
+
+    await page.getByRole("button", { name: "More" }).click();
+    await snap(page, "more-menu");
+    await page.getByRole("button", { name: "Pause — carry on later" }).click();
+    await page.getByRole("heading", { name: "Paused" }).waitFor();
+    await snap(page, "paused");
+    await page.reload();
+    await page.getByRole("button", { name: "Resume" }).click();
+    await atStep(page, "Turn the cold section's thermostat to maximum. Does its heat light come on?");
+
+    await page.getByRole("button", { name: "More" }).click();
+    await page.getByRole("button", { name: "Ask a lead to take over…" }).click();
+    await page.getByRole("button", { name: "Send to a lead" }).click();
+    await page.getByText("Give a reason in a few words.").waitFor();
+    await page.getByLabel("What should the lead look at?").fill("Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.");
+    await snap(page, "escalate-reason");
+    await page.getByRole("button", { name: "Send to a lead" }).click();
+    await page.getByText("Waiting for a lead").waitFor();
+    await expect(page.getByRole("navigation", { name: "Run tools" }).count()).resolves.toBe(0);
+    await snap(page, "waiting-for-lead");
+    await context.close();
+
+    const lead = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+    const lp = await lead.newPage();
+    await signInAs(lp, baseUrl, "lead@tinderbox.example");
+    await lp.waitForURL(`${baseUrl}/authoring`);
+    await lp.goto(`${baseUrl}/calls/all`);
+    await lp.getByText("1 run is waiting for a lead.").waitFor();
+    await lp.getByRole("link", { name: "Escalations" }).click();
+    await lp.getByText("“Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.”").waitFor();
+    await expect(lp.getByText(/stopped at “Turn the cold section's thermostat to maximum/).isVisible()).resolves.toBe(true);
+    await snap(lp, "escalations-phone", true);
+    await lp.getByRole("link", { name: "Read the run" }).click();
+    await lp.waitForURL(griddleRun);
+    await expect(lp.getByRole("region", { name: "Steps so far" }).getByText("Hot plate and live terminals").isVisible()).resolves.toBe(true);
+    await lp.getByRole("button", { name: "Take over this run" }).click();
+    await atStep(lp, "Turn the cold section's thermostat to maximum. Does its heat light come on?");
+    await expect(lp.getByRole("navigation", { name: "Run tools" }).isVisible()).resolves.toBe(true);
+    await snap(lp, "lead-took-over");
+    await lead.close();
+  });
 });
+

@@ -1,6 +1,6 @@
 // The service report, one component for the page, the print view and the e-mail (rendered to
 // static HTML on the server). Styled by REPORT_CSS so it reads the same in a mail client.
-import { placeName } from "~/lib/place";
+import { atShop, placeName } from "~/lib/display";
 import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "~/models/report-data";
 
 export const REPORT_CSS = `
@@ -36,10 +36,6 @@ export const REPORT_CSS = `
 }
 `;
 
-export function when(iso: string | null, timeZone: string): string {
-  if (!iso) return "—";
-  return new Intl.DateTimeFormat("en-US", { timeZone, dateStyle: "medium", timeStyle: "short" }).format(new Date(iso));
-}
 
 export function ReportDocument({ report: r, photoSrc }: { report: ReportData; photoSrc: (id: string) => string }) {
   const tz = r.shop.timeZone;
@@ -51,7 +47,7 @@ export function ReportDocument({ report: r, photoSrc }: { report: ReportData; ph
           <h1>Service report {reportNumber(r.number)}</h1>
           <p className="rp-muted">
             {r.call ? `Call ${r.call.number} · ` : ""}
-            Work finished {when(r.completedAt, tz)}
+            Work finished {atShop(r.completedAt, tz)}
           </p>
         </div>
         <div className="rp-muted">
@@ -97,7 +93,7 @@ export function ReportDocument({ report: r, photoSrc }: { report: ReportData; ph
         {r.call && (
           <>
             <dt>Reported</dt>
-            <dd>“{r.call.symptom}” (call opened {when(r.call.openedAt, tz)})</dd>
+            <dd>“{r.call.symptom}” (call opened {atShop(r.call.openedAt, tz)})</dd>
           </>
         )}
         <dt>Procedure</dt>

@@ -42,6 +42,11 @@ export function Runner({ initial }: { initial: RunView }) {
     setPanel((p) => (p === "history" || p === "more" ? p : null));
   }, [position]);
 
+  // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
+  useEffect(() => {
+    if (panel && panel !== "more") window.scrollTo({ top: 0 });
+  }, [panel]);
+
   let screen: ReactNode;
   if (status === "done") screen = <DoneScreen run={run} />;
   else if (status === "abandoned") screen = <Closed title="Run abandoned" detail={view.run.abandonReason ?? ""} />;
@@ -67,7 +72,6 @@ export function Runner({ initial }: { initial: RunView }) {
         )}
         {panel === "history" && <History run={run} onClose={() => setPanel(null)} />}
         {panel === "note" && shownNode && <NotePanel run={run} node={shownNode} onClose={() => setPanel(null)} />}
-        {panel === "more" && <MorePanel run={run} onPick={setPanel} />}
         {(panel === "escalate" || panel === "abandon") && (
           <ReasonPanel
             run={run}
@@ -87,6 +91,7 @@ export function Runner({ initial }: { initial: RunView }) {
         {screen}
         {shownNode && <StepExtras run={run} node={shownNode} />}
       </main>
+      {holds && open && panel === "more" && <MorePanel run={run} onPick={setPanel} />}
       {holds && open && <Toolbar run={run} node={shownNode} panel={panel} setPanel={setPanel} />}
     </div>
   );
@@ -219,7 +224,7 @@ function Toolbar({ run, node, panel, setPanel }: { run: RunHandle; node: TreeNod
             if (refused) run.setError(refused);
           }}
         >
-          ↶ Step back
+          ↶ Undo
         </button>
         <button type="button" className={`${btn} border-2 ${panel === "note" ? "border-copper bg-copper-soft" : "border-rule"}`} disabled={!node} onClick={() => setPanel(panel === "note" ? null : "note")}>
           Note
@@ -288,7 +293,7 @@ function PanelButtons({ go, disabled, danger, onCancel }: { go: string; disabled
 function MorePanel({ run, onPick }: { run: RunHandle; onPick: (p: Panel) => void }) {
   const paused = run.view.run.status === "paused";
   return (
-    <section className="card grid gap-2" aria-label="More">
+    <section className="fixed inset-x-0 bottom-[4.75rem] z-30 mx-auto grid max-w-xl gap-2 rounded-t-2xl border border-rule bg-card p-3 shadow-[0_-8px_24px_rgba(0,0,0,0.18)]" aria-label="More">
       <button
         type="button"
         className="btn-quiet min-h-14 w-full"

@@ -8,7 +8,7 @@ import { MAX_PHOTO_MB } from "../../../app/components/runner/limits";
 import { stepsToGo } from "../../../app/components/runner/progress";
 import { composeReading } from "../../../app/components/runner/Reading";
 import { markdownBlocks } from "../../../app/lib/md.server";
-import { placeName } from "../../../app/lib/place";
+import { placeName } from "../../../app/lib/display";
 import { MAX_IMAGE_BYTES } from "../../../app/lib/storage.server";
 import { canonicalPayload, entryOf, logOf, type StepView } from "../../../app/models/run-log";
 
