@@ -20,9 +20,10 @@ export const FUNCTIONS: Readonly<Record<string, Fn>> = {
 };
 export const CONSTANTS: Readonly<Record<string, number>> = { pi: Math.PI };
 
+const RESERVED = new Set([...Object.keys(FUNCTIONS), ...Object.keys(CONSTANTS)]);
 /** Names a variable may not take. */
 export function isReservedName(name: string): boolean {
-  return Object.hasOwn(FUNCTIONS, name) || Object.hasOwn(CONSTANTS, name);
+  return RESERVED.has(name);
 }
 
 type Ast =

@@ -3,7 +3,7 @@
 export * from "./types";
 export { parseReading, resolveUnit, convert, unitQuantity, unitLabel, normaliseUnit, kindNoun, QUANTITY_INFO } from "./units";
 export type { ParsedReading, ParseReadingResult, ReadingError, QuantityInfo } from "./units";
-export { computeLimits, possibleVerdicts, LETTER_PERCENT, LETTER_SMALL_CAP_PF } from "./limits";
+export { computeLimits, possibleVerdicts, limitFormulas, LETTER_PERCENT, LETTER_SMALL_CAP_PF } from "./limits";
 export type { ComputedLimits, LimitsResult, FormulaUse } from "./limits";
 export { evaluateReading, judge, meterUncertainty, describeMeter } from "./verdict";
 export type { Verdict, VerdictResult, VerdictError, Uncertainty, EvaluateOptions } from "./verdict";

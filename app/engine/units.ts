@@ -146,12 +146,15 @@ export interface ResolvedUnit {
   absoluteTemperature: boolean;
 }
 
-const resolved = new Map<string, ResolvedUnit | null>();
+// One cache per (quantity, absolute/difference) context, keyed by the unit as written.
+const resolved = new Map<string, Map<string, ResolvedUnit | null>>();
 
 /** Resolve a unit as written; null when js-quantities doesn't know it. */
 export function resolveUnit(raw: string, quantity?: Quantity, difference = false): ResolvedUnit | null {
-  const key = `${quantity ?? ""}|${difference ? 1 : 0}|${raw}`;
-  const hit = resolved.get(key);
+  const ctx = difference ? `${quantity ?? ""}~` : (quantity ?? "");
+  let cache = resolved.get(ctx);
+  if (!cache) resolved.set(ctx, (cache = new Map()));
+  const hit = cache.get(raw);
   if (hit !== undefined) return hit;
   let out: ResolvedUnit | null = null;
   const name = normaliseUnit(raw, quantity, difference);
@@ -166,7 +169,7 @@ export function resolveUnit(raw: string, quantity?: Quantity, difference = false
       out = null;
     }
   }
-  resolved.set(key, out);
+  if (cache.size < 2000) cache.set(raw, out);
   return out;
 }
 

@@ -1,12 +1,12 @@
 // Validation: the gate before a tree can be published. Findings are written for a lead tech.
-// Everything here is linear in the size of the tree, except the data-flow pass, which costs
-// O((nodes + branches) × ⌈tracked variables / 32⌉ × passes); passes stay at 2–3 because the
-// only cycles allowed are marked re-check loops.
-import type { Finding, Limits, LimitValue, MeasurementNode, Quantity, Tree, TreeNode } from "./types";
+// Everything here is linear in the size of the tree; the data-flow check costs the sum of each
+// variable's live region (see dataFlow), which is linear too when variables are used near
+// where they are recorded.
+import type { Branch, Finding, Limits, LimitValue, MeasurementNode, Quantity, Tree, TreeNode } from "./types";
 import { QUANTITY_INFO, kindNoun, resolveUnit, convertQty } from "./units";
 import { compileFormula, isReservedName } from "./formula";
 import { limitFormulas, possibleVerdicts } from "./limits";
-import { branchName, describeNode, nodeBranches } from "./graph";
+import { branchName, describeNode } from "./graph";
 import { TreeSchema } from "./schema";
 
 export interface ValidationResult {
@@ -61,7 +61,7 @@ function limitValues(l: Limits): LimitValue[] {
 
 function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
   const at = { nodeId: node.id, nodeIndex: i };
-  const name = describeNode(node);
+  const name = () => describeNode(node);
   const unitOk = checkUnit(node, i, add);
   const L = node.limits;
   const display = unitOk ? resolveUnit(node.unit, node.quantity)! : null;
@@ -73,14 +73,14 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
     if (v.unit !== undefined) {
       const r = resolveUnit(v.unit, node.quantity);
       if (!r) {
-        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${name} is in ‘${v.unit}’, which Cluepath doesn't know.` });
+        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${name()} is in ‘${v.unit}’, which Cluepath doesn't know.` });
       } else if (display && (r.kind !== display.kind || r.absoluteTemperature !== display.absoluteTemperature)) {
         add({
           severity: "error",
           code: "limit-dimension",
           ...at,
           field: "limits",
-          message: `A limit of ${name} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
+          message: `A limit of ${name()} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
         });
       } else if (display && "value" in v) {
         x = convertQty(v.value, r.qty, display.qty);
@@ -101,10 +101,10 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "limits-inverted",
           ...at,
           field: "limits",
-          message: `${name} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
+          message: `${name()} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
         });
       } else if (a === b) {
-        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${name} has the same minimum and maximum: no real reading will land exactly on it.` });
+        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${name()} has the same minimum and maximum: no real reading will land exactly on it.` });
       }
     }
   }
@@ -117,11 +117,11 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "negative-tolerance",
           ...at,
           field: "limits",
-          message: `${name} has a negative tolerance: write it as a size, like ± 6 % (or +10 % / −5 % when the sides differ).`,
+          message: `${name()} has a negative tolerance: write it as a size, like ± 6 % (or +10 % / −5 % when the sides differ).`,
         });
       }
       if (t.kind === "percent" && t.minus > 100) {
-        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${name} allows more than −100 %, so its lower limit is below zero.` });
+        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${name()} allows more than −100 %, so its lower limit is below zero.` });
       }
       if (t.kind === "percent" && node.quantity === "temperature") {
         add({
@@ -129,20 +129,20 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "percent-of-temperature",
           ...at,
           field: "limits",
-          message: `${name} gives a temperature tolerance in percent, which changes with the scale (°F or °C): write it in degrees, like ± 15 °F.`,
+          message: `${name()} gives a temperature tolerance in percent, which changes with the scale (°F or °C): write it in degrees, like ± 15 °F.`,
         });
       }
       if (t.kind === "absolute" && t.unit !== undefined) {
         const r = resolveUnit(t.unit, node.quantity, true);
         const d = resolveUnit(node.unit, node.quantity, true);
-        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${name} is in ‘${t.unit}’, which Cluepath doesn't know.` });
+        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${name()} is in ‘${t.unit}’, which Cluepath doesn't know.` });
         else if (d && r.kind !== d.kind) {
           add({
             severity: "error",
             code: "limit-dimension",
             ...at,
             field: "limits",
-            message: `The tolerance of ${name} is in ${t.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun}.`,
+            message: `The tolerance of ${name()} is in ${t.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun}.`,
           });
         }
       }
@@ -158,7 +158,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         code: "meter-invalid",
         ...at,
         field: "meter",
-        message: `The meter accuracy of ${name} needs a percentage and counts of zero or more and a resolution above zero, like ±(1 % + 3 counts) at 0.1 ${node.unit}.`,
+        message: `The meter accuracy of ${name()} needs a percentage and counts of zero or more and a resolution above zero, like ±(1 % + 3 counts) at 0.1 ${node.unit}.`,
       });
     }
     if (m.unit !== undefined) {
@@ -169,7 +169,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "limit-dimension",
           ...at,
           field: "meter",
-          message: `The meter resolution of ${name} is in ‘${m.unit}’, which isn't ${QUANTITY_INFO[node.quantity].noun} unit.`,
+          message: `The meter resolution of ${name()} is in ‘${m.unit}’, which isn't ${QUANTITY_INFO[node.quantity].noun} unit.`,
         });
       }
     }
@@ -181,7 +181,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
       code: "guarded-without-meter",
       ...at,
       field: "acceptance",
-      message: `${name} uses guarded acceptance but gives no meter accuracy: verdicts stay simple unless the technician enters their meter's accuracy.`,
+      message: `${name()} uses guarded acceptance but gives no meter accuracy: verdicts stay simple unless the technician enters their meter's accuracy.`,
     });
   }
 
@@ -193,7 +193,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         severity: "error",
         code: "missing-branch",
         ...at,
-        message: `${name} has nowhere to go on ${VERDICT_WORD[v]}: add ‘- ${v} → …’.`,
+        message: `${name()} has nowhere to go on ${VERDICT_WORD[v]}: add ‘- ${v} → …’.`,
       });
     }
   }
@@ -205,7 +205,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           : v === "high"
             ? "‘at least’ limits never read high"
             : "‘at most’ limits never read low";
-      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${name} has a ‘${v}’ branch that is never taken: ${why}.` });
+      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${name()} has a ‘${v}’ branch that is never taken: ${why}.` });
     }
   }
 }
@@ -241,10 +241,12 @@ export function validateTree(tree: Tree): ValidationResult {
 
   // Ids.
   const index = new Map<string, number>();
+  const duplicate = new Uint8Array(N);
   for (let i = 0; i < N; i++) {
     const n = nodes[i]!;
     const first = index.get(n.id);
     if (first !== undefined) {
+      duplicate[i] = 1;
       add({
         severity: "error",
         code: "duplicate-id",
@@ -261,30 +263,40 @@ export function validateTree(tree: Tree): ValidationResult {
     add({ severity: "error", code: "start-missing", message: `The tree starts at ‘${tree.start}’, but no step has that id.` });
   }
 
-  // Per node: kinds, units, limits, branches, variables.
+  // Per node: kinds, units, limits, branches, variables. Nothing is allocated per node unless
+  // there is something to report (names and keys are built only for messages).
   const definers = new Map<string, { index: number; quantity: Quantity; unit: string }>();
-  // CSR adjacency: edges[from] → to index; flags per edge.
+  // Edges as parallel arrays; a branch's key is recovered from (from, slot) only for messages.
   const edgeFrom: number[] = [];
   const edgeTo: number[] = [];
   const edgeLoop: boolean[] = [];
-  const edgeKey: string[] = [];
+  const edgeSlot: number[] = [];
+
+  const branchAt = (n: TreeNode, slot: number): Branch | undefined => {
+    if (n.kind === "question") return n.answers[slot];
+    if (n.kind === "measurement") return n.branches[VERDICT_SLOTS[slot]!];
+    return n.kind === "step" || n.kind === "caution" || n.kind === "nameplate" ? n.next : undefined;
+  };
+  const slots = (n: TreeNode): number => (n.kind === "question" ? n.answers.length : n.kind === "measurement" ? 4 : n.kind === "outcome" || n.kind === "escalate" ? 0 : 1);
 
   for (let i = 0; i < N; i++) {
     const n = nodes[i]!;
-    const at = { nodeId: n.id, nodeIndex: i };
-    const name = describeNode(n);
+    const at = () => ({ nodeId: n.id, nodeIndex: i });
+    const name = () => describeNode(n);
 
     switch (n.kind) {
       case "question": {
         if (n.answers.length === 1) {
-          add({ severity: "error", code: "too-few-answers", ...at, message: `${name} has only one answer: a question needs two or more (or make it a step).` });
+          add({ severity: "error", code: "too-few-answers", ...at(), message: `${name()} has only one answer: a question needs two or more (or make it a step).` });
         }
-        const seen = new Set<string>();
-        for (const a of n.answers) {
-          if (seen.has(a.label)) {
-            add({ severity: "error", code: "duplicate-answer", ...at, field: `answer:${a.label}`, message: `${name} lists the answer ‘${a.label}’ twice.` });
+        for (let k = 1; k < n.answers.length; k++) {
+          const label = n.answers[k]!.label;
+          for (let j = 0; j < k; j++) {
+            if (n.answers[j]!.label === label) {
+              add({ severity: "error", code: "duplicate-answer", ...at(), field: `answer:${label}`, message: `${name()} lists the answer ‘${label}’ twice.` });
+              break;
+            }
           }
-          seen.add(a.label);
         }
         break;
       }
@@ -299,10 +311,10 @@ export function validateTree(tree: Tree): ValidationResult {
     }
 
     // Variables recorded here.
-    const variable = n.kind === "measurement" || n.kind === "nameplate" ? n.variable : undefined;
-    if (variable !== undefined && (n.kind === "measurement" || n.kind === "nameplate")) {
+    if ((n.kind === "measurement" || n.kind === "nameplate") && n.variable !== undefined) {
+      const variable = n.variable;
       if (isReservedName(variable)) {
-        add({ severity: "error", code: "variable-reserved", ...at, field: "variable", message: `${name} records ‘${variable}’, which is the name of a formula function: pick another name.` });
+        add({ severity: "error", code: "variable-reserved", ...at(), field: "variable", message: `${name()} records ‘${variable}’, which is the name of a formula function: pick another name.` });
       }
       const prev = definers.get(variable);
       if (!prev) definers.set(variable, { index: i, quantity: n.quantity, unit: n.unit });
@@ -310,44 +322,41 @@ export function validateTree(tree: Tree): ValidationResult {
         add({
           severity: "error",
           code: "variable-units",
-          ...at,
+          ...at(),
           field: "variable",
-          message: `‘${variable}’ is recorded in ${prev.unit} by ${describeNode(nodes[prev.index]!)} but in ${n.unit} by ${name}: formulas would mix units, so use one unit or two names.`,
+          message: `‘${variable}’ is recorded in ${prev.unit} by ${describeNode(nodes[prev.index]!)} but in ${n.unit} by ${name()}: formulas would mix units, so use one unit or two names.`,
         });
       }
     }
 
     // Branches.
-    const branches = nodeBranches(n);
-    if (branches.length === 0 && n.kind !== "outcome" && n.kind !== "escalate") {
-      const fix =
-        n.kind === "question"
-          ? "add answers, each with a next step"
-          : n.kind === "measurement"
-            ? "add branches for low, within and high"
-            : "add a next step or make it an outcome";
-      add({ severity: "error", code: "dead-end", ...at, message: `${name} has no way on: ${fix}.` });
-    }
-    for (const { key, branch } of branches) {
+    const count = slots(n);
+    let any = false;
+    for (let slot = 0; slot < count; slot++) {
+      const branch = branchAt(n, slot);
+      if (!branch) continue;
+      any = true;
       const to = index.get(branch.to);
       if (to === undefined) {
+        const key = slotKey(n, slot);
         add({
           severity: "error",
           code: "unknown-target",
-          ...at,
+          ...at(),
           field: key,
-          message: `${name} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
+          message: `${name()} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
         });
       } else {
         edgeFrom.push(i);
         edgeTo.push(to);
-        edgeLoop.push(Boolean(branch.recheck));
-        edgeKey.push(key);
+        edgeLoop.push(branch.recheck !== undefined);
+        edgeSlot.push(slot);
       }
       if (branch.recheck) {
         const r = branch.recheck;
         if (!Number.isInteger(r.max) || r.max < 1) {
-          add({ severity: "error", code: "recheck-bound", ...at, field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${name} needs a limit of 1 or more times.` });
+          const key = slotKey(n, slot);
+          add({ severity: "error", code: "recheck-bound", ...at(), field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${name()} needs a limit of 1 or more times.` });
         }
         if (r.onExceed !== undefined) {
           const ex = index.get(r.onExceed);
@@ -355,22 +364,31 @@ export function validateTree(tree: Tree): ValidationResult {
             add({
               severity: "error",
               code: "unknown-target",
-              ...at,
-              field: key,
-              message: `${name} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
+              ...at(),
+              field: slotKey(n, slot),
+              message: `${name()} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
             });
           } else {
             edgeFrom.push(i);
             edgeTo.push(ex);
             edgeLoop.push(false);
-            edgeKey.push(key);
+            edgeSlot.push(slot);
           }
         }
       }
     }
+    if (!any && n.kind !== "outcome" && n.kind !== "escalate") {
+      const fix =
+        n.kind === "question"
+          ? "add answers, each with a next step"
+          : n.kind === "measurement"
+            ? "add branches for low, within and high"
+            : "add a next step or make it an outcome";
+      add({ severity: "error", code: "dead-end", ...at(), message: `${name()} has no way on: ${fix}.` });
+    }
   }
 
-  if (start !== undefined) graphChecks(tree, index, start, { edgeFrom, edgeTo, edgeLoop, edgeKey }, definers, add);
+  if (start !== undefined) graphChecks(tree, duplicate, start, { edgeFrom, edgeTo, edgeLoop, edgeSlot }, definers, add);
 
   findings.sort((a, b) => (a.nodeIndex ?? -1) - (b.nodeIndex ?? -1));
   let errors = 0;
@@ -382,7 +400,16 @@ interface Edges {
   edgeFrom: number[];
   edgeTo: number[];
   edgeLoop: boolean[];
-  edgeKey: string[];
+  edgeSlot: number[];
+}
+
+const VERDICT_SLOTS = ["low", "within", "high", "marginal"] as const;
+
+/** The Finding.field key of a node's branch slot: "answer:<label>", "low"…, "next". */
+function slotKey(n: TreeNode, slot: number): string {
+  if (n.kind === "question") return `answer:${n.answers[slot]?.label ?? ""}`;
+  if (n.kind === "measurement") return VERDICT_SLOTS[slot]!;
+  return "next";
 }
 
 function csr(N: number, from: number[], to: number[], keep: (e: number) => boolean, reverse = false) {
@@ -466,7 +493,7 @@ function scc(N: number, g: { off: Int32Array; adj: Int32Array }): { comp: Int32A
 
 function graphChecks(
   tree: Tree,
-  index: Map<string, number>,
+  duplicate: Uint8Array,
   start: number,
   E: Edges,
   definers: Map<string, { index: number }>,
@@ -506,7 +533,7 @@ function graphChecks(
     order.reverse();
   }
   for (let i = 0; i < N; i++) {
-    if (!reach[i] && index.get(nodes[i]!.id) === i) {
+    if (!reach[i] && !duplicate[i]) {
       const n = nodes[i]!;
       add({
         severity: "warning",
@@ -553,8 +580,8 @@ function graphChecks(
         code: "recheck-not-a-loop",
         nodeId: n.id,
         nodeIndex: a,
-        field: E.edgeKey[e]!,
-        message: `${describeNode(n)} marks ‘${branchName(E.edgeKey[e]!)}’ as a re-check loop, but ‘${nodes[b]!.id}’ never leads back to it.`,
+        field: slotKey(n, E.edgeSlot[e]!),
+        message: `${describeNode(n)} marks ‘${branchName(slotKey(n, E.edgeSlot[e]!))}’ as a re-check loop, but ‘${nodes[b]!.id}’ never leads back to it.`,
       });
     }
   }
@@ -588,9 +615,17 @@ function sampleCycle(i: number, g: { off: Int32Array; adj: Int32Array }, comp: I
 
 /**
  * Must-be-recorded analysis: a formula's variable has to be recorded on every path from the
- * start into the node that uses it. Forward data-flow with bitsets over the variables that
- * formulas use: IN(n) = ⋂ OUT(pred), OUT(n) = IN(n) ∪ DEF(n), IN(start) = ∅, iterated in
- * reverse post-order to the greatest fixed point.
+ * start into the node that uses it (IN(n) = ⋂ OUT(pred), OUT(n) = IN(n) ∪ DEF(n), IN(start) = ∅,
+ * greatest fixed point). Solved one variable at a time on its live region only:
+ *
+ *  1. Walk backwards from the variable's uses, never past a node that records it. If the walk
+ *     never reaches the start, every path into every use records it first: done.
+ *  2. Otherwise solve the one-bit equations above on that region (in reverse post-order, to a
+ *     fixed point; the only cycles are re-check loops, so 2–3 passes) and flag the uses it
+ *     leaves undefined.
+ *
+ * The cost is the sum of the live regions — proportional to the tree when variables are used
+ * near where they are recorded, as they are in practice — rather than nodes × variables.
  */
 function dataFlow(
   tree: Tree,
@@ -604,16 +639,18 @@ function dataFlow(
 ): void {
   const nodes = tree.nodes;
   const N = nodes.length;
-  // Uses per reachable node.
-  const uses = new Map<number, { name: string; formula: string }[]>();
-  const tracked = new Map<string, number>();
+  // Uses per variable (reachable nodes only).
+  const uses = new Map<string, number[]>();
   for (const i of order) {
     const n = nodes[i]!;
     if (n.kind !== "measurement") continue;
+    const seen = new Set<string>();
     for (const src of limitFormulas(n.limits)) {
       const c = compileFormula(src);
       if (!c.ok) continue;
       for (const name of c.formula.variables) {
+        if (seen.has(name)) continue;
+        seen.add(name);
         if (!definers.has(name)) {
           add({
             severity: "error",
@@ -625,67 +662,89 @@ function dataFlow(
           });
           continue;
         }
-        if (!tracked.has(name)) tracked.set(name, tracked.size);
-        let u = uses.get(i);
-        if (!u) uses.set(i, (u = []));
-        u.push({ name, formula: src });
+        let u = uses.get(name);
+        if (!u) uses.set(name, (u = []));
+        u.push(i);
       }
     }
   }
-  if (tracked.size === 0) return;
+  if (uses.size === 0) return;
 
-  const W = Math.ceil(tracked.size / 32);
-  const def = new Uint32Array(N * W);
-  for (const i of order) {
+  // Which used variable (by number) each node records, so the walks below don't touch nodes.
+  const varNo = new Map<string, number>();
+  for (const name of uses.keys()) varNo.set(name, varNo.size);
+  const records = new Int32Array(N).fill(-1);
+  for (let i = 0; i < N; i++) {
     const n = nodes[i]!;
     const v = n.kind === "measurement" || n.kind === "nameplate" ? n.variable : undefined;
-    const b = v === undefined ? undefined : tracked.get(v);
-    if (b !== undefined) def[i * W + (b >>> 5)]! |= 1 << (b & 31);
+    if (v !== undefined) records[i] = varNo.get(v) ?? -1;
   }
   const preds = csr(N, E.edgeFrom, E.edgeTo, (e) => reach[E.edgeFrom[e]!] === 1, true);
-  const IN = new Uint32Array(N * W);
-  const OUT = new Uint32Array(N * W).fill(0xffffffff);
-  const tmp = new Uint32Array(W);
-  let changed = true;
-  while (changed) {
-    changed = false;
-    for (const n of order) {
-      if (n === start) tmp.fill(0);
-      else {
-        tmp.fill(0xffffffff);
-        for (let k = preds.off[n]!; k < preds.off[n + 1]!; k++) {
-          const p = preds.adj[k]!;
-          const base = p * W;
-          for (let w = 0; w < W; w++) tmp[w]! &= OUT[base + w]!;
-        }
+  const rpo = new Int32Array(N).fill(-1);
+  order.forEach((v, k) => (rpo[v] = k));
+  const stamp = new Int32Array(N); // region membership, per variable
+  const value = new Uint8Array(N); // IN(n) for the variable being solved
+  let round = 0;
+  let examples = 0;
+
+  for (const [name, useList] of uses) {
+    round++;
+    const vn = varNo.get(name)!;
+    // 1. Live region: backwards from the uses, stopping at nodes that record the variable.
+    const region: number[] = [];
+    for (const u of useList) {
+      if (stamp[u] !== round) {
+        stamp[u] = round;
+        region.push(u);
       }
-      const base = n * W;
-      for (let w = 0; w < W; w++) {
-        IN[base + w] = tmp[w]!;
-        const out = (tmp[w]! | def[base + w]!) >>> 0; // keep it unsigned, like the array it is compared with
-        if (out !== OUT[base + w]) {
-          OUT[base + w] = out;
+    }
+    let hitsStart = false;
+    for (let q = 0; q < region.length; q++) {
+      const x = region[q]!;
+      if (x === start) {
+        hitsStart = true;
+        continue;
+      }
+      for (let k = preds.off[x]!; k < preds.off[x + 1]!; k++) {
+        const p = preds.adj[k]!;
+        if (stamp[p] === round || records[p] === vn) continue;
+        stamp[p] = round;
+        region.push(p);
+      }
+    }
+    if (!hitsStart) continue;
+
+    // 2. One-bit must-analysis on the region, greatest fixed point.
+    region.sort((x, y) => rpo[x]! - rpo[y]!);
+    for (const x of region) value[x] = x === start ? 0 : 1;
+    let changed = true;
+    while (changed) {
+      changed = false;
+      for (const x of region) {
+        if (x === start) continue;
+        let v = 1;
+        for (let k = preds.off[x]!; k < preds.off[x + 1]! && v; k++) {
+          const p = preds.adj[k]!;
+          if (records[p] === vn) continue;
+          if (stamp[p] === round && !value[p]) v = 0;
+        }
+        if (v !== value[x]) {
+          value[x] = v;
           changed = true;
         }
       }
     }
-  }
-
-  for (const [i, list] of uses) {
-    const seen = new Set<string>();
-    for (const { name } of list) {
-      if (seen.has(name)) continue;
-      seen.add(name);
-      const b = tracked.get(name)!;
-      if (IN[i * W + (b >>> 5)]! & (1 << (b & 31))) continue;
-      const n = nodes[i]!;
-      const path = pathAvoiding(start, i, name, nodes, all);
+    for (const u of useList) {
+      if (value[u]) continue;
+      const n = nodes[u]!;
+      // An example path costs a search of the tree: give one for the first few findings only.
+      const path = ++examples <= 20 ? pathAvoiding(start, u, name, nodes, all) : null;
       const via = path ? ` — for example ${path.map((j) => nodes[j]!.id).join(" → ")}` : "";
       add({
         severity: "error",
         code: "variable-not-always-set",
         nodeId: n.id,
-        nodeIndex: i,
+        nodeIndex: u,
         field: "limits",
         message: `${describeNode(n)} uses ‘${name}’ in its limits, but some ways into it don't record ‘${name}’ first${via}. Record it earlier on every path, or use fixed limits.`,
       });

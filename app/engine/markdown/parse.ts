@@ -20,7 +20,7 @@
 // mdast-util-from-markdown finds the headings (so a "## " inside a code block stays body);
 // fields and bodies are taken from the source lines verbatim.
 import { fromMarkdown } from "mdast-util-from-markdown";
-import type { Heading, RootContent } from "mdast";
+import type { RootContent } from "mdast";
 import {
   CATEGORIES,
   HAZARDS,
@@ -253,8 +253,89 @@ class Parser {
   }
 }
 
-function isAtx(line: string): boolean {
-  return /^ {0,3}#{1,6}(?:[ \t]|$)/.test(line);
+
+const HEADING_LINE = /^(#{1,2})(?:[ \t]|$)/;
+const FENCE = /^ {0,3}(`{3,}|~{3,})(.*)$/;
+/** Lines per batch handed to mdast: micromark copies its event list whenever a list closes, so
+ * one call over a long file costs O(lists × file); bounded batches keep the whole parse linear. */
+const BATCH_LINES = 200;
+
+/**
+ * The tree and node headings: lines that start with "# " or "## " outside fenced code. mdast
+ * then parses the file in batches cut at those lines, and must agree: a heading it doesn't see
+ * (swallowed by an HTML block, say) or one the scan didn't expect (a setext heading made by
+ * --- under text, an indented "##") is an error at its line.
+ */
+function findHeadings(p: Parser): { line: number; depth: 1 | 2 }[] {
+  const lines = p.lines;
+  const heads: { line: number; depth: 1 | 2 }[] = [];
+  let fence: { char: string; len: number; line: number } | null = null;
+  for (let i = 0; i < lines.length; i++) {
+    const l = lines[i]!;
+    const f = FENCE.exec(l);
+    if (fence) {
+      if (f && f[1]![0] === fence.char && f[1]!.length >= fence.len && f[2]!.trim() === "") fence = null;
+      continue;
+    }
+    if (f && !(f[1]![0] === "`" && f[2]!.includes("`"))) {
+      fence = { char: f[1]![0]!, len: f[1]!.length, line: i + 1 };
+      continue;
+    }
+    const h = HEADING_LINE.exec(l);
+    if (h) heads.push({ line: i + 1, depth: h[1]!.length as 1 | 2 });
+  }
+  if (fence) p.err(fence.line, 1, "this code block is never closed: end it with " + fence.char.repeat(fence.len) + " on a line of its own");
+
+  // Cross-check with mdast, batch by batch.
+  const expected = new Set(heads.map((h) => h.line));
+  let from = 0;
+  let hi = 0; // first heading at or after `from`
+  while (from < lines.length) {
+    // Extend the batch heading by heading until it holds BATCH_LINES lines.
+    let hj = hi;
+    let to = lines.length;
+    while (hj < heads.length) {
+      const cut = heads[hj]!.line - 1;
+      if (cut > from && cut - from >= BATCH_LINES) {
+        to = cut;
+        break;
+      }
+      hj++;
+    }
+    // Field lines are read line by line (Parser.section); mdast needs only the headings and
+    // bodies, so the fields go in as blank lines, which keeps the line numbers.
+    const chunk = lines.slice(from, to);
+    for (let k = hi; k < hj; k++) {
+      const h = heads[k]!;
+      for (let j = h.line - from; j < chunk.length && /^[-*+](?:[ \t]|$)/.test(chunk[j]!); j++) chunk[j] = "";
+    }
+    const root = fromMarkdown(chunk.join("\n"));
+    const seen = new Set<number>();
+    for (const node of root.children as RootContent[]) {
+      if (node.type !== "heading" || node.depth > 2 || !node.position) continue;
+      const line = node.position.start.line + from;
+      seen.add(line);
+      if (!expected.has(line)) {
+        const raw = lines[line - 1] ?? "";
+        p.err(
+          line,
+          1,
+          /^\s+#/.test(raw)
+            ? "expected headings to start at the beginning of the line"
+            : "expected a heading that starts with ‘##’; a line of --- or === under text turns that text into a heading, so add a blank line above it",
+        );
+      }
+    }
+    for (let k = hi; k < hj; k++) {
+      const h = heads[k]!;
+      if (!seen.has(h.line)) {
+        p.err(h.line, 1, "Markdown reads this heading as part of the block above it (an HTML block left open?): add a blank line before it or close the block");
+      }
+    }
+    from = to;
+    hi = hj;
+  }
+  return heads;
 }
 
 /** Parse a tree file. Errors carry line:column and say what was expected. */
@@ -262,30 +343,22 @@ export function parseTree(source: string): ParseResult {
   const text = source.replace(/\r\n?/g, "\n");
   const p = new Parser(text);
   const map: SourceMap = { title: 1, fields: {}, nodes: [] };
-  const root = fromMarkdown(text);
-  const heads: Heading[] = [];
-  for (const c of root.children as RootContent[]) {
-    if (c.type === "heading" && c.depth <= 2 && c.position) heads.push(c);
-  }
-  const first = root.children[0];
+  const heads = findHeadings(p);
+  const firstContent = p.lines.findIndex((l) => l.trim() !== "");
   const titleHead = heads[0];
-  if (!titleHead || titleHead.depth !== 1 || first !== titleHead) {
-    const at = first?.position?.start ?? { line: 1, column: 1 };
-    p.err(at.line, at.column, `expected the tree's title first, like ‘# Rotisserie heats unevenly’, got ‘${clip(p.lines[at.line - 1]?.trim() ?? "")}’`);
-    return { ok: false, errors: p.errors, map };
+  if (!titleHead || titleHead.depth !== 1 || titleHead.line !== firstContent + 1) {
+    const line = firstContent + 1 || 1;
+    p.err(line, 1, `expected the tree's title first, like ‘# Rotisserie heats unevenly’, got ‘${clip(p.lines[line - 1]?.trim() ?? "")}’`);
+    return { ok: false, errors: sortErrors(p.errors), map };
   }
 
-  const ends = heads.map((h, i) => (i + 1 < heads.length ? heads[i + 1]!.position!.start.line - 1 : p.lines.length));
+  const ends = heads.map((h, i) => (i + 1 < heads.length ? heads[i + 1]!.line - 1 : p.lines.length));
   const tree: Record<string, unknown> = {};
   const nodes: Record<string, unknown>[] = [];
 
   heads.forEach((h, hi) => {
-    const line = h.position!.start.line;
+    const line = h.line;
     const raw = p.lines[line - 1]!;
-    if (!isAtx(raw)) {
-      p.err(line, 1, `expected a heading that starts with ‘##’; a line of --- or === under text turns that text into a heading, so add a blank line above it`);
-      return;
-    }
     const sec = p.section(line - 1, ends[hi]!);
 
     if (hi === 0) {
