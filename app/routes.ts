@@ -19,6 +19,17 @@ export default [
   // Field runs: the phone runner and the printable report, full screen (outside the shell).
   route("runs/:runId", "routes/runner.tsx"),
   route("reports/:reportId", "routes/report.tsx"),
+  // Authoring: the trees API, the editor (full screen, outside the shell), downloads and images.
+  route("api/trees", "routes/api/trees.ts"),
+  route("api/trees/:treeId", "routes/api/tree.ts"),
+  route("api/trees/:treeId/versions/:ref", "routes/api/tree-version.ts"),
+  route("api/trees/:treeId/draft", "routes/api/tree-draft.ts"),
+  route("api/trees/:treeId/validation", "routes/api/tree-validation.ts"),
+  route("api/trees/:treeId/diff", "routes/api/tree-diff.ts"),
+  route("api/trees/:treeId/images", "routes/api/tree-images.ts"),
+  route("trees/:treeId/edit", "routes/tree-edit.tsx"),
+  route("trees/:treeId/versions/:ref/export", "routes/tree-export.ts"),
+  route("trees/:treeId/images/:imageId", "routes/tree-image.ts"),
   layout("routes/shell.tsx", [
     route("calls", "routes/home-technician.tsx"),
     route("authoring", "routes/home-lead.tsx"),
@@ -45,5 +56,11 @@ export default [
     route("escalations", "routes/escalations.tsx"),
     route("outbox", "routes/outbox.tsx"),
     route("people", "routes/people.tsx"),
+    route("trees", "routes/trees.tsx"),
+    route("trees/new", "routes/tree-new.tsx"),
+    route("trees/import", "routes/tree-import.tsx"),
+    route("trees/:treeId", "routes/tree.tsx"),
+    route("trees/:treeId/versions/:ref", "routes/tree-version.tsx"),
+    route("trees/:treeId/diff", "routes/tree-diff.tsx"),
   ]),
 ] satisfies RouteConfig;

@@ -25,6 +25,7 @@ export const NAV: readonly NavItem[] = [
   { to: "/training", label: "Training", roles: ["trainer"] },
   { to: "/overview", label: "Overview", roles: ["owner"] },
   { to: "/calls/all", label: "Calls", roles: ["lead", "owner"] },
+  { to: "/trees", label: "Trees", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/equipment", label: "Equipment", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/outbox", label: "Outbox", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },

@@ -28,10 +28,11 @@ const TREE_FIELDS: [keyof Tree, string][] = [
   ["description", "Introduction"],
 ];
 
-/** Limits with their units ("1.5 µF ± 6 %"); as in the tree file when they need the run's values. */
-function limitsText(n: MeasurementNode): string {
+/** Limits as the technician reads them ("1.41–1.59 µF (1.5 µF ± 6 %)"); as in the tree file when they need the run's values. */
+export function limitsText(n: MeasurementNode): string {
   const c = computeLimits(n);
-  return c.ok ? c.limits.derivation : formatLimits(n.limits);
+  if (!c.ok) return formatLimits(n.limits);
+  return c.limits.fixed ? c.limits.text : `${c.limits.text} (${c.limits.derivation})`;
 }
 
 /** A node as labelled text fields, in a stable order. Absent fields are left out. */

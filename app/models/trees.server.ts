@@ -316,8 +316,11 @@ export async function listLibrary(ctx: Ctx, q: LibraryQuery = {}): Promise<Libra
     });
   }
   const needle = q.search?.trim().toLowerCase();
+  // A tree never published is the authors' business: technicians and trainers don't see it.
+  const authoring = ctx.role === "lead" || ctx.role === "owner";
   const kept = rows.filter(
     (r) =>
+      (authoring || r.versions > 0) &&
       (!needle || [r.title, r.symptom, r.equipment ?? "", r.category].some((s) => s.toLowerCase().includes(needle))) &&
       (!q.category || r.category === q.category) &&
       (!q.state || (q.state === "published" ? r.current !== null : q.state === "draft" ? r.draft !== null : r.retired)),
@@ -420,23 +423,38 @@ export async function replaceDraftContent(ctx: Ctx, versionId: string, tree: Tre
   });
 }
 
+/**
+ * True when the draft says exactly what the published version it started from says: publishing
+ * it would only repeat that version. (A draft of a retired version may be published unchanged:
+ * that is how a retired procedure comes back.)
+ */
+async function repeatsItsBase(tx: Tx | Db, draft: typeof treeVersions.$inferSelect, content: Tree): Promise<number | null> {
+  if (!draft.basedOnId) return null;
+  const [base] = await tx.select().from(treeVersions).where(eq(treeVersions.id, draft.basedOnId)).limit(1);
+  if (!base || base.state !== "published") return null;
+  return diffTrees((await readContent(tx, base)).tree, content).same ? base.number : null;
+}
+
 /** The tree's draft judged by the engine, as the publish gate sees it. */
 export async function validateDraft(ctx: Ctx, treeId: string) {
   const draft = await loadTreeVersion(ctx, treeId, "draft");
   if (!draft) return null;
-  return { versionId: draft.version.id, revision: draft.version.revision, ...validateTree(draft.tree) };
+  const sameAs = await repeatsItsBase(db(), draft.version, draft.tree);
+  return { versionId: draft.version.id, revision: draft.version.revision, sameAs, ...validateTree(draft.tree) };
 }
 
 export type PublishResult =
   | { ok: true; number: number; versionId: string }
   | { ok: false; reason: "not-found" | "no-draft" | "no-note" }
   | { ok: false; reason: "conflict"; revision: number }
+  | { ok: false; reason: "unchanged"; sameAs: number }
   | { ok: false; reason: "invalid"; findings: Finding[] };
 
 /**
  * Publishes the tree's open draft as its next version number, with a change note. Refused when
- * the draft moved on since the caller saw it (`expectedRevision`), or when the engine finds any
- * error in it. From then on the version never changes.
+ * the draft moved on since the caller saw it (`expectedRevision`), when the engine finds any
+ * error in it, or when it only repeats the published version it started from. From then on the
+ * version never changes.
  */
 export async function publishDraft(ctx: Ctx, treeId: string, expectedRevision: number, changeNote: string): Promise<PublishResult> {
   const note = changeNote.trim();
@@ -455,6 +473,8 @@ export async function publishDraft(ctx: Ctx, treeId: string, expectedRevision: n
     const { tree: content } = await readContent(tx, draft);
     const errors = errorsOf(validateTree(content).findings);
     if (errors.length) return { ok: false, reason: "invalid", findings: errors };
+    const sameAs = await repeatsItsBase(tx, draft, content);
+    if (sameAs !== null) return { ok: false, reason: "unchanged", sameAs };
     const [top] = await tx.select({ n: max(treeVersions.number) }).from(treeVersions).where(eq(treeVersions.treeId, treeId));
     const number = (top?.n ?? 0) + 1;
     const now = new Date();

@@ -1,4 +1,4 @@
-import { Form, NavLink, Outlet } from "react-router";
+import { Form, NavLink, Outlet, useMatches } from "react-router";
 import { requireUser } from "~/lib/auth.server";
 import { navFor, ROLE_LABEL } from "~/lib/roles";
 import type { Route } from "./+types/shell";
@@ -16,6 +16,8 @@ const linkClass = ({ isActive }: { isActive: boolean }) =>
 
 export default function Shell({ loaderData }: Route.ComponentProps) {
   const nav = navFor(loaderData.role);
+  // A page can ask for more width (tables, diffs) with `export const handle = { wide: true }`.
+  const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <div className="min-h-dvh pb-20 md:grid md:grid-cols-[14rem_1fr] md:grid-rows-[auto_1fr] md:pb-0">
       <header className="flex items-center justify-between gap-3 border-b border-rule bg-card px-4 py-2 md:col-span-2">
@@ -53,7 +55,7 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       </nav>
-      <main className="mx-auto w-full max-w-3xl px-4 py-5">
+      <main className={`mx-auto w-full px-4 py-5 ${wide ? "max-w-6xl" : "max-w-3xl"}`}>
         <Outlet />
       </main>
     </div>

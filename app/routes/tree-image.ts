@@ -1,0 +1,21 @@
+// GET /trees/:treeId/images/:imageId — an image from a tree's step bodies, for signed-in members
+// of the tree's shop only (another shop's image is a 404), served inline under its own name.
+import { requireUser } from "~/lib/auth.server";
+import { orNotFound } from "~/lib/http.server";
+import { idOf, treeIdOf } from "~/lib/tree-params.server";
+import { getTreeImage } from "~/models/trees.server";
+import type { Route } from "./+types/tree-image";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const image = orNotFound(await getTreeImage(user.ctx, treeIdOf(params), idOf(params.imageId, "That image")), "That image");
+  return new Response(image.body as BodyInit, {
+    headers: {
+      "content-type": image.mime,
+      "content-disposition": `inline; filename="${image.filename.replace(/"/g, "")}"`,
+      "cache-control": "private, max-age=86400, immutable",
+      "x-content-type-options": "nosniff",
+      "content-security-policy": "default-src 'none'",
+    },
+  });
+}
