@@ -83,7 +83,8 @@ export async function listCustomers(ctx: Ctx, q = "") {
       id: customers.id,
       name: customers.name,
       phone: customers.phone,
-      sites: sql<number>`(SELECT COUNT(*) FROM ${sites} WHERE ${sites.customerId} = ${customers.id})`.mapWith(Number),
+      // Qualified by hand: in a one-table select Drizzle leaves column names bare.
+      sites: sql<number>`(SELECT COUNT(*) FROM sites s WHERE s.customer_id = customers.id)`.mapWith(Number),
     })
     .from(customers)
     .where(
@@ -92,7 +93,7 @@ export async function listCustomers(ctx: Ctx, q = "") {
         term
           ? or(
               sql`${customers.name} LIKE ${pattern}`,
-              sql`EXISTS (SELECT 1 FROM ${sites} WHERE ${sites.customerId} = ${customers.id} AND (${sites.name} LIKE ${pattern} OR ${sites.address} LIKE ${pattern}))`,
+              sql`EXISTS (SELECT 1 FROM sites s WHERE s.customer_id = customers.id AND (s.name LIKE ${pattern} OR s.address LIKE ${pattern}))`,
             )
           : undefined,
       ),

@@ -31,8 +31,8 @@ export async function action({ request }: Route.ActionArgs) {
   }
   const parsed = meterInput.safeParse(values);
   if (!parsed.success) return data({ kind: "invalid" as const, values, errors: fieldErrors(parsed.error) }, { status: 400 });
-  await createMeter(user.ctx, parsed.data);
-  return { kind: "created" as const, name: parsed.data.name };
+  const id = await createMeter(user.ctx, parsed.data);
+  return { kind: "created" as const, name: parsed.data.name, id };
 }
 
 export default function Meters({ loaderData, actionData }: Route.ComponentProps) {
@@ -80,7 +80,8 @@ export default function Meters({ loaderData, actionData }: Route.ComponentProps)
               Added {actionData.name}.
             </p>
           )}
-          <Form method="post" noValidate className="space-y-4">
+          {/* A fresh, empty form after each meter added. */}
+          <Form method="post" noValidate className="space-y-4" key={actionData?.kind === "created" ? actionData.id : "new"}>
             <MeterFields v={invalid?.values ?? {}} e={invalid?.errors ?? {}} />
             <button className="btn-primary" disabled={busy}>
               Add the meter

@@ -326,5 +326,48 @@ describe("the phone runner (390×844)", () => {
     await snap(lp, "lead-took-over");
     await lead.close();
   });
+
+  it("at laptop size a lead finds a customer, opens its site and unit, sees field errors on the forms, and adds a meter", async () => {
+    const context = await browser.newContext({ viewport: LAPTOP });
+    const page = await context.newPage();
+    await signInAs(page, baseUrl, "lead@tinderbox.example");
+    await page.waitForURL(`${baseUrl}/authoring`);
+    await page.goto(`${baseUrl}/customers?q=Quarry`);
+    await page.getByRole("link", { name: "Larkspur Market" }).click();
+    await page.getByRole("link", { name: "Larkspur Market — Deli counter" }).click();
+    await page.getByRole("link", { name: "Add a unit" }).click();
+    await page.getByRole("button", { name: "Add the unit" }).click();
+    await page.getByText("Choose the kind of equipment.").waitFor();
+    await expect(page.getByText("Enter the serial number.").isVisible()).resolves.toBe(true);
+    await snap(page, "unit-form-errors-laptop", true);
+
+    await page.goto(`${baseUrl}/equipment/${stableId("unit:larkspur-rotisserie")}`);
+    await page.getByText("Failed fan motor — seized or dragging shaft").first().waitFor();
+    await expect(page.getByText(/1 × Convection fan motor, 208 V, same frame and rotation as the original \(FM-208-R\)/).isVisible()).resolves.toBe(true);
+    await snap(page, "unit-history-laptop", true);
+
+    await page.goto(`${baseUrl}/calls/new`);
+    await page.getByRole("button", { name: "Open the call" }).click();
+    await page.getByText("Say what the customer reported, in a few words.").waitFor();
+    await snap(page, "call-form-errors-laptop", true);
+
+    await page.goto(`${baseUrl}/meters`);
+    await page.getByLabel("Name").fill("Van 2 clamp meter — AC amps, 400 A range");
+    await page.getByLabel("Measures").selectOption("current");
+    await page.getByLabel("Unit of the range").fill("V");
+    await page.getByLabel("Top of the range").fill("400");
+    await page.getByLabel("Resolution").fill("0.1");
+    await page.getByLabel("Accuracy: % of reading").fill("2");
+    await page.getByLabel("Accuracy: counts").fill("5");
+    await page.getByRole("button", { name: "Add the meter" }).click();
+    await page.getByText("“V” isn't a unit of a current; try A, mA, µA.").waitFor();
+    await expect(page.getByLabel("Name").inputValue()).resolves.toBe("Van 2 clamp meter — AC amps, 400 A range");
+    await page.getByLabel("Unit of the range").fill("A");
+    await page.getByRole("button", { name: "Add the meter" }).click();
+    await page.getByText("Added Van 2 clamp meter — AC amps, 400 A range.").waitFor();
+    await expect(page.getByText("current · up to 400 A · accuracy ±(2 % + 5 counts) at 0.1 A").isVisible()).resolves.toBe(true);
+    await snap(page, "meters-laptop", true);
+    await context.close();
+  });
 });
 
