@@ -44,6 +44,7 @@ import * as treeEdit from "../../app/routes/tree-edit";
 import * as treeExport from "../../app/routes/tree-export";
 import * as treeImage from "../../app/routes/tree-image";
 import * as treeImport from "../../app/routes/tree-import";
+import * as treeNew from "../../app/routes/tree-new";
 import * as treeVersionPage from "../../app/routes/tree-version";
 import * as library from "../../app/routes/trees";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
@@ -203,6 +204,28 @@ describe("drafts and publishing", () => {
     const ok = (await answer(post(2))) as Response;
     expect(ok.status).toBe(302);
     expect(ok.headers.get("location")).toBe(`/trees/${treeId}?published=1`);
+  });
+});
+
+describe("a new tree", () => {
+  it("the form checks title and symptom with the engine's rules, then makes a tree whose only version is an empty draft", async () => {
+    const { cookie } = await cookieFor("lead@tinderbox.example");
+    const post = (fields: Record<string, string>) => answer(treeNew.action(routeArgs(requestWith(cookie, "/trees/new", { method: "POST", body: new URLSearchParams(fields) }))));
+    const bad = (await post({ title: "  ", category: "fryer", symptom: "Two\nlines" })) as { data: { errors: Record<string, string> }; init: { status: number } };
+    expect(bad.init.status).toBe(400);
+    expect(bad.data.errors.title).toMatch(/Give the tree a title/);
+    expect(bad.data.errors.symptom).toMatch(/one line/);
+    const ok = (await post({ title: "Fryer won't light", category: "fryer", symptom: "The pilot won't stay lit" })) as Response;
+    expect(ok.status).toBe(302);
+    const treeId = /^\/trees\/([0-9a-f-]{36})\/edit$/.exec(ok.headers.get("location") ?? "")?.[1];
+    expect(treeId).toBeDefined();
+    const draft = await loadTreeVersion(lead, treeId!, "draft");
+    expect(draft?.tree).toEqual({ title: "Fryer won't light", category: "fryer", symptom: "The pilot won't stay lit", start: "start", nodes: [] });
+    expect((await getTree(lead, treeId!))?.versions.map((v) => v.state)).toEqual(["draft"]);
+    // A technician can't make one.
+    const tech = (await cookieFor("tech@tinderbox.example")).cookie;
+    const refused = (await answer(treeNew.action(routeArgs(requestWith(tech, "/trees/new", { method: "POST", body: new URLSearchParams({ title: "x", category: "fryer", symptom: "y" }) }))))) as Response;
+    expect(refused.status).toBe(403);
   });
 });
 

@@ -2,14 +2,16 @@
 // (with the engine's zod schemas, through `onText`) and only a valid value reaches the draft, so
 // the draft always has the shape the engine accepts and a half-typed value never gets saved.
 import { useId, useState } from "react";
-import type { z } from "zod";
 import { Field } from "~/components/Field";
 import { SelectField as Select, TextAreaField } from "~/components/FormFields";
 import { NodeSchema, TreeSchema } from "~/engine/schema";
 import type { Tree, TreeNode } from "~/engine/types";
 
+/** What the committer needs of a schema (the engine's are zod/mini). */
+type Schema = { safeParse(value: unknown): { success: true; data: unknown } | { success: false; error: { issues: readonly { message: string }[] } } };
+
 /** Checks a candidate against a schema; commits it when valid, else returns the message to show. */
-function committer<T>(schema: z.ZodType, commit: (value: T) => void) {
+function committer<T>(schema: Schema, commit: (value: T) => void) {
   return (candidate: T): string | null => {
     const r = schema.safeParse(candidate);
     if (r.success) {
