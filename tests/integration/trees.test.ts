@@ -31,6 +31,7 @@ import {
   validateDraft,
   VersionLockedError,
 } from "../../app/models/trees.server";
+import { getRunView, startRun } from "../../app/models/runs.server";
 import * as apiTree from "../../app/routes/api/tree";
 import * as apiTreeDiff from "../../app/routes/api/tree-diff";
 import * as apiTreeDraft from "../../app/routes/api/tree-draft";
@@ -311,6 +312,28 @@ describe("retire, discard, diff", () => {
     expect((await validateDraft(lead, treeId))?.sameAs).toBeNull();
     expect(await publishDraft(lead, treeId, 1, "Back in use")).toMatchObject({ ok: true, number: 2 });
     expect((await getTree(lead, treeId))?.current?.number).toBe(2);
+  });
+
+  it("retiring: a run already on the version keeps it; new runs start on the newest published version, or not at all", async () => {
+    const tech: Ctx = { shopId: lead.shopId, userId: stableId("user:tech@tinderbox.example"), role: "technician" };
+    const { treeId, versionId: v1 } = await publishedTree();
+    const first = await startRun(tech, { treeId });
+    if (!first.ok) throw new Error("run did not start");
+    expect(first.versionId).toBe(v1);
+    const d = await startDraft(lead, treeId);
+    if (!d.ok) throw new Error("no draft");
+    const tree = (await loadVersion(lead, v1))!.tree;
+    await replaceDraftContent(lead, d.versionId, { ...tree, symptom: "The fan hums and does not turn, or turns slowly" }, 1);
+    expect(await publishDraft(lead, treeId, 2, "Slow fans too")).toMatchObject({ ok: true, number: 2 });
+    expect(await retireVersion(lead, treeId, 2)).toEqual({ ok: true });
+    const second = await startRun(tech, { treeId });
+    expect(second.ok && second.versionId).toBe(v1); // version 2 retired: back to version 1
+    expect(await retireVersion(lead, treeId, 1)).toEqual({ ok: true });
+    expect(await startRun(tech, { treeId })).toMatchObject({ ok: false, status: 404 });
+    // The first run still has its version, now retired, unchanged.
+    const view = await getRunView(tech, first.runId);
+    expect(view?.version).toMatchObject({ id: v1, number: 1 });
+    expect(view?.tree).toEqual(tree);
   });
 
   it("discarding a draft leaves the published versions; discarding a never-published tree removes it", async () => {
