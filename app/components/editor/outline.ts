@@ -3,7 +3,10 @@
 // connected show as open rows; nodes nothing leads to are listed after the tree.
 import { branchName, nodeBranches } from "~/engine/graph";
 import { possibleVerdicts } from "~/engine/limits";
-import type { Tree, TreeNode } from "~/engine/types";
+import type { Branch, Tree, TreeNode } from "~/engine/types";
+
+/** Verdict branches sort in this order; answers and "next" keep theirs (a stable sort). */
+const VERDICT_ORDER = new Map(["low", "within", "high", "marginal"].map((v, i) => [v, i]));
 
 export type OutlineRow = {
   key: string;
@@ -61,12 +64,19 @@ export function outlineRows(tree: Tree): OutlineRow[] {
     placed.add(id);
     const row: OutlineRow = { ...base, type: "node" };
     rows.push(row);
-    for (const { key: bkey, branch } of nodeBranches(node)) {
-      visit(branch.to, depth + 1, row, branchName(bkey), bkey, Boolean(branch.recheck), `${key}/${bkey}`, detached);
-    }
-    for (const slot of openSlots(node)) {
-      row.children++;
-      rows.push({ key: `${key}/open:${slot.key}`, depth: depth + 1, parent: key, via: slot.label, viaKey: slot.key, type: "open", nodeId: id, loop: false, children: 0, detached });
+    // Branches and the slots still open, in the order the technician meets them (low, within, high…).
+    const slots = openSlots(node);
+    const order = (k: string) => (VERDICT_ORDER.has(k) ? VERDICT_ORDER.get(k)! : 100);
+    const items = [
+      ...nodeBranches(node).map((b) => ({ k: b.key, branch: b.branch as Branch | undefined, label: branchName(b.key) })),
+      ...slots.map((sl) => ({ k: sl.key, branch: undefined, label: sl.label })),
+    ].sort((a, z) => order(a.k) - order(z.k));
+    for (const it of items) {
+      if (it.branch) visit(it.branch.to, depth + 1, row, it.label, it.k, Boolean(it.branch.recheck), `${key}/${it.k}`, detached);
+      else {
+        row.children++;
+        rows.push({ key: `${key}/open:${it.k}`, depth: depth + 1, parent: key, via: it.label, viaKey: it.k, type: "open", nodeId: id, loop: false, children: 0, detached });
+      }
     }
   }
 

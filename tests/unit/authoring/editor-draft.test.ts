@@ -96,9 +96,10 @@ describe("the outline's rows", () => {
     t.nodes.push({ id: "loose", kind: "step", title: "A loose step" });
     const rows = outlineRows(t);
     const m = rows.filter((r) => r.parent === rows.find((x) => x.nodeId === "cap-measure")!.key);
+    // In the order the technician meets them: low, within, high.
     expect(m.map((r) => [r.via, r.type])).toEqual([
-      ["within", "missing"],
       ["low", "open"],
+      ["within", "missing"],
       ["high", "open"],
     ]);
     const detached = rows.filter((r) => r.detached);
