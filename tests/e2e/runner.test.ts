@@ -365,7 +365,8 @@ describe("the phone runner (390×844)", () => {
     await page.getByLabel("Unit of the range").fill("A");
     await page.getByRole("button", { name: "Add the meter" }).click();
     await page.getByText("Added Van 2 clamp meter — AC amps, 400 A range.").waitFor();
-    await expect(page.getByText("current · up to 400 A · accuracy ±(2 % + 5 counts) at 0.1 A").isVisible()).resolves.toBe(true);
+    await page.getByText("current · up to 400 A · accuracy ±(2 % + 5 counts) at 0.1 A").waitFor();
+    await expect(page.getByLabel("Name").inputValue()).resolves.toBe("");
     await snap(page, "meters-laptop", true);
     await context.close();
   });
