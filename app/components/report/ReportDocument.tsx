@@ -28,6 +28,12 @@ export const REPORT_CSS = `
 .rp ul { margin: 0; padding-left: 1.2rem; list-style: disc; }
 .rp li { margin: 0.15rem 0; }
 .rp .rp-foot { margin-top: 1.5rem; border-top: 1px solid #d9d4c8; padding-top: 0.6rem; font-size: 0.85rem; color: #4a5361; }
+@media screen and (max-width: 640px) {
+  .rp { padding: 1rem; }
+  .rp dl { grid-template-columns: 6.5rem 1fr; }
+  .rp table { font-size: 0.85rem; }
+  .rp th, .rp td { padding: 0.3rem 0.25rem; }
+}
 @media print {
   .rp { padding: 0; max-width: none; font-size: 11pt; }
   .rp h2 { break-after: avoid; }
