@@ -161,8 +161,11 @@ function run(ast: Ast, vars: Readonly<Record<string, number>>): number {
       }
       return NaN;
     }
-    case "call":
-      return ast.f.f(...ast.args.map((x) => run(x, vars)));
+    case "call": {
+      const args: number[] = [];
+      for (const x of ast.args) args.push(run(x, vars));
+      return ast.f.f(...args);
+    }
   }
 }
 

@@ -165,9 +165,16 @@ function toleranceSpan(
   return { plus: (Math.abs(nominal) * p.plus) / 100, minus: (Math.abs(nominal) * p.minus) / 100, text };
 }
 
-function joinFrom(base: string, parts: { bare?: string }[]): string {
-  const srcs = parts.map((p) => p.bare).filter((s): s is string => Boolean(s));
-  return srcs.length ? `${base}, from ${srcs.join(" and ")}` : base;
+function joinFrom(base: string, parts: { bare?: string | undefined }[]): string {
+  let from = "";
+  for (const p of parts) if (p.bare) from += (from ? " and " : "") + p.bare;
+  return from ? `${base}, from ${from}` : base;
+}
+
+/** How a limit is shown: exact (up to 6 significant figures), to fixed decimals, or to 4 significant figures. */
+function showLimit(x: number, decimals: number): string {
+  if (decimals >= 0) return trimZeros(x.toFixed(decimals));
+  return formatCompact(x, decimals === -1 ? 6 : 4);
 }
 
 /** Limits for a node given the run's variables (name → value in the recording node's unit). */
@@ -219,27 +226,25 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
     // Computed limits are rounded so that what the screen shows is what is applied: to a step
     // of at most 1 % of the span between them (1.41–1.59 µF, 4695.3–4704.7 Ω), or to 4
     // significant figures for a lone computed limit.
-    let show: (x: number) => string = (x) => formatCompact(x, 6);
+    let decimals = -1;
     if (!ctx.exact) {
       const span = lo !== undefined && hi !== undefined ? hi - lo : 0;
       if (span > 0) {
-        const decimals = Math.min(12, Math.max(0, -Math.floor(Math.log10(span / 100))));
+        decimals = Math.min(12, Math.max(0, -Math.floor(Math.log10(span / 100))));
         const step = 10 ** -decimals;
-        const snap = (x: number) => Number((Math.round(x / step) * step).toFixed(decimals));
-        lo = snap(lo!);
-        hi = snap(hi!);
-        show = (x) => trimZeros(x.toFixed(decimals));
+        lo = Number((Math.round(lo! / step) * step).toFixed(decimals));
+        hi = Number((Math.round(hi! / step) * step).toFixed(decimals));
       } else {
+        decimals = -2;
         if (lo !== undefined) lo = roundSig(lo);
         if (hi !== undefined) hi = roundSig(hi);
-        show = (x) => formatCompact(x, 4);
       }
     }
-    const loText = lo !== undefined ? `${show(lo)} ${node.unit}` : undefined;
-    const hiText = hi !== undefined ? `${show(hi)} ${node.unit}` : undefined;
+    const loText = lo !== undefined ? `${showLimit(lo, decimals)} ${node.unit}` : undefined;
+    const hiText = hi !== undefined ? `${showLimit(hi, decimals)} ${node.unit}` : undefined;
     const text =
       lo !== undefined && hi !== undefined
-        ? `${show(lo)}–${hiText}`
+        ? `${showLimit(lo, decimals)}–${hiText}`
         : loText !== undefined
           ? `at least ${loText}`
           : `at most ${hiText}`;
@@ -261,7 +266,9 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
 export function limitFormulas(limits: Limits): string[] {
   const vals: LimitValue[] =
     limits.kind === "range" ? [limits.min, limits.max] : limits.kind === "atLeast" ? [limits.min] : limits.kind === "atMost" ? [limits.max] : [limits.nominal];
-  return vals.flatMap((v) => ("formula" in v ? [v.formula] : []));
+  const out: string[] = [];
+  for (const v of vals) if ("formula" in v) out.push(v.formula);
+  return out;
 }
 
 /** Which verdict branches these limits can produce (marginal only under guarded acceptance). */

@@ -192,7 +192,8 @@ export class Run {
     switch (node.kind) {
       case "question": {
         const e = entry as Extract<LogEntry, { type: "answer" }>;
-        const a = node.answers.find((x) => x.label === e.answer);
+        let a: (typeof node.answers)[number] | undefined;
+        for (const x of node.answers) if (x.label === e.answer) a = a ?? x;
         if (!a) {
           const list = node.answers.map((x) => `‘${x.label}’`).join(", ");
           return this.reject(entry, index, "unknown-answer", `‘${e.answer}’ isn't an answer to ${describeNode(node)}; the answers are ${list}.`);

@@ -61,7 +61,6 @@ function limitValues(l: Limits): LimitValue[] {
 
 function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
   const at = { nodeId: node.id, nodeIndex: i };
-  const name = () => describeNode(node);
   const unitOk = checkUnit(node, i, add);
   const L = node.limits;
   const display = unitOk ? resolveUnit(node.unit, node.quantity)! : null;
@@ -73,14 +72,14 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
     if (v.unit !== undefined) {
       const r = resolveUnit(v.unit, node.quantity);
       if (!r) {
-        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${name()} is in ‘${v.unit}’, which Cluepath doesn't know.` });
+        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${describeNode(node)} is in ‘${v.unit}’, which Cluepath doesn't know.` });
       } else if (display && (r.kind !== display.kind || r.absoluteTemperature !== display.absoluteTemperature)) {
         add({
           severity: "error",
           code: "limit-dimension",
           ...at,
           field: "limits",
-          message: `A limit of ${name()} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
+          message: `A limit of ${describeNode(node)} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
         });
       } else if (display && "value" in v) {
         x = convertQty(v.value, r.qty, display.qty);
@@ -101,10 +100,10 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "limits-inverted",
           ...at,
           field: "limits",
-          message: `${name()} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
+          message: `${describeNode(node)} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
         });
       } else if (a === b) {
-        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${name()} has the same minimum and maximum: no real reading will land exactly on it.` });
+        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${describeNode(node)} has the same minimum and maximum: no real reading will land exactly on it.` });
       }
     }
   }
@@ -117,11 +116,11 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "negative-tolerance",
           ...at,
           field: "limits",
-          message: `${name()} has a negative tolerance: write it as a size, like ± 6 % (or +10 % / −5 % when the sides differ).`,
+          message: `${describeNode(node)} has a negative tolerance: write it as a size, like ± 6 % (or +10 % / −5 % when the sides differ).`,
         });
       }
       if (t.kind === "percent" && t.minus > 100) {
-        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${name()} allows more than −100 %, so its lower limit is below zero.` });
+        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${describeNode(node)} allows more than −100 %, so its lower limit is below zero.` });
       }
       if (t.kind === "percent" && node.quantity === "temperature") {
         add({
@@ -129,20 +128,20 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "percent-of-temperature",
           ...at,
           field: "limits",
-          message: `${name()} gives a temperature tolerance in percent, which changes with the scale (°F or °C): write it in degrees, like ± 15 °F.`,
+          message: `${describeNode(node)} gives a temperature tolerance in percent, which changes with the scale (°F or °C): write it in degrees, like ± 15 °F.`,
         });
       }
       if (t.kind === "absolute" && t.unit !== undefined) {
         const r = resolveUnit(t.unit, node.quantity, true);
         const d = resolveUnit(node.unit, node.quantity, true);
-        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${name()} is in ‘${t.unit}’, which Cluepath doesn't know.` });
+        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${describeNode(node)} is in ‘${t.unit}’, which Cluepath doesn't know.` });
         else if (d && r.kind !== d.kind) {
           add({
             severity: "error",
             code: "limit-dimension",
             ...at,
             field: "limits",
-            message: `The tolerance of ${name()} is in ${t.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun}.`,
+            message: `The tolerance of ${describeNode(node)} is in ${t.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun}.`,
           });
         }
       }
@@ -158,7 +157,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         code: "meter-invalid",
         ...at,
         field: "meter",
-        message: `The meter accuracy of ${name()} needs a percentage and counts of zero or more and a resolution above zero, like ±(1 % + 3 counts) at 0.1 ${node.unit}.`,
+        message: `The meter accuracy of ${describeNode(node)} needs a percentage and counts of zero or more and a resolution above zero, like ±(1 % + 3 counts) at 0.1 ${node.unit}.`,
       });
     }
     if (m.unit !== undefined) {
@@ -169,7 +168,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           code: "limit-dimension",
           ...at,
           field: "meter",
-          message: `The meter resolution of ${name()} is in ‘${m.unit}’, which isn't ${QUANTITY_INFO[node.quantity].noun} unit.`,
+          message: `The meter resolution of ${describeNode(node)} is in ‘${m.unit}’, which isn't ${QUANTITY_INFO[node.quantity].noun} unit.`,
         });
       }
     }
@@ -181,7 +180,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
       code: "guarded-without-meter",
       ...at,
       field: "acceptance",
-      message: `${name()} uses guarded acceptance but gives no meter accuracy: verdicts stay simple unless the technician enters their meter's accuracy.`,
+      message: `${describeNode(node)} uses guarded acceptance but gives no meter accuracy: verdicts stay simple unless the technician enters their meter's accuracy.`,
     });
   }
 
@@ -193,7 +192,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         severity: "error",
         code: "missing-branch",
         ...at,
-        message: `${name()} has nowhere to go on ${VERDICT_WORD[v]}: add ‘- ${v} → …’.`,
+        message: `${describeNode(node)} has nowhere to go on ${VERDICT_WORD[v]}: add ‘- ${v} → …’.`,
       });
     }
   }
@@ -205,7 +204,7 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           : v === "high"
             ? "‘at least’ limits never read high"
             : "‘at most’ limits never read low";
-      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${name()} has a ‘${v}’ branch that is never taken: ${why}.` });
+      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${describeNode(node)} has a ‘${v}’ branch that is never taken: ${why}.` });
     }
   }
 }
@@ -279,21 +278,22 @@ export function validateTree(tree: Tree): ValidationResult {
   };
   const slots = (n: TreeNode): number => (n.kind === "question" ? n.answers.length : n.kind === "measurement" ? 4 : n.kind === "outcome" || n.kind === "escalate" ? 0 : 1);
 
+  // (Helpers instead of per-node closures: nothing is built per node unless it is reported.)
+  const at = (i: number) => ({ nodeId: nodes[i]!.id, nodeIndex: i });
+  const nameOf = (i: number) => describeNode(nodes[i]!);
   for (let i = 0; i < N; i++) {
     const n = nodes[i]!;
-    const at = () => ({ nodeId: n.id, nodeIndex: i });
-    const name = () => describeNode(n);
 
     switch (n.kind) {
       case "question": {
         if (n.answers.length === 1) {
-          add({ severity: "error", code: "too-few-answers", ...at(), message: `${name()} has only one answer: a question needs two or more (or make it a step).` });
+          add({ severity: "error", code: "too-few-answers", ...at(i), message: `${nameOf(i)} has only one answer: a question needs two or more (or make it a step).` });
         }
         for (let k = 1; k < n.answers.length; k++) {
           const label = n.answers[k]!.label;
           for (let j = 0; j < k; j++) {
             if (n.answers[j]!.label === label) {
-              add({ severity: "error", code: "duplicate-answer", ...at(), field: `answer:${label}`, message: `${name()} lists the answer ‘${label}’ twice.` });
+              add({ severity: "error", code: "duplicate-answer", ...at(i), field: `answer:${label}`, message: `${nameOf(i)} lists the answer ‘${label}’ twice.` });
               break;
             }
           }
@@ -314,7 +314,7 @@ export function validateTree(tree: Tree): ValidationResult {
     if ((n.kind === "measurement" || n.kind === "nameplate") && n.variable !== undefined) {
       const variable = n.variable;
       if (isReservedName(variable)) {
-        add({ severity: "error", code: "variable-reserved", ...at(), field: "variable", message: `${name()} records ‘${variable}’, which is the name of a formula function: pick another name.` });
+        add({ severity: "error", code: "variable-reserved", ...at(i), field: "variable", message: `${nameOf(i)} records ‘${variable}’, which is the name of a formula function: pick another name.` });
       }
       const prev = definers.get(variable);
       if (!prev) definers.set(variable, { index: i, quantity: n.quantity, unit: n.unit });
@@ -322,9 +322,9 @@ export function validateTree(tree: Tree): ValidationResult {
         add({
           severity: "error",
           code: "variable-units",
-          ...at(),
+          ...at(i),
           field: "variable",
-          message: `‘${variable}’ is recorded in ${prev.unit} by ${describeNode(nodes[prev.index]!)} but in ${n.unit} by ${name()}: formulas would mix units, so use one unit or two names.`,
+          message: `‘${variable}’ is recorded in ${prev.unit} by ${describeNode(nodes[prev.index]!)} but in ${n.unit} by ${nameOf(i)}: formulas would mix units, so use one unit or two names.`,
         });
       }
     }
@@ -342,9 +342,9 @@ export function validateTree(tree: Tree): ValidationResult {
         add({
           severity: "error",
           code: "unknown-target",
-          ...at(),
+          ...at(i),
           field: key,
-          message: `${name()} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
+          message: `${nameOf(i)} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
         });
       } else {
         edgeFrom.push(i);
@@ -356,7 +356,7 @@ export function validateTree(tree: Tree): ValidationResult {
         const r = branch.recheck;
         if (!Number.isInteger(r.max) || r.max < 1) {
           const key = slotKey(n, slot);
-          add({ severity: "error", code: "recheck-bound", ...at(), field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${name()} needs a limit of 1 or more times.` });
+          add({ severity: "error", code: "recheck-bound", ...at(i), field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${nameOf(i)} needs a limit of 1 or more times.` });
         }
         if (r.onExceed !== undefined) {
           const ex = index.get(r.onExceed);
@@ -364,9 +364,9 @@ export function validateTree(tree: Tree): ValidationResult {
             add({
               severity: "error",
               code: "unknown-target",
-              ...at(),
+              ...at(i),
               field: slotKey(n, slot),
-              message: `${name()} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
+              message: `${nameOf(i)} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
             });
           } else {
             edgeFrom.push(i);
@@ -384,7 +384,7 @@ export function validateTree(tree: Tree): ValidationResult {
           : n.kind === "measurement"
             ? "add branches for low, within and high"
             : "add a next step or make it an outcome";
-      add({ severity: "error", code: "dead-end", ...at(), message: `${name()} has no way on: ${fix}.` });
+      add({ severity: "error", code: "dead-end", ...at(i), message: `${nameOf(i)} has no way on: ${fix}.` });
     }
   }
 

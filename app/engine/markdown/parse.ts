@@ -245,6 +245,13 @@ class Parser {
     return { fields, parts, branches, answers };
   }
 
+  /** A required field, or an error at the heading. */
+  need = <F>(fields: Map<string, F>, line: number, kind: TreeNode["kind"], id: string, key: string, hint: string): F | undefined => {
+    const f = fields.get(key);
+    if (!f) this.err(line, 1, `${KIND_HEADING[kind]} \`${id}\` needs ‘- ${key}: …’ (${hint})`);
+    return f;
+  };
+
   enumField<T extends string>(f: { value: string; line: number; valueCol: number } | undefined, allowed: readonly T[], what: string): T | undefined {
     if (!f) return undefined;
     if ((allowed as readonly string[]).includes(f.value)) return f.value as T;
@@ -418,11 +425,7 @@ export function parseTree(source: string): ParseResult {
         p.err(sec.bodyLine, 1, "fields and branches go right under the heading, with no blank line between: this line is read as the body");
       }
     }
-    const need = (key: string, hint: string) => {
-      const f = fields.get(key);
-      if (!f) p.err(line, 1, `${KIND_HEADING[kind]} \`${id}\` needs ‘- ${key}: …’ (${hint})`);
-      return f;
-    };
+    const need = p.need;
     const next = branches.get("next");
 
     switch (kind) {
@@ -432,10 +435,10 @@ export function parseTree(source: string): ParseResult {
       case "measurement":
       case "nameplate": {
         if (kind === "nameplate") {
-          const v = need("variable", "the name later formulas use, like rated_uf");
+          const v = need(fields, line, kind, id, "variable", "the name later formulas use, like rated_uf");
           if (v) node.variable = v.value;
         }
-        const unit = need("unit", kind === "measurement" ? "the unit readings are shown in, like V or µF" : "the unit on the label, like µF or W");
+        const unit = need(fields, line, kind, id, "unit", kind === "measurement" ? "the unit readings are shown in, like V or µF" : "the unit on the label, like µF or W");
         const q = fields.get("quantity");
         let quantity: Quantity | undefined;
         if (q) quantity = p.enumField<Quantity>(q, QUANTITIES, "a quantity");
@@ -449,7 +452,7 @@ export function parseTree(source: string): ParseResult {
           if (next) node.next = next.branch;
           break;
         }
-        const lim = need("limits", "like ‘191 V to 218 V’, ‘at least 135 °F’ or ‘1.5 µF ± 6 %’");
+        const lim = need(fields, line, kind, id, "limits", "like ‘191 V to 218 V’, ‘at least 135 °F’ or ‘1.5 µF ± 6 %’");
         if (lim) {
           try {
             node.limits = parseLimits(lim.value);
@@ -489,13 +492,13 @@ export function parseTree(source: string): ParseResult {
         break;
       }
       case "outcome": {
-        const r = need("remedy", "what the technician does about it");
+        const r = need(fields, line, kind, id, "remedy", "what the technician does about it");
         if (r) node.remedy = r.value;
         node.parts = parts.map((x) => x.text);
         break;
       }
       case "escalate": {
-        const r = need("reason", "why the call goes to a lead");
+        const r = need(fields, line, kind, id, "reason", "why the call goes to a lead");
         if (r) node.reason = r.value;
         break;
       }

@@ -13,49 +13,51 @@ export const KIND_HEADING: Record<TreeNode["kind"], string> = {
   escalate: "Escalate",
 };
 
-function nodeFields(n: TreeNode): string[] {
-  const f: string[] = [];
-  const quantityLine = (quantity: string, unit: string) => {
-    if (unitQuantity(unit) !== quantity) f.push(`quantity: ${quantity}`);
-  };
+const VERDICT_ORDER = ["low", "within", "high", "marginal"] as const;
+
+/** The quantity line is left out when the unit already says it. */
+function quantityLine(f: string[], quantity: string, unit: string): void {
+  if (unitQuantity(unit) !== quantity) f.push(`- quantity: ${quantity}`);
+}
+
+function nodeFields(n: TreeNode, f: string[]): void {
   switch (n.kind) {
     case "question":
-      for (const a of n.answers) f.push(formatBranch(a.label, a));
+      for (const a of n.answers) f.push("- " + formatBranch(a.label, a));
       break;
     case "measurement":
-      quantityLine(n.quantity, n.unit);
-      f.push(`unit: ${n.unit}`);
-      f.push(`limits: ${formatLimits(n.limits)}`);
-      if (n.meter) f.push(`meter: ${formatMeter(n.meter)}`);
-      if (n.acceptance) f.push(`acceptance: ${n.acceptance}`);
-      if (n.variable !== undefined) f.push(`variable: ${n.variable}`);
-      for (const k of ["low", "within", "high", "marginal"] as const) {
+      quantityLine(f, n.quantity, n.unit);
+      f.push(`- unit: ${n.unit}`);
+      f.push(`- limits: ${formatLimits(n.limits)}`);
+      if (n.meter) f.push(`- meter: ${formatMeter(n.meter)}`);
+      if (n.acceptance) f.push(`- acceptance: ${n.acceptance}`);
+      if (n.variable !== undefined) f.push(`- variable: ${n.variable}`);
+      for (const k of VERDICT_ORDER) {
         const b = n.branches[k];
-        if (b) f.push(formatBranch(k, b));
+        if (b) f.push("- " + formatBranch(k, b));
       }
       break;
     case "nameplate":
-      f.push(`variable: ${n.variable}`);
-      quantityLine(n.quantity, n.unit);
-      f.push(`unit: ${n.unit}`);
-      if (n.next) f.push(formatBranch("next", n.next));
+      f.push(`- variable: ${n.variable}`);
+      quantityLine(f, n.quantity, n.unit);
+      f.push(`- unit: ${n.unit}`);
+      if (n.next) f.push("- " + formatBranch("next", n.next));
       break;
     case "caution":
-      if (n.hazard) f.push(`hazard: ${n.hazard}`);
-      if (n.next) f.push(formatBranch("next", n.next));
+      if (n.hazard) f.push(`- hazard: ${n.hazard}`);
+      if (n.next) f.push("- " + formatBranch("next", n.next));
       break;
     case "step":
-      if (n.next) f.push(formatBranch("next", n.next));
+      if (n.next) f.push("- " + formatBranch("next", n.next));
       break;
     case "outcome":
-      f.push(`remedy: ${n.remedy}`);
-      for (const p of n.parts) f.push(`part: ${p}`);
+      f.push(`- remedy: ${n.remedy}`);
+      for (const p of n.parts) f.push(`- part: ${p}`);
       break;
     case "escalate":
-      f.push(`reason: ${n.reason}`);
+      f.push(`- reason: ${n.reason}`);
       break;
   }
-  return f.map((x) => `- ${x}`);
 }
 
 /** The canonical Markdown form of a tree. parseTree(serializeTree(t)) gives t back. */
@@ -70,7 +72,7 @@ export function serializeTree(tree: Tree): string {
   if (tree.description !== undefined) out.push(tree.description, "");
   for (const n of tree.nodes) {
     out.push(`## ${KIND_HEADING[n.kind]} \`${n.id}\`: ${n.title}`);
-    out.push(...nodeFields(n));
+    nodeFields(n, out);
     out.push("");
     if (n.body !== undefined) out.push(n.body, "");
   }

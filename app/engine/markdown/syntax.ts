@@ -31,10 +31,9 @@ export function formatValue(v: LimitValue): string {
 
 function formatTolerance(t: Tolerance): string {
   if (t.kind === "letter") return `letter ${t.letter}`;
-  const u = t.kind === "percent" ? "%" : t.unit;
-  const side = (x: number) => (u !== undefined ? `${formatExact(x)} ${u}` : formatExact(x));
-  if (t.plus === t.minus) return `± ${side(t.plus)}`;
-  return `+${side(t.plus)} / -${side(t.minus)}`;
+  const u = t.kind === "percent" ? " %" : t.unit !== undefined ? ` ${t.unit}` : "";
+  if (t.plus === t.minus) return `± ${formatExact(t.plus)}${u}`;
+  return `+${formatExact(t.plus)}${u} / -${formatExact(t.minus)}${u}`;
 }
 
 export function formatLimits(l: Limits): string {
