@@ -34,7 +34,9 @@ export async function checkImage(bytes: Uint8Array): Promise<ImageCheck> {
     return { ok: false, status: 413, message: `The photo is larger than ${MAX_IMAGE_BYTES / 1024 / 1024} MB. Take it again at a lower resolution.` };
   const type = await fileTypeFromBuffer(bytes);
   const ext = type ? IMAGE_TYPES[type.mime] : undefined;
-  if (!type || !ext) return { ok: false, status: 415, message: "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF)." };
+  // file-type takes any "GIF" prefix for a GIF; the format's signature is GIF87a or GIF89a.
+  const badGif = type?.mime === "image/gif" && !/^GIF8[79]a$/.test(new TextDecoder().decode(bytes.subarray(0, 6)));
+  if (!type || !ext || badGif) return { ok: false, status: 415, message: "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF)." };
   return { ok: true, mime: type.mime, ext };
 }
 

@@ -20,7 +20,8 @@ describe("each demo role lands on its own home (phone 390×844)", () => {
       const page = await context.newPage();
       await signInAs(page, baseUrl, user.email);
       await page.waitForURL(`${baseUrl}${HOME_PATH[user.role]}`);
-      await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toBe(HEADINGS[user.role]);
+      // The URL can change before the new page has rendered: wait for its heading.
+      await page.getByRole("heading", { level: 1, name: HEADINGS[user.role], exact: true }).waitFor();
       const nav = page.getByRole("navigation", { name: "Main" });
       await expect(nav.getByRole("link", { name: HEADINGS[user.role] }).isVisible()).resolves.toBe(true);
       await page.screenshot({ path: screenshotPath(`home-${user.role}-phone`), fullPage: true });

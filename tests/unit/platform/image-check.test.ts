@@ -1,0 +1,30 @@
+import { describe, expect, it } from "vitest";
+import { checkImage, MAX_IMAGE_BYTES } from "../../../app/lib/storage.server";
+
+// Signatures: PNG 89 50 4E 47 0D 0A 1A 0A (PNG spec, ISO/IEC 15948 §5.2); JPEG starts FF D8 FF
+// (JFIF / ISO/IEC 10918-1 SOI marker); GIF starts "GIF87a" or "GIF89a" (GIF89a spec, §17).
+const png = Buffer.from(
+  "89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082",
+  "hex",
+);
+const gif = Buffer.concat([Buffer.from("GIF89a"), Buffer.from("01000100800000ffffff00000021f90401000000002c00000000010001000002024401003b", "hex")]);
+
+describe("uploaded images are judged by their content", () => {
+  it("accepts a real PNG and a real GIF whatever they are called", async () => {
+    expect(await checkImage(png)).toEqual({ ok: true, mime: "image/png", ext: "png" });
+    expect(await checkImage(gif)).toMatchObject({ ok: true, mime: "image/gif" });
+  });
+  it("refuses text, a fake GIF signature, and an empty file", async () => {
+    expect(await checkImage(Buffer.from("<html>not a photo</html>"))).toMatchObject({ ok: false, status: 415 });
+    expect(await checkImage(Buffer.from("GIF? no, just text"))).toMatchObject({ ok: false, status: 415 });
+    expect(await checkImage(new Uint8Array())).toMatchObject({ ok: false, status: 400 });
+  });
+  it("refuses anything over the 10 MB cap before looking further", async () => {
+    const big = new Uint8Array(MAX_IMAGE_BYTES + 1);
+    big.set(png);
+    expect(await checkImage(big)).toMatchObject({ ok: false, status: 413 });
+    const atCap = new Uint8Array(MAX_IMAGE_BYTES);
+    atCap.set(png);
+    expect((await checkImage(atCap)).ok).toBe(true);
+  });
+});
