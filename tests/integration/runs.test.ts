@@ -4,7 +4,7 @@ import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
 import { and, count, eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runPhotos, runSteps, treeBranches, treeNodes, treeVersions } from "../../db/schema";
+import { runPhotos, runSteps } from "../../db/schema";
 import { DEMO_SHOP, OTHER_SHOP } from "../../db/demo";
 import { stableId } from "../../db/seed";
 import { parseTree } from "../../app/engine/markdown/parse";
@@ -21,8 +21,7 @@ import { getReport, sendReport } from "../../app/models/reports.server";
 import { reportNumber } from "../../app/models/report-data";
 import { logOf, type StepView } from "../../app/models/run-log";
 import { addNote, changeRunStatus, getRunView, listOpenEscalations, postStep, recordOutcome, startRun, type StepInput } from "../../app/models/runs.server";
-import { treeToRows } from "../../app/models/tree-rows";
-import { createPublishedTree } from "../../app/models/trees.server";
+import { createPublishedTree, getVersionRow, publishDraft, replaceDraftContent, startDraft } from "../../app/models/trees.server";
 import { loader as runApiLoader } from "../../app/routes/api/run";
 import { action as stepsAction } from "../../app/routes/api/run-steps";
 import { action as photosAction } from "../../app/routes/api/run-photos";
@@ -237,30 +236,16 @@ describe("idempotent step POST", () => {
 });
 
 describe("version pinning", () => {
-  async function publishNextVersion(treeId: string, tree: Tree, number: number) {
-    const versionId = crypto.randomUUID();
-    const { version, nodes, branches } = treeToRows(tree);
-    const now = new Date();
-    await db().insert(treeVersions).values({
-      id: versionId,
-      treeId,
-      shopId: shopA,
-      number,
-      state: "published",
-      title: version.title,
-      category: version.category,
-      symptom: version.symptom,
-      equipment: version.equipment ?? null,
-      description: version.description ?? null,
-      startKey: version.start,
-      changeNote: "test: a later version",
-      authorId: lead.userId,
-      updatedAt: now,
-      publishedAt: now,
-    });
-    await db().insert(treeNodes).values(nodes.map((n) => ({ ...n, versionId, shopId: shopA })));
-    await db().insert(treeBranches).values(branches.map((b) => ({ ...b, versionId, shopId: shopA })));
-    return versionId;
+  /** Publishes the next version through the authoring model: draft from the latest, save, publish. */
+  async function publishNextVersion(treeId: string, tree: Tree) {
+    const draft = await startDraft(lead, treeId);
+    if (!draft.ok) throw new Error(`no draft: ${draft.reason}`);
+    const row = await getVersionRow(lead, draft.versionId);
+    const saved = await replaceDraftContent(lead, draft.versionId, tree, row!.revision);
+    if (!saved.ok) throw new Error(`draft not saved: ${saved.reason}`);
+    const published = await publishDraft(lead, treeId, saved.revision, "test: a later version");
+    if (!published.ok) throw new Error(`not published: ${published.reason}`);
+    return published.versionId;
   }
 
   it("a run keeps the version it started on when a new version is published mid-run; a new run gets the new one", async () => {
@@ -271,13 +256,12 @@ describe("version pinning", () => {
     const { runId, versionId } = await newRun(treeId);
     await ok(tech, runId, step({ type: "acknowledge", node: "lockout" }));
 
-    // Version 2 drops the lockout cautions and starts at the supply reading, with a tighter range.
+    // Version 2 tightens the supply range.
     const v2: Tree = {
       ...v1,
-      start: "supply-voltage",
       nodes: v1.nodes.map((n) => (n.id === "supply-voltage" && n.kind === "measurement" ? { ...n, limits: { kind: "range", min: { value: 200 }, max: { value: 215 } } } : n)),
     };
-    const v2Id = await publishNextVersion(treeId, v2, 2);
+    const v2Id = await publishNextVersion(treeId, v2);
 
     const s = await ok(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }));
     expect(s.to).toBe("live-test");
@@ -286,14 +270,14 @@ describe("version pinning", () => {
     expect(reading.limitsText).toBe("191–218 V");
     const view = (await getRunView(tech, runId))!;
     expect(view.version).toMatchObject({ id: versionId, number: 1 });
-    expect(view.tree.start).toBe("lockout");
+    expect(view.tree.nodes.find((n) => n.id === "supply-voltage")).toMatchObject({ limits: { kind: "range", min: { value: 191 } } });
 
     const later = await startRun(tech, { treeId, callId: await newCall() });
     if (!later.ok) throw new Error(later.message);
     expect(later.versionId).toBe(v2Id);
     const laterView = (await getRunView(tech, later.runId))!;
     expect(laterView.version.number).toBe(2);
-    expect(laterView.run.currentNode).toBe("supply-voltage");
+    expect(laterView.tree.nodes.find((n) => n.id === "supply-voltage")).toMatchObject({ limits: { kind: "range", min: { value: 200 }, max: { value: 215 } } });
   });
 });
 
