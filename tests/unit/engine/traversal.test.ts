@@ -124,7 +124,7 @@ describe("rejections", () => {
   it("an answer that isn't on the list names the answers", () => {
     const s = replay(rotisserie, [...TO_CAPACITOR.slice(0, 4), { type: "answer", node: "fans", answer: "maybe" }]);
     expect(s.rejected[0]!.message).toBe(
-      "‘maybe’ isn't an answer to Question ‘With the elements heating, do both convection fans run at full speed?’; the answers are ‘both at full speed’, ‘one slow’, ‘one stopped’, ‘both stopped’.",
+      "‘maybe’ isn't an answer to Question ‘With the elements heating, do both convection fans run at full speed?’; the answers are ‘both at full speed’, ‘one slow’, ‘one stopped’, ‘one slow, one stopped’, ‘both stopped’.",
     );
   });
   it("nothing applies after the end except undo", () => {
