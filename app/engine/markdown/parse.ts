@@ -109,6 +109,17 @@ class Parser {
     this.lines = text.split("\n");
   }
 
+  /** A list item read as a branch; undefined (with the error reported at its column) when it is malformed. */
+  branchOf(it: { text: string; line: number; col: number }): ReturnType<typeof parseBranch> | undefined {
+    try {
+      return parseBranch(it.text);
+    } catch (e) {
+      if (!(e instanceof SyntaxError_)) throw e;
+      this.err(it.line, it.col + e.offset, e.message);
+      return undefined;
+    }
+  }
+
   err(line: number, column: number, message: string): void {
     this.errors.push({ line, column, message });
   }
@@ -155,14 +166,8 @@ class Parser {
 
     for (const it of items) {
       if (kind === "question") {
-        let b: ReturnType<typeof parseBranch>;
-        try {
-          b = parseBranch(it.text);
-        } catch (e) {
-          if (!(e instanceof SyntaxError_)) throw e;
-          this.err(it.line, it.col + e.offset, e.message);
-          continue;
-        }
+        const b = this.branchOf(it);
+        if (b === undefined) continue;
         if (!b || b.key === "") {
           this.err(it.line, it.col, `expected an answer like ‘- yes → next-step’, got ‘- ${clip(it.text)}’`);
           continue;
@@ -173,14 +178,8 @@ class Parser {
       }
       const bw = ALL_BRANCH_WORDS.exec(it.text);
       if (bw && /^\S+\s*(→|->)/.test(it.text)) {
-        let b: ReturnType<typeof parseBranch>;
-        try {
-          b = parseBranch(it.text);
-        } catch (e) {
-          if (!(e instanceof SyntaxError_)) throw e;
-          this.err(it.line, it.col + e.offset, e.message);
-          continue;
-        }
+        const b = this.branchOf(it);
+        if (b === undefined) continue;
         const key = b?.key ?? bw[1]!;
         if (!branchKeys.includes(key) || !b) {
           this.err(
