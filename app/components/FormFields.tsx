@@ -1,26 +1,17 @@
 // Labelled select and text area with their error beside them (the Field component's siblings).
 import { useId, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from "react";
+import { describedBy, FieldError, Hint } from "./Field";
 
 type Common = { label: string; name: string; error?: string; hint?: string; className?: string };
 
 function Described({ id, hint, error }: { id: string; hint?: string; error?: string }) {
   return (
     <>
-      {hint && (
-        <p id={`${id}-hint`} className="mb-1 text-base text-ink-soft">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={`${id}-error`} className="field-error">
-          {error}
-        </p>
-      )}
+      <Hint id={id} hint={hint} />
+      <FieldError id={id} error={error} />
     </>
   );
 }
-
-const describedBy = (id: string, hint?: string, error?: string) => [hint && `${id}-hint`, error && `${id}-error`].filter(Boolean).join(" ") || undefined;
 
 export function SelectField({ label, name, error, hint, className, children, ...select }: Common & SelectHTMLAttributes<HTMLSelectElement> & { children: ReactNode }) {
   const id = useId();

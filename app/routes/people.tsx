@@ -1,6 +1,7 @@
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
+import { SelectField } from "~/components/FormFields";
 import { requireRole } from "~/lib/auth.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
 import { invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "~/models/people.server";
@@ -63,22 +64,22 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
             <input readOnly aria-label="Invitation link" className="field-input mt-2 text-base" value={actionData.link} />
           </div>
         )}
-        <Form method="post" className="grid gap-4 sm:grid-cols-[1fr_12rem_auto] sm:items-end" noValidate>
+        {/* A new key after each invitation empties the form for the next one. */}
+        <Form
+          key={actionData?.kind === "invited" ? actionData.link : "invite"}
+          method="post"
+          className="grid gap-4 sm:grid-cols-[1fr_12rem_auto] sm:items-end"
+          noValidate
+        >
           <input type="hidden" name="intent" value="invite" />
           <Field label="Email" name="email" type="email" defaultValue={invalid?.values.email} error={invalid?.errors.email} />
-          <div>
-            <label htmlFor="invite-role" className="field-label">
-              Role
-            </label>
-            <select id="invite-role" name="role" className="field-input" defaultValue={invalid?.values.role || "technician"}>
-              {ROLES.map((r) => (
-                <option key={r} value={r}>
-                  {ROLE_LABEL[r]}
-                </option>
-              ))}
-            </select>
-            {invalid?.errors.role && <p className="field-error">{invalid.errors.role}</p>}
-          </div>
+          <SelectField label="Role" name="role" defaultValue={invalid?.values.role || "technician"} error={invalid?.errors.role}>
+            {ROLES.map((r) => (
+              <option key={r} value={r}>
+                {ROLE_LABEL[r]}
+              </option>
+            ))}
+          </SelectField>
           <button className="btn-primary" disabled={busy}>
             Invite
           </button>
