@@ -3,7 +3,7 @@ import { and, asc, eq, gt, isNull } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { invitations, memberships, shops, users } from "../../db/schema";
 import type { Ctx } from "../lib/context";
-import { db } from "../lib/db.server";
+import { db, writeTx } from "../lib/db.server";
 import { sendMail } from "../lib/mail.server";
 import { hashPassword, verifyPassword } from "../lib/password.server";
 import { ROLE_LABEL, type Role } from "../lib/roles";
@@ -103,7 +103,7 @@ export type AcceptResult = { ok: true } | { ok: false; field: "password" | "toke
 export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<AcceptResult> {
   const inv = await findInvitation(token);
   if (!inv) return { ok: false, field: "token", message: "This invitation has expired, was withdrawn, or was already used." };
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const [existing] = await tx.select().from(users).where(eq(users.email, inv.email)).limit(1);
     let userId: string;
     if (existing) {

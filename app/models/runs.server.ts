@@ -26,7 +26,7 @@ import { tryEntry, type LogEntry, type RunState } from "../engine/traversal";
 import type { Meter, OutcomeNode, Tree, TreeNode } from "../engine/types";
 import { roleAllows } from "../lib/auth.server";
 import type { Ctx } from "../lib/context";
-import { db, type Db } from "../lib/db.server";
+import { db, writeTx, type Db, type Tx } from "../lib/db.server";
 import { markdownBlocks } from "../lib/md.server";
 import type { MdBlock } from "../lib/md";
 import { withNextNumber } from "./calls.server";
@@ -34,7 +34,6 @@ import { getUnit } from "./equipment.server";
 import { canonicalPayload, logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "./run-log";
 import { loadVersion } from "./trees.server";
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 export type Failure = { ok: false; status: 403 | 404 | 409 | 422; message: string; code?: string };
 const fail = (status: Failure["status"], message: string, code?: string): Failure => (code ? { ok: false, status, message, code } : { ok: false, status, message });
@@ -97,7 +96,7 @@ export type StartInput = { treeId: string; callId?: string; practice?: boolean; 
  * published later. From a call, the call must be open and have no run in progress.
  */
 export async function startRun(ctx: Ctx, input: StartInput): Promise<{ ok: true; runId: string; versionId: string } | (Failure & { runId?: string })> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     let unitId: string | null = null;
     if (input.callId) {
       const [call] = await tx
@@ -346,7 +345,7 @@ function endOf(state: RunState): { endKind: string | null; endNode: string | nul
 export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promise<StepResult> {
   const meterId = input.entry.type === "reading" ? (input.meterId ?? null) : null;
   const hash = sha256(canonicalPayload(input.entry as LogEntry, meterId));
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const run = await lockRun(tx, ctx, runId);
     if (!run) return fail(404, "That run was not found.");
     const [existing] = await tx
@@ -445,7 +444,7 @@ export const noteInput = z.object({
 export type NoteInput = z.infer<typeof noteInput>;
 
 export async function addNote(ctx: Ctx, runId: string, input: NoteInput): Promise<{ ok: true; note: NoteView } | Failure> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const run = await lockRun(tx, ctx, runId);
     if (!run) return fail(404, "That run was not found.");
     const [existing] = await tx
@@ -501,7 +500,7 @@ async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
 
 /** Pause, resume, abandon (with a reason), escalate to a lead (with a reason), or take over (leads). */
 export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInput): Promise<StatusResult> {
-  return db().transaction(async (tx): Promise<StatusResult> => {
+  return writeTx(async (tx): Promise<StatusResult> => {
     const run = await lockRun(tx, ctx, runId);
     if (!run) return fail(404, "That run was not found.");
     const holds = run.technicianId === ctx.userId;
@@ -582,7 +581,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     const [r] = await db().select().from(reports).where(and(eq(reports.runId, runId), eq(reports.shopId, ctx.shopId))).limit(1);
     return r ? { ok: true as const, reportId: r.id, number: r.number } : null;
   };
-  const result = await db().transaction(async (tx) => {
+  const result = await writeTx(async (tx) => {
     const run = await lockRun(tx, ctx, runId);
     if (!run) return fail(404, "That run was not found.");
     if (run.status === "done") return null;

@@ -8,12 +8,11 @@ import { parseTree, type ParseError } from "../engine/markdown/parse";
 import { serializeTree } from "../engine/markdown/serialize";
 import type { EquipmentCategory, Finding, Tree } from "../engine/types";
 import type { Ctx } from "../lib/context";
-import { db, type Db } from "../lib/db.server";
+import { db, writeTx, type Db, type Tx } from "../lib/db.server";
 import { checkImage, getObject, objectKey, putObject } from "../lib/storage.server";
 import { diffTrees } from "./tree-diff";
 import { rowsToTree, treeToRows } from "./tree-rows";
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 /** Where the editor's canvas shows each node, by node id. */
 export type Layout = Record<string, { x: number; y: number }>;
@@ -108,7 +107,7 @@ async function lockTree(tx: Tx, ctx: Ctx, treeId: string) {
  * Creates a tree with its first version published (the seed's starter trees). Returns the ids.
  */
 export async function createPublishedTree(ctx: Ctx, tree: Tree, changeNote: string, ids: { treeId?: string; versionId?: string } = {}) {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const treeId = await insertTree(tx, ctx, tree, ids.treeId);
     const now = new Date();
     const versionId = await insertVersion(tx, ctx, treeId, tree, { id: ids.versionId, state: "published", number: 1, changeNote, publishedBy: ctx.userId, publishedAt: now, updatedAt: now });
@@ -123,7 +122,7 @@ export function emptyTree(fields: Pick<Tree, "title" | "category" | "symptom">):
 
 /** A new tree whose only version is a draft (a tree made in the editor, or an imported file). */
 export async function createDraftTree(ctx: Ctx, tree: Tree, layout: Layout = {}) {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const treeId = await insertTree(tx, ctx, tree);
     const versionId = await insertDraft(tx, ctx, treeId, tree, null, layout);
     return { treeId, versionId };
@@ -139,7 +138,7 @@ export type StartDraft =
  * (default: the newest numbered version). Published versions are copied, never touched.
  */
 export async function startDraft(ctx: Ctx, treeId: string, fromNumber?: number): Promise<StartDraft> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const tree = await lockTree(tx, ctx, treeId);
     if (!tree) return { ok: false, reason: "not-found" };
     const versions = await tx.select().from(treeVersions).where(and(eq(treeVersions.treeId, treeId), eq(treeVersions.shopId, ctx.shopId)));
@@ -398,7 +397,7 @@ export type SaveResult =
  * the newer revision and who saved it. Refused (VersionLockedError) for published and retired versions.
  */
 export async function replaceDraftContent(ctx: Ctx, versionId: string, tree: Tree, expectedRevision: number, layout: Layout = {}): Promise<SaveResult> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const [version] = await tx
       .select()
       .from(treeVersions)
@@ -459,7 +458,7 @@ export type PublishResult =
 export async function publishDraft(ctx: Ctx, treeId: string, expectedRevision: number, changeNote: string): Promise<PublishResult> {
   const note = changeNote.trim();
   if (!note) return { ok: false, reason: "no-note" };
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const tree = await lockTree(tx, ctx, treeId);
     if (!tree) return { ok: false, reason: "not-found" };
     const [draft] = await tx
@@ -494,7 +493,7 @@ export type RetireResult = { ok: true } | { ok: false; reason: "not-found" | "no
  * stay, untouched). The only state change a published version can take.
  */
 export async function retireVersion(ctx: Ctx, treeId: string, number: number): Promise<RetireResult> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const tree = await lockTree(tx, ctx, treeId);
     if (!tree) return { ok: false, reason: "not-found" };
     const [v] = await tx
@@ -515,7 +514,7 @@ export type DiscardResult = { ok: true; treeDeleted: boolean } | { ok: false; re
 
 /** Throws away the tree's open draft. A tree that never had a published version goes with it. */
 export async function discardDraft(ctx: Ctx, treeId: string): Promise<DiscardResult> {
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const tree = await lockTree(tx, ctx, treeId);
     if (!tree) return { ok: false, reason: "not-found" };
     const versions = await tx.select().from(treeVersions).where(eq(treeVersions.treeId, treeId));
@@ -558,7 +557,7 @@ export async function importTree(ctx: Ctx, source: string, intoTreeId?: string):
   const parsed = parseTree(source);
   if (!parsed.ok) return { ok: false, reason: "parse", errors: parsed.errors };
   if (!intoTreeId) return { ok: true, ...(await createDraftTree(ctx, parsed.tree)) };
-  return db().transaction(async (tx) => {
+  return writeTx(async (tx) => {
     const tree = await lockTree(tx, ctx, intoTreeId);
     if (!tree) return { ok: false, reason: "not-found" };
     const versions = await tx.select().from(treeVersions).where(eq(treeVersions.treeId, intoTreeId));
