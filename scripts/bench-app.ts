@@ -298,11 +298,17 @@ function report(
   const x = (v: number) => `${v.toFixed(v < 1 ? 3 : 2)}×`;
   const num = (v: number, digits = 0) => (Number.isFinite(v) ? v.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: digits }) : "—");
   const ms = (v: number) => (Number.isFinite(v) ? `${num(v, v < 10 ? 1 : 0)} ms` : "—");
+  // Throughput ratios, and the same ratio of server CPU per request, which holds up better when
+  // other work shares the machine (the server is one thread: 1000 / CPU ms is its ceiling per core).
+  const cpu = (key: string) => m(key, "cpuMs");
+  const vs = (key: string, floor: string) => ({ rps: rps(key) / rps(floor), cpu: cpu(floor) / cpu(key) });
+  const both = (r: { rps: number; cpu: number }) => `${x(r.rps)} (by CPU ${x(r.cpu)})`;
+  const ratios = { step6: vs("step6", "json"), step60: vs("step60", "json"), api: vs("api", "json"), runner: vs("runner", "bare") };
   const ratio: Record<string, string> = {
-    step6: `${x(rps("step6") / rps("json"))} the JSON floor; p50 ${x(p50("step6") / p50("db"))} the DB floor`,
-    step60: `${x(rps("step60") / rps("json"))} the JSON floor; p50 ${x(p50("step60") / p50("db"))} the DB floor`,
-    api: `${x(rps("api") / rps("json"))} the JSON floor`,
-    runner: `${x(rps("runner") / rps("bare"))} the bare page`,
+    step6: `${both(ratios.step6)} the JSON floor; p50 ${x(p50("step6") / p50("db"))} the DB floor`,
+    step60: `${both(ratios.step60)} the JSON floor; p50 ${x(p50("step60") / p50("db"))} the DB floor`,
+    api: `${both(ratios.api)} the JSON floor`,
+    runner: `${both(ratios.runner)} the bare page`,
   };
   const sqlOf: Record<string, string> = {
     json: String(sql.json.total),
@@ -334,22 +340,20 @@ function report(
     "",
     `SQL statements per reading step: ${sql.step6.total} (${sql.step6.detail}); per undo: ${sql.undo.total} (${sql.undo.detail}); GET /api/runs/:id: ${sql.api.total} (${sql.api.detail}); runner page: ${sql.runner.total} (${sql.runner.detail}).`,
     "",
-    "| target (issue 14) | measured | met |",
-    "|---|--:|---|",
+    "| target (issue 14) | measured | by server CPU per request | met |",
+    "|---|--:|--:|---|",
   ];
-  const target = (what: string, value: number, ok: boolean, fmt = x) => lines.push(`| ${what} | ${fmt(value)} | ${ok ? "yes" : "no"} |`);
-  for (const log of ["6", "60"]) {
-    const r = rps(`step${log}`) / rps("json");
-    target(`persisted step ≥ 0.30× the JSON floor (log of ${log})`, r, r >= 0.3);
+  const target = (what: string, measured: string, byCpu: string, ok: boolean) => lines.push(`| ${what} | ${measured} | ${byCpu} | ${ok ? "yes" : "no"} |`);
+  for (const log of ["6", "60"] as const) {
+    const r = ratios[`step${log}`];
+    target(`persisted step ≥ 0.30× the JSON floor (log of ${log})`, x(r.rps), x(r.cpu), r.rps >= 0.3);
     const p = p50(`step${log}`) / p50("db");
-    target(`persisted step p50 ≤ 5× the DB floor's p50 (log of ${log})`, p, p <= 5);
+    target(`persisted step p50 ≤ 5× the DB floor's p50 (log of ${log})`, x(p), "—", p <= 5);
   }
-  const api = rps("api") / rps("json");
-  target("GET /api/runs/:id ≥ 0.40× the JSON floor", api, api >= 0.4);
-  const runner = rps("runner") / rps("bare");
-  target("runner page ≥ 0.40× the bare SSR page", runner, runner >= 0.4);
-  target("SQL statements per reading step ≤ 6", sql.step6.total, sql.step6.total <= 6, (v) => String(v));
-  lines.push(`| runner HTML compressed (Accept-Encoding: gzip, deflate, br) | ${extra.runnerEncoding ?? "none"} | ${extra.runnerEncoding ? "yes" : "no"} |`);
+  target("GET /api/runs/:id ≥ 0.40× the JSON floor", x(ratios.api.rps), x(ratios.api.cpu), ratios.api.rps >= 0.4);
+  target("runner page ≥ 0.40× the bare SSR page", x(ratios.runner.rps), x(ratios.runner.cpu), ratios.runner.rps >= 0.4);
+  target("SQL statements per reading step ≤ 6", String(sql.step6.total), "—", sql.step6.total <= 6);
+  target("runner HTML compressed (Accept-Encoding: gzip, deflate, br)", extra.runnerEncoding ?? "none", "—", extra.runnerEncoding !== null);
   const failed = scenarios.map((s) => [s.key, rounds.get(s.key)!.reduce((a, r) => a + r.failed, 0)] as const).filter(([, n]) => n > 0);
   const recycled = ["step6", "step60"].map((k) => [k, rounds.get(k)!.reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
   if (failed.length) lines.push("", `Failed requests (not counted above): ${failed.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
