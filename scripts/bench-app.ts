@@ -9,6 +9,8 @@
 // The two floors are not app routes: the benchmark builds a copy of the app with two routes of its
 // own — /__bench/json (a resource route returning JSON, no database) and /__bench/hello (a page with
 // one heading, no loader) — and measures everything on that one build and server.
+//
+// App code imported: none here; scripts/lib/field.ts takes DEMO_PASSWORD from db/demo.ts.
 import autocannon from "autocannon";
 import mysql from "mysql2/promise";
 import { cpus, loadavg } from "node:os";

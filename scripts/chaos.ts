@@ -9,6 +9,8 @@
 // same payload (the phone's rule, with its back-off shortened to a quarter); only a 2xx counts as
 // acknowledged. A 4xx is final for that step (the phone drops it and refetches the run).
 // When the load stops, every client keeps retrying its last step until it is acknowledged.
+//
+// App code imported: none here; scripts/lib/field.ts takes DEMO_PASSWORD from db/demo.ts.
 import type mysql from "mysql2/promise";
 import { cloneRun, nextKind, PREFIX, postStep, startField, stepBody, techSessions, type Field } from "./lib/field";
 import { log, sleep, Stack } from "./lib/stack";

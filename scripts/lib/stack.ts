@@ -43,7 +43,7 @@ export function cpuSeconds(pid: number): number {
 export type StackOptions = {
   /** Names the temporary folder and the database. */
   name: string;
-  /** Extra routes built into a copy of the app: URL path → module source (a file name is derived). */
+  /** Extra routes built into a copy of the app: URL path → the route module's file name and source. */
   extraRoutes?: Record<string, { file: string; source: string }>;
 };
 
