@@ -61,7 +61,7 @@ export function createApp({ dev }: AppOptions): NodeHandler {
       Object.assign(headers, baseSecurityHeaders({ tls, pathname }));
 
       const host = req.headers.host;
-      if (!req.url?.startsWith("/") || !host || !/^[A-Za-z0-9.\-]+(:\d{1,5})?$|^\[[0-9A-Fa-f:.]+\](:\d{1,5})?$/.test(host)) {
+      if (!req.url?.startsWith("/") || !host || !/^[A-Za-z0-9.-]+(:\d{1,5})?$|^\[[0-9A-Fa-f:.]+\](:\d{1,5})?$/.test(host)) {
         return fail(res, 400, "This request is not valid.", headers, pathname);
       }
       const origin = `${tls ? "https" : "http"}://${host}`;
@@ -131,7 +131,7 @@ function routeTree(build: ServerBuild): RouteNode[] {
 function routePattern(routes: RouteNode[], pathname: string): string {
   const data = pathname.endsWith(".data");
   const path = data ? pathname.slice(0, -".data".length).replace(/\/_root$/, "/") || "/" : pathname;
-  let matches: ReturnType<typeof matchRoutes> = null;
+  let matches: ReturnType<typeof matchRoutes>;
   try {
     matches = matchRoutes(routes as RouteObject[], path);
   } catch {
