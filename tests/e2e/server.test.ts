@@ -10,22 +10,13 @@ import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { freePort } from "../support/e2e-setup";
 
 const baseUrl = inject("baseUrl");
 const dbUrl = process.env.E2E_DATABASE_URL!;
 const SECRET = "server-test-secret-server-test-secret-0";
 
 type Started = { url: string; port: number; output: () => string; stop: () => Promise<void>; child: ChildProcess };
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.listen(0, "127.0.0.1", () => {
-      const addr = s.address();
-      s.close(() => (typeof addr === "object" && addr ? resolve(addr.port) : reject(new Error("no port"))));
-    });
-  });
-}
 
 /** `node server.js` from the build with these settings; resolves once /healthz answers at all. */
 async function startServer(env: Record<string, string>): Promise<Started> {
