@@ -21,6 +21,9 @@ import { baseSecurityHeaders } from "../app/lib/security-headers.server";
 import { staticFiles } from "./static";
 
 export { loadConfig, log, safeError, type Env };
+// The build's own exports stay readable from build/server/index.js (assets, routes…): tools and
+// tests that inspect the build keep working.
+export * from "virtual:react-router/server-build";
 
 export type AppOptions = { dev: boolean };
 export type NodeHandler = (req: IncomingMessage, res: ServerResponse) => Promise<void>;
