@@ -1,8 +1,9 @@
 import { defineConfig } from "drizzle-kit";
+import { databaseUrl } from "./app/lib/env.server";
 
 export default defineConfig({
   dialect: "mysql",
   schema: "./db/schema/index.ts",
   out: "./db/migrations",
-  dbCredentials: { url: process.env.DATABASE_URL ?? "mysql://root@127.0.0.1:3307/cluepath" },
+  dbCredentials: { url: databaseUrl() },
 });

@@ -1,101 +1,101 @@
-// Production server: node:http + React Router's request listener (about twice the throughput of
-// react-router-serve here), hashed assets served from memory with long cache headers and gzip.
-import { createRequestListener } from "@react-router/node";
+// @ts-check
+// Cluepath's server entry (React Router's custom-server way). The request handling itself is
+// server/app.ts, the same code in both modes:
+//   NODE_ENV=production  imports it from the build (build/server/index.js) and serves build/client;
+//   otherwise (npm run dev)  loads it through Vite in middleware mode, with hot reload.
+// The configuration is checked before listening: a bad value stops the start with a message that
+// names the variable. Plain node:http, no framework server: about twice react-router-serve's
+// throughput here (DESIGN.md's stack notes).
+import { existsSync } from "node:fs";
 import { createServer } from "node:http";
-import { readFile, stat } from "node:fs/promises";
-import { extname, join, normalize } from "node:path";
-import { gzipSync } from "node:zlib";
 
-const buildDir = new URL(`./${process.env.BUILD_DIR ?? "build"}/`, import.meta.url);
-const root = new URL("client/", buildDir).pathname;
-const build = await import(new URL("server/index.js", buildDir).href);
-const port = Number(process.env.PORT ?? 3000);
-const host = process.env.HOST ?? "0.0.0.0";
-const trustProxy = process.env.TRUST_PROXY === "1";
+const production = process.env.NODE_ENV === "production";
+const buildDir = process.env.BUILD_DIR ?? "build";
 
-const types = {
-  ".js": "text/javascript; charset=utf-8",
-  ".css": "text/css; charset=utf-8",
-  ".svg": "image/svg+xml",
-  ".png": "image/png",
-  ".ico": "image/x-icon",
-  ".woff2": "font/woff2",
-  ".woff": "font/woff",
-  ".json": "application/json",
-  ".webmanifest": "application/manifest+json",
-  ".txt": "text/plain; charset=utf-8",
-};
-const compressible = new Set([".js", ".css", ".svg", ".json", ".webmanifest", ".txt"]);
-const cache = new Map();
+/** @typedef {import("./server/app")} AppModule */
 
-async function loadStatic(pathname) {
-  if (cache.has(pathname)) return cache.get(pathname);
-  const file = normalize(join(root, decodeURIComponent(pathname)));
-  if (!file.startsWith(root)) return null;
-  let entry = null;
-  try {
-    if ((await stat(file)).isFile()) {
-      const body = await readFile(file);
-      const ext = extname(file);
-      entry = {
-        body,
-        gzip: compressible.has(ext) && body.length > 1024 ? gzipSync(body) : null,
-        type: types[ext] ?? "application/octet-stream",
-        immutable: pathname.startsWith("/assets/"),
-      };
-    }
-  } catch {
-    entry = null;
-  }
-  if (cache.size < 2000) cache.set(pathname, entry);
-  return entry;
+/**
+ * @param {unknown} error
+ * @returns {never}
+ */
+function stop(error) {
+  const message = error instanceof Error && error.name === "ConfigError" ? error.message : error instanceof Error ? (error.stack ?? error.message) : String(error);
+  console.error(message);
+  process.exit(1);
 }
 
-const app = createRequestListener({
-  build,
-  mode: process.env.NODE_ENV ?? "production",
-  getLoadContext: (request, client) => {
-    const forwarded = trustProxy ? request.headers.get("x-forwarded-for")?.split(",")[0]?.trim() : undefined;
-    return { clientAddress: forwarded || client.address };
-  },
-});
+const server = createServer();
+/** @type {AppModule} */
+let appModule;
+/** @type {(() => Promise<void>) | undefined} */
+let closeDev;
 
-const server = createServer(async (req, res) => {
-  if (req.method === "GET" || req.method === "HEAD") {
-    const pathname = (req.url ?? "/").split("?")[0];
-    if (pathname !== "/" && extname(pathname)) {
-      const entry = await loadStatic(pathname);
-      if (entry) {
-        const gz = entry.gzip && /\bgzip\b/.test(req.headers["accept-encoding"] ?? "");
-        res.writeHead(200, {
-          "content-type": entry.type,
-          "cache-control": entry.immutable ? "public, max-age=31536000, immutable" : "public, max-age=3600",
-          "x-content-type-options": "nosniff",
-          vary: "accept-encoding",
-          ...(gz ? { "content-encoding": "gzip" } : {}),
-        });
-        res.end(req.method === "HEAD" ? undefined : gz ? entry.gzip : entry.body);
-        return;
-      }
-    }
+try {
+  if (production) {
+    const entry = new URL(`./${buildDir}/server/index.js`, import.meta.url);
+    if (!existsSync(entry)) throw new Error(`No build in ${buildDir}/: run \`npm run build\` first (or set BUILD_DIR).`);
+    appModule = await import(entry.href);
+    appModule.loadConfig();
+    const app = appModule.createApp({ dev: false });
+    server.on("request", app);
+  } else {
+    const vite = await import("vite");
+    const devServer = await vite.createServer({ server: { middlewareMode: true, hmr: { server } }, appType: "custom" });
+    closeDev = () => devServer.close();
+    /** @returns {Promise<AppModule>} */
+    const load = async () => /** @type {AppModule} */ (await devServer.ssrLoadModule("./server/app.ts"));
+    appModule = await load();
+    appModule.loadConfig();
+    /** @type {WeakMap<AppModule, import("./server/app").NodeHandler>} */
+    const apps = new WeakMap();
+    server.on("request", (req, res) => {
+      devServer.middlewares(req, res, async () => {
+        try {
+          // Re-read on every request: Vite hands back the same module until a file changes.
+          const mod = await load();
+          let app = apps.get(mod);
+          if (!app) apps.set(mod, (app = mod.createApp({ dev: true })));
+          await app(req, res);
+        } catch (error) {
+          if (error instanceof Error) devServer.ssrFixStacktrace(error);
+          console.error(error);
+          if (!res.headersSent) res.writeHead(500, { "content-type": "text/plain; charset=utf-8" });
+          res.end("The dev server could not load the app; see its console.");
+        }
+      });
+    });
   }
-  res.setHeader("x-content-type-options", "nosniff");
-  res.setHeader("referrer-policy", "same-origin");
-  res.setHeader("x-frame-options", "DENY");
-  app(req, res);
-});
+} catch (error) {
+  stop(error);
+}
 
-server.listen(port, host, () => {
-  console.log(`› Cluepath listening on http://localhost:${port}`);
+const config = appModule.loadConfig();
+const log = appModule.log();
+
+// No request may stop the process: a stray rejection or exception is logged and the server goes on.
+process.on("unhandledRejection", (reason) => log.error({ err: appModule.safeError(reason) }, "unhandled rejection"));
+process.on("uncaughtException", (error) => log.error({ err: appModule.safeError(error) }, "uncaught exception"));
+
+server.on("clientError", (error, socket) => {
+  // Malformed HTTP (bad request line or headers) never reaches a handler: answer 400 and close.
+  if (socket.writable && !(/** @type {{ code?: string }} */ (error).code === "ECONNRESET")) socket.end("HTTP/1.1 400 Bad Request\r\nConnection: close\r\n\r\n");
+  else socket.destroy();
+});
+server.listen(config.PORT, config.HOST, () => {
+  log.info({ port: config.PORT, host: config.HOST, mode: production ? "production" : "development" }, `Cluepath listening on http://localhost:${config.PORT}`);
 });
 
 let closing = false;
 function shutdown() {
   if (closing) return;
   closing = true;
-  server.close(() => process.exit(0));
-  server.closeAllConnections?.();
   setTimeout(() => process.exit(0), 3000).unref();
+  server.close(async () => {
+    await Promise.allSettled([appModule.close(), closeDev?.()]);
+    process.exit(0);
+  });
+  server.closeIdleConnections();
+  setTimeout(() => server.closeAllConnections(), 1000).unref();
 }
 process.on("SIGTERM", shutdown);
 process.on("SIGINT", shutdown);

@@ -6,7 +6,10 @@ import { defineConfig } from "vitest/config";
 // Under Vitest the React Router plugin stays out (it wants to own the whole app build).
 const underVitest = Boolean(process.env.VITEST);
 
-export default defineConfig({
+export default defineConfig(({ isSsrBuild }) => ({
+  // The server build's entry is the app's request handler (React Router's custom-server way):
+  // build/server/index.js exports createApp, which server.js mounts on node:http.
+  build: isSsrBuild ? { rollupOptions: { input: "./server/app.ts" } } : undefined,
   plugins: [tailwindcss(), !underVitest && reactRouter()],
   resolve: {
     alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) },
@@ -47,4 +50,4 @@ export default defineConfig({
       },
     ],
   },
-});
+}));

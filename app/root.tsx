@@ -6,6 +6,7 @@ import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState, type ReactNode } from "react";
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { useNonce } from "./lib/nonce";
 
 export const links: Route.LinksFunction = () => [
   { rel: "icon", href: "/icon.svg", type: "image/svg+xml" },
@@ -13,6 +14,8 @@ export const links: Route.LinksFunction = () => [
 ];
 
 export function Layout({ children }: { children: ReactNode }) {
+  // The page's CSP nonce: from entry.server.tsx on the server, read from the page in the browser.
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -20,12 +23,12 @@ export function Layout({ children }: { children: ReactNode }) {
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <meta name="theme-color" content="#1c232e" />
         <Meta />
-        <Links />
+        <Links nonce={nonce} />
       </head>
       <body className="min-h-dvh">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );
@@ -44,6 +47,7 @@ export default function App() {
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   let title = "Something went wrong";
   let detail = "Cluepath hit an unexpected error. Your earlier entries are saved; go back and try again.";
+  let again = false;
   if (isRouteErrorResponse(error)) {
     const message = typeof error.data === "object" && error.data && "error" in error.data ? String(error.data.error) : undefined;
     if (error.status === 404) {
@@ -52,6 +56,11 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     } else if (error.status === 403) {
       title = "Not for your role";
       detail = message ?? "Your role cannot open this page.";
+    } else if (error.status === 503) {
+      // The server's database-outage answer (errors.server.ts) carries the words to show.
+      title = "Can't reach the database";
+      detail = message ?? "Cluepath can't reach its database; what you typed is kept — try again in a minute.";
+      again = true;
     } else {
       title = `Error ${error.status}`;
       detail = message ?? error.statusText;
@@ -61,7 +70,12 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     <main className="mx-auto max-w-xl p-6">
       <h1 className="text-2xl font-bold">{title}</h1>
       <p className="mt-2 text-ink-soft">{detail}</p>
-      <p className="mt-6">
+      <p className="mt-6 flex flex-wrap gap-3">
+        {again && (
+          <a className="btn-primary" href="">
+            Try again
+          </a>
+        )}
         <a className="btn-quiet" href="/">
           Back to my home
         </a>

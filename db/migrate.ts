@@ -3,6 +3,7 @@ import { drizzle } from "drizzle-orm/mysql2";
 import { migrate } from "drizzle-orm/mysql2/migrator";
 import mysql from "mysql2/promise";
 import { fileURLToPath } from "node:url";
+import { databaseUrl } from "../app/lib/env.server";
 
 export async function migrateDatabase(url: string): Promise<void> {
   const target = new URL(url);
@@ -20,7 +21,7 @@ export async function migrateDatabase(url: string): Promise<void> {
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const url = process.env.DATABASE_URL ?? "mysql://root@127.0.0.1:3307/cluepath";
+  const url = databaseUrl();
   migrateDatabase(url)
     .then(() => console.log(`› migrations applied to ${new URL(url).pathname.slice(1)}`))
     .catch((e) => {

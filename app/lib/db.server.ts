@@ -9,10 +9,24 @@ type Holder = { pool?: mysql.Pool; db?: Db };
 // One pool per process; kept on globalThis so dev-server reloads do not open another.
 const holder = ((globalThis as { __cluepathDb?: Holder }).__cluepathDb ??= {});
 
-export function createPool(url: string): mysql.Pool {
+/** What a request waiting too long for a pool connection gets (mapped to 503 by errors.server.ts). */
+export class PoolAcquireTimeout extends Error {
+  override name = "PoolAcquireTimeout";
+  readonly code = "POOL_ACQUIRE_TIMEOUT";
+}
+
+export type PoolOptions = { size?: number; acquireTimeoutMs?: number };
+
+export function createPool(url: string, options: PoolOptions = {}): mysql.Pool {
+  const { size = 20, acquireTimeoutMs = 5000 } = options;
   const pool = mysql.createPool({
     uri: url,
-    connectionLimit: 20,
+    connectionLimit: size,
+    // Idle connections are closed after a minute (and checked by keep-alive), so a pool that saw
+    // MariaDB restart holds few dead ones; a dead one fails once and is dropped by mysql2.
+    maxIdle: Math.min(size, 10),
+    idleTimeout: 60_000,
+    enableKeepAlive: true,
     connectTimeout: 3000,
     timezone: "Z",
     dateStrings: false,
@@ -21,11 +35,40 @@ export function createPool(url: string): mysql.Pool {
   pool.on("connection", (conn) => {
     conn.query("SET time_zone = '+00:00'");
   });
+  withAcquireTimeout(pool, acquireTimeoutMs);
   return pool;
 }
 
+/**
+ * mysql2 has no acquire timeout: a request queued behind a full pool waits forever. Every query,
+ * execute and transaction asks the core pool's getConnection, so that one method gets a deadline;
+ * a connection that arrives after its waiter gave up goes straight back to the pool.
+ */
+function withAcquireTimeout(pool: mysql.Pool, ms: number): void {
+  type Callback = (err: Error | null, conn?: { release(): void }) => void;
+  const core = pool.pool as unknown as { getConnection(cb: Callback): void };
+  const acquire = core.getConnection.bind(core);
+  core.getConnection = (cb: Callback) => {
+    let settled = false;
+    const timer = setTimeout(() => {
+      settled = true;
+      cb(new PoolAcquireTimeout(`No database connection became free within ${ms} ms`));
+    }, ms);
+    acquire((err, conn) => {
+      if (settled) {
+        if (!err) conn?.release();
+        return;
+      }
+      settled = true;
+      clearTimeout(timer);
+      cb(err, conn);
+    });
+  };
+}
+
 export function pool(): mysql.Pool {
-  return (holder.pool ??= createPool(env().DATABASE_URL));
+  const e = env();
+  return (holder.pool ??= createPool(e.DATABASE_URL, { size: e.DB_POOL_SIZE, acquireTimeoutMs: e.DB_ACQUIRE_TIMEOUT_MS }));
 }
 
 export function db(): Db {

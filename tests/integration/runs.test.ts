@@ -1,7 +1,7 @@
 // Field runs against the real MariaDB (and the local S3 fake and SMTP catcher): the run lifecycle,
 // the idempotent step POST, version pinning, shop isolation, upload refusals and the e-mailed report.
 import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
-import { and, count, eq } from "drizzle-orm";
+import { count, eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runPhotos, runSteps } from "../../db/schema";

@@ -6,7 +6,7 @@ import { createServer } from "node:net";
 import type { TestProject } from "vitest/node";
 import { migrateDatabase } from "../../db/migrate";
 
-async function freePort(): Promise<number> {
+export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const s = createServer();
     s.listen(0, "127.0.0.1", () => {

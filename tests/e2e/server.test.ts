@@ -1,0 +1,422 @@
+// The server entry over real HTTP, against the production build: no request stops the process, every
+// Set-Cookie arrives, state changes only from our own pages, page security headers (CSP with a nonce
+// per response, Permissions-Policy, HSTS only over TLS), the request log, a database outage answered
+// with 503 and recovered from without a restart, and configuration checked at boot.
+// Servers with their own settings are started here from the same build (server.js); a TCP relay in
+// this process stands between one of them and MariaDB so the test can cut the database off and back.
+import { spawn, type ChildProcess } from "node:child_process";
+import { connect, createServer, type Server, type Socket } from "node:net";
+import type { Browser } from "playwright-core";
+import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
+import { DEMO_PASSWORD } from "../../db/demo";
+import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { freePort } from "../support/e2e-setup";
+
+const baseUrl = inject("baseUrl");
+const dbUrl = process.env.E2E_DATABASE_URL!;
+const SECRET = "server-test-secret-server-test-secret-0";
+
+type Started = { url: string; port: number; output: () => string; stop: () => Promise<void>; child: ChildProcess };
+
+/** `node server.js` from the build with these settings; resolves once /healthz answers at all. */
+async function startServer(env: Record<string, string>): Promise<Started> {
+  const port = await freePort();
+  let output = "";
+  const child = spawn(process.execPath, ["server.js"], {
+    env: { ...process.env, HOST: "127.0.0.1", PORT: String(port), DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: SECRET, ...env },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  child.stdout!.on("data", (d) => (output += d));
+  child.stderr!.on("data", (d) => (output += d));
+  const url = `http://127.0.0.1:${port}`;
+  for (let i = 0; i < 150; i++) {
+    if (child.exitCode !== null) throw new Error(`server exited early:\n${output}`);
+    if (await fetch(`${url}/healthz`).catch(() => null)) break;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  const stop = async () => {
+    if (child.exitCode === null) {
+      child.kill("SIGTERM");
+      await new Promise((r) => child.once("exit", r));
+    }
+  };
+  return { url, port, output: () => output, stop, child };
+}
+
+/** Runs `node server.js` with these settings and waits for it to exit (a refused configuration). */
+function bootFails(env: Record<string, string>): Promise<{ code: number | null; output: string }> {
+  return new Promise((resolve) => {
+    let output = "";
+    const child = spawn(process.execPath, ["server.js"], {
+      env: { ...process.env, HOST: "127.0.0.1", PORT: "1", DATABASE_URL: dbUrl, NODE_ENV: "production", AUTH_SECRET: SECRET, ...env },
+      stdio: ["ignore", "pipe", "pipe"],
+    });
+    child.stdout!.on("data", (d) => (output += d));
+    child.stderr!.on("data", (d) => (output += d));
+    const timer = setTimeout(() => child.kill("SIGKILL"), 20_000);
+    child.once("exit", (code) => {
+      clearTimeout(timer);
+      resolve({ code, output });
+    });
+  });
+}
+
+/** A session cookie for a demo user, signed in through the /login form as a browser would. */
+async function signIn(url: string, email: string): Promise<string> {
+  const res = await fetch(`${url}/login`, {
+    method: "POST",
+    headers: { origin: url, "content-type": "application/x-www-form-urlencoded" },
+    body: new URLSearchParams({ email, password: DEMO_PASSWORD }),
+    redirect: "manual",
+  });
+  expect(res.status).toBe(302);
+  const session = res.headers.getSetCookie().find((c) => c.includes("session-token="));
+  expect(session).toBeDefined();
+  return session!.split(";")[0]!;
+}
+
+/** Sends raw bytes and returns what the server answered (or "" if it closed without a word). */
+function rawHttp(port: number, text: string): Promise<string> {
+  return new Promise((resolve) => {
+    let got = "";
+    const s = connect(port, "127.0.0.1", () => s.write(text));
+    s.on("data", (d) => (got += d));
+    s.on("close", () => resolve(got));
+    s.on("error", () => resolve(got));
+    s.setTimeout(5000, () => s.destroy());
+  });
+}
+
+/** A TCP relay to MariaDB that the test can cut (refusing and dropping connections) and restore. */
+class DatabaseRelay {
+  private server: Server | undefined;
+  private sockets = new Set<Socket>();
+  constructor(
+    readonly port: number,
+    private target: { host: string; port: number },
+  ) {}
+  async up() {
+    if (this.server) return;
+    this.server = createServer((client) => {
+      const upstream = connect(this.target.port, this.target.host);
+      for (const s of [client, upstream]) {
+        this.sockets.add(s);
+        s.on("close", () => this.sockets.delete(s));
+        s.on("error", () => {});
+      }
+      client.pipe(upstream).pipe(client);
+      client.on("close", () => upstream.destroy());
+      upstream.on("close", () => client.destroy());
+    });
+    await new Promise<void>((r) => this.server!.listen(this.port, "127.0.0.1", () => r()));
+  }
+  async down() {
+    for (const s of this.sockets) s.destroy();
+    await new Promise((r) => (this.server ? this.server.close(r) : r(null)));
+    this.server = undefined;
+  }
+}
+
+describe("no request stops the server (issue 9 item 1)", () => {
+  it("answers 400 to bad percent-encoding on a file path, GET and HEAD, and keeps serving", async () => {
+    const bad = await fetch(`${baseUrl}/%E0%A4%A.js`);
+    expect(bad.status).toBe(400);
+    const head = await fetch(`${baseUrl}/%zz.css`, { method: "HEAD" });
+    expect(head.status).toBe(400);
+    // The same on an API path is JSON, as every API error is.
+    const api = await fetch(`${baseUrl}/api/%zz.json`);
+    expect(api.status).toBe(400);
+    expect(await api.json()).toEqual({ error: expect.any(String) });
+    expect((await fetch(`${baseUrl}/healthz`)).status).toBe(200);
+  });
+
+  it("answers 400 to a bad Host header, a path that is not a path, and malformed HTTP, and keeps serving", async () => {
+    const port = Number(new URL(baseUrl).port);
+    expect(await rawHttp(port, "GET /login HTTP/1.1\r\nHost: bad host name\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
+    expect(await rawHttp(port, "GET http://elsewhere.example/login HTTP/1.1\r\nHost: 127.0.0.1\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
+    expect(await rawHttp(port, "GARBAGE\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
+    // RFC 9112 §3.2: a request without Host is a 400.
+    expect(await rawHttp(port, "GET /login HTTP/1.1\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
+    // A doubled slash is a path on this host, never a request for another host.
+    const dbl = await fetch(`${baseUrl}//elsewhere.example/login`, { redirect: "manual" });
+    expect(dbl.status).toBe(404);
+    expect((await fetch(`${baseUrl}/healthz`)).status).toBe(200);
+  });
+});
+
+describe("every Set-Cookie reaches the client (issue 9 item 7)", () => {
+  it("GET /auth/csrf sets both Auth.js cookies", async () => {
+    const res = await fetch(`${baseUrl}/auth/csrf`);
+    expect(res.status).toBe(200);
+    const names = res.headers.getSetCookie().map((c) => c.split("=")[0]);
+    expect(names).toEqual(expect.arrayContaining(["authjs.csrf-token", "authjs.callback-url"]));
+  });
+});
+
+describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prevention Cheat Sheet)", () => {
+  it("refuses POST /logout from another site by Sec-Fetch-Site, Referer, Origin or no sign at all; the session survives", async () => {
+    const cookie = await signIn(baseUrl, "tech@tinderbox.example");
+    const attempts: Record<string, string>[] = [
+      { "sec-fetch-site": "cross-site" },
+      { "sec-fetch-site": "same-site" },
+      { referer: "https://elsewhere.example/page" },
+      { origin: "https://elsewhere.example" },
+      { origin: "null" },
+      {},
+    ];
+    for (const headers of attempts) {
+      const res = await fetch(`${baseUrl}/logout`, { method: "POST", headers: { cookie, ...headers }, redirect: "manual" });
+      expect(res.status, JSON.stringify(headers)).toBe(403);
+      expect(await res.json()).toEqual({ error: "Cross-site requests are refused." });
+    }
+    const still = await fetch(`${baseUrl}/calls`, { headers: { cookie }, redirect: "manual" });
+    expect(still.status).toBe(200);
+
+    // From our own page (same-origin Fetch Metadata, or our Referer) it works and ends the session.
+    const out = await fetch(`${baseUrl}/logout`, { method: "POST", headers: { cookie, "sec-fetch-site": "same-origin" }, redirect: "manual" });
+    expect(out.status).toBe(302);
+    const after = await fetch(`${baseUrl}/calls`, { headers: { cookie }, redirect: "manual" });
+    expect(after.status).toBe(302);
+  });
+
+  it("refuses a cross-site UI action and a cross-site API call before any route runs", async () => {
+    const cookie = await signIn(baseUrl, "lead@tinderbox.example");
+    const ui = await fetch(`${baseUrl}/calls/new`, {
+      method: "POST",
+      headers: { cookie, "sec-fetch-site": "cross-site", "content-type": "application/x-www-form-urlencoded" },
+      body: "symptom=made+by+another+site",
+      redirect: "manual",
+    });
+    expect(ui.status).toBe(403);
+    const api = await fetch(`${baseUrl}/api/trees`, { method: "POST", headers: { cookie, referer: "https://elsewhere.example/" }, body: "{}" });
+    expect(api.status).toBe(403);
+    expect(await api.json()).toEqual({ error: "Cross-site requests are refused." });
+  });
+});
+
+describe("page security headers (issue 9 item 8)", () => {
+  it("every page has a CSP whose nonce is on every script and new on every response", async () => {
+    const nonces: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      const res = await fetch(`${baseUrl}/login`);
+      const csp = res.headers.get("content-security-policy") ?? "";
+      // OWASP CSP Cheat Sheet: nonce-based script-src, object-src 'none', base-uri, frame-ancestors 'none'.
+      expect(csp).toMatch(/script-src 'self' 'nonce-[A-Za-z0-9+/=]{22,}'/);
+      expect(csp).toContain("frame-ancestors 'none'");
+      expect(csp).toContain("object-src 'none'");
+      expect(csp).not.toMatch(/script-src[^;]*'unsafe-inline'/);
+      const nonce = /'nonce-([^']+)'/.exec(csp)![1]!;
+      const html = await res.text();
+      const scripts = html.match(/<script\b[^>]*>/g) ?? [];
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const tag of scripts) expect(tag).toContain(`nonce="${nonce}"`);
+      nonces.push(nonce);
+    }
+    expect(nonces[0]).not.toBe(nonces[1]);
+  });
+
+  it("allows the camera on the runner only; no HSTS over plain HTTP", async () => {
+    const login = await fetch(`${baseUrl}/login`);
+    expect(login.headers.get("permissions-policy")).toContain("camera=()");
+    expect(login.headers.get("strict-transport-security")).toBeNull();
+    const runner = await fetch(`${baseUrl}/runs/00000000-0000-0000-0000-000000000000`, { redirect: "manual" });
+    expect(runner.headers.get("permissions-policy")).toContain("camera=(self)");
+    expect(runner.headers.get("permissions-policy")).toContain("microphone=()");
+    const api = await fetch(`${baseUrl}/api/trees`);
+    expect(api.headers.get("content-security-policy")).toBe("default-src 'none'; frame-ancestors 'none'");
+    expect(api.headers.get("x-content-type-options")).toBe("nosniff");
+  });
+
+  it("pages hydrate and run under the CSP with no violation (Chromium)", async () => {
+    let browser: Browser | undefined;
+    try {
+      browser = await launchBrowser();
+      const violations: string[] = [];
+      const problems: string[] = [];
+      for (const [email, size, paths] of [
+        ["tech@tinderbox.example", PHONE, ["/calls", "/calls/all", "/trees"]],
+        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox"]],
+      ] as const) {
+        const context = await browser.newContext({ viewport: size });
+        await context.addInitScript(() => {
+          document.addEventListener("securitypolicyviolation", (e) => {
+            (window as unknown as { __csp: string[] }).__csp ??= [];
+            (window as unknown as { __csp: string[] }).__csp.push(`${e.violatedDirective} ${e.blockedURI}`);
+          });
+        });
+        const page = await context.newPage();
+        page.on("pageerror", (e) => problems.push(e.message));
+        page.on("console", (m) => {
+          if (m.type() === "error" && /Content Security Policy|hydrat/i.test(m.text())) problems.push(m.text().slice(0, 300));
+        });
+        await signInAs(page, baseUrl, email);
+        await page.waitForURL((u) => !u.pathname.startsWith("/login"));
+        for (const path of paths) {
+          await page.goto(`${baseUrl}${path}`);
+          await page.waitForLoadState("networkidle");
+          // Hydrated: React Router's client router is running (it only starts when its scripts ran).
+          await page.waitForFunction(() => Boolean((window as unknown as { __reactRouterRouteModules?: unknown }).__reactRouterRouteModules));
+          violations.push(...(await page.evaluate(() => (window as unknown as { __csp?: string[] }).__csp ?? [])).map((v) => `${path}: ${v}`));
+        }
+        await page.screenshot({ path: screenshotPath(`server-csp-${email.split("@")[0]}`) });
+        await context.close();
+      }
+      expect(violations).toEqual([]);
+      expect(problems).toEqual([]);
+    } finally {
+      await browser?.close();
+    }
+  });
+});
+
+describe("HSTS behind a TLS proxy, request ids and the request log (issue 9 item 8, 'keep it so')", () => {
+  let server: Started;
+  beforeAll(async () => {
+    server = await startServer({ TRUST_PROXY: "1" });
+  });
+  afterAll(() => server?.stop());
+
+  it("sends HSTS when the trusted proxy says the client came over https (RFC 6797 §7.2: never over plain HTTP)", async () => {
+    const tls = await fetch(`${server.url}/login`, { headers: { "x-forwarded-proto": "https" } });
+    expect(tls.headers.get("strict-transport-security")).toMatch(/^max-age=\d{7,}/);
+    const plain = await fetch(`${server.url}/login`);
+    expect(plain.headers.get("strict-transport-security")).toBeNull();
+    // Without TRUST_PROXY the same header is ignored (the shared test server runs without it).
+    const untrusted = await fetch(`${baseUrl}/login`, { headers: { "x-forwarded-proto": "https" } });
+    expect(untrusted.headers.get("strict-transport-security")).toBeNull();
+  });
+
+  it("a same-origin POST behind the proxy is judged against the https origin the browser saw", async () => {
+    const host = new URL(server.url).host;
+    const res = await fetch(`${server.url}/logout`, { method: "POST", headers: { "x-forwarded-proto": "https", origin: `https://${host}` }, redirect: "manual" });
+    expect(res.status).toBe(302);
+    const wrong = await fetch(`${server.url}/logout`, { method: "POST", headers: { "x-forwarded-proto": "https", origin: `http://${host}` }, redirect: "manual" });
+    expect(wrong.status).toBe(403);
+  });
+
+  it("logs one JSON line per request with method, route pattern, status, time and the id sent back; no secrets", async () => {
+    const cookie = await signIn(server.url, "tech@tinderbox.example");
+    const token = "invite-token-that-must-not-be-logged-7f3a";
+    const res = await fetch(`${server.url}/invite/${token}?code=query-secret-91`, { headers: { cookie, authorization: "Bearer header-secret-55" } });
+    const id = res.headers.get("x-request-id");
+    expect(id).toMatch(/^[0-9a-f-]{36}$/);
+    // A trusted proxy's id is kept, so one id follows the request through both.
+    const proxied = await fetch(`${server.url}/healthz`, { headers: { "x-request-id": "lb-0001-abcdef" } });
+    expect(proxied.headers.get("x-request-id")).toBe("lb-0001-abcdef");
+    await new Promise((r) => setTimeout(r, 300));
+    const lines = server
+      .output()
+      .split("\n")
+      .filter((l) => l.startsWith("{"))
+      .map((l) => JSON.parse(l) as Record<string, unknown>);
+    const line = lines.find((l) => l.reqId === id && l.msg === "request");
+    expect(line).toMatchObject({ method: "GET", route: "/invite/:token", status: res.status });
+    expect(typeof line!.ms).toBe("number");
+    expect(lines.some((l) => l.reqId === "lb-0001-abcdef")).toBe(true);
+    const login = lines.find((l) => l.msg === "request" && l.method === "POST" && l.route === "/login");
+    expect(login).toMatchObject({ status: 302 });
+    const all = server.output();
+    for (const secret of [token, "query-secret-91", "header-secret-55", DEMO_PASSWORD, cookie.split("=")[1]!.slice(0, 40)]) expect(all).not.toContain(secret);
+  });
+});
+
+describe("a database outage answers 503 and recovers without a restart (issue 9 item 5)", () => {
+  let relay: DatabaseRelay;
+  let server: Started;
+  beforeAll(async () => {
+    const target = new URL(dbUrl);
+    relay = new DatabaseRelay(await freePort(), { host: target.hostname, port: Number(target.port) });
+    await relay.up();
+    const viaRelay = new URL(dbUrl);
+    viaRelay.port = String(relay.port);
+    server = await startServer({ DATABASE_URL: viaRelay.toString(), DB_ACQUIRE_TIMEOUT_MS: "1500" });
+  });
+  afterEach(() => relay.up()); // a failed check must not leave the next one without a database
+  afterAll(async () => {
+    await server?.stop();
+    await relay?.down();
+  });
+
+  it("pages say so in the user's words, API routes answer JSON {error, code}, and all is well once the database is back", async () => {
+    const cookie = await signIn(server.url, "lead@tinderbox.example");
+    expect((await fetch(`${server.url}/trees`, { headers: { cookie } })).status).toBe(200);
+
+    await relay.down();
+    const page = await fetch(`${server.url}/trees`, { headers: { cookie } });
+    expect(page.status).toBe(503);
+    expect(page.headers.get("content-type")).toContain("text/html");
+    const html = await page.text();
+    expect(html).toContain("Cluepath can&#x27;t reach its database; what you typed is kept — try again in a minute.");
+
+    const api = await fetch(`${server.url}/api/trees`, { headers: { cookie } });
+    expect(api.status).toBe(503);
+    expect(await api.json()).toEqual({ error: "Cluepath can't reach its database; what you typed is kept — try again in a minute.", code: "db_unavailable" });
+
+    // A page's form post answers the same page; a resource route's post (sign-out) the JSON.
+    const form = await fetch(`${server.url}/calls/new`, {
+      method: "POST",
+      headers: { cookie, origin: server.url, "content-type": "application/x-www-form-urlencoded" },
+      body: "symptom=no+heat",
+      redirect: "manual",
+    });
+    expect(form.status).toBe(503);
+    expect(await form.text()).toContain("Cluepath can&#x27;t reach its database");
+    const out = await fetch(`${server.url}/logout`, { method: "POST", headers: { cookie, origin: server.url }, redirect: "manual" });
+    expect(out.status).toBe(503);
+    expect(await out.json()).toMatchObject({ code: "db_unavailable" });
+    expect((await fetch(`${server.url}/healthz`)).status).toBe(503);
+
+    await relay.up();
+    let back = 0;
+    for (let i = 0; i < 20 && back !== 200; i++) {
+      back = (await fetch(`${server.url}/trees`, { headers: { cookie } })).status;
+      if (back !== 200) await new Promise((r) => setTimeout(r, 250));
+    }
+    expect(back).toBe(200);
+    expect((await fetch(`${server.url}/api/trees`, { headers: { cookie } })).status).toBe(200);
+    expect(server.child.exitCode).toBeNull();
+  });
+
+  it("shows the outage page in a browser", async () => {
+    const browser = await launchBrowser();
+    try {
+      const context = await browser.newContext({ viewport: PHONE });
+      const page = await context.newPage();
+      await signInAs(page, server.url, "lead@tinderbox.example");
+      await page.waitForURL(`${server.url}/authoring`);
+      await relay.down();
+      const res = await page.goto(`${server.url}/trees`);
+      expect(res?.status()).toBe(503);
+      await page.getByRole("heading", { level: 1, name: "Can't reach the database" }).waitFor();
+      await page.screenshot({ path: screenshotPath("server-db-outage-phone") });
+      await relay.up();
+      await page.getByRole("link", { name: "Try again" }).click();
+      await page.waitForURL(`${server.url}/trees`);
+      await page.getByRole("heading", { level: 1 }).filter({ hasNotText: "Can't reach the database" }).waitFor();
+      await context.close();
+    } finally {
+      await browser.close();
+    }
+  });
+});
+
+describe("configuration is checked at boot (issue 8 item 8)", () => {
+  it("a bad value stops the start with a message naming the variable", async () => {
+    for (const [name, value] of [
+      ["PORT", "eighty"],
+      ["TRUST_PROXY", "yes"],
+      ["DATABASE_URL", "postgres://127.0.0.1/cluepath"],
+      ["DB_ACQUIRE_TIMEOUT_MS", "-5"],
+    ] as const) {
+      const { code, output } = await bootFails({ [name]: value });
+      expect(code, output).toBe(1);
+      expect(output).toContain(`${name}:`);
+    }
+  });
+
+  it("production without AUTH_SECRET does not start", async () => {
+    const { code, output } = await bootFails({ AUTH_SECRET: "" });
+    expect(code).toBe(1);
+    expect(output).toContain("AUTH_SECRET:");
+  });
+});
