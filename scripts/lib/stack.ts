@@ -173,7 +173,7 @@ export class Stack {
       writeFileSync(buildLog, r.stdout + r.stderr);
     } catch (e) {
       const err = e as { stdout?: string; stderr?: string };
-      throw new Error(`the production build failed:\n${err.stdout ?? ""}${err.stderr ?? ""}`);
+      throw new Error(`the production build failed:\n${err.stdout ?? ""}${err.stderr ?? ""}`, { cause: e });
     }
     this.buildDir = out;
     log(`production build${projectDir === ROOT ? "" : " (the app plus the harness's own routes)"} in ${((Date.now() - started) / 1000).toFixed(1)} s`);
