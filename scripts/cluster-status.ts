@@ -1,6 +1,6 @@
 // What `scripts/cluster status` prints, and the probes the cluster tests share: each Galera node's
 // wsrep state, each app server's /healthz, and HAProxy's view of the app servers (its stats socket).
-//   npx tsx scripts/cluster-status.ts .data/cluster/cluster.json
+//   npx tsx scripts/cluster-status.ts [--wait SECONDS] .data/cluster/cluster.json
 import { readFileSync } from "node:fs";
 import { connect } from "node:net";
 import { fileURLToPath } from "node:url";
@@ -89,7 +89,8 @@ export async function haproxyServers(socket: string): Promise<ServerStat[]> {
     }));
 }
 
-export async function statusText(layout: Layout): Promise<string> {
+/** The status as printed, and whether everything is up: every node synced, every app server UP in HAProxy. */
+export async function clusterStatus(layout: Layout): Promise<{ text: string; healthy: boolean }> {
   const out: string[] = [];
   const nodes = await Promise.all(layout.nodes.map(async (n) => ({ n, s: await nodeStatus(n.port) })));
   const sizes = nodes.flatMap(({ s }) => (s.up && s.wsrep ? [s.clusterSize] : []));
@@ -119,10 +120,22 @@ export async function statusText(layout: Layout): Promise<string> {
     const health = h.status ? `healthz ${h.status} ${h.body}` : `down (${h.body})`;
     out.push(`  ${a.name.padEnd(7)} 127.0.0.1:${a.port} → ${node.padEnd(6)} ${health}${seen ? `; HAProxy: ${seen.status}` : ""}`);
   }
-  return out.join("\n");
+  const healthy =
+    nodes.every(({ s }) => s.up && (!s.wsrep || (s.state === "Synced" && s.clusterStatus === "Primary"))) && !lbError && lb.every((s) => s.status === "UP");
+  return { text: out.join("\n"), healthy };
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const file = process.argv[2] ?? ".data/cluster/cluster.json";
-  console.log(await statusText(readLayout(file)));
+  // [--wait SECONDS] FILE: with --wait, polls until everything is up (scripts/cluster start uses it).
+  const args = process.argv.slice(2);
+  const wait = args[0] === "--wait" ? Number(args[1]) : 0;
+  const layout = readLayout(args[wait ? 2 : 0] ?? ".data/cluster/cluster.json");
+  const until = Date.now() + wait * 1000;
+  let status = await clusterStatus(layout);
+  while (!status.healthy && Date.now() < until) {
+    await new Promise((r) => setTimeout(r, 250));
+    status = await clusterStatus(layout);
+  }
+  console.log(status.text);
+  if (!status.healthy) process.exitCode = 3;
 }
