@@ -9,8 +9,10 @@ import mysql from "mysql2/promise";
 import { memberships, users } from "../../db/schema";
 import { DEMO_PASSWORD, DEMO_SHOP } from "../../db/demo";
 import { stableId } from "../../db/seed";
+import type { LogEntry } from "../../app/engine/traversal";
 import { hashPassword } from "../../app/lib/password.server";
 import { dbUrl, readLayout, type Layout } from "../../scripts/cluster-status";
+import { ROTISSERIE_TO_CAPACITOR } from "../support/trees";
 
 export const SHOP = stableId(DEMO_SHOP.key);
 export const ROTISSERIE_UNIT = stableId("unit:larkspur-rotisserie");
@@ -80,12 +82,7 @@ export async function addTechnicians(setup: Setup, count: number, prefix: string
 
 // --- the walk ------------------------------------------------------------------------------------
 
-export type Entry =
-  | { type: "acknowledge"; node: string }
-  | { type: "reading"; node: string; reading: string }
-  | { type: "nameplate"; node: string; value: string }
-  | { type: "answer"; node: string; answer: string }
-  | { type: "undo" };
+export type Entry = LogEntry;
 
 /**
  * The rotisserie call as a technician walks it (trees/rotisserie-uneven-heat.md): three cautions,
@@ -95,13 +92,7 @@ export type Entry =
  */
 export function rotisserieWalk(extra: number): Entry[] {
   const walk: Entry[] = [
-    { type: "acknowledge", node: "lockout" },
-    { type: "acknowledge", node: "discharge-caps" },
-    { type: "acknowledge", node: "live-test" },
-    { type: "reading", node: "supply-voltage", reading: "208 V" },
-    { type: "answer", node: "fans", answer: "one slow" },
-    { type: "acknowledge", node: "cap-lockout" },
-    { type: "nameplate", node: "cap-rating", value: "1.5 µF" },
+    ...ROTISSERIE_TO_CAPACITOR,
     { type: "reading", node: "cap-measure", reading: "1.47 µF" },
     { type: "undo" },
     { type: "reading", node: "cap-measure", reading: "1470 nF" },
