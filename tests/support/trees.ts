@@ -1,7 +1,20 @@
 // A small tree used by the authoring tests: question → measurement → two outcomes.
 // 1.5 µF ± 6 %: a fan-motor run capacitor and the field rule for replacing one (REFERENCES.md,
 // trade practice / common practice).
+import type { LogEntry } from "../../app/engine/traversal";
 import type { Tree } from "../../app/engine/types";
+
+/** trees/rotisserie-uneven-heat.md walked to the capacitor measurement: three cautions, 208 V
+ * across L1–L2, one fan slow, the capacitor's caution, its rating 1.5 µF. */
+export const ROTISSERIE_TO_CAPACITOR: LogEntry[] = [
+  { type: "acknowledge", node: "lockout" },
+  { type: "acknowledge", node: "discharge-caps" },
+  { type: "acknowledge", node: "live-test" },
+  { type: "reading", node: "supply-voltage", reading: "208 V" },
+  { type: "answer", node: "fans", answer: "one slow" },
+  { type: "acknowledge", node: "cap-lockout" },
+  { type: "nameplate", node: "cap-rating", value: "1.5 µF" },
+];
 
 export function smallTree(title = "Fan hums but won't turn"): Tree {
   return {

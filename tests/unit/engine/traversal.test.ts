@@ -4,6 +4,7 @@ import { readFileSync } from "node:fs";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { replay, startRun, tryEntry, type LogEntry } from "../../../app/engine/traversal";
 import type { Tree, TreeNode } from "../../../app/engine/types";
+import { ROTISSERIE_TO_CAPACITOR } from "../../support/trees";
 
 function load(file: string): Tree {
   const r = parseTree(readFileSync(new URL(`../../../trees/${file}`, import.meta.url), "utf8"));
@@ -13,15 +14,7 @@ function load(file: string): Tree {
 const rotisserie = load("rotisserie-uneven-heat.md");
 
 // The path a later browser test walks on tree (1).
-const TO_CAPACITOR: LogEntry[] = [
-  { type: "acknowledge", node: "lockout" },
-  { type: "acknowledge", node: "discharge-caps" },
-  { type: "acknowledge", node: "live-test" },
-  { type: "reading", node: "supply-voltage", reading: "208 V" },
-  { type: "answer", node: "fans", answer: "one slow" },
-  { type: "acknowledge", node: "cap-lockout" },
-  { type: "nameplate", node: "cap-rating", value: "1.5 µF" },
-];
+const TO_CAPACITOR = ROTISSERIE_TO_CAPACITOR;
 
 describe("tree (1): two-fan rotisserie, 208 V unit", () => {
   it("walks cautions → L1–L2 supply → fans → rated µF → capacitor → root cause", () => {
