@@ -18,6 +18,7 @@ import ReactFlow, {
   type NodeProps,
 } from "reactflow";
 import "reactflow/dist/style.css";
+import { Field } from "~/components/Field";
 import { branchName, nodeBranches } from "~/engine/graph";
 import { possibleVerdicts } from "~/engine/limits";
 import type { Tree, TreeNode } from "~/engine/types";
@@ -212,11 +213,7 @@ function NewAnswer({ pending, tree, dispatch, onDone }: { pending: { from: strin
       <p className="text-base">
         A new answer to ‘{from?.title}’, leading to ‘{to?.title}’.
       </p>
-      <label className="field-label" htmlFor="canvas-new-answer">
-        Answer text
-      </label>
-      <input id="canvas-new-answer" autoFocus className="field-input" value={label} onChange={(e) => setLabel(e.target.value)} />
-      {taken && <p className="field-error">That answer is already there.</p>}
+      <Field label="Answer text" name="answer-text" autoFocus value={label} onChange={(e) => setLabel(e.target.value)} error={taken ? "That answer is already there." : undefined} />
       <div className="flex gap-2">
         <button className="btn-primary min-h-10 px-3 text-base" disabled={!label.trim() || taken}>
           Add answer
