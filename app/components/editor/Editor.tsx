@@ -3,6 +3,7 @@
 // the browser only; everything else renders on the server too. This file lays the panes out; the
 // hooks beside it keep the state (useAutosave, useChecks, useConflict, useSelection).
 import { lazy, Suspense, useReducer, useState, type ReactNode } from "react";
+import { Announcer } from "~/components/Announcer";
 import type { Tree } from "~/engine/types";
 import { uploadImage, type Validation } from "./api";
 import { draftReducer, initDraft, type Layout } from "./draft";
@@ -42,7 +43,7 @@ export function Editor(props: EditorProps) {
   const save = useAutosave(treeId, versionId, state, props.revision);
   const { checks, checking, marks, blocked, stale } = useChecks(treeId, state.tree, save, props);
   const conflict = useConflict(treeId, state, dispatch, save, () => setFormEpoch((e) => e + 1));
-  const view = useSelection(dispatch);
+  const view = useSelection(state.tree, dispatch);
   const { pane, setPane, centerView } = view;
   const selectedNode = state.tree.nodes.find((n) => n.id === state.selected) ?? null;
   const upload = (file: File) => uploadImage(treeId, file);
@@ -53,10 +54,15 @@ export function Editor(props: EditorProps) {
     </button>
   );
   const showCenter = pane === "outline" || pane === "canvas";
+  // Past the canvas's many Tab stops, to the node form (on a phone, its tab).
+  const skipCanvas = () => {
+    setPane("node");
+    requestAnimationFrame(() => document.getElementById("pane-node")?.focus());
+  };
 
   return (
     <div className="flex min-h-dvh flex-col lg:h-dvh">
-      <EditorHeader treeId={treeId} title={state.tree.title} nextNumber={props.nextNumber} basedOn={props.basedOn} save={save} blocked={blocked} publishError={props.publishError} />
+      <EditorHeader treeId={treeId} tree={state.tree} nextNumber={props.nextNumber} basedOn={props.basedOn} save={save} blocked={blocked} publishError={props.publishError} />
       <SaveProblems save={save} conflict={conflict} tree={state.tree} />
 
       <div role="tablist" aria-label="Editor panes" className="flex gap-1 border-b border-rule bg-card px-2 py-1 lg:hidden">
@@ -66,7 +72,7 @@ export function Editor(props: EditorProps) {
         {tab("canvas", "Canvas")}
       </div>
 
-      <div className="grid min-h-0 flex-1 lg:grid-cols-[17rem_minmax(0,1fr)_27rem]">
+      <main className="grid min-h-0 flex-1 lg:grid-cols-[17rem_minmax(0,1fr)_27rem]">
         <aside id="pane-checks" className={`${pane === "checks" ? "block" : "hidden"} space-y-6 overflow-y-auto p-3 lg:block lg:border-r lg:border-rule`}>
           <Findings findings={checks.findings} tree={state.tree} stale={stale} onGo={(id) => view.open(id)} />
           <div className="hidden lg:block">
@@ -74,10 +80,10 @@ export function Editor(props: EditorProps) {
           </div>
         </aside>
 
-        <section id={`pane-${centerView}`} aria-label={centerView === "canvas" ? "Canvas" : "Outline"} className={`${showCenter ? "flex" : "hidden"} min-h-0 flex-col lg:flex`}>
+        <section id={`pane-${centerView}`} tabIndex={-1} aria-label={centerView === "canvas" ? "Canvas" : "Outline"} className={`${showCenter ? "flex" : "hidden"} min-h-0 flex-col outline-none lg:flex`}>
           <div className="hidden gap-1 border-b border-rule px-3 py-2 lg:flex" role="group" aria-label="How to show the draft">
             {(["canvas", "outline"] as const).map((v) => (
-              <button key={v} type="button" aria-pressed={view.wideView === v} className={`min-h-10 rounded-lg px-3 font-semibold ${view.wideView === v ? "bg-copper-soft text-copper-dark" : ""}`} onClick={() => view.setWideView(v)}>
+              <button key={v} type="button" aria-pressed={view.wideView === v} className={`min-h-11 rounded-lg px-3 font-semibold ${view.wideView === v ? "bg-copper-soft text-copper-dark" : ""}`} onClick={() => view.setWideView(v)}>
                 {v === "canvas" ? "Canvas" : "Outline"}
               </button>
             ))}
@@ -90,7 +96,8 @@ export function Editor(props: EditorProps) {
               </div>
             </div>
           ) : (
-            <div className="h-[70dvh] min-h-[28rem] lg:h-auto lg:flex-1">
+            <div className="relative h-[70dvh] min-h-[28rem] lg:h-auto lg:flex-1">
+              <SkipCanvas onSkip={skipCanvas} />
               {view.mounted ? (
                 <Suspense fallback={<p className="p-4 text-ink-soft">Loading the canvas…</p>}>
                   <Canvas tree={state.tree} layout={state.layout} selected={state.selected} marks={marks} dispatch={view.act} onOpen={(id) => view.open(id)} />
@@ -102,14 +109,14 @@ export function Editor(props: EditorProps) {
           )}
         </section>
 
-        <aside id="pane-node" className={`${pane === "node" ? "block" : "hidden"} overflow-y-auto border-rule p-3 lg:block lg:border-l`}>
+        <aside id="pane-node" tabIndex={-1} aria-label={selectedNode ? "Node" : "Tree details"} className={`${pane === "node" ? "block" : "hidden"} overflow-y-auto border-rule p-3 outline-none lg:block lg:border-l`}>
           {selectedNode ? (
             <div className="space-y-3">
               <div className="flex flex-wrap gap-2">
-                <button type="button" className="btn-quiet min-h-10 px-3 text-base lg:hidden" onClick={() => setPane("outline")}>
+                <button type="button" className="btn-quiet min-h-11 px-3 text-base lg:hidden" onClick={() => setPane("outline")}>
                   ← Outline
                 </button>
-                <button type="button" className="btn-quiet min-h-10 px-3 text-base" onClick={() => dispatch({ type: "select", id: null })}>
+                <button type="button" className="btn-quiet min-h-11 px-3 text-base" onClick={() => dispatch({ type: "select", id: null })}>
                   Tree details
                 </button>
               </div>
@@ -121,13 +128,24 @@ export function Editor(props: EditorProps) {
                 findings={checks.findings.filter((f) => f.nodeId === selectedNode.id)}
                 upload={upload}
                 focusField={view.focusField}
+                onDeleted={view.deleted}
               />
             </div>
           ) : (
             <TreeForm key={formEpoch} tree={state.tree} dispatch={view.act} upload={upload} />
           )}
         </aside>
-      </div>
+      </main>
+      <Announcer />
     </div>
+  );
+}
+
+/** A skip link over the canvas, shown when it has keyboard focus. */
+function SkipCanvas({ onSkip }: { onSkip: () => void }) {
+  return (
+    <button type="button" onClick={onSkip} className="sr-only z-20 rounded-lg bg-ink px-4 py-2 font-semibold text-white focus:not-sr-only focus:absolute focus:left-2 focus:top-14">
+      Skip the canvas: go to the node form
+    </button>
   );
 }

@@ -3,11 +3,12 @@
 import { useEffect, useRef } from "react";
 import { Form, useNavigation } from "react-router";
 import { TextAreaField } from "~/components/FormFields";
-import type { Finding } from "~/engine/types";
+import type { Finding, Tree } from "~/engine/types";
+import { inEditorWords } from "./finding-words";
 
 export type PublishError = { message: string; findings?: Finding[] };
 
-export function PublishButton({ blocked, nextNumber, revision, error }: { blocked: string | null; nextNumber: number; revision: number; error?: PublishError }) {
+export function PublishButton({ blocked, nextNumber, revision, error, tree }: { blocked: string | null; nextNumber: number; revision: number; error?: PublishError; tree: Tree }) {
   const dialog = useRef<HTMLDialogElement>(null);
   const busy = useNavigation().state !== "idle";
   useEffect(() => {
@@ -36,7 +37,7 @@ export function PublishButton({ blocked, nextNumber, revision, error }: { blocke
               {error.findings && (
                 <ul className="list-disc pl-5">
                   {error.findings.map((f, i) => (
-                    <li key={i}>{f.message}</li>
+                    <li key={i}>{inEditorWords(f, tree)}</li>
                   ))}
                 </ul>
               )}

@@ -21,7 +21,7 @@ function SaveState({ run }: { run: RunHandle }) {
   );
 }
 
-export function RunHeader({ run, walking, onHistory }: { run: RunHandle; walking: boolean; onHistory: () => void }) {
+export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
   const { view, state } = run;
   const done = state.steps.length;
   const back = view.call ? `/calls/${view.call.id}` : "/";
@@ -32,7 +32,7 @@ export function RunHeader({ run, walking, onHistory }: { run: RunHandle; walking
           ← {view.call ? `Call ${view.call.number}` : "Back"}
         </a>
         {walking && (
-          <button type="button" onClick={onHistory} className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark" aria-label={`Step ${done + 1}: show the ${done} steps done`}>
+          <button type="button" onClick={onHistory} className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark" aria-expanded={historyOpen} title="Show the steps done">
             Step {done + 1} · <span className="underline">{done} done</span>
           </button>
         )}

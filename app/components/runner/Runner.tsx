@@ -2,6 +2,7 @@
 // and a bottom bar (back, note, photo, more) sized for gloved hands. This file picks the screen
 // for where the run stands and lays it out; each screen, panel and bar has its own file.
 import { useEffect, useRef, useState, type ReactNode } from "react";
+import { Announcer } from "~/components/Announcer";
 import type { OutcomeNode } from "~/engine/types";
 import type { RunView } from "~/models/run-log";
 import { Closed } from "./ends/Closed";
@@ -12,6 +13,7 @@ import { OutcomeScreen } from "./ends/OutcomeScreen";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
+import { useFocusClearOfBar } from "./inView";
 import { Markdown } from "./Markdown";
 import { MorePanel } from "./MorePanel";
 import { NotePanel } from "./NotePanel";
@@ -64,6 +66,9 @@ export function Runner({ initial }: { initial: RunView }) {
     setPanel((p) => (p === "history" || p === "more" ? p : null));
   }, [position]);
 
+  // Keyboard focus never lands under the bottom bar.
+  useFocusClearOfBar();
+
   // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
   useEffect(() => {
     if (panel && panel !== "more") window.scrollTo({ top: 0 });
@@ -71,7 +76,7 @@ export function Runner({ initial }: { initial: RunView }) {
 
   return (
     <div className="flex min-h-dvh flex-col bg-paper">
-      <RunHeader run={run} walking={walking && Boolean(current)} onHistory={() => setPanel(panel === "history" ? null : "history")} />
+      <RunHeader run={run} walking={walking && Boolean(current)} historyOpen={panel === "history"} onHistory={() => setPanel(panel === "history" ? null : "history")} />
       <main className="mx-auto w-full max-w-xl flex-1 space-y-4 px-4 pb-44 pt-3">
         {run.error && (
           <div role="alert" className="flex items-start justify-between gap-3 rounded-xl border-2 border-out bg-out-soft p-3 text-out">
@@ -104,6 +109,7 @@ export function Runner({ initial }: { initial: RunView }) {
       </main>
       {holds && open && panel === "more" && <MorePanel run={run} onPick={setPanel} />}
       {holds && open && <Toolbar run={run} node={shownNode} panel={panel} setPanel={setPanel} />}
+      <Announcer />
     </div>
   );
 }

@@ -1,5 +1,6 @@
 // One screen per kind of step: what the technician reads and the one thing they do next.
-import { useState } from "react";
+import { useEffect, useId, useState } from "react";
+import { announce } from "~/components/Announcer";
 import type { CautionNode, QuestionNode, StepNode, TreeNode } from "~/engine/types";
 import { Markdown } from "./Markdown";
 import { MeasurementInput, NameplateInput } from "./Reading";
@@ -16,46 +17,58 @@ export const KIND_LABEL: Record<TreeNode["kind"], string> = {
   escalate: "Hand over",
 };
 
-function Refusal({ message }: { message: string | null }) {
-  return message ? (
-    <p className="field-error" role="alert">
-      {message}
-    </p>
-  ) : null;
+/** A refused entry: shown under the control and said aloud at once. */
+function useRefusal() {
+  const [refused, setRefused] = useState<string | null>(null);
+  const refuse = (message: string | null) => {
+    setRefused(message);
+    if (message) announce(message, "assertive");
+  };
+  const shown = refused ? <p className="field-error">{refused}</p> : null;
+  return [shown, refuse] as const;
 }
 
+/** False for a moment after a screen appears: a double tap meant for the last screen does nothing here. */
+function useSettled(ms = 600) {
+  const [settled, setSettled] = useState(false);
+  useEffect(() => {
+    const t = setTimeout(() => setSettled(true), ms);
+    return () => clearTimeout(t);
+  }, [ms]);
+  return settled;
+}
+
+/** A caution: its hazard's wording, then one large control that says what it acknowledges. */
 function CautionScreen({ node, run }: { node: CautionNode; run: RunHandle }) {
-  const [checked, setChecked] = useState(false);
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
+  const settled = useSettled();
   const hazard = node.hazard ?? "other";
+  const safetyId = useId();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-      <section className="rounded-xl border-2 border-out bg-out-soft p-4 text-ink" aria-label="Safety">
+      <section id={safetyId} className="rounded-xl border-2 border-out bg-out-soft p-4 text-ink" aria-label="Safety">
         <p className="text-lg font-bold text-out">⚠ {HAZARD_TITLE[hazard]}</p>
         <p className="mt-1 text-lg">{HAZARD_WORDING[hazard]}</p>
         <p className="mt-2 text-base">{DEFER_WORDING}</p>
       </section>
-      <label className="flex min-h-16 cursor-pointer items-center gap-4 rounded-xl border-2 border-ink bg-card px-4 text-lg font-semibold">
-        <input type="checkbox" className="h-8 w-8 shrink-0 accent-copper" checked={checked} onChange={(e) => setChecked(e.target.checked)} />
-        I have read this and made the work safe
-      </label>
       <button
         type="button"
-        className="btn-primary min-h-16 w-full text-xl"
-        disabled={!checked}
-        onClick={() => setRefused(run.submit({ type: "acknowledge", node: node.id }))}
+        className="block min-h-20 w-full rounded-xl bg-copper px-4 py-3 text-left text-white hover:bg-copper-dark"
+        disabled={!settled}
+        aria-describedby={safetyId}
+        onClick={() => refuse(run.submit({ type: "acknowledge", node: node.id }))}
       >
-        Continue
+        <span className="block text-xl font-bold leading-tight">I have read this and made the work safe</span>
+        <span className="mt-1 block text-base font-normal">Acknowledges the caution ‘{HAZARD_TITLE[hazard]}’ and goes on</span>
       </button>
-      {!checked && <p className="text-center text-base text-ink-soft">Tick the box to continue.</p>}
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }
 
 function QuestionScreen({ node, run }: { node: QuestionNode; run: RunHandle }) {
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
@@ -65,26 +78,26 @@ function QuestionScreen({ node, run }: { node: QuestionNode; run: RunHandle }) {
             key={a.label}
             type="button"
             className="min-h-16 w-full rounded-xl border-2 border-ink bg-card px-4 py-3 text-left text-xl font-bold text-ink hover:bg-copper-soft active:bg-copper-soft"
-            onClick={() => setRefused(run.submit({ type: "answer", node: node.id, answer: a.label }))}
+            onClick={() => refuse(run.submit({ type: "answer", node: node.id, answer: a.label }))}
           >
             {a.label.charAt(0).toUpperCase() + a.label.slice(1)}
           </button>
         ))}
       </div>
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }
 
 function InstructionScreen({ node, run }: { node: StepNode; run: RunHandle }) {
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-      <button type="button" className="btn-primary min-h-16 w-full text-xl" onClick={() => setRefused(run.submit({ type: "continue", node: node.id }))}>
+      <button type="button" className="btn-primary min-h-16 w-full text-xl" onClick={() => refuse(run.submit({ type: "continue", node: node.id }))}>
         Done — next step
       </button>
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }

@@ -1,5 +1,6 @@
 // The bottom bar, sized for gloved hands: undo, note, photo (the camera) and the More menu.
 import type { TreeNode } from "~/engine/types";
+import { TOOLBAR_ID } from "./inView";
 import { MAX_PHOTO_MB } from "./limits";
 import type { RunHandle } from "./useRun";
 
@@ -10,7 +11,7 @@ export function Toolbar({ run, node, panel, setPanel }: { run: RunHandle; node: 
   const canUndo = run.state.steps.length > 0;
   const btn = "flex min-h-14 flex-1 flex-col items-center justify-center rounded-lg text-base font-bold";
   return (
-    <nav aria-label="Run tools" className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-card px-2 pb-[max(0.5rem,env(safe-area-inset-bottom))] pt-2">
+    <nav id={TOOLBAR_ID} aria-label="Run tools" className="fixed inset-x-0 bottom-0 z-20 border-t border-rule bg-card px-2 pb-[max(0.5rem,env(safe-area-inset-bottom))] pt-2">
       <div className="mx-auto flex max-w-xl gap-2">
         <button
           type="button"
@@ -26,7 +27,7 @@ export function Toolbar({ run, node, panel, setPanel }: { run: RunHandle; node: 
         <button type="button" className={`${btn} border-2 ${panel === "note" ? "border-copper bg-copper-soft" : "border-rule"}`} disabled={!node} onClick={() => setPanel(panel === "note" ? null : "note")}>
           Note
         </button>
-        <label className={`${btn} cursor-pointer border-2 border-rule ${!node ? "opacity-60" : ""}`}>
+        <label className={`${btn} cursor-pointer border-2 border-rule has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-offset-2 has-[:focus-visible]:outline-focus ${!node ? "opacity-60" : ""}`}>
           Photo
           <input
             type="file"

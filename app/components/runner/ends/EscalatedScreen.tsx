@@ -2,13 +2,14 @@
 import { History } from "../History";
 import type { RunHandle } from "../useRun";
 import { TakeOver } from "./TakeOver";
+import { EndHeading } from "./EndHeading";
 
 export function EscalatedScreen({ run }: { run: RunHandle }) {
   const e = run.view.escalation;
   return (
     <section className="space-y-3">
       <div className="rounded-xl border-2 border-marginal bg-marginal-soft p-4">
-        <p className="text-base font-semibold uppercase tracking-wide text-marginal">Waiting for a lead</p>
+        <EndHeading kicker="Handed over" title="Waiting for a lead" tone="text-marginal" />
         {e && (
           <p className="text-lg">
             <span className="font-semibold">{e.raisedBy}:</span> {e.reason}

@@ -5,6 +5,7 @@ import { Field, Labelled } from "~/components/Field";
 import type { OutcomeNode } from "~/engine/types";
 import { Markdown } from "../Markdown";
 import type { RunHandle } from "../useRun";
+import { EndHeading } from "./EndHeading";
 
 type PartRow = { partNumber: string; description: string; quantity: string };
 
@@ -36,8 +37,7 @@ export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle
   return (
     <div className="space-y-5">
       <section className="rounded-xl border-2 border-within bg-within-soft p-4">
-        <p className="text-base font-semibold uppercase tracking-wide text-within">Root cause found</p>
-        <p className="text-2xl font-bold">{node.title}</p>
+        <EndHeading kicker="Root cause found" title={node.title} tone="text-within" />
         <p className="mt-2 text-lg">{node.remedy}</p>
         <Markdown blocks={run.view.bodies[node.id]} className="mt-2" />
       </section>

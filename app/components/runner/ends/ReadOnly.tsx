@@ -2,16 +2,14 @@
 import { History } from "../History";
 import type { RunHandle } from "../useRun";
 import { TakeOver } from "./TakeOver";
+import { EndHeading } from "./EndHeading";
 
 export function ReadOnly({ run }: { run: RunHandle }) {
   const at = run.current ?? (run.state.finished ? run.byId.get(run.state.finished.node) : undefined);
   return (
     <section className="space-y-3">
       <div className="card">
-        <p className="text-base text-ink-soft">
-          {run.view.run.technician.name} holds this run{run.view.run.status === "paused" ? " (paused)" : ""}. It stands at:
-        </p>
-        <p className="text-xl font-bold">{at?.title ?? "—"}</p>
+        <EndHeading kicker={`${run.view.run.technician.name} holds this run${run.view.run.status === "paused" ? " (paused)" : ""}. It stands at:`} title={at?.title ?? "—"} caps={false} />
       </div>
       {run.view.viewer.canTakeOver && <TakeOver run={run} />}
       <History run={run} />
