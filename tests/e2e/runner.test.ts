@@ -41,6 +41,8 @@ async function acknowledge(page: Page, title: string, name: string) {
   await expect(smallTargets(page)).resolves.toEqual([]);
   await ack.scrollIntoViewIfNeeded();
   await snap(page, name);
+  // Tapped from wherever the page stands (the tap must not be lost to a scroll on focus).
+  await page.evaluate(() => window.scrollTo(0, 0));
   await ack.click();
 }
 

@@ -7,6 +7,7 @@ import { NodeIdSchema, normaliseBody } from "~/engine/schema";
 import { QUANTITY_INFO, resolveUnit } from "~/engine/units";
 import { HAZARDS, QUANTITIES, VERDICTS, type Finding, type Hazard, type Quantity, type Tree, type TreeNode, type VerdictKind } from "~/engine/types";
 import { Field } from "~/components/Field";
+import { useAsk } from "~/components/useAsk";
 import { AnswersField, BranchField } from "./BranchFields";
 import { BodyField, type UploadImage } from "./BodyField";
 import type { DraftAction } from "./draft";
@@ -265,16 +266,8 @@ function IdField({ node, tree, dispatch }: { node: TreeNode; tree: Tree; dispatc
 
 /** Delete asks first. Focus follows: onto "Keep it" when asked, back to the button when kept. */
 function DeleteNode({ node, dispatch, onDeleted }: { node: TreeNode; dispatch: (a: DraftAction) => void; onDeleted?: (node: TreeNode) => void }) {
-  const [asking, setAsking] = useState(false);
-  const keep = useRef<HTMLButtonElement>(null);
-  const ask = useRef<HTMLButtonElement>(null);
+  const { asking, setAsking, asker: ask, answer: keep } = useAsk();
   const questionId = useId();
-  const wasAsking = useRef(false);
-  useEffect(() => {
-    if (asking) keep.current?.focus();
-    else if (wasAsking.current) ask.current?.focus();
-    wasAsking.current = asking;
-  }, [asking]);
   return (
     <div className="border-t border-rule pt-3">
       {asking ? (

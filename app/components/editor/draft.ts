@@ -149,7 +149,9 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
       }
       const hasStart = tree.nodes.some((n) => n.id === tree.start);
       const next: Tree = { ...tree, nodes, start: hasStart ? tree.start : id };
-      const layout = { ...state.layout, [id]: action.at ?? placeNew(state.layout, action.link?.from) };
+      const parent = action.link ? tree.nodes.find((n) => n.id === action.link!.from) : undefined;
+      const siblings = parent ? nodeBranches(parent).map(({ branch }) => branch.to) : [];
+      const layout = { ...state.layout, [id]: action.at ?? placeNew(state.layout, action.link?.from, siblings) };
       return changed(state, next, layout, action.select === false ? state.selected : id);
     }
     case "update-node": {

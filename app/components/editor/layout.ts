@@ -29,10 +29,20 @@ export function freeSpot(layout: Layout, want: { x: number; y: number }): { x: n
   return { x: want.x, y: Math.max(...ys) + NODE_HEIGHT + GAP_Y };
 }
 
-/** Below its parent (to the right of the branches already placed), or below everything. */
-export function placeNew(layout: Layout, parentId?: string): { x: number; y: number } {
+/**
+ * Below its parent, to the right of the parent's other children already placed (so branches keep
+ * their order left to right and their lines don't cross), or below everything when it has no parent.
+ */
+export function placeNew(layout: Layout, parentId?: string, siblingIds: readonly string[] = []): { x: number; y: number } {
   const parent = parentId ? layout[parentId] : undefined;
-  if (parent) return freeSpot(layout, { x: parent.x, y: parent.y + NODE_HEIGHT + GAP_Y + 10 });
+  if (parent) {
+    const siblings = siblingIds.map((id) => layout[id]).filter((p): p is { x: number; y: number } => Boolean(p) && p!.y > parent.y);
+    if (siblings.length) {
+      const right = siblings.reduce((a, b) => (b.x > a.x ? b : a));
+      return freeSpot(layout, { x: right.x + NODE_WIDTH + GAP_X, y: right.y });
+    }
+    return freeSpot(layout, { x: parent.x, y: parent.y + NODE_HEIGHT + GAP_Y + 10 });
+  }
   const all = Object.values(layout);
   if (!all.length) return { x: 0, y: 0 };
   return freeSpot(layout, { x: Math.min(...all.map((p) => p.x)), y: Math.max(...all.map((p) => p.y)) + NODE_HEIGHT + GAP_Y });

@@ -33,6 +33,9 @@ export function useFocusClearOfBar() {
       const t = e.target as Element | null;
       if (!t || !(t instanceof HTMLElement) || t === document.body) return;
       if (t.closest(`#${TOOLBAR_ID}, [data-overlay]`)) return;
+      // Only focus from the keyboard (or moved by the screen): scrolling while a finger or the
+      // mouse is down on a button would move the button from under it and lose the tap.
+      if (!t.matches(":focus-visible")) return;
       bringIntoClear(t.closest("label") ?? t);
     };
     document.addEventListener("focusin", onFocus);

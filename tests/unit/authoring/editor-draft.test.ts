@@ -83,7 +83,10 @@ describe("the editor's draft reducer", () => {
     expect(boxes).toHaveLength(8);
     for (const [a, p] of boxes)
       for (const [b, r] of boxes) if (a < b) expect(Math.abs(p.x - r.x) >= NODE_WIDTH || Math.abs(p.y - r.y) >= NODE_HEIGHT, `${a} and ${b} overlap`).toBe(true);
-    for (const child of s.tree.nodes.slice(1, 4)) expect(s.layout[child.id]!.y).toBeGreaterThanOrEqual(s.layout[q]!.y + NODE_HEIGHT);
+    const answers = s.tree.nodes.slice(1, 4).map((n) => s.layout[n.id]!);
+    for (const p of answers) expect(p.y).toBeGreaterThanOrEqual(s.layout[q]!.y + NODE_HEIGHT);
+    // The answers' nodes stand left to right in the order of the answers, so their lines don't cross.
+    expect(answers.map((p) => p.x)).toEqual([...answers.map((p) => p.x)].sort((a, b) => a - b));
   });
 
   it("new nodes of one kind get distinct titles, so pickers and the outline can tell them apart", () => {

@@ -1,8 +1,8 @@
 // The service report on the finished screen: e-mail it to the site contact once with the big
 // button; once sent, sending it again is a quiet button that asks first, so a customer is not
 // mailed twice by a stray tap.
-import { useEffect, useRef, useState } from "react";
 import { announce } from "~/components/Announcer";
+import { useAsk } from "~/components/useAsk";
 import type { RunView } from "~/models/run-log";
 import { reportNumber } from "~/models/report-data";
 import { clock } from "../clock";
@@ -11,9 +11,7 @@ import type { RunHandle } from "../useRun";
 export function SendReport({ run, report }: { run: RunHandle; report: NonNullable<RunView["report"]> }) {
   const { view } = run;
   const sent = report.sentAt ? new Date(report.sentAt) : null;
-  const [asking, setAsking] = useState(false);
-  const again = useRef<HTMLButtonElement>(null);
-  const confirm = useRef<HTMLButtonElement>(null);
+  const { asking, setAsking, asker: again, answer: confirm } = useAsk();
   const pending = run.sendReport.isPending;
   const contact = view.unit ? `${view.unit.contactName} (${view.unit.contactEmail})` : "";
   const send = () =>
@@ -21,13 +19,6 @@ export function SendReport({ run, report }: { run: RunHandle; report: NonNullabl
       onSuccess: () => announce(`Report ${reportNumber(report.number)} e-mailed to ${view.unit?.contactName ?? "the site contact"}.`),
       onSettled: () => setAsking(false),
     });
-  // Focus follows the question: onto it when asked, back to the button when it is dismissed.
-  const wasAsking = useRef(false);
-  useEffect(() => {
-    if (asking) confirm.current?.focus();
-    else if (wasAsking.current) again.current?.focus();
-    wasAsking.current = asking;
-  }, [asking]);
 
   return (
     <div className="card space-y-3">
