@@ -53,11 +53,14 @@ describe("authoring a tree in the browser", () => {
     await page.getByRole("button", { name: "Create and open the editor" }).click();
     await page.waitForURL(/\/trees\/[0-9a-f-]{36}\/edit$/);
     treeUrl = page.url().replace(/\/edit$/, "");
-    await waitForChecks(page, /no steps yet/);
+    await waitForChecks(page, /no nodes yet/);
 
     // 1. A question, with an answer that makes a new measurement and one that makes a new outcome.
+    // Adding from the palette puts focus in the new node's first field, and says so.
     await page.getByRole("button", { name: "Add question" }).first().click();
-    await page.getByLabel("Question to ask").fill("Is the run capacitor bulging or leaking?");
+    await expect.poll(() => page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.labels?.[0]?.textContent)).toBe("Question to ask");
+    await expect.poll(() => page.locator("#announce-polite").textContent()).toBe("Added a new question, ‘New question’. Its form is open.");
+    await page.keyboard.type("Is the run capacitor bulging or leaking?");
     await page.getByLabel("Answer text").fill("no");
     await page.getByLabel("The new answer leads to").selectOption("new:measurement");
     await page.getByRole("button", { name: "Add answer" }).click();
@@ -79,11 +82,16 @@ describe("authoring a tree in the browser", () => {
     await page.getByLabel("Below the rated value by").fill("6");
     await page.getByLabel("Sample reading").fill("1.40");
     await page.getByText("1.40 µF → low: below 1.41 µF").waitFor();
+    // A "New …" option only asks; the node is made when confirmed.
+    const nodesBefore = await outline.getByRole("treeitem").count();
     await page.getByLabel("On a within reading, go to").selectOption("new:outcome");
+    await expect(outline.getByRole("treeitem").count()).resolves.toBe(nodesBefore);
+    await page.getByRole("button", { name: "Make it and connect" }).click();
+    await expect.poll(() => page.getByLabel("On a within reading, go to").evaluate((el) => el === document.activeElement)).toBe(true);
     await page.getByLabel("On a high reading, go to").selectOption("outcome");
 
-    // 3. The low branch is still open: the checks say so and Publish is held back with the reason.
-    await waitForChecks(page, /nowhere to go on a low reading/);
+    // 3. The low branch is still open: the checks say so in the editor's words, and Publish is held back with the reason.
+    await waitForChecks(page, "Connect the Low branch of the measurement ‘Run capacitor against its rating’ to a node: a low reading has nowhere to go yet.");
     const publish = page.getByRole("button", { name: "Publish…" });
     await expect(publish.isDisabled()).resolves.toBe(true);
     await page.getByText(/Fix the error under Checks first/).waitFor();
@@ -103,11 +111,28 @@ describe("authoring a tree in the browser", () => {
     await page.getByText("Ready to publish as version 1.").waitFor();
     await page.screenshot({ path: screenshotPath("editor-outline-laptop") });
 
-    // The canvas shows the same draft.
+    // The canvas shows the same draft, each new node placed in free space (no box on another).
     await page.getByRole("button", { name: "Canvas", pressed: false }).click();
     await page.locator(".react-flow__node").nth(3).waitFor();
     await expect(page.locator(".react-flow__node").count()).resolves.toBe(4);
     await expect(page.locator(".react-flow__edge").count()).resolves.toBe(5);
+    const boxes = await page.locator(".react-flow__node").evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
+    for (const [i, a] of boxes.entries())
+      for (const b of boxes.slice(i + 1)) expect(a.right <= b.left || b.right <= a.left || a.bottom <= b.top || b.bottom <= a.top, "two boxes overlap").toBe(true);
+    await page.screenshot({ path: screenshotPath("editor-canvas-as-placed-laptop") });
+    // By keyboard: a box takes focus visibly, Enter opens its form.
+    const box = page.locator('.react-flow__node[data-id="measure"]');
+    await box.focus();
+    await page.keyboard.press("Enter");
+    await page.getByLabel("What to measure").waitFor();
+    await expect(page.getByLabel("What to measure").inputValue()).resolves.toBe("Run capacitor against its rating");
+    await page.locator('.react-flow__node[data-id="question"]').focus();
+    await page.keyboard.press("Tab");
+    await page.keyboard.press("Shift+Tab");
+    await expect(page.locator('.react-flow__node[data-id="question"]').evaluate((el) => getComputedStyle(el).outlineStyle)).resolves.toBe("solid");
+    await page.keyboard.press(" ");
+    await expect(page.getByLabel("Question to ask").inputValue()).resolves.toBe("Is the run capacitor bulging or leaking?");
+    await page.screenshot({ path: screenshotPath("editor-canvas-keyboard-laptop") });
     await page.getByRole("button", { name: "Arrange automatically" }).click();
     await page.waitForTimeout(600);
     await page.screenshot({ path: screenshotPath("editor-canvas-laptop") });
@@ -160,8 +185,16 @@ describe("authoring a tree in the browser", () => {
     await page.getByLabel("Sample reading").fill("1.62");
     await page.getByText("1.62 µF → high: above 1.59 µF").waitFor();
     await page.screenshot({ path: screenshotPath("editor-node-phone") });
+    // Toggles and zoom buttons a finger can hit (WCAG 2.5.5: 44 × 44 px).
+    await page.getByRole("tab", { name: "Outline" }).click();
+    const toggles = await outline.locator("li > button").evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
+    expect(toggles.length).toBeGreaterThan(0);
+    for (const [w, h] of toggles) expect(Math.min(w!, h!)).toBeGreaterThanOrEqual(44);
     await page.getByRole("tab", { name: "Canvas" }).click();
     await page.locator(".react-flow__node").first().waitFor();
+    const zoom = await page.locator(".react-flow__controls-button").evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
+    expect(zoom.length).toBeGreaterThan(0);
+    for (const [w, h] of zoom) expect(Math.min(w!, h!)).toBeGreaterThanOrEqual(44);
     await page.screenshot({ path: screenshotPath("editor-canvas-phone") });
     expect(canvas.length).toBeGreaterThan(0);
     await context.close();

@@ -32,20 +32,74 @@ async function atStep(page: Page, title: string) {
   await page.getByRole("heading", { level: 1, name: title }).waitFor({ timeout: 10_000 });
 }
 
+/** A caution is one deliberate action: one large button that says what it acknowledges (no tick box first). */
 async function acknowledge(page: Page, title: string, name: string) {
   await atStep(page, title);
-  const go = page.getByRole("button", { name: "Continue" });
-  await expect(go.isDisabled()).resolves.toBe(true);
+  const ack = page.getByRole("button", { name: /^I have read this and made the work safe/ });
+  await expect(ack.textContent()).resolves.toMatch(/Acknowledges the caution ‘.+’ and goes on/);
+  await expect(page.getByRole("checkbox").count()).resolves.toBe(0);
+  await expect(smallTargets(page)).resolves.toEqual([]);
+  await ack.scrollIntoViewIfNeeded();
   await snap(page, name);
-  const tick = page.getByLabel("I have read this and made the work safe");
-  await tick.scrollIntoViewIfNeeded();
-  await tick.check();
-  if (name === "caution-lockout") await snap(page, `${name}-ticked`);
-  await go.click();
+  // Tapped from wherever the page stands (the tap must not be lost to a scroll on focus).
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await ack.click();
 }
 
 async function saved(page: Page) {
   await page.getByRole("status").filter({ hasText: "✓ Saved" }).waitFor({ timeout: 10_000 });
+}
+
+/**
+ * Controls smaller than 44×44 CSS px (WCAG 2.2 SC 2.5.5, target size, enhanced). Links inside a
+ * sentence are exempt (the SC's "inline" exception); a control drawn by its label (radio cards,
+ * the camera input) is measured by the label.
+ */
+async function smallTargets(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    for (const el of document.querySelectorAll<HTMLElement>("a[href], button, input, select, textarea, summary")) {
+      if (el.closest("p, li") && el.tagName === "A") continue;
+      const box = el.closest("label") ?? el;
+      const r = box.getBoundingClientRect();
+      const style = getComputedStyle(box);
+      if (r.width === 0 || r.height === 0 || style.visibility === "hidden") continue;
+      if (r.width < 44 || r.height < 44) out.push(`${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`);
+    }
+    return out;
+  });
+}
+
+/** Whether `selector`'s element lies wholly between the sticky header and the bottom bar (or the window's foot). */
+async function inClearView(page: Page, text: string): Promise<boolean> {
+  return page.evaluate((t) => {
+    const el = [...document.querySelectorAll<HTMLElement>("[role=status]")].find((x) => x.textContent?.includes(t));
+    if (!el) return false;
+    const r = el.getBoundingClientRect();
+    const top = document.querySelector("header")!.getBoundingClientRect().bottom;
+    const bar = document.getElementById("run-tools");
+    const bottom = Math.min(window.innerHeight, bar ? bar.getBoundingClientRect().top : Infinity);
+    return r.top >= top && r.bottom <= bottom;
+  }, text);
+}
+
+/** Tabs forward until `stop` is focused; every control reached must sit clear of the bottom bar. Returns what was reached. */
+async function tabTo(page: Page, stop: RegExp): Promise<string[]> {
+  const reached: string[] = [];
+  for (let i = 0; i < 15; i++) {
+    await page.keyboard.press("Tab");
+    const f = await page.evaluate(() => {
+      const el = document.activeElement as HTMLElement;
+      const bar = document.getElementById("run-tools")!;
+      const label = el.closest("label");
+      const name = `${el.getAttribute("role") ?? (el as HTMLInputElement).type ?? el.tagName} ${(label ?? el).textContent?.trim() ?? ""}`;
+      return { name, inBar: bar.contains(el), bottom: (label ?? el).getBoundingClientRect().bottom, barTop: bar.getBoundingClientRect().top };
+    });
+    reached.push(f.name);
+    if (!f.inBar) expect(f.bottom, `${f.name} is under the bottom bar`).toBeLessThanOrEqual(f.barTop);
+    if (stop.test(f.name)) return reached;
+  }
+  throw new Error(`never reached ${stop}: ${reached.join(" | ")}`);
 }
 
 const startedAt = new Date().toISOString();
@@ -82,7 +136,7 @@ describe("the phone runner (390×844)", () => {
 
     // Three cautions, each with the safety wording and an explicit acknowledgement.
     await snap(page, "start");
-    await page.getByRole("button", { name: "Step 1: show the 0 steps done" }).waitFor({ timeout: 5000 });
+    await page.getByRole("button", { name: "Step 1 · 0 done" }).waitFor({ timeout: 5000 });
     await expect(page.getByText(/^Safety first · 4 to 17 steps to an answer$/).isVisible()).resolves.toBe(true);
     await expect(page.getByText("local codes or licensed practice").first().isVisible()).resolves.toBe(true);
     await acknowledge(page, "Disconnect and lock out power before opening the panel", "caution-lockout");
@@ -92,13 +146,32 @@ describe("the phone runner (390×844)", () => {
 
     // 208 V across L1–L2 with the van's voltmeter: the verdict shows as it is typed.
     await atStep(page, "Supply voltage across L1–L2");
-    await page.getByLabel("Meter").selectOption({ label: "Van 1 multimeter — AC volts, 600 V range" });
+    await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
-    await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
+    // The verdict is a live region right under the field. With the phone's keyboard open (here the
+    // window made 364 px shorter, as a keyboard that resizes the page does) it stays in view.
+    await expect(page.getByRole("status").filter({ hasText: "Within limits" }).count()).resolves.toBe(1);
+    await page.getByLabel("Reading", { exact: true }).focus();
+    await page.setViewportSize({ width: PHONE.width, height: PHONE.height - 364 });
+    await expect.poll(() => inClearView(page, "Within limits")).toBe(true);
+    await snap(page, "supply-reading-keyboard");
+    await page.setViewportSize(PHONE);
+    // By keyboard: the unit buttons are one radio group (one Tab stop, arrows move), so are the
+    // meters; no control Tab reaches is left under the bottom bar.
+    await page.getByLabel("Reading", { exact: true }).focus();
+    const reached = await tabTo(page, /Save reading/);
+    expect(reached).toEqual(["radio V", expect.stringMatching(/^radio Van 1 multimeter — AC volts/), "submit Save reading"]);
+    await expect(smallTargets(page)).resolves.toEqual([]);
+    await page.getByRole("radio", { name: "V", exact: true }).focus();
+    await page.keyboard.press("ArrowRight");
+    await expect(page.getByRole("radio", { name: "mV" }).isChecked()).resolves.toBe(true);
+    await page.keyboard.press("ArrowLeft");
+    await expect(page.getByRole("radio", { name: "V", exact: true }).isChecked()).resolves.toBe(true);
+    await page.getByRole("button", { name: "Save reading" }).focus();
     await snap(page, "supply-reading");
-    await page.getByRole("button", { name: "Save reading" }).click();
+    await page.keyboard.press("Enter");
 
     // One fan slow, the other stopped: the question has that answer; the note says which is which.
     await atStep(page, "With the elements heating, do both convection fans run at full speed?");
@@ -115,6 +188,12 @@ describe("the phone runner (390×844)", () => {
 
     // The rating from the capacitor's body; the unit's nameplate on file offers it.
     await atStep(page, "Rated capacitance of the slow fan's run capacitor");
+    // A value of the wrong quantity: the reason shows once, under the field, and is said aloud on Save.
+    await page.getByLabel("Rated value").fill("1.5 V");
+    await page.getByRole("button", { name: "Save rating" }).click();
+    await expect(page.getByText(/Expected a capacitance, got a voltage/).count()).resolves.toBe(1);
+    await expect.poll(() => page.locator("#announce-assertive").textContent()).toMatch(/Expected a capacitance, got a voltage/);
+    await snap(page, "cap-rating-wrong-quantity");
     await page.getByRole("button", { name: "Use 1.5 µF" }).click();
     await page.getByText("Recorded as").waitFor();
     await snap(page, "cap-rating");
@@ -123,7 +202,7 @@ describe("the phone runner (390×844)", () => {
     // 1.47 µF against 1.5 µF ± 6 % (REFERENCES.md: fan-motor run capacitor, common practice).
     await atStep(page, "Run capacitor against its rating");
     await expect(page.getByText("1.41–1.59 µF", { exact: true }).isVisible()).resolves.toBe(true);
-    await page.getByLabel("Meter").selectOption({ label: "Van 1 multimeter — capacitance, 100 µF range" });
+    await page.getByRole("radio", { name: /^Van 1 multimeter — capacitance, 100 µF range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("1.47");
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF \(1\.5 µF ± 6 %/).first().isVisible()).resolves.toBe(true);
@@ -139,7 +218,7 @@ describe("the phone runner (390×844)", () => {
     await page.getByRole("button", { name: "↶ Undo" }).click();
     await atStep(page, "Run capacitor against its rating");
     await page.getByLabel("Reading", { exact: true }).fill("1470");
-    await page.getByRole("radio", { name: "nF" }).click();
+    await page.getByRole("group", { name: "Unit of the reading" }).getByRole("radio", { name: "nF" }).click();
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF/).first().isVisible()).resolves.toBe(true);
 
@@ -159,7 +238,8 @@ describe("the phone runner (390×844)", () => {
     await page.getByRole("button", { name: "Stiff, gritty or seized" }).click();
 
     // The root cause, the action, the parts and the time.
-    await page.getByText("Root cause found").waitFor();
+    await page.getByRole("heading", { level: 1, name: /^Root cause found/ }).waitFor();
+    await expect(smallTargets(page)).resolves.toEqual([]);
     await expect(page.getByText("Failed fan motor — seized or dragging shaft").first().isVisible()).resolves.toBe(true);
     await saved(page);
     await snap(page, "outcome");
@@ -175,10 +255,19 @@ describe("the phone runner (390×844)", () => {
     await page.getByRole("button", { name: "Finish and make the report" }).click();
 
     // The report, e-mailed to the site contact.
-    await page.getByText("Job finished").waitFor();
+    await page.getByRole("heading", { level: 1, name: /^Job finished/ }).waitFor();
     await snap(page, "finished", true);
     await page.getByRole("button", { name: "E-mail the report to Hal Brennick" }).click();
     await page.getByText("✓ E-mailed to deli@larkspur.example").waitFor();
+    // Sent: no big button to send it again, only a quiet one that asks first.
+    await expect(page.getByRole("button", { name: /E-mail the report/ }).count()).resolves.toBe(0);
+    await page.getByRole("button", { name: "Send it again…" }).click();
+    await page.getByText("Send the report to Hal Brennick (deli@larkspur.example) again? They already have it.").waitFor();
+    await expect(page.evaluate(() => document.activeElement?.textContent)).resolves.toBe("Send again");
+    await snap(page, "report-send-again-asks");
+    await page.getByRole("button", { name: "No", exact: true }).click();
+    await expect(page.evaluate(() => document.activeElement?.textContent)).resolves.toBe("Send it again…");
+    await expect(smallTargets(page)).resolves.toEqual([]);
     await snap(page, "report-sent");
     reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
     expect(reportUrl).toMatch(/^\/reports\/[0-9a-f-]{36}$/);

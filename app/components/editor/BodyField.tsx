@@ -45,15 +45,15 @@ export function BodyField({ label, initial, hint, onText, upload }: Props) {
   return (
     <div className="space-y-2">
       <div className="flex flex-wrap items-center gap-2" role="group" aria-label={`${label}: write or preview`}>
-        <button type="button" className="btn-quiet min-h-10 px-3 text-base" aria-pressed={tab === "write"} onClick={() => setTab("write")}>
+        <button type="button" className="btn-quiet min-h-11 px-3 text-base" aria-pressed={tab === "write"} onClick={() => setTab("write")}>
           Write
         </button>
-        <button type="button" className="btn-quiet min-h-10 px-3 text-base" aria-pressed={tab === "preview"} aria-controls={previewId} onClick={() => setTab("preview")}>
+        <button type="button" className="btn-quiet min-h-11 px-3 text-base" aria-pressed={tab === "preview"} aria-controls={previewId} onClick={() => setTab("preview")}>
           Preview
         </button>
         {upload && (
           <>
-            <label htmlFor={fileId} className="btn-quiet min-h-10 cursor-pointer px-3 text-base">
+            <label htmlFor={fileId} className="btn-quiet min-h-11 cursor-pointer px-3 text-base">
               Add an image
             </label>
             <input

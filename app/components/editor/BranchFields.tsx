@@ -1,11 +1,13 @@
-// Where a branch leads: an existing node, a new node of any kind (made and linked at once), or
-// nowhere yet; and, for a branch that goes back to measure again, its re-check limit.
+// Where a branch leads: an existing node, a new node of any kind (made and linked once the author
+// confirms), or nowhere yet; and, for a branch that goes back to measure again, its re-check limit.
 import { useRef, useState } from "react";
 import type { Answer, Branch, NodeKind, Tree, TreeNode } from "~/engine/types";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
-import type { DraftAction } from "./draft";
+import { announce } from "~/components/Announcer";
+import { newTitle, type DraftAction } from "./draft";
 import { Check } from "./fields";
+import { branchWords } from "./finding-words";
 import { KIND_LABEL, PALETTE_KINDS } from "./kinds";
 
 const NONE = "";
@@ -15,25 +17,31 @@ export function nodeOptionLabel(n: TreeNode): string {
   return `${KIND_LABEL[n.kind]}: ${n.title}`;
 }
 
+type Pick = { to: string } | { kind: NodeKind } | null;
+
 type TargetProps = {
   label: string;
   tree: Tree;
   value: string | undefined;
+  /** A "New …" option chosen but not made yet: the select keeps showing it. */
+  newKind?: NodeKind | null;
   /** Offer "not connected" (absent for answers, which always lead somewhere). */
   allowNone?: boolean;
-  onPick: (pick: { to: string } | { kind: NodeKind } | null) => void;
+  /** Offer "a new …" for each kind. */
+  offerNew?: boolean;
+  onPick: (pick: Pick) => void;
   hint?: string;
 };
 
-/** A select of every node in the draft, plus "a new …" for each kind. */
-export function TargetSelect({ label, tree, value, allowNone = true, onPick, hint }: TargetProps) {
+/** A select of every node in the draft, plus "a new …" for each kind. Choosing never makes a node by itself. */
+export function TargetSelect({ label, tree, value, newKind = null, allowNone = true, offerNew = true, onPick, hint }: TargetProps) {
   const missing = value !== undefined && !tree.nodes.some((n) => n.id === value);
   return (
     <SelectField
       label={label}
       name={label}
       hint={hint}
-      value={value ?? NONE}
+      value={newKind ? `${NEW}${newKind}` : (value ?? NONE)}
       onChange={(e) => {
         const v = e.target.value;
         if (v === NONE) onPick(null);
@@ -50,14 +58,75 @@ export function TargetSelect({ label, tree, value, allowNone = true, onPick, hin
           </option>
         ))}
       </optgroup>
-      <optgroup label="Make a new node">
-        {PALETTE_KINDS.map((k) => (
-          <option key={k} value={`${NEW}${k}`}>
-            New {KIND_LABEL[k].toLowerCase()}
-          </option>
-        ))}
-      </optgroup>
+      {offerNew && (
+        <optgroup label="Make a new node">
+          {PALETTE_KINDS.map((k) => (
+            <option key={k} value={`${NEW}${k}`}>
+              New {KIND_LABEL[k].toLowerCase()}
+            </option>
+          ))}
+        </optgroup>
+      )}
     </SelectField>
+  );
+}
+
+/** Focus the select inside `wrap` once the screen has settled. */
+const focusSelect = (wrap: HTMLElement | null) => requestAnimationFrame(() => wrap?.querySelector("select")?.focus());
+
+type BranchTargetProps = { label: string; tree: Tree; node: TreeNode; branchKey: string; value: string | undefined; hint?: string; dispatch: (a: DraftAction) => void };
+
+/**
+ * Where one branch leads. An existing node is linked at once; a "New …" option only asks, and
+ * the node is made when the author confirms (an arrow key passing over the option makes nothing).
+ */
+function BranchTarget({ label, tree, node, branchKey, value, hint, dispatch }: BranchTargetProps) {
+  const [pending, setPending] = useState<NodeKind | null>(null);
+  const wrap = useRef<HTMLDivElement>(null);
+  const make = () => {
+    if (!pending) return;
+    const title = newTitle(tree, pending);
+    dispatch({ type: "add-node", kind: pending, link: { from: node.id, key: branchKey }, select: false });
+    announce(`Made a new ${KIND_LABEL[pending].toLowerCase()}, ‘${title}’, and connected ${branchWords(branchKey)} to it.`);
+    setPending(null);
+    focusSelect(wrap.current);
+  };
+  return (
+    <div ref={wrap} className="space-y-2">
+      <TargetSelect
+        label={label}
+        tree={tree}
+        value={value}
+        newKind={pending}
+        allowNone={node.kind !== "question"}
+        hint={hint}
+        onPick={(pick) => {
+          setPending(pick && "kind" in pick ? pick.kind : null);
+          if (pick === null) dispatch({ type: "set-branch", from: node.id, key: branchKey, to: null });
+          else if ("to" in pick) dispatch({ type: "set-branch", from: node.id, key: branchKey, to: pick.to });
+        }}
+      />
+      {pending && (
+        <div role="group" aria-label={`Make a new ${KIND_LABEL[pending].toLowerCase()}`} className="flex flex-wrap items-center gap-2 rounded-lg bg-copper-soft p-2">
+          <p className="basis-full text-base">
+            A new {KIND_LABEL[pending].toLowerCase()} will be made, and {branchWords(branchKey)} connected to it.
+          </p>
+          <button type="button" className="btn-primary min-h-11 px-3 text-base" onClick={make}>
+            Make it and connect
+          </button>
+          <button
+            type="button"
+            className="btn-quiet min-h-11 px-3 text-base"
+            onClick={() => {
+              setPending(null);
+              focusSelect(wrap.current);
+            }}
+          >
+            Cancel
+          </button>
+        </div>
+      )}
+    </div>
   );
 }
 
@@ -75,18 +144,7 @@ type BranchProps = {
 export function BranchField({ tree, node, branchKey, label, branch, dispatch, hint }: BranchProps) {
   return (
     <div className="space-y-2 rounded-lg border border-rule p-3" data-branch={branchKey}>
-      <TargetSelect
-        label={label}
-        tree={tree}
-        value={branch?.to}
-        allowNone={node.kind !== "question"}
-        hint={hint}
-        onPick={(pick) => {
-          if (pick === null) dispatch({ type: "set-branch", from: node.id, key: branchKey, to: null });
-          else if ("to" in pick) dispatch({ type: "set-branch", from: node.id, key: branchKey, to: pick.to });
-          else dispatch({ type: "add-node", kind: pick.kind, link: { from: node.id, key: branchKey }, select: false });
-        }}
-      />
+      <BranchTarget label={label} tree={tree} node={node} branchKey={branchKey} value={branch?.to} hint={hint} dispatch={dispatch} />
       {branch && <RecheckFields tree={tree} node={node} branchKey={branchKey} branch={branch} dispatch={dispatch} />}
     </div>
   );
@@ -122,6 +180,7 @@ function RecheckFields({ tree, node, branchKey, branch, dispatch }: { tree: Tree
             label="Then go to"
             tree={tree}
             value={r.onExceed}
+            offerNew={false}
             onPick={(pick) => {
               if (pick === null) set({ max: r.max });
               else if ("to" in pick) set({ ...r, onExceed: pick.to });
@@ -138,6 +197,7 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
   const [label, setLabel] = useState("");
   const [target, setTarget] = useState<{ to: string } | { kind: NodeKind } | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const addRow = useRef<HTMLDivElement>(null);
   // Stable keys for the rows, so a label being typed keeps its input (and focus).
   const keys = useRef<string[]>([]);
   const fresh = () => Math.random().toString(36).slice(2);
@@ -162,11 +222,19 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
     if (node.answers.some((a) => a.label === l)) return setError(`There is already an answer ‘${l}’.`);
     if (!target) return setError("Choose where this answer leads.");
     keys.current = [...keys.current, fresh()];
-    if ("to" in target) dispatch({ type: "add-answer", from: node.id, label: l, to: target.to });
-    else dispatch({ type: "add-node", kind: target.kind, link: { from: node.id, key: `answer:${l}`, label: l }, select: false });
+    if ("to" in target) {
+      dispatch({ type: "add-answer", from: node.id, label: l, to: target.to });
+      announce(`Added the answer ‘${l}’, leading to ‘${tree.nodes.find((n) => n.id === target.to)?.title ?? target.to}’.`);
+    } else {
+      const title = newTitle(tree, target.kind);
+      dispatch({ type: "add-node", kind: target.kind, link: { from: node.id, key: `answer:${l}`, label: l }, select: false });
+      announce(`Added the answer ‘${l}’, leading to a new ${KIND_LABEL[target.kind].toLowerCase()}, ‘${title}’.`);
+    }
     setLabel("");
     setTarget(null);
     setError(null);
+    // The next answer starts where this one did.
+    requestAnimationFrame(() => addRow.current?.querySelector("input")?.focus());
   };
   return (
     <fieldset className="space-y-3">
@@ -176,37 +244,28 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
         {node.answers.map((a, i) => (
           <li key={keys.current[i]} className="space-y-2 rounded-lg border border-rule p-3" data-branch={`answer:${a.label}`}>
             <AnswerLabel node={node} index={i} onRename={(l) => update(node.answers.map((x, j) => (j === i ? { ...x, label: l } : x)))} />
-            <TargetSelect
-              label={`‘${a.label}’ leads to`}
-              tree={tree}
-              value={a.to}
-              allowNone={false}
-              onPick={(pick) => {
-                if (pick && "to" in pick) dispatch({ type: "set-branch", from: node.id, key: `answer:${a.label}`, to: pick.to });
-                else if (pick) dispatch({ type: "add-node", kind: pick.kind, link: { from: node.id, key: `answer:${a.label}` }, select: false });
-              }}
-            />
+            <BranchTarget label={`‘${a.label}’ leads to`} tree={tree} node={node} branchKey={`answer:${a.label}`} value={a.to} dispatch={dispatch} />
             <div className="flex flex-wrap gap-2">
-              <button type="button" className="btn-quiet min-h-10 px-3 text-base" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ‘${a.label}’ up`}>
+              <button type="button" className="btn-quiet min-h-11 px-3 text-base" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ‘${a.label}’ up`}>
                 Up
               </button>
               <button
                 type="button"
-                className="btn-quiet min-h-10 px-3 text-base"
+                className="btn-quiet min-h-11 px-3 text-base"
                 disabled={i === node.answers.length - 1}
                 onClick={() => move(i, 1)}
                 aria-label={`Move ‘${a.label}’ down`}
               >
                 Down
               </button>
-              <button type="button" className="btn-quiet min-h-10 px-3 text-base text-out" onClick={() => update(node.answers.filter((_, j) => j !== i), keys.current.filter((_, j) => j !== i))} aria-label={`Remove the answer ‘${a.label}’`}>
+              <button type="button" className="btn-quiet min-h-11 px-3 text-base text-out" onClick={() => update(node.answers.filter((_, j) => j !== i), keys.current.filter((_, j) => j !== i))} aria-label={`Remove the answer ‘${a.label}’`}>
                 Remove
               </button>
             </div>
           </li>
         ))}
       </ol>
-      <div className="space-y-2 rounded-lg border border-dashed border-ink-soft p-3" data-branch="answer:">
+      <div ref={addRow} className="space-y-2 rounded-lg border border-dashed border-ink-soft p-3" data-branch="answer:">
         <p className="font-semibold">Add an answer</p>
         <Field
           label="Answer text"
@@ -221,7 +280,14 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
             }
           }}
         />
-        <TargetSelect label="The new answer leads to" tree={tree} value={target && "to" in target ? target.to : undefined} allowNone={false} onPick={setTarget} />
+        <TargetSelect
+          label="The new answer leads to"
+          tree={tree}
+          value={target && "to" in target ? target.to : undefined}
+          newKind={target && "kind" in target ? target.kind : null}
+          allowNone={false}
+          onPick={setTarget}
+        />
         {target && "kind" in target && <p className="text-sm text-ink-soft">A new {KIND_LABEL[target.kind].toLowerCase()} will be made for it.</p>}
         {error && (
           <p className="field-error" role="alert">

@@ -1,7 +1,7 @@
 // The graph canvas (reactflow 11). Loaded only by the editor, lazily and in the browser, so no
 // other page — the runner above all — downloads it. It edits the same draft as the outline:
 // drag to move, drag from a branch handle to a node to connect, click to open a node's form.
-import { memo, useCallback, useEffect, useMemo, useState } from "react";
+import { memo, useCallback, useEffect, useMemo, useState, type KeyboardEvent } from "react";
 import ReactFlow, {
   applyNodeChanges,
   Background,
@@ -18,10 +18,14 @@ import ReactFlow, {
   type NodeProps,
 } from "reactflow";
 import "reactflow/dist/style.css";
+import "./canvas.css";
+import { announce } from "~/components/Announcer";
+import { Field } from "~/components/Field";
 import { branchName, nodeBranches } from "~/engine/graph";
 import { possibleVerdicts } from "~/engine/limits";
 import type { Tree, TreeNode } from "~/engine/types";
-import { arrange, completeLayout, NODE_HEIGHT, NODE_WIDTH } from "./arrange";
+import { arrange, completeLayout } from "./arrange";
+import { NODE_HEIGHT, NODE_WIDTH } from "./layout";
 import type { DraftAction, Layout } from "./draft";
 import { KIND_LABEL, KIND_MARK } from "./kinds";
 import type { NodeMarks } from "./Outline";
@@ -110,6 +114,7 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
   const [nodes, setNodes] = useState(derived);
   useEffect(() => setNodes(derived), [derived]);
   const ids = useMemo(() => new Set(tree.nodes.map((n) => n.id)), [tree]);
+  const titles = useMemo(() => new Map(tree.nodes.map((n) => [n.id, n.title])), [tree]);
   const edges = useMemo<Edge[]>(
     () =>
       tree.nodes.flatMap((n) =>
@@ -125,14 +130,43 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
             style: branch.recheck ? { strokeDasharray: "6 4" } : undefined,
             labelBgPadding: [4, 2] as [number, number],
             labelBgBorderRadius: 4,
+            ariaLabel: `Branch ‘${branchName(key)}’ from ‘${n.title}’ to ‘${titles.get(branch.to) ?? branch.to}’`,
           })),
       ),
-    [tree, ids],
+    [tree, ids, titles],
   );
   const [edgeSelected, setEdgeSelected] = useState<Edge | null>(null);
   const [pendingAnswer, setPendingAnswer] = useState<{ from: string; to: string } | null>(null);
 
-  const onNodesChange = useCallback((changes: NodeChange[]) => setNodes((nds) => applyNodeChanges(changes, nds)), []);
+  const onNodesChange = useCallback(
+    (changes: NodeChange[]) => {
+      setNodes((nds) => applyNodeChanges(changes, nds));
+      // A box moved with the arrow keys (selected, focused) is saved like one dragged with the mouse.
+      const moved: Layout = {};
+      for (const c of changes) if (c.type === "position" && c.position && c.dragging === false) moved[c.id] = { x: Math.round(c.position.x), y: Math.round(c.position.y) };
+      if (Object.keys(moved).length) dispatch({ type: "move", positions: moved });
+    },
+    [dispatch],
+  );
+  // Enter or Space on a focused box opens its form, as a click does; on a branch, selects it so it
+  // can be disconnected with the button at the top.
+  const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
+    if (e.key !== "Enter" && e.key !== " ") return;
+    const target = e.target as HTMLElement;
+    const box = target.closest<HTMLElement>(".react-flow__node");
+    if (box?.dataset.id) {
+      e.preventDefault();
+      onOpen(box.dataset.id);
+      return;
+    }
+    const edgeId = target.closest<SVGElement>(".react-flow__edge")?.dataset.testid?.replace(/^rf__edge-/, "");
+    const edge = edges.find((x) => x.id === edgeId);
+    if (edge) {
+      e.preventDefault();
+      setEdgeSelected(edge);
+      announce(`Selected ${edge.ariaLabel ?? "the branch"}. “Disconnect” is at the top of the canvas.`);
+    }
+  };
   const onConnect = useCallback(
     (c: Connection) => {
       if (!c.source || !c.target || !c.sourceHandle) return;
@@ -147,18 +181,18 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
   };
 
   return (
-    <div className="relative h-full min-h-[28rem] w-full">
+    <div className="relative h-full min-h-[28rem] w-full" onKeyDown={onKeyDown}>
       <div className="absolute left-2 top-2 z-10 flex flex-wrap gap-2">
-        <button type="button" className="btn-quiet min-h-10 px-3 text-base shadow-sm" onClick={rearrange}>
+        <button type="button" className="btn-quiet min-h-11 px-3 text-base shadow-sm" onClick={rearrange}>
           Arrange automatically
         </button>
-        <button type="button" className="btn-quiet min-h-10 px-3 text-base shadow-sm" onClick={() => flow.fitView({ padding: 0.15, duration: 200 })}>
+        <button type="button" className="btn-quiet min-h-11 px-3 text-base shadow-sm" onClick={() => flow.fitView({ padding: 0.15, duration: 200 })}>
           Show all
         </button>
         {edgeSelected && (
           <button
             type="button"
-            className="btn-quiet min-h-10 px-3 text-base text-out shadow-sm"
+            className="btn-quiet min-h-11 px-3 text-base text-out shadow-sm"
             onClick={() => {
               dispatch({ type: "set-branch", from: edgeSelected.source, key: edgeSelected.sourceHandle!, to: null });
               setEdgeSelected(null);
@@ -212,16 +246,12 @@ function NewAnswer({ pending, tree, dispatch, onDone }: { pending: { from: strin
       <p className="text-base">
         A new answer to ‘{from?.title}’, leading to ‘{to?.title}’.
       </p>
-      <label className="field-label" htmlFor="canvas-new-answer">
-        Answer text
-      </label>
-      <input id="canvas-new-answer" autoFocus className="field-input" value={label} onChange={(e) => setLabel(e.target.value)} />
-      {taken && <p className="field-error">That answer is already there.</p>}
+      <Field label="Answer text" name="answer-text" autoFocus value={label} onChange={(e) => setLabel(e.target.value)} error={taken ? "That answer is already there." : undefined} />
       <div className="flex gap-2">
-        <button className="btn-primary min-h-10 px-3 text-base" disabled={!label.trim() || taken}>
+        <button className="btn-primary min-h-11 px-3 text-base" disabled={!label.trim() || taken}>
           Add answer
         </button>
-        <button type="button" className="btn-quiet min-h-10 px-3 text-base" onClick={onDone}>
+        <button type="button" className="btn-quiet min-h-11 px-3 text-base" onClick={onDone}>
           Cancel
         </button>
       </div>

@@ -1,5 +1,6 @@
 // The engine's findings on the saved draft, errors first, each linking to its node.
 import type { Finding, Tree } from "~/engine/types";
+import { inEditorWords } from "./finding-words";
 
 type Props = {
   findings: Finding[];
@@ -42,10 +43,10 @@ export function Findings({ findings, tree, stale, onGo }: Props) {
             return (
               <li key={`${f.code}-${f.nodeId ?? ""}-${i}`} className={`rounded-lg border-l-4 bg-card p-2 ${f.severity === "error" ? "border-out" : "border-marginal"}`}>
                 <p className="text-base">
-                  <strong className={f.severity === "error" ? "text-out" : "text-marginal"}>{f.severity === "error" ? "Error" : "Warning"}:</strong> {f.message}
+                  <strong className={f.severity === "error" ? "text-out" : "text-marginal"}>{f.severity === "error" ? "Error" : "Warning"}:</strong> {inEditorWords(f, tree)}
                 </p>
                 {node && (
-                  <button type="button" className="mt-1 text-base font-semibold text-copper-dark underline underline-offset-2" onClick={() => onGo(node.id)}>
+                  <button type="button" className="mt-1 inline-flex min-h-11 items-center text-left text-base font-semibold text-copper-dark underline underline-offset-2" onClick={() => onGo(node.id)}>
                     Go to ‘{node.title}’
                   </button>
                 )}

@@ -7,10 +7,12 @@ import { NodeIdSchema, normaliseBody } from "~/engine/schema";
 import { QUANTITY_INFO, resolveUnit } from "~/engine/units";
 import { HAZARDS, QUANTITIES, VERDICTS, type Finding, type Hazard, type Quantity, type Tree, type TreeNode, type VerdictKind } from "~/engine/types";
 import { Field } from "~/components/Field";
+import { useAsk } from "~/components/useAsk";
 import { AnswersField, BranchField } from "./BranchFields";
 import { BodyField, type UploadImage } from "./BodyField";
 import type { DraftAction } from "./draft";
 import { nodeCommitter, SelectField, sentence, TextField } from "./fields";
+import { inEditorWords } from "./finding-words";
 import { KIND_LABEL, KIND_MARK } from "./kinds";
 import { LimitPreview } from "./LimitPreview";
 import { LimitsFields } from "./LimitsFields";
@@ -49,20 +51,25 @@ type Props = {
   dispatch: (a: DraftAction) => void;
   findings: Finding[];
   upload?: UploadImage;
-  /** A branch to bring into view and focus when the form opens ("low", "next", "answer:"). */
+  /** A branch to bring into view and focus when the form opens ("low", "next", "answer:"), or "title". */
   focusField?: string;
+  /** After a confirmed delete: the editor moves focus to where the work goes on. */
+  onDeleted?: (node: TreeNode) => void;
 };
 
-export function NodeForm({ node, tree, dispatch, findings, upload, focusField }: Props) {
+export function NodeForm({ node, tree, dispatch, findings, upload, focusField, onDeleted }: Props) {
   const tryNode = nodeCommitter((n) => dispatch({ type: "update-node", node: n }));
   const isStart = tree.start === node.id;
   const headingId = useId();
   const formRef = useRef<HTMLFormElement>(null);
   useEffect(() => {
     if (!focusField) return;
-    const el = formRef.current?.querySelector<HTMLElement>(`[data-branch="${CSS.escape(focusField)}"] :is(select, input)`);
+    const sel = focusField === "title" ? `[data-field="title"] input` : `[data-branch="${CSS.escape(focusField)}"] :is(select, input)`;
+    const el = formRef.current?.querySelector<HTMLElement>(sel);
     el?.scrollIntoView({ block: "center" });
     el?.focus();
+    // A new node's default title is selected, so typing replaces it.
+    if (focusField === "title" && el instanceof HTMLInputElement) el.select();
   }, [focusField]);
   return (
     <form ref={formRef} aria-labelledby={headingId} className="space-y-4" onSubmit={(e) => e.preventDefault()} noValidate>
@@ -76,7 +83,7 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField }:
         {isStart ? (
           <span className="rounded-md bg-copper-soft px-2 py-1 text-sm font-semibold text-copper-dark">First node of the tree</span>
         ) : (
-          <button type="button" className="btn-quiet min-h-10 px-3 text-base" onClick={() => dispatch({ type: "tree-fields", fields: { start: node.id } })}>
+          <button type="button" className="btn-quiet min-h-11 px-3 text-base" onClick={() => dispatch({ type: "tree-fields", fields: { start: node.id } })}>
             Make this the first node
           </button>
         )}
@@ -86,12 +93,14 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField }:
           {findings.map((f, i) => (
             <li key={i} className={`rounded-md px-3 py-2 text-base ${f.severity === "error" ? "bg-out-soft text-out" : "bg-marginal-soft text-marginal"}`}>
               <strong>{f.severity === "error" ? "Error: " : "Warning: "}</strong>
-              {f.message}
+              {inEditorWords(f, tree)}
             </li>
           ))}
         </ul>
       )}
-      <TextField label={TITLE_LABEL[node.kind]} initial={node.title} onText={(raw) => tryNode({ ...node, title: raw.trim() })} />
+      <div data-field="title">
+        <TextField label={TITLE_LABEL[node.kind]} initial={node.title} onText={(raw) => tryNode({ ...node, title: raw.trim() })} />
+      </div>
       <IdField node={node} tree={tree} dispatch={dispatch} />
       <KindFields node={node} tree={tree} tryNode={tryNode} dispatch={dispatch} />
       <BodyField
@@ -101,7 +110,7 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField }:
         onText={(raw) => tryNode(withOptional(node, "body", normaliseBody(raw)))}
       />
       <Branches node={node} tree={tree} dispatch={dispatch} />
-      <DeleteNode node={node} dispatch={dispatch} />
+      <DeleteNode node={node} dispatch={dispatch} onDeleted={onDeleted} />
     </form>
   );
 }
@@ -248,31 +257,40 @@ function IdField({ node, tree, dispatch }: { node: TreeNode; tree: Tree; dispatc
           }
         }}
       />
-      <button type="button" className="btn-quiet min-h-10 px-3 text-base" onClick={rename} disabled={raw.trim() === node.id}>
+      <button type="button" className="btn-quiet min-h-11 px-3 text-base" onClick={rename} disabled={raw.trim() === node.id}>
         Change id
       </button>
     </div>
   );
 }
 
-function DeleteNode({ node, dispatch }: { node: TreeNode; dispatch: (a: DraftAction) => void }) {
-  const [asking, setAsking] = useState(false);
+/** Delete asks first. Focus follows: onto "Keep it" when asked, back to the button when kept. */
+function DeleteNode({ node, dispatch, onDeleted }: { node: TreeNode; dispatch: (a: DraftAction) => void; onDeleted?: (node: TreeNode) => void }) {
+  const { asking, setAsking, asker: ask, answer: keep } = useAsk();
+  const questionId = useId();
   return (
     <div className="border-t border-rule pt-3">
       {asking ? (
-        <div role="group" aria-label="Confirm deleting this node" className="space-y-2">
-          <p>Delete ‘{node.title}’? Branches that lead to it are disconnected; answers that lead to it keep their text and need a new target.</p>
+        <div role="group" aria-label="Confirm deleting this node" aria-describedby={questionId} className="space-y-2">
+          <p id={questionId}>Delete ‘{node.title}’? Branches that lead to it are disconnected; answers that lead to it keep their text and need a new target.</p>
           <div className="flex gap-2">
-            <button type="button" className="btn min-h-11 bg-out px-4 text-base text-white" onClick={() => dispatch({ type: "delete-node", id: node.id })}>
+            <button
+              type="button"
+              className="btn min-h-11 bg-out px-4 text-base text-white"
+              onClick={() => {
+                dispatch({ type: "delete-node", id: node.id });
+                onDeleted?.(node);
+              }}
+            >
               Delete node
             </button>
-            <button type="button" className="btn-quiet min-h-11 px-4 text-base" onClick={() => setAsking(false)}>
+            <button ref={keep} type="button" className="btn-quiet min-h-11 px-4 text-base" onClick={() => setAsking(false)}>
               Keep it
             </button>
           </div>
         </div>
       ) : (
-        <button type="button" className="btn-quiet min-h-11 px-4 text-base text-out" onClick={() => setAsking(true)}>
+        <button ref={ask} type="button" className="btn-quiet min-h-11 px-4 text-base text-out" onClick={() => setAsking(true)}>
           Delete this node…
         </button>
       )}

@@ -126,6 +126,7 @@ export function Outline({ tree, selected, marks, onOpen }: Props) {
               else refs.current.delete(r.key);
             }}
             role="treeitem"
+            data-node={r.type === "node" ? r.nodeId : undefined}
             aria-level={r.depth}
             aria-setsize={sib.length}
             aria-posinset={sib.indexOf(r) + 1}
@@ -154,7 +155,7 @@ export function Outline({ tree, selected, marks, onOpen }: Props) {
                 type="button"
                 tabIndex={-1}
                 aria-hidden="true"
-                className="inline-flex size-7 shrink-0 items-center justify-center rounded text-ink-soft hover:bg-paper"
+                className="inline-flex size-11 shrink-0 items-center justify-center rounded text-ink-soft hover:bg-paper lg:size-8"
                 onClick={(e) => {
                   e.stopPropagation();
                   setOpen(r, collapsed.has(r.key));
@@ -163,7 +164,7 @@ export function Outline({ tree, selected, marks, onOpen }: Props) {
                 {collapsed.has(r.key) ? "▸" : "▾"}
               </button>
             ) : (
-              <span className="inline-block size-7 shrink-0" aria-hidden="true" />
+              <span className="inline-block size-11 shrink-0 lg:size-8" aria-hidden="true" />
             )}
             {r.via !== null && <span className="shrink-0 rounded bg-paper px-1.5 py-0.5 text-sm font-semibold text-ink-soft">{r.via} →</span>}
             {r.loop && <span className="shrink-0 text-sm text-ink-soft">(re-check)</span>}

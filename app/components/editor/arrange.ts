@@ -4,10 +4,7 @@ import dagre from "@dagrejs/dagre";
 import { nodeBranches } from "~/engine/graph";
 import type { Tree } from "~/engine/types";
 import type { Layout } from "./draft";
-
-/** The canvas draws every node at this size; the layout spaces them by it. */
-export const NODE_WIDTH = 240;
-export const NODE_HEIGHT = 96;
+import { NODE_HEIGHT, NODE_WIDTH } from "./layout";
 
 export function arrange(tree: Tree): Layout {
   const g = new dagre.graphlib.Graph();

@@ -2,7 +2,8 @@
 // to it, as one pure reducer: both views edit the same draft through the same actions.
 import { nodeBranches } from "~/engine/graph";
 import type { Answer, Branch, NodeKind, Tree, TreeNode, VerdictKind } from "~/engine/types";
-import { newNode } from "./kinds";
+import { defaultTitle, newNode } from "./kinds";
+import { placeNew } from "./layout";
 
 export type Layout = Record<string, { x: number; y: number }>;
 
@@ -46,6 +47,14 @@ export function uniqueId(base: string, taken: Iterable<string>): string {
       .replace(/-+$/, "") || "node";
   if (!used.has(slug)) return slug;
   for (let i = 2; ; i++) if (!used.has(`${slug}-${i}`)) return `${slug}-${i}`;
+}
+
+/** The title a new node of `kind` gets: the kind's default, numbered when the draft already has it ("New root cause 2"). */
+export function newTitle(tree: Tree, kind: NodeKind): string {
+  const base = defaultTitle(kind);
+  const used = new Set(tree.nodes.map((n) => n.title));
+  if (!used.has(base)) return base;
+  for (let i = 2; ; i++) if (!used.has(`${base} ${i}`)) return `${base} ${i}`;
 }
 
 function uniqueVariable(tree: Tree): string {
@@ -116,17 +125,6 @@ function changed(state: DraftState, tree: Tree, layout = state.layout, selected 
   return { tree, layout, selected, change: state.change + 1 };
 }
 
-/** Below its parent, or below the lowest node when it has none. */
-function placeFor(state: DraftState, link?: Link): { x: number; y: number } {
-  const parent = link ? state.layout[link.from] : undefined;
-  if (parent) {
-    const siblings = link ? nodeBranches(state.tree.nodes.find((n) => n.id === link.from)!).length : 0;
-    return { x: parent.x + siblings * 40 - 40, y: parent.y + 140 };
-  }
-  const ys = Object.values(state.layout).map((p) => p.y);
-  return { x: 0, y: ys.length ? Math.max(...ys) + 140 : 0 };
-}
-
 export function draftReducer(state: DraftState, action: DraftAction): DraftState {
   const { tree } = state;
   switch (action.type) {
@@ -139,7 +137,7 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
     }
     case "add-node": {
       const id = uniqueId(`${action.kind === "measurement" ? "measure" : action.kind}`, tree.nodes.map((n) => n.id));
-      const node = newNode(action.kind, id, uniqueVariable(tree));
+      const node = newNode(action.kind, id, uniqueVariable(tree), newTitle(tree, action.kind));
       let nodes = [...tree.nodes, node];
       if (action.link) {
         const { from, key, label } = action.link;
@@ -151,7 +149,9 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
       }
       const hasStart = tree.nodes.some((n) => n.id === tree.start);
       const next: Tree = { ...tree, nodes, start: hasStart ? tree.start : id };
-      const layout = { ...state.layout, [id]: action.at ?? placeFor(state, action.link) };
+      const parent = action.link ? tree.nodes.find((n) => n.id === action.link!.from) : undefined;
+      const siblings = parent ? nodeBranches(parent).map(({ branch }) => branch.to) : [];
+      const layout = { ...state.layout, [id]: action.at ?? placeNew(state.layout, action.link?.from, siblings) };
       return changed(state, next, layout, action.select === false ? state.selected : id);
     }
     case "update-node": {

@@ -53,9 +53,13 @@ const DEFAULT_TITLE: Record<NodeKind, string> = {
   escalate: "Needs a lead",
 };
 
+/** The title a new node of `kind` starts with (the draft numbers repeats: see newTitle). */
+export function defaultTitle(kind: NodeKind): string {
+  return DEFAULT_TITLE[kind];
+}
+
 /** A node of `kind` that the engine's schema accepts, for the author to fill in. */
-export function newNode(kind: NodeKind, id: string, variable = "rated_value"): TreeNode {
-  const title = DEFAULT_TITLE[kind];
+export function newNode(kind: NodeKind, id: string, variable = "rated_value", title = DEFAULT_TITLE[kind]): TreeNode {
   switch (kind) {
     case "question":
       return { id, kind, title, answers: [] };

@@ -1,11 +1,15 @@
 // Typing a value with its unit: measurements (judged live by the engine, with the meter chosen)
-// and nameplate ratings. Big input, unit buttons, the verdict under the number as it is typed.
-import { useId, useMemo, useState } from "react";
+// and nameplate ratings. Big input; right under it, in view above the phone's keyboard, the
+// verdict (or what is wrong with what was typed) as it is typed; then the unit and the meter.
+import { useId, useMemo, useRef, useState, type ReactNode } from "react";
+import { announce } from "~/components/Announcer";
+import { Labelled } from "~/components/Field";
 import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, NameplateNode, VerdictKind } from "~/engine/types";
 import { parseReading, QUANTITY_INFO, unitQuantity } from "~/engine/units";
 import { describeMeter, evaluateReading } from "~/engine/verdict";
 import { meterAccuracy, type MeterView } from "~/models/run-log";
+import { useKeepInView } from "./inView";
 import type { RunHandle } from "./useRun";
 
 /** "1,47" → "1.47"; a bare number gets the chosen unit, a typed unit wins. */
@@ -23,10 +27,10 @@ export const VERDICT_STYLE: Record<VerdictKind, { word: string; box: string }> =
   marginal: { word: "Marginal — re-measure", box: "border-marginal bg-marginal-soft text-marginal" },
 };
 
-export function VerdictBox({ verdict, message, live }: { verdict: VerdictKind; message: string; live?: boolean }) {
+export function VerdictBox({ verdict, message }: { verdict: VerdictKind; message: string }) {
   const s = VERDICT_STYLE[verdict];
   return (
-    <div className={`rounded-xl border-2 p-3 ${s.box}`} role={live ? "status" : undefined} aria-live={live ? "polite" : undefined}>
+    <div className={`rounded-xl border-2 p-3 ${s.box}`}>
       <p className="text-xl font-bold">{s.word}</p>
       <p className="text-lg font-semibold text-ink">{message}</p>
       {verdict === "marginal" && <p className="mt-1 text-base text-ink">Too close to a limit to call: check the leads and measure again.</p>}
@@ -34,47 +38,90 @@ export function VerdictBox({ verdict, message, live }: { verdict: VerdictKind; m
   );
 }
 
-function UnitButtons({ units, value, onChange, label }: { units: readonly string[]; value: string; onChange: (u: string) => void; label: string }) {
+/**
+ * The typed value and, right under it, what Cluepath makes of it. The part under the field is a
+ * live region that is always there (so screen readers read each new verdict); a refusal on Save
+ * is also said aloud at once. Kept in view while the field has focus.
+ */
+function ValueField({ label, text, setText, unit, problem, children }: { label: string; text: string; setText: (v: string) => void; unit: string; problem: string | null; children: ReactNode }) {
+  const group = useRef<HTMLDivElement>(null);
+  const id = useId();
+  useKeepInView(group);
   return (
-    <div role="radiogroup" aria-label={label} className="flex flex-wrap gap-2">
-      {units.map((u) => (
-        <button
-          key={u}
-          type="button"
-          role="radio"
-          aria-checked={u === value}
-          onClick={() => onChange(u)}
-          className={`min-h-14 min-w-16 rounded-lg border-2 px-4 text-xl font-bold ${u === value ? "border-ink bg-ink text-white" : "border-rule bg-card text-ink"}`}
-        >
-          {u}
-        </button>
-      ))}
+    <div ref={group} className="space-y-2">
+      <Labelled id={id} label={label} labelClassName="text-lg">
+        {(control) => (
+          <input
+            {...control}
+            aria-invalid={problem ? true : undefined}
+            aria-describedby={`${id}-said`}
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+            inputMode="decimal"
+            autoComplete="off"
+            autoCorrect="off"
+            spellCheck={false}
+            enterKeyHint="done"
+            placeholder={`e.g. in ${unit}`}
+            className="block h-16 w-full rounded-xl border-2 border-ink bg-card px-4 text-3xl font-bold text-ink placeholder:text-lg placeholder:font-normal placeholder:text-ink-soft"
+          />
+        )}
+      </Labelled>
+      <div id={`${id}-said`} role="status" aria-live="polite" aria-atomic="true">
+        {problem ? <p className="field-error">{problem}</p> : children}
+      </div>
     </div>
+  );
+}
+
+/** One radio group (one Tab stop, arrow keys move) drawn as big buttons. */
+function UnitButtons({ units, value, onChange, label }: { units: readonly string[]; value: string; onChange: (u: string) => void; label: string }) {
+  const name = useId();
+  return (
+    <fieldset>
+      <legend className="sr-only">{label}</legend>
+      <div className="flex flex-wrap gap-2">
+        {units.map((u) => (
+          <label key={u} className="relative">
+            <input type="radio" name={name} value={u} checked={u === value} onChange={() => onChange(u)} className="peer absolute inset-0 h-full w-full cursor-pointer opacity-0" />
+            <span className="flex min-h-14 min-w-16 items-center justify-center rounded-lg border-2 border-rule bg-card px-4 text-xl font-bold text-ink peer-checked:border-ink peer-checked:bg-ink peer-checked:text-white peer-focus-visible:outline-3 peer-focus-visible:outline-offset-2 peer-focus-visible:outline-focus">
+              {u}
+            </span>
+          </label>
+        ))}
+      </div>
+    </fieldset>
+  );
+}
+
+/** The meters a reading can be judged with, each with its whole name and accuracy (nothing cut off). */
+function MeterChoice({ node, offered, value, onChange }: { node: MeasurementNode; offered: MeterView[]; value: string; onChange: (id: string) => void }) {
+  const name = useId();
+  const options = [
+    node.meter
+      ? { id: "", title: "As the procedure assumes", detail: `Accuracy ${describeMeter(node.meter, node.unit)}` }
+      : { id: "", title: "Not listed", detail: "The reading is judged as read." },
+    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}` })),
+  ];
+  return (
+    <fieldset className="space-y-2">
+      <legend className="field-label">Meter</legend>
+      {options.map((o) => (
+        <label key={o.id || "own"} className="relative block">
+          <input type="radio" name={name} value={o.id} checked={o.id === value} onChange={() => onChange(o.id)} className="peer absolute left-4 top-4 size-6 cursor-pointer accent-copper" />
+          <span className="block min-h-14 cursor-pointer rounded-lg border-2 border-rule bg-card py-2 pl-14 pr-3 peer-checked:border-ink peer-focus-visible:outline-3 peer-focus-visible:outline-offset-2 peer-focus-visible:outline-focus">
+            <span className="block text-lg font-semibold leading-snug">{o.title}</span>
+            <span className="block text-base text-ink-soft">{o.detail}</span>
+          </span>
+        </label>
+      ))}
+    </fieldset>
   );
 }
 
 function unitsFor(quantity: keyof typeof QUANTITY_INFO, own: string): string[] {
   const list = [...QUANTITY_INFO[quantity].units];
   return list.includes(own) ? list : [own, ...list];
-}
-
-function BigInput(props: { id: string; value: string; onChange: (v: string) => void; unit: string; invalid: boolean; describedBy?: string }) {
-  return (
-    <input
-      id={props.id}
-      value={props.value}
-      onChange={(e) => props.onChange(e.target.value)}
-      inputMode="decimal"
-      autoComplete="off"
-      autoCorrect="off"
-      spellCheck={false}
-      enterKeyHint="done"
-      placeholder={`e.g. in ${props.unit}`}
-      aria-invalid={props.invalid || undefined}
-      aria-describedby={props.describedBy}
-      className="block h-16 w-full rounded-xl border-2 border-ink bg-card px-4 text-3xl font-bold text-ink placeholder:text-lg placeholder:font-normal placeholder:text-ink-soft"
-    />
-  );
 }
 
 function defaultMeter(run: RunHandle, node: MeasurementNode, offered: MeterView[]): string {
@@ -87,8 +134,13 @@ function defaultMeter(run: RunHandle, node: MeasurementNode, offered: MeterView[
   return offered[0]?.id ?? "";
 }
 
+/** Save: the engine's refusal (or a missing value) is shown under the field and said aloud. */
+function refuse(setError: (e: string | null) => void, message: string | null) {
+  setError(message);
+  if (message) announce(message, "assertive");
+}
+
 export function MeasurementInput({ node, run }: { node: MeasurementNode; run: RunHandle }) {
-  const id = useId();
   const [text, setText] = useState("");
   const [unit, setUnit] = useState(node.unit);
   const [error, setError] = useState<string | null>(null);
@@ -101,11 +153,12 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   const reading = composeReading(text, unit);
   const preview = reading ? evaluateReading(node, reading, meter ? { variables, meter } : { variables }) : null;
   const overRange = chosen && preview?.ok ? rangeWarning(preview.verdict.reading.si, chosen) : null;
+  // One message at a time: a refusal on Save, else what is wrong with what is typed.
+  const problem = error ?? (preview && !preview.ok ? preview.message : null);
 
   function save() {
-    if (!reading) return setError("Type the reading first.");
-    const refused = run.submit({ type: "reading", node: node.id, reading }, chosen?.id ?? null);
-    setError(refused);
+    if (!reading) return refuse(setError, "Type the reading first.");
+    refuse(setError, run.submit({ type: "reading", node: node.id, reading }, chosen?.id ?? null));
   }
 
   return (
@@ -116,40 +169,12 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
         {limits.ok && !limits.limits.fixed && <p className="text-base text-ink-soft">{limits.limits.derivation}</p>}
         {!limits.ok && <p className="field-error">{limits.message}</p>}
       </div>
-      <div>
-        <label htmlFor={id} className="field-label text-lg">
-          Reading
-        </label>
-        <BigInput id={id} value={text} onChange={(v) => (setText(v), setError(null))} unit={unit} invalid={Boolean(error)} describedBy={error ? `${id}-err` : undefined} />
-      </div>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={setUnit} label="Unit of the reading" />
-      <div>
-        <label htmlFor={`${id}-meter`} className="field-label">
-          Meter
-        </label>
-        <select id={`${id}-meter`} value={meterId} onChange={(e) => setMeterId(e.target.value)} className="field-input min-h-14">
-          {node.meter && <option value="">As the procedure assumes: {describeMeter(node.meter, node.unit)}</option>}
-          {!node.meter && <option value="">Not listed (judge the reading as read)</option>}
-          {offered.map((m) => (
-            <option key={m.id} value={m.id}>
-              {m.name}
-            </option>
-          ))}
-        </select>
-        {chosen && <p className="mt-1 text-base text-ink-soft">Accuracy {describeMeter(meterAccuracy(chosen), chosen.unit)}</p>}
-      </div>
-      {preview && !preview.ok && (
-        <p id={`${id}-err`} className="field-error" role="status">
-          {preview.message}
-        </p>
-      )}
-      {preview?.ok && <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} live />}
-      {overRange && <p className="font-semibold text-marginal">{overRange}</p>}
-      {error && !(preview && !preview.ok) && (
-        <p id={`${id}-err`} className="field-error" role="alert">
-          {error}
-        </p>
-      )}
+      <ValueField label="Reading" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
+        {preview?.ok && <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} />}
+        {overRange && <p className="mt-2 font-semibold text-marginal">{overRange}</p>}
+      </ValueField>
+      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
+      <MeterChoice node={node} offered={offered} value={meterId} onChange={setMeterId} />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save reading
       </button>
@@ -164,17 +189,17 @@ function rangeWarning(si: number, m: MeterView): string | null {
 }
 
 export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHandle }) {
-  const id = useId();
   const [text, setText] = useState("");
   const [unit, setUnit] = useState(node.unit);
   const [error, setError] = useState<string | null>(null);
   const onFile = Object.entries(run.view.unit?.nameplate ?? {}).filter(([, v]) => unitQuantity(v.unit, node.quantity) === node.quantity);
   const value = composeReading(text, unit);
   const parsed = value ? parseReading(value, node.quantity, node.unit) : null;
+  const problem = error ?? (parsed && !parsed.ok ? parsed.message : null);
 
   function save() {
-    if (!value) return setError("Type the value from the nameplate first.");
-    setError(run.submit({ type: "nameplate", node: node.id, value }));
+    if (!value) return refuse(setError, "Type the value from the nameplate first.");
+    refuse(setError, run.submit({ type: "nameplate", node: node.id, value }));
   }
 
   return (
@@ -191,24 +216,14 @@ export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHan
           </div>
         </div>
       )}
-      <div>
-        <label htmlFor={id} className="field-label text-lg">
-          Rated value
-        </label>
-        <BigInput id={id} value={text} onChange={(v) => (setText(v), setError(null))} unit={unit} invalid={Boolean(error || (parsed && !parsed.ok))} />
-      </div>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={setUnit} label="Unit of the rating" />
-      {parsed && !parsed.ok && <p className="field-error">{parsed.message}</p>}
-      {parsed?.ok && (
-        <p className="text-lg" role="status">
-          Recorded as <strong>{parsed.display} {node.unit}</strong>
-        </p>
-      )}
-      {error && (
-        <p className="field-error" role="alert">
-          {error}
-        </p>
-      )}
+      <ValueField label="Rated value" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
+        {parsed?.ok && (
+          <p className="text-lg">
+            Recorded as <strong>{parsed.display} {node.unit}</strong>
+          </p>
+        )}
+      </ValueField>
+      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the rating" />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save rating
       </button>

@@ -1,6 +1,7 @@
 // One screen per kind of step: what the technician reads and the one thing they do next.
-import { useState } from "react";
-import type { CautionNode, OutcomeNode, QuestionNode, StepNode, TreeNode } from "~/engine/types";
+import { useEffect, useId, useState } from "react";
+import { announce } from "~/components/Announcer";
+import type { CautionNode, QuestionNode, StepNode, TreeNode } from "~/engine/types";
 import { Markdown } from "./Markdown";
 import { MeasurementInput, NameplateInput } from "./Reading";
 import { DEFER_WORDING, HAZARD_TITLE, HAZARD_WORDING } from "./safety";
@@ -16,46 +17,58 @@ export const KIND_LABEL: Record<TreeNode["kind"], string> = {
   escalate: "Hand over",
 };
 
-function Refusal({ message }: { message: string | null }) {
-  return message ? (
-    <p className="field-error" role="alert">
-      {message}
-    </p>
-  ) : null;
+/** A refused entry: shown under the control and said aloud at once. */
+function useRefusal() {
+  const [refused, setRefused] = useState<string | null>(null);
+  const refuse = (message: string | null) => {
+    setRefused(message);
+    if (message) announce(message, "assertive");
+  };
+  const shown = refused ? <p className="field-error">{refused}</p> : null;
+  return [shown, refuse] as const;
 }
 
+/** False for a moment after a screen appears: a double tap meant for the last screen does nothing here. */
+function useSettled(ms = 600) {
+  const [settled, setSettled] = useState(false);
+  useEffect(() => {
+    const t = setTimeout(() => setSettled(true), ms);
+    return () => clearTimeout(t);
+  }, [ms]);
+  return settled;
+}
+
+/** A caution: its hazard's wording, then one large control that says what it acknowledges. */
 function CautionScreen({ node, run }: { node: CautionNode; run: RunHandle }) {
-  const [checked, setChecked] = useState(false);
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
+  const settled = useSettled();
   const hazard = node.hazard ?? "other";
+  const safetyId = useId();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-      <section className="rounded-xl border-2 border-out bg-out-soft p-4 text-ink" aria-label="Safety">
+      <section id={safetyId} className="rounded-xl border-2 border-out bg-out-soft p-4 text-ink" aria-label="Safety">
         <p className="text-lg font-bold text-out">⚠ {HAZARD_TITLE[hazard]}</p>
         <p className="mt-1 text-lg">{HAZARD_WORDING[hazard]}</p>
         <p className="mt-2 text-base">{DEFER_WORDING}</p>
       </section>
-      <label className="flex min-h-16 cursor-pointer items-center gap-4 rounded-xl border-2 border-ink bg-card px-4 text-lg font-semibold">
-        <input type="checkbox" className="h-8 w-8 shrink-0 accent-copper" checked={checked} onChange={(e) => setChecked(e.target.checked)} />
-        I have read this and made the work safe
-      </label>
       <button
         type="button"
-        className="btn-primary min-h-16 w-full text-xl"
-        disabled={!checked}
-        onClick={() => setRefused(run.submit({ type: "acknowledge", node: node.id }))}
+        className="block min-h-20 w-full rounded-xl bg-copper px-4 py-3 text-left text-white hover:bg-copper-dark"
+        disabled={!settled}
+        aria-describedby={safetyId}
+        onClick={() => refuse(run.submit({ type: "acknowledge", node: node.id }))}
       >
-        Continue
+        <span className="block text-xl font-bold leading-tight">I have read this and made the work safe</span>
+        <span className="mt-1 block text-base font-normal">Acknowledges the caution ‘{HAZARD_TITLE[hazard]}’ and goes on</span>
       </button>
-      {!checked && <p className="text-center text-base text-ink-soft">Tick the box to continue.</p>}
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }
 
 function QuestionScreen({ node, run }: { node: QuestionNode; run: RunHandle }) {
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
@@ -65,26 +78,26 @@ function QuestionScreen({ node, run }: { node: QuestionNode; run: RunHandle }) {
             key={a.label}
             type="button"
             className="min-h-16 w-full rounded-xl border-2 border-ink bg-card px-4 py-3 text-left text-xl font-bold text-ink hover:bg-copper-soft active:bg-copper-soft"
-            onClick={() => setRefused(run.submit({ type: "answer", node: node.id, answer: a.label }))}
+            onClick={() => refuse(run.submit({ type: "answer", node: node.id, answer: a.label }))}
           >
             {a.label.charAt(0).toUpperCase() + a.label.slice(1)}
           </button>
         ))}
       </div>
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }
 
 function InstructionScreen({ node, run }: { node: StepNode; run: RunHandle }) {
-  const [refused, setRefused] = useState<string | null>(null);
+  const [refusal, refuse] = useRefusal();
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-      <button type="button" className="btn-primary min-h-16 w-full text-xl" onClick={() => setRefused(run.submit({ type: "continue", node: node.id }))}>
+      <button type="button" className="btn-primary min-h-16 w-full text-xl" onClick={() => refuse(run.submit({ type: "continue", node: node.id }))}>
         Done — next step
       </button>
-      <Refusal message={refused} />
+      {refusal}
     </div>
   );
 }
@@ -114,125 +127,4 @@ export function StepScreen({ node, run }: { node: TreeNode; run: RunHandle }) {
     default:
       return null;
   }
-}
-
-type PartRow = { partNumber: string; description: string; quantity: string };
-
-/** The run stands at an outcome: what was done, parts and time, then the report. */
-export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle }) {
-  const started = new Date(run.view.run.startedAt).getTime();
-  const [action, setAction] = useState("");
-  const [minutes, setMinutes] = useState(() => String(Math.max(1, Math.ceil((Date.now() - started) / 60_000))));
-  const [parts, setParts] = useState<PartRow[]>([]);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const setPart = (i: number, patch: Partial<PartRow>) => setParts((ps) => ps.map((p, j) => (j === i ? { ...p, ...patch } : p)));
-
-  async function finish() {
-    const errs: Record<string, string> = {};
-    if (action.trim().length < 3) errs.action = "Say what you did about it.";
-    const m = Number(minutes);
-    if (!Number.isInteger(m) || m < 1 || m > 1440) errs.minutes = "Whole minutes between 1 and 1440.";
-    parts.forEach((p, i) => {
-      if (!p.description.trim()) errs[`part-${i}`] = "Describe the part, or remove the row.";
-      const q = Number(p.quantity);
-      if (!Number.isInteger(q) || q < 1 || q > 999) errs[`qty-${i}`] = "A whole number from 1.";
-    });
-    setErrors(errs);
-    if (Object.keys(errs).length) return;
-    await run
-      .recordOutcome({ action: action.trim(), minutes: m, parts: parts.map((p) => ({ partNumber: p.partNumber.trim(), description: p.description.trim(), quantity: Number(p.quantity) })) })
-      .catch(() => undefined);
-  }
-
-  return (
-    <div className="space-y-5">
-      <section className="rounded-xl border-2 border-within bg-within-soft p-4">
-        <p className="text-base font-semibold uppercase tracking-wide text-within">Root cause found</p>
-        <p className="text-2xl font-bold">{node.title}</p>
-        <p className="mt-2 text-lg">{node.remedy}</p>
-        <Markdown blocks={run.view.bodies[node.id]} className="mt-2" />
-      </section>
-      <form
-        className="space-y-5"
-        noValidate
-        onSubmit={(e) => {
-          e.preventDefault();
-          void finish();
-        }}
-      >
-        <div>
-          <label htmlFor="outcome-action" className="field-label text-lg">
-            What you did
-          </label>
-          <textarea
-            id="outcome-action"
-            value={action}
-            onChange={(e) => setAction(e.target.value)}
-            rows={4}
-            className="field-input py-2"
-            aria-invalid={errors.action ? true : undefined}
-          />
-          <button type="button" className="btn-quiet mt-2 min-h-14 w-full text-base" onClick={() => setAction(node.remedy)}>
-            Start from the usual remedy
-          </button>
-          {errors.action && <p className="field-error">{errors.action}</p>}
-        </div>
-        <fieldset className="space-y-3">
-          <legend className="field-label text-lg">Parts used</legend>
-          {node.parts.some((p) => !parts.some((x) => x.description === p)) && (
-            <div className="space-y-2">
-              <p className="text-base text-ink-soft">The procedure suggests:</p>
-              {node.parts.filter((p) => !parts.some((x) => x.description === p)).map((p) => (
-                <button key={p} type="button" className="btn-quiet min-h-14 w-full justify-start text-left text-base" onClick={() => setParts((ps) => [...ps, { partNumber: "", description: p, quantity: "1" }])}>
-                  + {p}
-                </button>
-              ))}
-            </div>
-          )}
-          {parts.map((p, i) => (
-            <div key={i} className="card space-y-2" aria-label={`Part ${i + 1}`}>
-              <div>
-                <label className="field-label" htmlFor={`part-desc-${i}`}>
-                  Description
-                </label>
-                <input id={`part-desc-${i}`} className="field-input" value={p.description} onChange={(e) => setPart(i, { description: e.target.value })} />
-                {errors[`part-${i}`] && <p className="field-error">{errors[`part-${i}`]}</p>}
-              </div>
-              <div className="grid grid-cols-[1fr_6rem] gap-2">
-                <div>
-                  <label className="field-label" htmlFor={`part-no-${i}`}>
-                    Part number
-                  </label>
-                  <input id={`part-no-${i}`} className="field-input" value={p.partNumber} onChange={(e) => setPart(i, { partNumber: e.target.value })} autoCapitalize="characters" />
-                </div>
-                <div>
-                  <label className="field-label" htmlFor={`part-qty-${i}`}>
-                    Qty
-                  </label>
-                  <input id={`part-qty-${i}`} className="field-input" inputMode="numeric" value={p.quantity} onChange={(e) => setPart(i, { quantity: e.target.value })} />
-                  {errors[`qty-${i}`] && <p className="field-error">{errors[`qty-${i}`]}</p>}
-                </div>
-              </div>
-              <button type="button" className="btn-quiet min-h-12 w-full text-base" onClick={() => setParts((ps) => ps.filter((_, j) => j !== i))}>
-                Remove this part
-              </button>
-            </div>
-          ))}
-          <button type="button" className="btn-quiet min-h-14 w-full" onClick={() => setParts((ps) => [...ps, { partNumber: "", description: "", quantity: "1" }])}>
-            + Add another part
-          </button>
-        </fieldset>
-        <div>
-          <label htmlFor="outcome-minutes" className="field-label text-lg">
-            Time on the job (minutes)
-          </label>
-          <input id="outcome-minutes" className="field-input text-2xl" inputMode="numeric" value={minutes} onChange={(e) => setMinutes(e.target.value)} aria-invalid={errors.minutes ? true : undefined} />
-          {errors.minutes && <p className="field-error">{errors.minutes}</p>}
-        </div>
-        <button type="submit" className="btn-primary min-h-16 w-full text-xl" disabled={run.outcomePending}>
-          {run.outcomePending ? "Saving…" : "Finish and make the report"}
-        </button>
-      </form>
-    </div>
-  );
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { arrange, completeLayout, NODE_HEIGHT } from "../../../app/components/editor/arrange";
+import { arrange, completeLayout } from "../../../app/components/editor/arrange";
+import { NODE_HEIGHT, NODE_WIDTH } from "../../../app/components/editor/layout";
 import { draftReducer, initDraft, uniqueId, type DraftAction, type DraftState } from "../../../app/components/editor/draft";
 import { outlineRows, visibleRows } from "../../../app/components/editor/outline";
 import { TreeSchema } from "../../../app/engine/schema";
@@ -65,6 +66,36 @@ describe("the editor's draft reducer", () => {
     s = run(s, { type: "set-branch", from: "cap-measure", key: "high", to: "cap-look" });
     const m = s.tree.nodes.find((n) => n.id === "cap-measure")!;
     expect(m.kind === "measurement" && m.branches.high).toEqual({ to: "cap-look", recheck: { max: 2, onExceed: "cap-failed" } });
+  });
+
+  it("new nodes land in free space: no box on another, children below their parent", () => {
+    // Three answers of one question, two verdicts of a measurement, then nodes from the palette:
+    // the draft grows the way an author builds it, and no two boxes share a spot.
+    let s = initDraft(empty, {});
+    s = run(s, { type: "add-node", kind: "question" });
+    const q = s.tree.nodes[0]!.id;
+    for (const [label, kind] of [["no", "measurement"], ["yes", "outcome"], ["unsure", "outcome"]] as const)
+      s = run(s, { type: "add-node", kind, link: { from: q, key: `answer:${label}`, label }, select: false });
+    const m = s.tree.nodes[1]!.id;
+    s = run(s, { type: "add-node", kind: "outcome", link: { from: m, key: "low" } }, { type: "add-node", kind: "outcome", link: { from: m, key: "high" } });
+    s = run(s, { type: "add-node", kind: "step" }, { type: "add-node", kind: "caution" });
+    const boxes = Object.entries(s.layout);
+    expect(boxes).toHaveLength(8);
+    for (const [a, p] of boxes)
+      for (const [b, r] of boxes) if (a < b) expect(Math.abs(p.x - r.x) >= NODE_WIDTH || Math.abs(p.y - r.y) >= NODE_HEIGHT, `${a} and ${b} overlap`).toBe(true);
+    const answers = s.tree.nodes.slice(1, 4).map((n) => s.layout[n.id]!);
+    for (const p of answers) expect(p.y).toBeGreaterThanOrEqual(s.layout[q]!.y + NODE_HEIGHT);
+    // The answers' nodes stand left to right in the order of the answers, so their lines don't cross.
+    expect(answers.map((p) => p.x)).toEqual([...answers.map((p) => p.x)].sort((a, b) => a - b));
+  });
+
+  it("new nodes of one kind get distinct titles, so pickers and the outline can tell them apart", () => {
+    let s = initDraft(empty, {});
+    s = run(s, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "question" });
+    expect(s.tree.nodes.map((n) => n.title)).toEqual(["New root cause", "New root cause 2", "New root cause 3", "New question"]);
+    // A title the author changed frees its default again.
+    s = run(s, { type: "update-node", node: { ...s.tree.nodes[0]!, title: "Failed run capacitor" } }, { type: "add-node", kind: "outcome" });
+    expect(s.tree.nodes.at(-1)!.title).toBe("New root cause");
   });
 
   it("ids come from the title, unique in the tree", () => {

@@ -162,6 +162,63 @@ describe("outcome and question forms", () => {
   });
 });
 
+describe("choosing where a branch leads", () => {
+  it("a “New …” option makes nothing until it is confirmed; passing over two of them (as arrow keys do) makes no stray node", () => {
+    const s = mount(smallTree(), "cap-measure");
+    const before = s.state.tree.nodes.length;
+    const low = () => screen.getByLabelText("On a low reading, go to") as HTMLSelectElement;
+    fireEvent.change(low(), { target: { value: "new:outcome" } });
+    fireEvent.change(low(), { target: { value: "new:step" } });
+    expect(s.state.tree.nodes).toHaveLength(before);
+    // The select keeps showing the choice, and a confirmation says what will happen.
+    expect(low().value).toBe("new:step");
+    expect(screen.getByText("A new step will be made, and the Low branch connected to it.")).toBeTruthy();
+    fireEvent.click(screen.getByRole("button", { name: "Cancel" }));
+    expect(s.state.tree.nodes).toHaveLength(before);
+    expect(low().value).toBe("cap-failed");
+    fireEvent.change(low(), { target: { value: "new:outcome" } });
+    fireEvent.click(screen.getByRole("button", { name: "Make it and connect" }));
+    expect(s.state.tree.nodes).toHaveLength(before + 1);
+    const made = s.state.tree.nodes.at(-1)!;
+    expect(made).toMatchObject({ kind: "outcome", title: "New root cause" });
+    const m = node(s, "cap-measure");
+    expect(m.kind === "measurement" && m.branches.low).toEqual({ to: made.id });
+    expect(low().value).toBe(made.id);
+  });
+
+  it("the new answer's target keeps a chosen “New …” option on screen, so the next key press does not land on another node", () => {
+    const s = mount(smallTree(), "cap-look");
+    const target = () => screen.getByLabelText("The new answer leads to") as HTMLSelectElement;
+    fireEvent.change(target(), { target: { value: "new:measurement" } });
+    expect(target().value).toBe("new:measurement");
+    expect(screen.getByText("A new measurement will be made for it.")).toBeTruthy();
+    type("Answer text", "can't tell");
+    fireEvent.click(screen.getByRole("button", { name: "Add answer" }));
+    const q = node(s, "cap-look");
+    const made = s.state.tree.nodes.at(-1)!;
+    expect(made.kind).toBe("measurement");
+    expect(q.kind === "question" && q.answers.at(-1)).toEqual({ label: "can't tell", to: made.id });
+    // Nothing links the question to itself.
+    expect(q.kind === "question" && q.answers.some((a) => a.to === "cap-look")).toBe(false);
+  });
+});
+
+describe("deleting a node", () => {
+  it("focus goes to the confirmation, back to the button on “Keep it”, and the draft loses the node only when confirmed", () => {
+    const s = mount(smallTree(), "motor-failed");
+    fireEvent.click(screen.getByRole("button", { name: "Delete this node…" }));
+    const group = screen.getByRole("group", { name: "Confirm deleting this node" });
+    expect(document.activeElement).toBe(within(group).getByRole("button", { name: "Keep it" }));
+    expect(group.getAttribute("aria-describedby")).toBeTruthy();
+    fireEvent.click(within(group).getByRole("button", { name: "Keep it" }));
+    expect(document.activeElement).toBe(screen.getByRole("button", { name: "Delete this node…" }));
+    expect(s.state.tree.nodes.some((n) => n.id === "motor-failed")).toBe(true);
+    fireEvent.click(screen.getByRole("button", { name: "Delete this node…" }));
+    fireEvent.click(screen.getByRole("button", { name: "Delete node" }));
+    expect(s.state.tree.nodes.some((n) => n.id === "motor-failed")).toBe(false);
+  });
+});
+
 describe("tree details form", () => {
   it("checks the title and symptom with the engine's tree schema", () => {
     const s = mount(smallTree(), null);

@@ -1,0 +1,43 @@
+// The runner's top bar: back to the call, the step count (opens the history), the save state.
+import type { RunHandle } from "./useRun";
+
+function SaveState({ run }: { run: RunHandle }) {
+  if (run.waiting > 0)
+    return (
+      <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">
+        Offline · {run.waiting} waiting
+      </span>
+    );
+  if (run.saving > 0)
+    return (
+      <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">
+        Saving…
+      </span>
+    );
+  return (
+    <span className="rounded-full bg-within-soft px-3 py-1 text-base font-bold text-within" role="status">
+      ✓ Saved
+    </span>
+  );
+}
+
+export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
+  const { view, state } = run;
+  const done = state.steps.length;
+  const back = view.call ? `/calls/${view.call.id}` : "/";
+  return (
+    <header className="sticky top-0 z-20 border-b border-rule bg-card">
+      <div className="mx-auto flex max-w-xl items-center justify-between gap-2 px-3 py-1">
+        <a href={back} className="flex min-h-12 items-center text-base font-semibold">
+          ← {view.call ? `Call ${view.call.number}` : "Back"}
+        </a>
+        {walking && (
+          <button type="button" onClick={onHistory} className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark" aria-expanded={historyOpen} title="Show the steps done">
+            Step {done + 1} · <span className="underline">{done} done</span>
+          </button>
+        )}
+        <SaveState run={run} />
+      </div>
+    </header>
+  );
+}
