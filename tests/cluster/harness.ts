@@ -167,7 +167,7 @@ export class Technician {
   private async retrying(what: string, attempt: () => Promise<Response>, deadlineMs = 90_000): Promise<{ res: Response; attempts: number; firstTry: number }> {
     const firstTry = this.ledger.now();
     for (let attempts = 1; ; attempts++) {
-      let status = "";
+      let status: string;
       let servedBy = "";
       try {
         const res = await attempt();
