@@ -1,7 +1,7 @@
 import { redirect } from "react-router";
 import { getUser } from "~/lib/auth.server";
 import { HOME_PATH } from "~/lib/roles";
-import type { Route } from "./+types/index";
+import type { Route } from "./+types/_index";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUser(request);

@@ -1,7 +1,7 @@
 import { Form, NavLink, Outlet, useMatches } from "react-router";
 import { requireUser } from "~/lib/auth.server";
 import { navFor, ROLE_LABEL } from "~/lib/roles";
-import type { Route } from "./+types/shell";
+import type { Route } from "./+types/_shell";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -4,7 +4,7 @@ import { jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
 import { notFound, requireSameOrigin } from "~/lib/http.server";
 import { deletePhoto, getPhotoFile } from "~/models/photos.server";
-import type { Route } from "./+types/photo";
+import type { Route } from "./+types/api.photos.$photoId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);

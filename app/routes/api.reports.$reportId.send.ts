@@ -3,7 +3,7 @@ import { jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
 import { sendReport } from "~/models/reports.server";
-import type { Route } from "./+types/report-send";
+import type { Route } from "./+types/api.reports.$reportId.send";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

@@ -3,7 +3,7 @@ import { readJson, jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
 import { addNote, noteInput } from "~/models/runs.server";
-import type { Route } from "./+types/run-notes";
+import type { Route } from "./+types/api.runs.$runId.notes";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

@@ -3,7 +3,7 @@ import { readJson, jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
 import { outcomeInput, recordOutcome } from "~/models/runs.server";
-import type { Route } from "./+types/run-outcome";
+import type { Route } from "./+types/api.runs.$runId.outcome";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

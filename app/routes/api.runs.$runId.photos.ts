@@ -5,7 +5,7 @@ import { requireUser } from "~/lib/auth.server";
 import { apiError, requireSameOrigin } from "~/lib/http.server";
 import { readUploadForm } from "~/lib/upload.server";
 import { addPhoto, photoFields } from "~/models/photos.server";
-import type { Route } from "./+types/run-photos";
+import type { Route } from "./+types/api.runs.$runId.photos";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

@@ -4,7 +4,7 @@ import { readJson, jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
 import { postStep, stepPayload } from "~/models/runs.server";
-import type { Route } from "./+types/run-steps";
+import type { Route } from "./+types/api.runs.$runId.steps";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

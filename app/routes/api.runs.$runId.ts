@@ -2,7 +2,7 @@
 import { requireUser } from "~/lib/auth.server";
 import { notFound } from "~/lib/http.server";
 import { getRunView } from "~/models/runs.server";
-import type { Route } from "./+types/run";
+import type { Route } from "./+types/api.runs.$runId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -4,7 +4,7 @@ import { requireRole, requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
 import { diffVersions } from "~/models/trees.server";
-import type { Route } from "./+types/tree-diff";
+import type { Route } from "./+types/api.trees.$treeId.diff";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);

@@ -9,7 +9,7 @@ import { idOf, treeIdOf } from "~/lib/tree-params.server";
 import { TreeSchema } from "~/engine/schema";
 import type { Tree } from "~/engine/types";
 import { getVersionRow, replaceDraftContent, VersionLockedError } from "~/models/trees.server";
-import type { Route } from "./+types/tree-draft";
+import type { Route } from "./+types/api.trees.$treeId.draft";
 
 const Save = z.object({
   versionId: z.string(),

@@ -6,7 +6,7 @@ import { apiError, requireSameOrigin } from "~/lib/http.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { readUploadForm } from "~/lib/upload.server";
 import { addTreeImage } from "~/models/trees.server";
-import type { Route } from "./+types/tree-images";
+import type { Route } from "./+types/api.trees.$treeId.images";
 
 export async function action({ request, params }: Route.ActionArgs) {
   requireMethod(request, "POST");

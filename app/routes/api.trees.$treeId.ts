@@ -4,7 +4,7 @@ import { requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { getTree } from "~/models/trees.server";
-import type { Route } from "./+types/tree";
+import type { Route } from "./+types/api.trees.$treeId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);

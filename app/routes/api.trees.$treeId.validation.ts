@@ -4,7 +4,7 @@ import { requireRole } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { validateDraft } from "~/models/trees.server";
-import type { Route } from "./+types/tree-validation";
+import type { Route } from "./+types/api.trees.$treeId.validation";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireRole(request, ["lead"]);

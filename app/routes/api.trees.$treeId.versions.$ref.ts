@@ -4,7 +4,7 @@ import { requireRole, requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
 import { loadTreeVersion } from "~/models/trees.server";
-import type { Route } from "./+types/tree-version";
+import type { Route } from "./+types/api.trees.$treeId.versions.$ref";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ref = versionRefOf(params.ref);

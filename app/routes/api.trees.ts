@@ -2,7 +2,7 @@
 import { requireUser } from "~/lib/auth.server";
 import { listLibrary } from "~/models/trees.server";
 import { libraryQueryOf } from "~/lib/tree-params.server";
-import type { Route } from "./+types/trees";
+import type { Route } from "./+types/api.trees";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -3,7 +3,7 @@ import { NewTreeLinks } from "~/components/TreeLinks";
 import { requireRole } from "~/lib/auth.server";
 import { when } from "~/lib/when";
 import { listLibrary, shopTimeZone } from "~/models/trees.server";
-import type { Route } from "./+types/home-lead";
+import type { Route } from "./+types/authoring";
 
 export const meta: Route.MetaFunction = () => [{ title: "Authoring · Cluepath" }];
 

@@ -8,7 +8,7 @@ import { getCall, shopTimeZone, suggestTrees } from "~/models/calls.server";
 import { reportNumber } from "~/models/report-data";
 import { runsOfCall, startRun } from "~/models/runs.server";
 import { atShop, placeName } from "~/lib/display";
-import type { Route } from "./+types/call";
+import type { Route } from "./+types/calls.$callId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${data.call.call.number} · Cluepath` : "Call · Cluepath" }];
 

@@ -2,7 +2,7 @@ import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { requireRole } from "~/lib/auth.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
 import { placeName } from "~/lib/display";
-import type { Route } from "./+types/home-technician";
+import type { Route } from "./+types/calls._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "My calls · Cluepath" }];
 

@@ -8,7 +8,7 @@ import { CALL_PRIORITIES, CALL_STATUSES, PRIORITY_LABEL, STATUS_LABEL } from "~/
 import { assignablePeople, listCalls, shopTimeZone } from "~/models/calls.server";
 import { countOpenEscalations } from "~/models/runs.server";
 import { atShop, placeName } from "~/lib/display";
-import type { Route } from "./+types/calls";
+import type { Route } from "./+types/calls.all";
 
 export const meta: Route.MetaFunction = () => [{ title: "Service calls · Cluepath" }];
 

@@ -9,7 +9,7 @@ import { orNotFound } from "~/lib/http.server";
 import { assignablePeople, callEditInput, callInput, createCall, getCall, updateCall } from "~/models/calls.server";
 import { searchUnits } from "~/models/equipment.server";
 import { placeName } from "~/lib/display";
-import type { Route } from "./+types/call-form";
+import type { Route } from "./+types/calls.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.callId ? "Edit call" : "New call"} · Cluepath` }];
 

@@ -6,7 +6,7 @@ import { requireRole } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
 import { notFound, orNotFound } from "~/lib/http.server";
 import { createSite, getCustomer, getSiteWithCustomer, siteInput, updateSite } from "~/models/equipment.server";
-import type { Route } from "./+types/site-form";
+import type { Route } from "./+types/customers.$customerId.sites.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.siteId ? "Edit site" : "New site"} · Cluepath` }];
 

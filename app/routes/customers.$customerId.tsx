@@ -2,7 +2,7 @@
 import { requireUser, roleAllows } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { getCustomer, sitesOf } from "~/models/equipment.server";
-import type { Route } from "./+types/customer";
+import type { Route } from "./+types/customers.$customerId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.customer.name ?? "Customer"} · Cluepath` }];
 

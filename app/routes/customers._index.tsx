@@ -2,7 +2,7 @@
 import { Form } from "react-router";
 import { requireUser, roleAllows } from "~/lib/auth.server";
 import { listCustomers } from "~/models/equipment.server";
-import type { Route } from "./+types/customers";
+import type { Route } from "./+types/customers._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Customers · Cluepath" }];
 

@@ -6,7 +6,7 @@ import { requireRole } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
 import { notFound, orNotFound } from "~/lib/http.server";
 import { createCustomer, customerInput, getCustomer, updateCustomer } from "~/models/equipment.server";
-import type { Route } from "./+types/customer-form";
+import type { Route } from "./+types/customers.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.customerId ? "Edit customer" : "New customer"} · Cluepath` }];
 

@@ -6,7 +6,7 @@ import { callsOfUnit, shopTimeZone } from "~/models/calls.server";
 import { getUnit } from "~/models/equipment.server";
 import { reportNumber } from "~/models/report-data";
 import { historyOfUnit } from "~/models/runs.server";
-import type { Route } from "./+types/equipment-unit";
+import type { Route } from "./+types/equipment.$unitId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.unit.model ?? "Unit"} · Cluepath` }];
 

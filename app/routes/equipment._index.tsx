@@ -5,7 +5,7 @@ import { CATEGORIES } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { searchUnits } from "~/models/equipment.server";
 import { placeName } from "~/lib/display";
-import type { Route } from "./+types/equipment";
+import type { Route } from "./+types/equipment._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Equipment · Cluepath" }];
 

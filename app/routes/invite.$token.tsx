@@ -4,7 +4,7 @@ import { Field } from "~/components/Field";
 import { passwordProblem } from "~/lib/password.server";
 import { ROLE_LABEL } from "~/lib/roles";
 import { acceptInvitation, findInvitation } from "~/models/people.server";
-import type { Route } from "./+types/invite";
+import type { Route } from "./+types/invite.$token";
 
 export const meta: Route.MetaFunction = () => [{ title: "Join a shop · Cluepath" }];
 

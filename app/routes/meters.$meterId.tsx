@@ -6,7 +6,7 @@ import { requireRole } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
 import { notFound, orNotFound } from "~/lib/http.server";
 import { getMeter, meterInput, updateMeter } from "~/models/meters.server";
-import type { Route } from "./+types/meter-edit";
+import type { Route } from "./+types/meters.$meterId";
 
 export const meta: Route.MetaFunction = () => [{ title: "Edit meter · Cluepath" }];
 

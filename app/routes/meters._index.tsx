@@ -9,7 +9,7 @@ import { fieldErrors, formStrings } from "~/lib/forms";
 import { notFound } from "~/lib/http.server";
 import { createMeter, listMeters, meterInput, setMeterRetired } from "~/models/meters.server";
 import { meterAccuracy } from "~/models/run-log";
-import type { Route } from "./+types/meters";
+import type { Route } from "./+types/meters._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Meters · Cluepath" }];
 

@@ -1,7 +1,7 @@
 import { NotYet } from "~/components/Placeholder";
 import { requireRole } from "~/lib/auth.server";
 import { shopCounts } from "~/models/equipment.server";
-import type { Route } from "./+types/home-owner";
+import type { Route } from "./+types/overview";
 
 export const meta: Route.MetaFunction = () => [{ title: "Overview · Cluepath" }];
 

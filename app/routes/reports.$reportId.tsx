@@ -6,7 +6,7 @@ import { requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { reportNumber } from "~/models/report-data";
 import { getReport, sendReport } from "~/models/reports.server";
-import type { Route } from "./+types/report";
+import type { Route } from "./+types/reports.$reportId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service report ${reportNumber(data.report.number)} · Cluepath` : "Service report · Cluepath" }];
 

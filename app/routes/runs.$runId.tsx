@@ -4,7 +4,7 @@ import { Runner } from "~/components/runner/Runner";
 import { requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { getRunView } from "~/models/runs.server";
-import type { Route } from "./+types/runner";
+import type { Route } from "./+types/runs.$runId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.view.version.title ?? "Run"} · Cluepath` }];
 

@@ -2,7 +2,7 @@
 import { requireUser, roleAllows } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { getSiteWithCustomer, unitsAt } from "~/models/equipment.server";
-import type { Route } from "./+types/site";
+import type { Route } from "./+types/sites.$siteId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.site.name ?? "Site"} · Cluepath` }];
 

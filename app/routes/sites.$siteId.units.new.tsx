@@ -8,7 +8,7 @@ import { requireRole } from "~/lib/auth.server";
 import { parseForm } from "~/lib/forms";
 import { notFound, orNotFound } from "~/lib/http.server";
 import { createUnit, getSiteWithCustomer, getUnit, unitInput, updateUnit } from "~/models/equipment.server";
-import type { Route } from "./+types/unit-form";
+import type { Route } from "./+types/sites.$siteId.units.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.unitId ? "Edit unit" : "New unit"} · Cluepath` }];
 

@@ -1,6 +1,6 @@
 import { NotYet } from "~/components/Placeholder";
 import { requireRole } from "~/lib/auth.server";
-import type { Route } from "./+types/home-trainer";
+import type { Route } from "./+types/training";
 
 export const meta: Route.MetaFunction = () => [{ title: "Training · Cluepath" }];
 

@@ -7,7 +7,7 @@ import { orNotFound } from "~/lib/http.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
 import type { TreeDiff } from "~/models/tree-diff";
 import { diffVersions, getTree } from "~/models/trees.server";
-import type { Route } from "./+types/tree-diff";
+import type { Route } from "./+types/trees.$treeId.diff";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Changes · ${data?.title ?? "Tree"} · Cluepath` }];
 export const handle = { wide: true };

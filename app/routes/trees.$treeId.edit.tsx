@@ -5,7 +5,7 @@ import { requireRole } from "~/lib/auth.server";
 import { notFound } from "~/lib/http.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { getTree, loadTreeVersion, publishDraft, validateDraft } from "~/models/trees.server";
-import type { Route } from "./+types/tree-edit";
+import type { Route } from "./+types/trees.$treeId.edit";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing ${data?.tree.title ?? "a tree"} · Cluepath` }];
 

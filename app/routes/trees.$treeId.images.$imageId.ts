@@ -4,7 +4,7 @@ import { requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { idOf, treeIdOf } from "~/lib/tree-params.server";
 import { getTreeImage } from "~/models/trees.server";
-import type { Route } from "./+types/tree-image";
+import type { Route } from "./+types/trees.$treeId.images.$imageId";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -6,7 +6,7 @@ import { orNotFound } from "~/lib/http.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { when } from "~/lib/when";
 import { discardDraft, getTree, retireVersion, shopTimeZone, startDraft } from "~/models/trees.server";
-import type { Route } from "./+types/tree";
+import type { Route } from "./+types/trees.$treeId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tree.title ?? "Tree"} · Cluepath` }];
 export const handle = { wide: true };

@@ -4,7 +4,7 @@ import { requireRole, requireUser } from "~/lib/auth.server";
 import { orNotFound } from "~/lib/http.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
 import { exportVersion } from "~/models/trees.server";
-import type { Route } from "./+types/tree-export";
+import type { Route } from "./+types/trees.$treeId.versions.$ref.export";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ref = versionRefOf(params.ref);

@@ -8,7 +8,7 @@ import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
 import { when } from "~/lib/when";
 import { nodeFields } from "~/models/tree-diff";
 import { loadTreeVersion, shopTimeZone } from "~/models/trees.server";
-import type { Route } from "./+types/tree-version";
+import type { Route } from "./+types/trees.$treeId.versions.$ref";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tree.title ?? "Tree"} · ${data?.label ?? ""} · Cluepath` }];
 

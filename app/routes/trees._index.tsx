@@ -7,7 +7,7 @@ import { requireUser, roleAllows } from "~/lib/auth.server";
 import { libraryQueryOf } from "~/lib/tree-params.server";
 import { when } from "~/lib/when";
 import { listLibrary, shopTimeZone, type LibraryRow } from "~/models/trees.server";
-import type { Route } from "./+types/trees";
+import type { Route } from "./+types/trees._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Trees · Cluepath" }];
 export const handle = { wide: true };

@@ -3,7 +3,7 @@ import { requireRole } from "~/lib/auth.server";
 import { idOf } from "~/lib/tree-params.server";
 import { readUploadForm } from "~/lib/upload.server";
 import { importTree, listLibrary } from "~/models/trees.server";
-import type { Route } from "./+types/tree-import";
+import type { Route } from "./+types/trees.import";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import a tree file · Cluepath" }];
 

@@ -7,7 +7,7 @@ import { TreeSchema } from "~/engine/schema";
 import { requireRole } from "~/lib/auth.server";
 import { fieldErrors, formStrings } from "~/lib/forms";
 import { createDraftTree, emptyTree } from "~/models/trees.server";
-import type { Route } from "./+types/tree-new";
+import type { Route } from "./+types/trees.new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New tree · Cluepath" }];
 

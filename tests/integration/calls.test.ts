@@ -8,9 +8,9 @@ import { closeDb } from "../../app/lib/db.server";
 import { createCall, getCall, listCalls, myCalls, suggestTrees } from "../../app/models/calls.server";
 import { createCustomer, createSite, createUnit, getUnit, listCustomers, searchUnits, updateUnit } from "../../app/models/equipment.server";
 import { createMeter, listMeters, meterInput } from "../../app/models/meters.server";
-import { action as callFormAction } from "../../app/routes/call-form";
-import { loader as callLoader } from "../../app/routes/call";
-import { action as metersAction } from "../../app/routes/meters";
+import { action as callFormAction } from "../../app/routes/calls.new";
+import { loader as callLoader } from "../../app/routes/calls.$callId";
+import { action as metersAction } from "../../app/routes/meters._index";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
 
 afterAll(() => closeDb());

@@ -22,10 +22,10 @@ import { reportNumber } from "../../app/models/report-data";
 import { logOf, type StepView } from "../../app/models/run-log";
 import { addNote, changeRunStatus, getRunView, listOpenEscalations, postStep, recordOutcome, startRun, type StepInput } from "../../app/models/runs.server";
 import { createPublishedTree, getVersionRow, publishDraft, replaceDraftContent, startDraft } from "../../app/models/trees.server";
-import { loader as runApiLoader } from "../../app/routes/api/run";
-import { action as stepsAction } from "../../app/routes/api/run-steps";
-import { action as photosAction } from "../../app/routes/api/run-photos";
-import { loader as photoLoader } from "../../app/routes/api/photo";
+import { loader as runApiLoader } from "../../app/routes/api.runs.$runId";
+import { action as stepsAction } from "../../app/routes/api.runs.$runId.steps";
+import { action as photosAction } from "../../app/routes/api.runs.$runId.photos";
+import { loader as photoLoader } from "../../app/routes/api.photos.$photoId";
 import { TINY_PNG } from "../support/photo";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
 

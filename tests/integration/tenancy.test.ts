@@ -4,7 +4,7 @@ import { stableId } from "../../db/seed";
 import { closeDb } from "../../app/lib/db.server";
 import type { Ctx } from "../../app/lib/context";
 import { getCustomer, getSite, getUnit, listUnits } from "../../app/models/equipment.server";
-import { loader as unitLoader } from "../../app/routes/equipment-unit";
+import { loader as unitLoader } from "../../app/routes/equipment.$unitId";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
 
 afterAll(() => closeDb());

@@ -32,22 +32,22 @@ import {
   VersionLockedError,
 } from "../../app/models/trees.server";
 import { getRunView, startRun } from "../../app/models/runs.server";
-import * as apiTree from "../../app/routes/api/tree";
-import * as apiTreeDiff from "../../app/routes/api/tree-diff";
-import * as apiTreeDraft from "../../app/routes/api/tree-draft";
-import * as apiTreeImages from "../../app/routes/api/tree-images";
-import * as apiTrees from "../../app/routes/api/trees";
-import * as apiTreeValidation from "../../app/routes/api/tree-validation";
-import * as apiTreeVersion from "../../app/routes/api/tree-version";
-import * as treePage from "../../app/routes/tree";
-import * as treeDiffPage from "../../app/routes/tree-diff";
-import * as treeEdit from "../../app/routes/tree-edit";
-import * as treeExport from "../../app/routes/tree-export";
-import * as treeImage from "../../app/routes/tree-image";
-import * as treeImport from "../../app/routes/tree-import";
-import * as treeNew from "../../app/routes/tree-new";
-import * as treeVersionPage from "../../app/routes/tree-version";
-import * as library from "../../app/routes/trees";
+import * as apiTree from "../../app/routes/api.trees.$treeId";
+import * as apiTreeDiff from "../../app/routes/api.trees.$treeId.diff";
+import * as apiTreeDraft from "../../app/routes/api.trees.$treeId.draft";
+import * as apiTreeImages from "../../app/routes/api.trees.$treeId.images";
+import * as apiTrees from "../../app/routes/api.trees";
+import * as apiTreeValidation from "../../app/routes/api.trees.$treeId.validation";
+import * as apiTreeVersion from "../../app/routes/api.trees.$treeId.versions.$ref";
+import * as treePage from "../../app/routes/trees.$treeId";
+import * as treeDiffPage from "../../app/routes/trees.$treeId.diff";
+import * as treeEdit from "../../app/routes/trees.$treeId.edit";
+import * as treeExport from "../../app/routes/trees.$treeId.versions.$ref.export";
+import * as treeImage from "../../app/routes/trees.$treeId.images.$imageId";
+import * as treeImport from "../../app/routes/trees.import";
+import * as treeNew from "../../app/routes/trees.new";
+import * as treeVersionPage from "../../app/routes/trees.$treeId.versions.$ref";
+import * as library from "../../app/routes/trees._index";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
 import { smallTree as baseTree } from "../support/trees";
 
