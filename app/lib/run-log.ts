@@ -2,7 +2,7 @@
 // engine's log. Pure: the phone and the server replay the same log with the same engine.
 import type { LogEntry } from "../engine/traversal";
 import type { EquipmentCategory, Meter, NodeKind, Quantity, Tree, VerdictKind } from "../engine/types";
-import type { MdBlock } from "../lib/md";
+import type { MdBlock } from "./md";
 
 export type StepType = LogEntry["type"];
 export type RunStatus = "active" | "paused" | "escalated" | "abandoned" | "done";
@@ -162,4 +162,9 @@ export function canonicalPayload(entry: LogEntry, meterId: string | null | undef
     .sort()
     .map((k) => [k, typeof e[k] === "string" ? (e[k] as string).trim() : e[k]]);
   return JSON.stringify({ entry: Object.fromEntries(fields), meterId: meterId ?? null });
+}
+
+/** Where a run photo is served (only to the run's own shop). */
+export function photoUrl(id: string): string {
+  return `/api/photos/${id}`;
 }

@@ -1,9 +1,9 @@
 // Sign-in: password check, the rate limit, and the session rows the cookie points at.
 import { and, count, desc, eq, gt, isNull, max, ne } from "drizzle-orm";
 import { memberships, sessions, shops, signInAttempts, users } from "../../db/schema";
-import { db } from "../lib/db.server";
-import { burnVerify, verifyPassword } from "../lib/password.server";
-import type { Role } from "../lib/roles";
+import { db } from "./db.server";
+import { burnVerify, verifyPassword } from "./password.server";
+import type { Role } from "./roles";
 
 export const SESSION_HOURS = 12;
 

@@ -1,15 +1,14 @@
 // GET /api/photos/:photoId — the photo's bytes, only for its own shop (another shop's is a 404).
 // DELETE removes it while its run is open.
-import { jsonResult, requireMethod } from "~/lib/api.server";
 import { requireUser } from "~/lib/auth.server";
-import { notFound, requireSameOrigin } from "~/lib/http.server";
-import { deletePhoto, getPhotoFile } from "~/models/photos.server";
+import { requireSameOrigin } from "~/lib/http.server";
+import { api, requireMethod } from "~/lib/route.server";
+import { deletePhoto, getPhotoFile } from "~/models/runs/photos.server";
 import type { Route } from "./+types/api.photos.$photoId";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const file = await getPhotoFile(user.ctx, params.photoId);
-  if (!file) notFound("That photo");
+export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const file = await getPhotoFile(ctx, params.photoId);
   return new Response(file.body as BodyInit, {
     headers: {
       "content-type": file.contentType,
@@ -20,11 +19,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "content-security-policy": "default-src 'none'; sandbox",
     },
   });
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = api(async ({ request, params }: Route.ActionArgs) => {
   requireMethod(request, "DELETE");
   requireSameOrigin(request);
-  const user = await requireUser(request);
-  return jsonResult(await deletePhoto(user.ctx, params.photoId));
-}
+  const { ctx } = await requireUser(request);
+  await deletePhoto(ctx, params.photoId);
+  return Response.json({ ok: true });
+});

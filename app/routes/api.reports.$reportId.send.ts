@@ -1,13 +1,14 @@
 // POST /api/reports/:reportId/send — e-mails the service report to the site contact.
-import { jsonResult, requireMethod } from "~/lib/api.server";
+import { reportMailHtml } from "~/components/report/reportMail";
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
-import { sendReport } from "~/models/reports.server";
+import { api, requireMethod } from "~/lib/route.server";
+import { sendReport } from "~/models/runs/reports.server";
 import type { Route } from "./+types/api.reports.$reportId.send";
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = api(async ({ request, params }: Route.ActionArgs) => {
   requireMethod(request, "POST");
   requireSameOrigin(request);
-  const user = await requireUser(request);
-  return jsonResult(await sendReport(user.ctx, params.reportId));
-}
+  const { ctx } = await requireUser(request);
+  return Response.json({ ok: true, ...(await sendReport(ctx, params.reportId, reportMailHtml)) });
+});

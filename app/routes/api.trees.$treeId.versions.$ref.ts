@@ -1,15 +1,14 @@
 // GET /api/trees/:treeId/versions/:ref — one version's content (the engine's Tree) and canvas
 // layout; :ref is a version number, or "draft" (leads and owners only).
-import { requireRole, requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { api } from "~/lib/route.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
-import { loadTreeVersion } from "~/models/trees.server";
+import { loadTreeVersion } from "~/models/trees/versions.server";
 import type { Route } from "./+types/api.trees.$treeId.versions.$ref";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const ref = versionRefOf(params.ref);
-  const user = ref === "draft" ? await requireRole(request, ["lead"]) : await requireUser(request);
-  const v = orNotFound(await loadTreeVersion(user.ctx, treeIdOf(params), ref), "That version");
+export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const v = await loadTreeVersion(ctx, treeIdOf(params), versionRefOf(params.ref));
   const { version } = v;
   return Response.json(
     {
@@ -26,4 +25,4 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     },
     { headers: { "cache-control": "private, no-store" } },
   );
-}
+});

@@ -1,22 +1,27 @@
 import { Link } from "react-router";
 import { NewTreeLinks } from "~/components/TreeLinks";
-import { requireRole } from "~/lib/auth.server";
-import { when } from "~/lib/when";
-import { listLibrary, shopTimeZone } from "~/models/trees.server";
+import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { authorize } from "~/lib/policy";
+import { page } from "~/lib/route.server";
+import { shopTimeZone } from "~/models/shop.server";
+import { listLibrary } from "~/models/trees/library.server";
 import type { Route } from "./+types/authoring";
 
 export const meta: Route.MetaFunction = () => [{ title: "Authoring · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const [rows, tz] = await Promise.all([listLibrary(user.ctx, { sort: "changed" }), shopTimeZone(user.ctx)]);
-  const item = (r: (typeof rows)[number]) => ({ treeId: r.treeId, title: r.title, symptom: r.symptom, current: r.current?.number ?? null, when: when(r.draft?.updatedAt ?? r.lastChange, tz), by: r.lastAuthor });
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // The authors' home: the library's drafts and recent changes.
+  authorize(ctx, "trees.author");
+  const [rows, tz] = await Promise.all([listLibrary(ctx, { sort: "changed" }), shopTimeZone(ctx)]);
+  const item = (r: (typeof rows)[number]) => ({ treeId: r.treeId, title: r.title, symptom: r.symptom, current: r.current?.number ?? null, when: atShop(r.draft?.updatedAt ?? r.lastChange, tz), by: r.lastAuthor });
   return {
     drafts: rows.filter((r) => r.draft).map(item),
     recent: rows.filter((r) => !r.draft).slice(0, 5).map(item),
     total: rows.length,
   };
-}
+});
 
 export default function LeadHome({ loaderData }: Route.ComponentProps) {
   const { drafts, recent, total } = loaderData;

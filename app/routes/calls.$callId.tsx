@@ -1,37 +1,44 @@
 // /calls/:callId — one service call: the unit and site, its runs, and starting a run on a suggested tree.
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
-import { requireRole, requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
-import { getCall, shopTimeZone, suggestTrees } from "~/models/calls.server";
-import { reportNumber } from "~/models/report-data";
-import { runsOfCall, startRun } from "~/models/runs.server";
+import { requireUser } from "~/lib/auth.server";
 import { atShop, placeName } from "~/lib/display";
+import { can } from "~/lib/policy";
+import { isRefusal } from "~/lib/refusal";
+import { reportNumber } from "~/lib/report-data";
+import { form, page, readForm } from "~/lib/route.server";
+import { getCall, suggestTrees } from "~/models/calls.server";
+import { runsOfCall } from "~/models/runs/queries.server";
+import { startRun } from "~/models/runs/start.server";
+import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/calls.$callId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${data.call.call.number} · Cluepath` : "Call · Cluepath" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const call = orNotFound(await getCall(user.ctx, params.callId), "That service call");
-  const [runs, trees, tz] = await Promise.all([runsOfCall(user.ctx, call.call.id), suggestTrees(user.ctx, call.unit.category, call.call.symptom), shopTimeZone(user.ctx)]);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const call = await getCall(ctx, params.callId);
+  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit.category, call.call.symptom), shopTimeZone(ctx)]);
   const openRun = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated") ?? null;
-  const canRun = roleAllows(user.role, ["technician", "lead"]) && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
-  return { call, runs, trees, openRun, canRun, tz, canEdit: roleAllows(user.role, ["technician", "lead"]) };
-}
+  const canRun = can(ctx, "runs.start") && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
+  return { call, runs, trees, openRun, canRun, tz, canEdit: can(ctx, "calls.write") };
+});
 
-const startForm = z.object({ treeId: z.string().uuid() });
+const startForm = z.object({ treeId: z.string({ message: "Choose a procedure to run." }).uuid("Choose a procedure to run.") });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const parsed = startForm.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ message: "Choose a procedure to run." }, { status: 400 });
-  const started = await startRun(user.ctx, { treeId: parsed.data.treeId, callId: params.callId });
-  if (started.ok) throw redirect(`/runs/${started.runId}`);
-  if ("runId" in started && started.runId) throw redirect(`/runs/${started.runId}`);
-  return data({ message: started.message }, { status: started.status });
-}
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const { treeId } = await readForm(request, startForm);
+  try {
+    const { runId } = await startRun(ctx, { treeId, callId: params.callId });
+    return redirect(`/runs/${runId}`);
+  } catch (e) {
+    // The call already has a run in progress: carry on with that one.
+    if (isRefusal(e) && typeof e.details?.runId === "string") return redirect(`/runs/${e.details.runId}`);
+    throw e;
+  }
+});
 
 const RUN_STATUS: Record<string, string> = { active: "In progress", paused: "Paused", escalated: "With a lead", abandoned: "Abandoned", done: "Finished" };
 

@@ -1,16 +1,17 @@
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { page } from "~/lib/route.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
 import { placeName } from "~/lib/display";
 import type { Route } from "./+types/calls._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "My calls · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["technician"]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const user = await requireUser(request);
   const [calls, done] = await Promise.all([myCalls(user.ctx), recentlyDone(user.ctx)]);
   return { firstName: user.name.split(" ")[0], calls, done };
-}
+});
 
 export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
   const { calls, done } = loaderData;

@@ -3,11 +3,14 @@ import { Form } from "react-router";
 import { z } from "zod";
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { SelectField } from "~/components/FormFields";
-import { requireUser, roleAllows } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
 import { CALL_PRIORITIES, CALL_STATUSES, PRIORITY_LABEL, STATUS_LABEL } from "~/lib/calls";
-import { assignablePeople, listCalls, shopTimeZone } from "~/models/calls.server";
-import { countOpenEscalations } from "~/models/runs.server";
 import { atShop, placeName } from "~/lib/display";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
+import { assignablePeople, listCalls } from "~/models/calls.server";
+import { countOpenEscalations } from "~/models/runs/queries.server";
+import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/calls.all";
 
 export const meta: Route.MetaFunction = () => [{ title: "Service calls · Cluepath" }];
@@ -19,19 +22,18 @@ const filterSchema = z.object({
   priority: z.enum([...CALL_PRIORITIES, ""]).catch(""),
 });
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const params = Object.fromEntries(new URL(request.url).searchParams);
   const f = filterSchema.parse({ q: "", status: "active", assigned: "", priority: "", ...params });
-  const isLead = roleAllows(user.role, ["lead"]);
   const [calls, people, escalated, tz] = await Promise.all([
-    listCalls(user.ctx, { q: f.q, status: f.status === "any" ? undefined : f.status, assigned: f.assigned || undefined, priority: f.priority || undefined }),
-    assignablePeople(user.ctx),
-    isLead ? countOpenEscalations(user.ctx) : Promise.resolve(null),
-    shopTimeZone(user.ctx),
+    listCalls(ctx, { q: f.q, status: f.status === "any" ? undefined : f.status, assigned: f.assigned || undefined, priority: f.priority || undefined }),
+    assignablePeople(ctx),
+    can(ctx, "escalations.view") ? countOpenEscalations(ctx) : Promise.resolve(null),
+    shopTimeZone(ctx),
   ]);
-  return { calls, people, filter: f, escalated, tz, canCreate: roleAllows(user.role, ["technician", "lead"]) };
-}
+  return { calls, people, filter: f, escalated, tz, canCreate: can(ctx, "calls.write") };
+});
 
 export default function Calls({ loaderData }: Route.ComponentProps) {
   const { calls, people, filter } = loaderData;

@@ -1,22 +1,20 @@
 // /calls/new and /calls/:callId/edit — open or change a service call (zod-validated, errors beside fields).
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import { Field } from "~/components/Field";
 import { SelectField, TextAreaField } from "~/components/FormFields";
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
 import { CALL_PRIORITIES, CALL_STATUSES, PRIORITY_LABEL, STATUS_LABEL } from "~/lib/calls";
-import { fieldErrors, formStrings } from "~/lib/forms";
-import { orNotFound } from "~/lib/http.server";
-import { assignablePeople, callEditInput, callInput, createCall, getCall, updateCall } from "~/models/calls.server";
-import { searchUnits } from "~/models/equipment.server";
 import { placeName } from "~/lib/display";
+import { form, page, readForm } from "~/lib/route.server";
+import { callEditInput, callFormChoices, callInput, createCall, getCall, updateCall } from "~/models/calls.server";
 import type { Route } from "./+types/calls.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.callId ? "Edit call" : "New call"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const [units, people] = await Promise.all([searchUnits(user.ctx), assignablePeople(user.ctx)]);
-  const existing = params.callId ? orNotFound(await getCall(user.ctx, params.callId), "That service call") : null;
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const user = await requireUser(request);
+  const { units, people } = await callFormChoices(user.ctx);
+  const existing = params.callId ? await getCall(user.ctx, params.callId) : null;
   const unitFromUrl = new URL(request.url).searchParams.get("unitId") ?? "";
   const values: Record<string, string> = existing
     ? {
@@ -29,23 +27,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       }
     : { unitId: unitFromUrl, symptom: "", priority: "normal", assignedTo: user.role === "technician" ? user.userId : "", notes: "" };
   return { units, people, values, editing: existing ? { id: existing.call.id, number: existing.call.number } : null };
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const values = formStrings(await request.formData());
-  const parsed = (params.callId ? callEditInput : callInput).safeParse(values);
-  if (!parsed.success) return data({ values, errors: fieldErrors(parsed.error) }, { status: 400 });
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
   if (params.callId) {
-    const r = await updateCall(user.ctx, params.callId, parsed.data as never);
-    if (!r.ok && r.message === "not-found") return orNotFound(null, "That service call");
-    if (!r.ok) return data({ values, errors: { [r.field]: r.message } }, { status: 400 });
-    throw redirect(`/calls/${params.callId}`);
+    await updateCall(ctx, params.callId, await readForm(request, callEditInput));
+    return redirect(`/calls/${params.callId}`);
   }
-  const r = await createCall(user.ctx, parsed.data);
-  if (!r.ok) return data({ values, errors: { [r.field]: r.message } }, { status: 400 });
-  throw redirect(`/calls/${r.id}`);
-}
+  const { id } = await createCall(ctx, await readForm(request, callInput));
+  return redirect(`/calls/${id}`);
+});
 
 export default function CallForm({ loaderData, actionData }: Route.ComponentProps) {
   const v = actionData?.values ?? loaderData.values;

@@ -1,36 +1,36 @@
 // /customers/:customerId/sites/new and /sites/:siteId/edit
-import { data, Form, redirect } from "react-router";
+import { Form, redirect } from "react-router";
 import { Field } from "~/components/Field";
 import { useFormState } from "~/components/useFormState";
-import { requireRole } from "~/lib/auth.server";
-import { parseForm } from "~/lib/forms";
-import { notFound, orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
 import { createSite, getCustomer, getSiteWithCustomer, siteInput, updateSite } from "~/models/equipment.server";
 import type { Route } from "./+types/customers.$customerId.sites.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.siteId ? "Edit site" : "New site"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // A form only: the page is for those who may save it.
+  authorize(ctx, "equipment.write");
   if (params.siteId) {
-    const { site, customer } = orNotFound(await getSiteWithCustomer(user.ctx, params.siteId), "That site");
+    const { site, customer } = await getSiteWithCustomer(ctx, params.siteId);
     return { values: { name: site.name, address: site.address, contactName: site.contactName, contactEmail: site.contactEmail }, customer, siteId: site.id };
   }
-  const customer = orNotFound(await getCustomer(user.ctx, params.customerId ?? ""), "That customer");
+  const customer = await getCustomer(ctx, params.customerId ?? "");
   return { values: { name: "", address: "", contactName: "", contactEmail: "" }, customer, siteId: null };
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const form = await parseForm(request, siteInput);
-  if (!form.ok) return data(form, { status: 400 });
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const input = await readForm(request, siteInput);
   if (params.siteId) {
-    if (!(await updateSite(user.ctx, params.siteId, form.data))) notFound("That site");
-    throw redirect(`/sites/${params.siteId}`);
+    await updateSite(ctx, params.siteId, input);
+    return redirect(`/sites/${params.siteId}`);
   }
-  const id = orNotFound(await createSite(user.ctx, params.customerId ?? "", form.data), "That customer");
-  throw redirect(`/sites/${id}`);
-}
+  return redirect(`/sites/${await createSite(ctx, params.customerId ?? "", input)}`);
+});
 
 export default function SiteForm({ loaderData, actionData }: Route.ComponentProps) {
   const { v, e, busy } = useFormState(loaderData.values, actionData);

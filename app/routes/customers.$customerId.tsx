@@ -1,16 +1,17 @@
 // /customers/:customerId — a customer and their sites.
-import { requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
 import { getCustomer, sitesOf } from "~/models/equipment.server";
 import type { Route } from "./+types/customers.$customerId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.customer.name ?? "Customer"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const customer = orNotFound(await getCustomer(user.ctx, params.customerId), "That customer");
-  return { customer, sites: await sitesOf(user.ctx, customer.id), canEdit: roleAllows(user.role, ["technician", "lead"]) };
-}
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const customer = await getCustomer(ctx, params.customerId);
+  return { customer, sites: await sitesOf(ctx, customer.id), canEdit: can(ctx, "equipment.write") };
+});
 
 export default function Customer({ loaderData }: Route.ComponentProps) {
   const { customer, sites } = loaderData;

@@ -1,16 +1,18 @@
 // /customers — the shop's customers, searched by name, site or address.
 import { Form } from "react-router";
-import { requireUser, roleAllows } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
 import { listCustomers } from "~/models/equipment.server";
 import type { Route } from "./+types/customers._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Customers · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const q = (new URL(request.url).searchParams.get("q") ?? "").slice(0, 100);
-  return { q, customers: await listCustomers(user.ctx, q), canEdit: roleAllows(user.role, ["technician", "lead"]) };
-}
+  return { q, customers: await listCustomers(ctx, q), canEdit: can(ctx, "equipment.write") };
+});
 
 export default function Customers({ loaderData }: Route.ComponentProps) {
   return (

@@ -1,32 +1,33 @@
 // /customers/new and /customers/:customerId/edit
-import { data, Form, redirect } from "react-router";
+import { Form, redirect } from "react-router";
 import { Field } from "~/components/Field";
 import { useFormState } from "~/components/useFormState";
-import { requireRole } from "~/lib/auth.server";
-import { parseForm } from "~/lib/forms";
-import { notFound, orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
 import { createCustomer, customerInput, getCustomer, updateCustomer } from "~/models/equipment.server";
 import type { Route } from "./+types/customers.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.customerId ? "Edit customer" : "New customer"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // A form only: the page is for those who may save it.
+  authorize(ctx, "equipment.write");
   if (!params.customerId) return { values: { name: "", phone: "" }, editing: null };
-  const c = orNotFound(await getCustomer(user.ctx, params.customerId), "That customer");
+  const c = await getCustomer(ctx, params.customerId);
   return { values: { name: c.name, phone: c.phone ?? "" }, editing: { id: c.id, name: c.name } };
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const form = await parseForm(request, customerInput);
-  if (!form.ok) return data(form, { status: 400 });
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const input = await readForm(request, customerInput);
   if (params.customerId) {
-    if (!(await updateCustomer(user.ctx, params.customerId, form.data))) notFound("That customer");
-    throw redirect(`/customers/${params.customerId}`);
+    await updateCustomer(ctx, params.customerId, input);
+    return redirect(`/customers/${params.customerId}`);
   }
-  throw redirect(`/customers/${await createCustomer(user.ctx, form.data)}`);
-}
+  return redirect(`/customers/${await createCustomer(ctx, input)}`);
+});
 
 export default function CustomerForm({ loaderData, actionData }: Route.ComponentProps) {
   const { v, e, busy } = useFormState(loaderData.values, actionData);

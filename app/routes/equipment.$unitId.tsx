@@ -1,21 +1,23 @@
 import { StatusBadge } from "~/components/CallBadges";
 import { atShop } from "~/lib/display";
-import { requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
-import { callsOfUnit, shopTimeZone } from "~/models/calls.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { reportNumber } from "~/lib/report-data";
+import { page } from "~/lib/route.server";
+import { callsOfUnit } from "~/models/calls.server";
 import { getUnit } from "~/models/equipment.server";
-import { reportNumber } from "~/models/report-data";
-import { historyOfUnit } from "~/models/runs.server";
+import { historyOfUnit } from "~/models/runs/queries.server";
+import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/equipment.$unitId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.unit.model ?? "Unit"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const found = orNotFound(await getUnit(user.ctx, params.unitId), "That equipment unit");
-  const [calls, history, tz] = await Promise.all([callsOfUnit(user.ctx, found.unit.id), historyOfUnit(user.ctx, found.unit.id), shopTimeZone(user.ctx)]);
-  return { ...found, calls, history, tz, canEdit: roleAllows(user.role, ["technician", "lead"]) };
-}
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const found = await getUnit(ctx, params.unitId);
+  const [calls, history, tz] = await Promise.all([callsOfUnit(ctx, found.unit.id), historyOfUnit(ctx, found.unit.id), shopTimeZone(ctx)]);
+  return { ...found, calls, history, tz, canEdit: can(ctx, "equipment.write") };
+});
 
 
 export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {

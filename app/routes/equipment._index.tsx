@@ -3,6 +3,7 @@ import { z } from "zod";
 import { SelectField } from "~/components/FormFields";
 import { CATEGORIES } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
+import { page } from "~/lib/route.server";
 import { searchUnits } from "~/models/equipment.server";
 import { placeName } from "~/lib/display";
 import type { Route } from "./+types/equipment._index";
@@ -11,11 +12,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Equipment · Cluepath" 
 
 const filter = z.object({ q: z.string().trim().max(100).catch(""), category: z.enum([...CATEGORIES, ""]).catch("") });
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const f = filter.parse({ q: "", category: "", ...Object.fromEntries(new URL(request.url).searchParams) });
-  return { filter: f, units: await searchUnits(user.ctx, { q: f.q, category: f.category || undefined }) };
-}
+  return { filter: f, units: await searchUnits(ctx, { q: f.q, category: f.category || undefined }) };
+});
 
 export default function Equipment({ loaderData }: Route.ComponentProps) {
   const { filter: f, units } = loaderData;

@@ -1,41 +1,32 @@
-import { data, Form, redirect } from "react-router";
+import { Form, redirect } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
-import { passwordProblem } from "~/lib/password.server";
 import { ROLE_LABEL } from "~/lib/roles";
+import { form, readForm } from "~/lib/route.server";
 import { acceptInvitation, findInvitation } from "~/models/people.server";
 import type { Route } from "./+types/invite.$token";
 
 export const meta: Route.MetaFunction = () => [{ title: "Join a shop · Cluepath" }];
 
+// No session here: the token in the link is the key.
 export async function loader({ params }: Route.LoaderArgs) {
   const inv = await findInvitation(params.token);
   if (!inv) return { invitation: null };
   return { invitation: { email: inv.email, role: inv.role, shopName: inv.shopName, hasAccount: inv.hasAccount } };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const inv = await findInvitation(params.token);
-  if (!inv) return data({ errors: { form: "This invitation has expired, was withdrawn, or was already used." } as Record<string, string>, name: "" }, { status: 410 });
-  const raw = Object.fromEntries(await request.formData());
-  const parsed = z.object({ name: z.string().trim().max(120).optional(), password: z.string() }).safeParse(raw);
-  const name = typeof raw.name === "string" ? raw.name : "";
-  if (!parsed.success) return data({ errors: { password: "Enter a password." } as Record<string, string>, name }, { status: 400 });
-  const errors: Record<string, string> = {};
-  if (!inv.hasAccount) {
-    if (!parsed.data.name) errors.name = "Enter your name as customers should see it on reports.";
-    const problem = passwordProblem(parsed.data.password, inv.email);
-    if (problem) errors.password = problem;
-  }
-  if (Object.keys(errors).length) return data({ errors, name }, { status: 400 });
-  const result = await acceptInvitation(params.token, parsed.data);
-  if (!result.ok) return data({ errors: { [result.field === "token" ? "form" : "password"]: result.message } as Record<string, string>, name }, { status: 400 });
-  throw redirect(`/login?joined=${encodeURIComponent(inv.shopName)}`);
-}
+const Join = z.object({ name: z.string().trim().max(120, "Keep your name under 120 characters.").optional(), password: z.string({ message: "Enter a password." }) });
+
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const input = await readForm(request, Join);
+  const { shopName } = await acceptInvitation(params.token, input);
+  return redirect(`/login?joined=${encodeURIComponent(shopName)}`);
+});
 
 export default function Invite({ loaderData, actionData }: Route.ComponentProps) {
   const inv = loaderData.invitation;
   const errors = actionData?.errors ?? {};
+  const formError = actionData && Object.keys(errors).length === 0 ? actionData.message : undefined;
   return (
     <main className="mx-auto max-w-md px-5 py-10">
       <p className="mb-6 text-3xl font-bold tracking-tight">
@@ -52,9 +43,9 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
           <p className="mt-1 text-ink-soft">
             You are invited as <strong>{ROLE_LABEL[inv.role]}</strong> with the e-mail {inv.email}.
           </p>
-          {errors.form && (
+          {formError && (
             <p role="alert" className="mt-4 rounded-lg bg-out-soft p-3 font-semibold text-out">
-              {errors.form}
+              {formError}
             </p>
           )}
           <Form method="post" className="mt-6 space-y-5" noValidate>
@@ -62,7 +53,7 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
               <Field label="Password of your existing account" name="password" type="password" autoComplete="current-password" error={errors.password} />
             ) : (
               <>
-                <Field label="Your name" name="name" autoComplete="name" defaultValue={actionData?.name} error={errors.name} />
+                <Field label="Your name" name="name" autoComplete="name" defaultValue={actionData?.values.name} error={errors.name} />
                 <Field
                   label="Choose a password"
                   name="password"

@@ -1,29 +1,29 @@
 // /meters/:meterId — edit a meter range. Steps already taken keep the accuracy they were judged with.
-import { data, Form, redirect } from "react-router";
+import { Form, redirect } from "react-router";
 import { MeterFields } from "~/components/MeterFields";
 import { useFormState } from "~/components/useFormState";
-import { requireRole } from "~/lib/auth.server";
-import { parseForm } from "~/lib/forms";
-import { notFound, orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
 import { getMeter, meterInput, updateMeter } from "~/models/meters.server";
 import type { Route } from "./+types/meters.$meterId";
 
 export const meta: Route.MetaFunction = () => [{ title: "Edit meter · Cluepath" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const m = orNotFound(await getMeter(user.ctx, params.meterId), "That meter");
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // A form only: the page is for those who keep the list.
+  authorize(ctx, "meters.manage");
+  const m = await getMeter(ctx, params.meterId);
   const values: Record<string, string> = { name: m.name, quantity: m.quantity, unit: m.unit, rangeMax: String(m.rangeMax), resolution: String(m.resolution), percent: String(m.percent), counts: String(m.counts) };
   return { values };
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const form = await parseForm(request, meterInput);
-  if (!form.ok) return data(form, { status: 400 });
-  if (!(await updateMeter(user.ctx, params.meterId, form.data))) notFound("That meter");
-  throw redirect("/meters");
-}
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  await updateMeter(ctx, params.meterId, await readForm(request, meterInput));
+  return redirect("/meters");
+});
 
 export default function MeterEdit({ loaderData, actionData }: Route.ComponentProps) {
   const { v, e, busy } = useFormState(loaderData.values, actionData);

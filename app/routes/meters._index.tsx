@@ -1,43 +1,40 @@
 // /meters — the shop's meters (one row per function and range) with their stated accuracy. Leads and
 // owners keep the list; everyone sees it (the runner offers these when a reading is taken).
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { MeterFields } from "~/components/MeterFields";
 import { describeMeter } from "~/engine/verdict";
-import { requireRole, requireUser, roleAllows } from "~/lib/auth.server";
-import { fieldErrors, formStrings } from "~/lib/forms";
-import { notFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
+import { meterAccuracy } from "~/lib/run-log";
 import { createMeter, listMeters, meterInput, setMeterRetired } from "~/models/meters.server";
-import { meterAccuracy } from "~/models/run-log";
 import type { Route } from "./+types/meters._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Meters · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const canEdit = roleAllows(user.role, ["lead"]);
-  return { meters: await listMeters(user.ctx, { includeRetired: canEdit }), canEdit };
-}
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const canEdit = can(ctx, "meters.manage");
+  return { meters: await listMeters(ctx, { includeRetired: canEdit }), canEdit };
+});
 
-const retireForm = z.object({ intent: z.enum(["retire", "restore"]), id: z.string().uuid() });
+const retireForm = z.object({ intent: z.enum(["retire", "restore"]), id: z.string().uuid("Choose a meter.") });
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const values = formStrings(await request.formData());
-  if (values.intent === "retire" || values.intent === "restore") {
-    const parsed = retireForm.safeParse(values);
-    if (!parsed.success || !(await setMeterRetired(user.ctx, parsed.data.id, parsed.data.intent === "retire"))) notFound("That meter");
-    return { kind: "retired" as const };
+export const action = form(async ({ request }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const input = await readForm(request, (values) => (values.intent ? retireForm : meterInput));
+  if ("intent" in input) {
+    await setMeterRetired(ctx, input.id, input.intent === "retire");
+    return { ok: true as const, kind: "retired" as const };
   }
-  const parsed = meterInput.safeParse(values);
-  if (!parsed.success) return data({ kind: "invalid" as const, values, errors: fieldErrors(parsed.error) }, { status: 400 });
-  const id = await createMeter(user.ctx, parsed.data);
-  return { kind: "created" as const, name: parsed.data.name, id };
-}
+  const id = await createMeter(ctx, input);
+  return { ok: true as const, kind: "created" as const, name: input.name, id };
+});
 
 export default function Meters({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
-  const invalid = actionData?.kind === "invalid" ? actionData : undefined;
+  const invalid = actionData?.ok === false ? actionData : undefined;
   return (
     <div className="space-y-5">
       <p>
@@ -75,13 +72,13 @@ export default function Meters({ loaderData, actionData }: Route.ComponentProps)
       {loaderData.canEdit && (
         <section className="card space-y-3">
           <h2 className="text-lg font-bold">Add a meter range</h2>
-          {actionData?.kind === "created" && (
+          {actionData?.ok && actionData.kind === "created" && (
             <p role="status" className="rounded-lg bg-within-soft p-3 font-semibold text-within">
               Added {actionData.name}.
             </p>
           )}
           {/* A fresh, empty form after each meter added. */}
-          <Form method="post" noValidate className="space-y-4" key={actionData?.kind === "created" ? actionData.id : "new"}>
+          <Form method="post" noValidate className="space-y-4" key={actionData?.ok && actionData.kind === "created" ? actionData.id : "new"}>
             <MeterFields v={invalid?.values ?? {}} e={invalid?.errors ?? {}} />
             <button className="btn-primary" disabled={busy}>
               Add the meter

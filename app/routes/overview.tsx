@@ -1,14 +1,15 @@
 import { NotYet } from "~/components/Placeholder";
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { page } from "~/lib/route.server";
 import { shopCounts } from "~/models/equipment.server";
 import type { Route } from "./+types/overview";
 
 export const meta: Route.MetaFunction = () => [{ title: "Overview · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["owner"]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const user = await requireUser(request);
   return { counts: await shopCounts(user.ctx), shopName: user.shopName };
-}
+});
 
 export default function OwnerHome({ loaderData }: Route.ComponentProps) {
   const { counts } = loaderData;

@@ -1,26 +1,26 @@
 // /reports/:reportId — the service report: printable (print stylesheet), e-mailed to the site contact.
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
-import { atShop } from "~/lib/display";
+import { reportMailHtml } from "~/components/report/reportMail";
 import { requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
-import { reportNumber } from "~/models/report-data";
-import { getReport, sendReport } from "~/models/reports.server";
+import { atShop } from "~/lib/display";
+import { reportNumber } from "~/lib/report-data";
+import { form, page } from "~/lib/route.server";
+import { getReport, sendReport } from "~/models/runs/reports.server";
 import type { Route } from "./+types/reports.$reportId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service report ${reportNumber(data.report.number)} · Cluepath` : "Service report · Cluepath" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  return { report: orNotFound(await getReport(user.ctx, params.reportId), "That report") };
-}
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  return { report: await getReport(ctx, params.reportId) };
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request);
-  const result = await sendReport(user.ctx, params.reportId);
-  if (!result.ok) return data({ ok: false as const, message: result.message }, { status: result.status });
-  return { ok: true as const, to: result.to };
-}
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const { to } = await sendReport(ctx, params.reportId, reportMailHtml);
+  return { ok: true as const, to };
+});
 
 export default function Report({ loaderData, actionData }: Route.ComponentProps) {
   const { report } = loaderData;

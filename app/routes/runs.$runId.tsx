@@ -2,16 +2,16 @@
 // JSON routes under /api/runs/:runId through TanStack Query.
 import { Runner } from "~/components/runner/Runner";
 import { requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
-import { getRunView } from "~/models/runs.server";
+import { page } from "~/lib/route.server";
+import { getRunView } from "~/models/runs/view.server";
 import type { Route } from "./+types/runs.$runId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.view.version.title ?? "Run"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  return { view: orNotFound(await getRunView(user.ctx, params.runId), "That run") };
-}
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  return { view: await getRunView(ctx, params.runId) };
+});
 
 export default function RunnerRoute({ loaderData }: Route.ComponentProps) {
   return <Runner key={loaderData.view.run.id} initial={loaderData.view} />;

@@ -1,16 +1,17 @@
 // /sites/:siteId — a site (address, the contact who gets service reports) and its units.
-import { requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
 import { getSiteWithCustomer, unitsAt } from "~/models/equipment.server";
 import type { Route } from "./+types/sites.$siteId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.site.name ?? "Site"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const { site, customer } = orNotFound(await getSiteWithCustomer(user.ctx, params.siteId), "That site");
-  return { site, customer, units: await unitsAt(user.ctx, site.id), canEdit: roleAllows(user.role, ["technician", "lead"]) };
-}
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const { site, customer } = await getSiteWithCustomer(ctx, params.siteId);
+  return { site, customer, units: await unitsAt(ctx, site.id), canEdit: can(ctx, "equipment.write") };
+});
 
 export default function Site({ loaderData }: Route.ComponentProps) {
   const { site, customer, units } = loaderData;

@@ -1,38 +1,38 @@
 // /sites/:siteId/units/new and /equipment/:unitId/edit
-import { data, Form, redirect } from "react-router";
+import { Form, redirect } from "react-router";
 import { Field } from "~/components/Field";
 import { useFormState } from "~/components/useFormState";
 import { SelectField } from "~/components/FormFields";
 import { CATEGORIES } from "~/engine/types";
-import { requireRole } from "~/lib/auth.server";
-import { parseForm } from "~/lib/forms";
-import { notFound, orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
 import { createUnit, getSiteWithCustomer, getUnit, unitInput, updateUnit } from "~/models/equipment.server";
 import type { Route } from "./+types/sites.$siteId.units.new";
 
 export const meta: Route.MetaFunction = ({ params }) => [{ title: `${params.unitId ? "Edit unit" : "New unit"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // A form only: the page is for those who may save it.
+  authorize(ctx, "equipment.write");
   if (params.unitId) {
-    const { unit, site } = orNotFound(await getUnit(user.ctx, params.unitId), "That equipment unit");
+    const { unit, site } = await getUnit(ctx, params.unitId);
     return { values: { category: unit.category, make: unit.make, model: unit.model, serial: unit.serial, installedOn: unit.installedOn ?? "" }, siteName: site.name, back: `/equipment/${unit.id}`, editing: true };
   }
-  const { site } = orNotFound(await getSiteWithCustomer(user.ctx, params.siteId ?? ""), "That site");
+  const { site } = await getSiteWithCustomer(ctx, params.siteId ?? "");
   return { values: { category: "", make: "", model: "", serial: "", installedOn: "" }, siteName: site.name, back: `/sites/${site.id}`, editing: false };
-}
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["technician", "lead"]);
-  const form = await parseForm(request, unitInput);
-  if (!form.ok) return data(form, { status: 400 });
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const input = await readForm(request, unitInput);
   if (params.unitId) {
-    if (!(await updateUnit(user.ctx, params.unitId, form.data))) notFound("That equipment unit");
-    throw redirect(`/equipment/${params.unitId}`);
+    await updateUnit(ctx, params.unitId, input);
+    return redirect(`/equipment/${params.unitId}`);
   }
-  const id = orNotFound(await createUnit(user.ctx, params.siteId ?? "", form.data), "That site");
-  throw redirect(`/equipment/${id}`);
-}
+  return redirect(`/equipment/${await createUnit(ctx, params.siteId ?? "", input)}`);
+});
 
 export default function UnitForm({ loaderData, actionData }: Route.ComponentProps) {
   const { v, e, busy } = useFormState(loaderData.values, actionData);

@@ -1,13 +1,17 @@
 import { NotYet } from "~/components/Placeholder";
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { page } from "~/lib/route.server";
 import type { Route } from "./+types/training";
 
 export const meta: Route.MetaFunction = () => [{ title: "Training · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, ["trainer"]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // Nothing to load yet: the page only says what is coming, to trainers.
+  authorize(ctx, "training.view");
   return null;
-}
+});
 
 export default function TrainerHome() {
   return (

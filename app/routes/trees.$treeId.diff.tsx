@@ -2,29 +2,30 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import { useState } from "react";
 import { Form, Link } from "react-router";
 import { DiffView } from "~/components/DiffView";
-import { requireRole, requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
+import type { TreeDiff } from "~/lib/tree-diff";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
-import type { TreeDiff } from "~/models/tree-diff";
-import { diffVersions, getTree } from "~/models/trees.server";
+import { diffVersions, getTree } from "~/models/trees/versions.server";
 import type { Route } from "./+types/trees.$treeId.diff";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Changes · ${data?.title ?? "Tree"} · Cluepath` }];
 export const handle = { wide: true };
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const url = new URL(request.url);
   const treeId = treeIdOf(params);
-  const user = await requireUser(request);
-  const t = orNotFound(await getTree(user.ctx, treeId), "That tree");
-  const canSeeDraft = roleAllows(user.role, ["lead"]);
+  const { ctx } = await requireUser(request);
+  const t = await getTree(ctx, treeId);
+  // The draft is offered for comparison to those who may read it.
+  const canSeeDraft = can(ctx, "trees.author");
   const refs = t.versions.filter((v) => v.number !== null || canSeeDraft).map((v) => v.number ?? ("draft" as const));
   const from = url.searchParams.has("from") ? versionRefOf(url.searchParams.get("from")) : (refs.at(-2) ?? refs[0] ?? 1);
   const to = url.searchParams.has("to") ? versionRefOf(url.searchParams.get("to")) : (refs.at(-1) ?? 1);
-  if ((from === "draft" || to === "draft") && !canSeeDraft) await requireRole(request, ["lead"]);
-  const d = orNotFound(await diffVersions(user.ctx, treeId, from, to), "One of those versions");
+  const d = await diffVersions(ctx, treeId, from, to);
   return { treeId, title: t.tree.title, refs, from, to, diff: d.diff };
-}
+});
 
 type Ref = number | "draft";
 const label = (r: Ref) => (r === "draft" ? "the draft" : `version ${r}`);

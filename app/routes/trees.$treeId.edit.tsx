@@ -1,58 +1,40 @@
-import { data, redirect } from "react-router";
+import { redirect } from "react-router";
 import { z } from "zod";
 import { Editor } from "~/components/editor/Editor";
-import { requireRole } from "~/lib/auth.server";
-import { notFound } from "~/lib/http.server";
+import type { Finding } from "~/engine/types";
+import { requireUser } from "~/lib/auth.server";
+import { form, page, readForm } from "~/lib/route.server";
 import { treeIdOf } from "~/lib/tree-params.server";
-import { getTree, loadTreeVersion, publishDraft, validateDraft } from "~/models/trees.server";
+import { openEditor } from "~/models/trees/editor.server";
+import { publishDraft } from "~/models/trees/publish.server";
 import type { Route } from "./+types/trees.$treeId.edit";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing ${data?.tree.title ?? "a tree"} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const [t, draft] = await Promise.all([getTree(user.ctx, treeId), loadTreeVersion(user.ctx, treeId, "draft")]);
-  if (!t) notFound("That tree");
+  const editor = await openEditor(ctx, treeId);
   // No open draft (published meanwhile, or never started): the tree page offers to start one.
-  if (!draft) throw redirect(`/trees/${treeId}`);
-  const numbers = t.versions.map((v) => v.number ?? 0);
-  const v = (await validateDraft(user.ctx, treeId))!;
-  return {
-    treeId,
-    versionId: draft.version.id,
-    revision: draft.version.revision,
-    tree: draft.tree,
-    layout: draft.layout,
-    validation: { revision: v.revision, findings: v.findings, errors: v.errors, warnings: v.warnings, sameAs: v.sameAs },
-    nextNumber: Math.max(0, ...numbers) + 1,
-    basedOn: t.draft?.basedOnNumber ?? null,
-  };
-}
+  if (!editor) throw redirect(`/trees/${treeId}`);
+  return { treeId, ...editor };
+});
 
-const Publish = z.object({ intent: z.literal("publish"), revision: z.coerce.number().int().positive(), changeNote: z.string().max(500) });
+const Publish = z.object({
+  intent: z.literal("publish", { message: "That action isn't one this page knows." }),
+  revision: z.coerce.number({ message: "Reload the editor and publish again." }).int().positive(),
+  changeNote: z.string().max(500, "Say what changed in this version (up to 500 characters)."),
+});
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const parsed = Publish.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ message: "Say what changed in this version (up to 500 characters)." }, { status: 400 });
-  const r = await publishDraft(user.ctx, treeId, parsed.data.revision, parsed.data.changeNote);
-  if (r.ok) return redirect(`/trees/${treeId}?published=${r.number}`);
-  switch (r.reason) {
-    case "no-note":
-      return data({ message: "Say what changed in this version, so technicians and trainers know." }, { status: 400 });
-    case "conflict":
-      return data({ message: "The draft changed since your last save was checked. Wait for it to save, then publish again." }, { status: 409 });
-    case "unchanged":
-      return data({ message: `This draft says exactly what version ${r.sameAs} says; change something before publishing.` }, { status: 409 });
-    case "invalid":
-      return data({ message: "The draft still has errors, so it was not published:", findings: r.findings }, { status: 422 });
-    default:
-      return data({ message: "There is no open draft to publish (it may have been published already)." }, { status: 404 });
-  }
-}
+  const input = await readForm(request, Publish);
+  const { number } = await publishDraft(ctx, treeId, input.revision, input.changeNote);
+  return redirect(`/trees/${treeId}?published=${number}`);
+});
 
 export default function EditTree({ loaderData, actionData }: Route.ComponentProps) {
-  return <Editor {...loaderData} publishError={actionData} />;
+  const publishError = actionData ? { message: actionData.message, findings: actionData.details?.findings as Finding[] | undefined } : undefined;
+  return <Editor {...loaderData} publishError={publishError} />;
 }

@@ -1,14 +1,14 @@
 // GET /trees/:treeId/images/:imageId — an image from a tree's step bodies, for signed-in members
 // of the tree's shop only (another shop's image is a 404), served inline under its own name.
 import { requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { api } from "~/lib/route.server";
 import { idOf, treeIdOf } from "~/lib/tree-params.server";
-import { getTreeImage } from "~/models/trees.server";
+import { getTreeImage } from "~/models/trees/images.server";
 import type { Route } from "./+types/trees.$treeId.images.$imageId";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const image = orNotFound(await getTreeImage(user.ctx, treeIdOf(params), idOf(params.imageId, "That image")), "That image");
+export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const image = await getTreeImage(ctx, treeIdOf(params), idOf(params.imageId, "That image"));
   return new Response(image.body as BodyInit, {
     headers: {
       "content-type": image.mime,
@@ -18,4 +18,4 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "content-security-policy": "default-src 'none'",
     },
   });
-}
+});

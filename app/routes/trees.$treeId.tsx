@@ -1,26 +1,29 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { categoryLabel } from "~/components/editor/kinds";
-import { requireRole, requireUser, roleAllows } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { can } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
 import { treeIdOf } from "~/lib/tree-params.server";
-import { when } from "~/lib/when";
-import { discardDraft, getTree, retireVersion, shopTimeZone, startDraft } from "~/models/trees.server";
+import { shopTimeZone } from "~/models/shop.server";
+import { discardDraft, startDraft } from "~/models/trees/drafts.server";
+import { retireVersion } from "~/models/trees/publish.server";
+import { getTree } from "~/models/trees/versions.server";
 import type { Route } from "./+types/trees.$treeId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tree.title ?? "Tree"} · Cluepath` }];
 export const handle = { wide: true };
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const [found, tz] = await Promise.all([getTree(user.ctx, treeId), shopTimeZone(user.ctx)]);
-  const t = orNotFound(found, "That tree");
+  const [t, tz] = await Promise.all([getTree(ctx, treeId), shopTimeZone(ctx)]);
   const url = new URL(request.url);
   return {
     tree: { id: t.tree.id, title: t.current?.title ?? t.versions.at(-1)?.title ?? t.tree.title, category: t.tree.category, symptom: t.tree.symptom },
-    current: t.current ? { number: t.current.number!, publishedText: when(t.current.publishedAt, tz) } : null,
-    draft: t.draft ? { updatedText: when(t.draft.updatedAt, tz), by: t.draft.updatedByName ?? t.draft.authorName, basedOn: t.draft.basedOnNumber } : null,
+    current: t.current ? { number: t.current.number!, publishedText: atShop(t.current.publishedAt, tz) } : null,
+    draft: t.draft ? { updatedText: atShop(t.draft.updatedAt, tz), by: t.draft.updatedByName ?? t.draft.authorName, basedOn: t.draft.basedOnNumber } : null,
     versions: t.versions.map((v) => ({
       id: v.id,
       number: v.number,
@@ -28,41 +31,40 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       title: v.title,
       changeNote: v.changeNote,
       authorName: v.authorName,
-      publishedText: when(v.publishedAt, tz),
-      retiredText: when(v.retiredAt, tz),
-      updatedText: when(v.updatedAt, tz),
+      publishedText: atShop(v.publishedAt, tz),
+      retiredText: atShop(v.retiredAt, tz),
+      updatedText: atShop(v.updatedAt, tz),
     })),
-    canEdit: roleAllows(user.role, ["lead"]),
+    canEdit: can(ctx, "trees.author"),
     published: url.searchParams.get("published"),
   };
-}
+});
 
-const Intent = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("start-draft"), from: z.coerce.number().int().positive().optional() }),
-  z.object({ intent: z.literal("retire"), number: z.coerce.number().int().positive() }),
-  z.object({ intent: z.literal("discard") }),
-]);
+const Intent = z.discriminatedUnion(
+  "intent",
+  [
+    z.object({ intent: z.literal("start-draft"), from: z.coerce.number().int().positive().optional() }),
+    z.object({ intent: z.literal("retire"), number: z.coerce.number({ message: "Say which version to retire." }).int().positive() }),
+    z.object({ intent: z.literal("discard") }),
+  ],
+  { error: "That action isn't one this page knows." },
+);
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const parsed = Intent.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ message: "That action isn't one this page knows." }, { status: 400 });
-  const form = parsed.data;
-  if (form.intent === "start-draft") {
-    const r = await startDraft(user.ctx, treeId, form.from);
-    if (!r.ok) return data({ message: "That version was not found." }, { status: 404 });
+  const input = await readForm(request, Intent);
+  if (input.intent === "start-draft") {
+    await startDraft(ctx, treeId, input.from);
     return redirect(`/trees/${treeId}/edit`);
   }
-  if (form.intent === "retire") {
-    const r = await retireVersion(user.ctx, treeId, form.number);
-    if (!r.ok) return data({ message: r.reason === "not-published" ? `Version ${form.number} is not published, so it can't be retired.` : "That version was not found." }, { status: r.reason === "not-found" ? 404 : 409 });
-    return { message: `Version ${form.number} is retired: new runs can't start on it. Runs that used it keep it.` };
+  if (input.intent === "retire") {
+    await retireVersion(ctx, treeId, input.number);
+    return { message: `Version ${input.number} is retired: new runs can't start on it. Runs that used it keep it.` };
   }
-  const r = await discardDraft(user.ctx, treeId);
-  if (!r.ok) return data({ message: "There is no open draft to discard." }, { status: 404 });
-  return r.treeDeleted ? redirect("/trees") : { message: "The draft was discarded. The published versions are unchanged." };
-}
+  const { treeDeleted } = await discardDraft(ctx, treeId);
+  return treeDeleted ? redirect("/trees") : { message: "The draft was discarded. The published versions are unchanged." };
+});
 
 const STATE_LABEL = { draft: "Draft", published: "Published", retired: "Retired" } as const;
 const STATE_STYLE = { draft: "bg-marginal-soft text-marginal", published: "bg-within-soft text-within", retired: "bg-paper text-ink-soft border border-rule" } as const;

@@ -1,15 +1,14 @@
 // GET /trees/:treeId/versions/:ref/export — the version as a tree file in the engine's canonical
 // Markdown form, as a download. The draft is for leads and owners only.
-import { requireRole, requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { api } from "~/lib/route.server";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
-import { exportVersion } from "~/models/trees.server";
+import { exportVersion } from "~/models/trees/transfer.server";
 import type { Route } from "./+types/trees.$treeId.versions.$ref.export";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const ref = versionRefOf(params.ref);
-  const user = ref === "draft" ? await requireRole(request, ["lead"]) : await requireUser(request);
-  const file = orNotFound(await exportVersion(user.ctx, treeIdOf(params), ref), "That version");
+export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const file = await exportVersion(ctx, treeIdOf(params), versionRefOf(params.ref));
   return new Response(file.text, {
     headers: {
       "content-type": "text/markdown; charset=utf-8",
@@ -18,4 +17,4 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "x-content-type-options": "nosniff",
     },
   });
-}
+});

@@ -2,32 +2,32 @@ import { Link } from "react-router";
 import { categoryLabel, KIND_LABEL, KIND_MARK } from "~/components/editor/kinds";
 import { Markdown } from "~/components/Markdown";
 import { branchName, nodeBranches } from "~/engine/graph";
-import { requireRole, requireUser } from "~/lib/auth.server";
-import { orNotFound } from "~/lib/http.server";
+import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { page } from "~/lib/route.server";
+import { nodeFields } from "~/lib/tree-diff";
 import { treeIdOf, versionRefOf } from "~/lib/tree-params.server";
-import { when } from "~/lib/when";
-import { nodeFields } from "~/models/tree-diff";
-import { loadTreeVersion, shopTimeZone } from "~/models/trees.server";
+import { shopTimeZone } from "~/models/shop.server";
+import { loadTreeVersion } from "~/models/trees/versions.server";
 import type { Route } from "./+types/trees.$treeId.versions.$ref";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tree.title ?? "Tree"} · ${data?.label ?? ""} · Cluepath` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const ref = versionRefOf(params.ref);
-  const user = ref === "draft" ? await requireRole(request, ["lead"]) : await requireUser(request);
+  const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const [v, tz] = await Promise.all([loadTreeVersion(user.ctx, treeId, ref), shopTimeZone(user.ctx)]);
-  const { version, tree } = orNotFound(v, "That version");
+  const [{ version, tree }, tz] = await Promise.all([loadTreeVersion(ctx, treeId, ref), shopTimeZone(ctx)]);
   return {
     treeId,
     ref,
     label: version.number === null ? "Draft" : `Version ${version.number}`,
     state: version.state,
     changeNote: version.changeNote,
-    when: when(version.publishedAt ?? version.updatedAt, tz),
+    when: atShop(version.publishedAt ?? version.updatedAt, tz),
     tree,
   };
-}
+});
 
 const HIDDEN_FIELDS = new Set(["kind", "title", "body", "answers"]);
 

@@ -3,25 +3,28 @@ import { categoryLabel } from "~/components/editor/kinds";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
 import { CategoryOptions, NewTreeLinks } from "~/components/TreeLinks";
-import { requireUser, roleAllows } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { can } from "~/lib/policy";
+import { page } from "~/lib/route.server";
 import { libraryQueryOf } from "~/lib/tree-params.server";
-import { when } from "~/lib/when";
-import { listLibrary, shopTimeZone, type LibraryRow } from "~/models/trees.server";
+import { shopTimeZone } from "~/models/shop.server";
+import { listLibrary, type LibraryRow } from "~/models/trees/library.server";
 import type { Route } from "./+types/trees._index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Trees · Cluepath" }];
 export const handle = { wide: true };
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
   const query = libraryQueryOf(new URL(request.url));
-  const [rows, tz] = await Promise.all([listLibrary(user.ctx, query), shopTimeZone(user.ctx)]);
+  const [rows, tz] = await Promise.all([listLibrary(ctx, query), shopTimeZone(ctx)]);
   return {
     query,
-    canEdit: roleAllows(user.role, ["lead"]),
-    rows: rows.map((r) => ({ ...r, lastChangeText: when(r.lastChange, tz, "date"), draftText: r.draft ? when(r.draft.updatedAt, tz, "date") : null })),
+    canEdit: can(ctx, "trees.author"),
+    rows: rows.map((r) => ({ ...r, lastChangeText: atShop(r.lastChange, tz, "date"), draftText: r.draft ? atShop(r.draft.updatedAt, tz, "date") : null })),
   };
-}
+});
 
 const COLUMNS = [
   { key: "title", label: "Title" },

@@ -1,52 +1,51 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
-import { requireRole } from "~/lib/auth.server";
+import { Form, Link, redirect, useNavigation } from "react-router";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { Refusal } from "~/lib/refusal";
+import { form, page } from "~/lib/route.server";
 import { idOf } from "~/lib/tree-params.server";
 import { readUploadForm } from "~/lib/upload.server";
-import { importTree, listLibrary } from "~/models/trees.server";
+import { listLibrary } from "~/models/trees/library.server";
+import { importTree, type ImportProblem } from "~/models/trees/transfer.server";
 import type { Route } from "./+types/trees.import";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import a tree file · Cluepath" }];
 
 const MAX_TREE_FILE = 1024 * 1024;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const trees = await listLibrary(user.ctx, { sort: "title" });
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // Importing makes a draft: the page is for those who may write trees.
+  authorize(ctx, "trees.author");
+  const trees = await listLibrary(ctx, { sort: "title" });
   return { trees: trees.map((t) => ({ id: t.treeId, title: t.title, draft: t.draft !== null })), into: new URL(request.url).searchParams.get("into") ?? "" };
-}
+});
 
-type Failure = { message: string; errors?: { line: number; column: number; message: string; source: string }[]; draftOf?: string };
-
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const fail = (status: number, f: Failure) => data(f, { status });
-  const upload = await readUploadForm(request, MAX_TREE_FILE);
-  if (!upload.ok) return fail(upload.status, { message: upload.status === 413 ? "That file is larger than 1 MB; a tree file is a few kilobytes." : "Choose a tree file (.md) to import." });
-  const file = upload.form.get("file");
-  if (!(file instanceof File) || file.size === 0) return fail(400, { message: "Choose a tree file (.md) to import." });
+export const action = form(async ({ request }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const upload = await readUploadForm(request, {
+    maxBytes: MAX_TREE_FILE,
+    tooLarge: "That file is larger than 1 MB; a tree file is a few kilobytes.",
+    malformed: "Choose a tree file (.md) to import.",
+  });
+  const file = upload.get("file");
+  if (!(file instanceof File) || file.size === 0) throw new Refusal("invalid", "Choose a tree file (.md) to import.");
   let text: string;
   try {
     text = new TextDecoder("utf-8", { fatal: true }).decode(await file.arrayBuffer()).replace(/^\uFEFF/, "");
   } catch {
-    return fail(415, { message: "That file isn't plain text (UTF-8). Export the tree as Markdown and try again." });
+    throw new Refusal("wrong-type", "That file isn't plain text (UTF-8). Export the tree as Markdown and try again.");
   }
-  const intoRaw = String(upload.form.get("into") ?? "");
+  const intoRaw = String(upload.get("into") ?? "");
   const into = intoRaw ? idOf(intoRaw, "That tree") : undefined;
-  const result = await importTree(user.ctx, text, into);
-  if (result.ok) return redirect(`/trees/${result.treeId}/edit`);
-  if (result.reason === "parse") {
-    const lines = text.replace(/\r\n?/g, "\n").split("\n");
-    return fail(422, {
-      message: `${file.name} can't be read as a tree, so nothing was saved. Fix ${result.errors.length === 1 ? "this line" : `these ${result.errors.length} lines`} and upload it again:`,
-      errors: result.errors.map((e) => ({ ...e, source: lines[e.line - 1] ?? "" })),
-    });
-  }
-  if (result.reason === "draft-open") return fail(409, { message: "That tree already has an open draft. Publish or discard it first, or import as a new tree.", draftOf: into });
-  return fail(404, { message: "That tree was not found." });
-}
+  const { treeId } = await importTree(ctx, text, { into, filename: file.name });
+  return redirect(`/trees/${treeId}/edit`);
+});
 
 export default function ImportTree({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
+  const problems = actionData?.details?.parseErrors as ImportProblem[] | undefined;
+  const draftOf = actionData?.details?.draftOf as string | undefined;
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Import a tree file</h1>
@@ -58,9 +57,9 @@ export default function ImportTree({ loaderData, actionData }: Route.ComponentPr
           <h2 id="import-problem" className="font-bold text-out">
             {actionData.message}
           </h2>
-          {actionData.errors && (
+          {problems && (
             <ol className="space-y-2">
-              {actionData.errors.map((e, i) => (
+              {problems.map((e, i) => (
                 <li key={i} className="rounded-lg bg-card p-2">
                   <p className="font-semibold">
                     Line {e.line}, column {e.column}: {e.message}
@@ -70,9 +69,9 @@ export default function ImportTree({ loaderData, actionData }: Route.ComponentPr
               ))}
             </ol>
           )}
-          {actionData.draftOf && (
+          {draftOf && (
             <p>
-              <Link to={`/trees/${actionData.draftOf}/edit`}>Open that draft</Link>
+              <Link to={`/trees/${draftOf}/edit`}>Open that draft</Link>
             </p>
           )}
         </section>

@@ -1,20 +1,24 @@
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
 import { CategoryOptions } from "~/components/TreeLinks";
 import { TreeSchema } from "~/engine/schema";
-import { requireRole } from "~/lib/auth.server";
-import { fieldErrors, formStrings } from "~/lib/forms";
-import { createDraftTree, emptyTree } from "~/models/trees.server";
+import { requireUser } from "~/lib/auth.server";
+import { authorize } from "~/lib/policy";
+import { form, page, readForm } from "~/lib/route.server";
+import { emptyTree } from "~/lib/tree-library";
+import { createDraftTree } from "~/models/trees/drafts.server";
 import type { Route } from "./+types/trees.new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New tree · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, ["lead"]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  // A form only: the page is for those who may make the tree.
+  authorize(ctx, "trees.author");
   return null;
-}
+});
 
 // The engine's own rules for these fields, with messages for this form.
 const NewTree = z.object({
@@ -23,14 +27,11 @@ const NewTree = z.object({
   category: TreeSchema.shape.category,
 });
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const values = formStrings(await request.formData());
-  const parsed = NewTree.safeParse(values);
-  if (!parsed.success) return data({ values, errors: fieldErrors(parsed.error) }, { status: 400 });
-  const { treeId } = await createDraftTree(user.ctx, emptyTree(parsed.data));
+export const action = form(async ({ request }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const { treeId } = await createDraftTree(ctx, emptyTree(await readForm(request, NewTree)));
   return redirect(`/trees/${treeId}/edit`);
-}
+});
 
 export default function NewTreePage({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";

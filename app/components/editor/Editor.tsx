@@ -7,7 +7,7 @@ import { Form, Link, useNavigation } from "react-router";
 import { DiffView } from "~/components/DiffView";
 import { serializeTree } from "~/engine/markdown/serialize";
 import type { Finding, NodeKind, Tree } from "~/engine/types";
-import { diffTrees } from "~/models/tree-diff";
+import { diffTrees } from "~/lib/tree-diff";
 import { fetchDraft, fetchValidation, saveDraft, SaveError, uploadImage, type Conflict, type Validation } from "./api";
 import { draftReducer, initDraft, type DraftAction, type Layout } from "./draft";
 import { Findings } from "./Findings";

@@ -5,7 +5,7 @@ import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, NameplateNode, VerdictKind } from "~/engine/types";
 import { parseReading, QUANTITY_INFO, unitQuantity } from "~/engine/units";
 import { describeMeter, evaluateReading } from "~/engine/verdict";
-import { meterAccuracy, type MeterView } from "~/models/run-log";
+import { meterAccuracy, type MeterView } from "~/lib/run-log";
 import type { RunHandle } from "./useRun";
 
 /** "1,47" → "1.47"; a bare number gets the chosen unit, a typed unit wins. */

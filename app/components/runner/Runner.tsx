@@ -8,8 +8,8 @@ import { stepsToGo } from "./progress";
 import { VERDICT_STYLE } from "./Reading";
 import { KIND_LABEL, OutcomeScreen, StepScreen } from "./Screens";
 import { useRun, type RunHandle } from "./useRun";
-import { reportNumber } from "~/models/report-data";
-import type { RunView, StepView } from "~/models/run-log";
+import { reportNumber } from "~/lib/report-data";
+import type { RunView, StepView } from "~/lib/run-log";
 
 /** "14:05" in the shop's time zone (the same on the server and the phone). */
 function clock(d: Date, timeZone: string): string {

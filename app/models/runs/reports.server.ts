@@ -1,19 +1,18 @@
 // Service reports: the record of a finished run for the customer, shown as a printable page and
 // e-mailed to the site contact (photos attached and shown inline).
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
-import { createElement } from "react";
-import { renderToStaticMarkup } from "react-dom/server";
-import { reports, runNotes, runParts, runPhotos, runs, runSteps, serviceCalls, shops, users } from "../../db/schema";
-import { ReportDocument, REPORT_CSS } from "../components/report/ReportDocument";
-import type { OutcomeNode } from "../engine/types";
-import { describeMeter } from "../engine/verdict";
-import type { Ctx } from "../lib/context";
-import { db } from "../lib/db.server";
-import { sendMail } from "../lib/mail.server";
-import { getUnit } from "./equipment.server";
+import { reports, runNotes, runParts, runPhotos, runs, runSteps, serviceCalls, shops, users } from "../../../db/schema";
+import type { OutcomeNode } from "../../engine/types";
+import { describeMeter } from "../../engine/verdict";
+import type { Ctx } from "../../lib/context";
+import { db } from "../../lib/db.server";
+import { sendMail } from "../../lib/mail.server";
+import { authorize } from "../../lib/policy";
+import { notFound, Refusal } from "../../lib/refusal";
+import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "../../lib/report-data";
+import { unitWithPlace } from "../_query.server";
 import { photosWithBytes } from "./photos.server";
-import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "./report-data";
-import { loadRunVersion } from "./runs.server";
+import { versionContent } from "./_version.server";
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
@@ -26,7 +25,8 @@ function readingText(typed: string | null, message: string | null): string {
 }
 
 /** The report with everything it shows, for the caller's shop only. */
-export async function getReport(ctx: Ctx, reportId: string): Promise<(ReportData & { runId: string }) | null> {
+export async function getReport(ctx: Ctx, reportId: string): Promise<ReportData & { runId: string }> {
+  authorize(ctx, "reports.view");
   const [row] = await db()
     .select({ report: reports, run: runs, shop: shops, technician: users.name })
     .from(reports)
@@ -35,10 +35,9 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<(ReportData
     .innerJoin(users, eq(users.id, runs.technicianId))
     .where(and(eq(reports.id, reportId), eq(reports.shopId, ctx.shopId)))
     .limit(1);
-  if (!row) return null;
+  if (!row) notFound("That report");
   const { report, run, shop } = row;
-  const content = await loadRunVersion(ctx, run.versionId);
-  if (!content) return null;
+  const content = await versionContent(ctx, run.versionId);
   const nodes = new Map(content.tree.nodes.map((n) => [n.id, n]));
   const title = (key: string | null) => (key ? (nodes.get(key)?.title ?? key) : "");
 
@@ -56,7 +55,7 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<(ReportData
       .orderBy(asc(runPhotos.createdAt)),
     db().select().from(runParts).where(eq(runParts.runId, run.id)).orderBy(asc(runParts.position)),
     run.callId ? db().select().from(serviceCalls).where(eq(serviceCalls.id, run.callId)).limit(1) : Promise.resolve([]),
-    run.unitId ? getUnit(ctx, run.unitId) : Promise.resolve(null),
+    run.unitId ? unitWithPlace(ctx, run.unitId) : Promise.resolve(null),
   ]);
   const standing = steps.filter((s) => s.type !== "undo");
   const outcome = run.endNode ? nodes.get(run.endNode) : undefined;
@@ -108,16 +107,6 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<(ReportData
   };
 }
 
-export async function reportIdOfRun(ctx: Ctx, runId: string): Promise<string | null> {
-  const [row] = await db()
-    .select({ id: reports.id })
-    .from(reports)
-    .where(and(eq(reports.runId, runId), eq(reports.shopId, ctx.shopId)))
-    .limit(1);
-  return row?.id ?? null;
-}
-
-
 function reportText(r: ReportData): string {
   const lines = [
     `${r.shop.name} · ${r.shop.town}`,
@@ -145,20 +134,22 @@ function reportText(r: ReportData): string {
   return lines.filter((l, i, all) => l !== "" || (all[i - 1] ?? "") !== "").join("\n");
 }
 
-export type SendResult = { ok: true; to: string; messageId: string } | { ok: false; status: 404 | 409 | 502; message: string };
+/**
+ * Renders the report as the e-mail's HTML document: `photoSrc` names each attached photo (a cid:
+ * link), `note` is a line to add at the end (photos left out of the mail), or null.
+ */
+export type ReportMailRenderer = (report: ReportData, photoSrc: (id: string) => string, note: string | null) => string;
 
 /** E-mails the report to the site contact, photos attached and shown inline. */
-export async function sendReport(ctx: Ctx, reportId: string): Promise<SendResult> {
+export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportMailRenderer): Promise<{ to: string; messageId: string }> {
+  authorize(ctx, "reports.send");
   const r = await getReport(ctx, reportId);
-  if (!r) return { ok: false, status: 404, message: "That report was not found." };
-  if (!r.site?.contactEmail) return { ok: false, status: 409, message: "The site has no contact e-mail address: add one on the site's page first." };
+  if (!r.site?.contactEmail) throw new Refusal("conflict", "The site has no contact e-mail address: add one on the site's page first.", { code: "no-contact" });
   const { photos, left } = await photosWithBytes(ctx, r.runId);
   const cid = (id: string) => `photo-${id}@cluepath`;
   const shown = { ...r, photos: r.photos.filter((p) => photos.some((x) => x.id === p.id)) };
-  const body = renderToStaticMarkup(createElement(ReportDocument, { report: shown, photoSrc: (id: string) => `cid:${cid(id)}` }));
-  const html = `<!doctype html><html><head><meta charset="utf-8"><style>${REPORT_CSS}</style></head><body>${body}${
-    left ? `<p style="font-family:Arial,sans-serif;color:#4a5361">${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.</p>` : ""
-  }</body></html>`;
+  const note = left ? `${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.` : null;
+  const html = renderHtml(shown, (id) => `cid:${cid(id)}`, note);
   const subject = `Service report ${reportNumber(r.number)}${r.unit ? ` — ${r.unit.make} ${r.unit.model}` : ""}${r.site ? ` at ${r.site.name}` : ""}`;
   let messageId: string;
   try {
@@ -172,11 +163,11 @@ export async function sendReport(ctx: Ctx, reportId: string): Promise<SendResult
     }));
   } catch (e) {
     console.error("report mail failed:", e instanceof Error ? e.message : e);
-    return { ok: false, status: 502, message: "The mail server did not take the report. Try again in a minute." };
+    throw new Refusal("unavailable", "The mail server did not take the report. Try again in a minute.");
   }
   await db()
     .update(reports)
     .set({ sentTo: r.site.contactEmail, sentAt: new Date(), messageId: messageId.slice(0, 300), sendCount: sql`${reports.sendCount} + 1` })
     .where(and(eq(reports.id, reportId), eq(reports.shopId, ctx.shopId)));
-  return { ok: true, to: r.site.contactEmail, messageId };
+  return { to: r.site.contactEmail, messageId };
 }
