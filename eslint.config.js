@@ -85,15 +85,11 @@ export default defineConfig(
   { files: ["app/models/**"], ignores: ["app/models/**/*.server.{ts,tsx}"], rules: restrict([...MODELS, SERVER_MODULES]) },
   {
     files: ["app/models/**/*.server.{ts,tsx}"],
-    // Known exception until the report's HTML for e-mail moves out of the model (issue 8, house work):
-    ignores: ["app/models/reports.server.ts"],
     rules: restrict(MODELS),
   },
   { files: ["app/lib/**"], ignores: ["app/lib/**/*.server.{ts,tsx}"], rules: restrict([...LIB, SERVER_MODULES]) },
   {
     files: ["app/lib/**/*.server.{ts,tsx}"],
-    // Known exceptions until the sign-in session and tree query helpers move (issue 8, house work):
-    ignores: ["app/lib/auth.server.ts", "app/lib/tree-params.server.ts"],
     rules: restrict(LIB),
   },
 );

@@ -9,7 +9,7 @@ import { closeDb, db } from "../app/lib/db.server";
 import { hashPassword } from "../app/lib/password.server";
 import { formatParseError, parseTree } from "../app/engine/markdown/parse";
 import { errorsOf, validateTree } from "../app/engine/validate";
-import { createPublishedTree } from "../app/models/trees.server";
+import { createPublishedTree } from "../app/models/trees/drafts.server";
 import type { EquipmentCategory } from "./schema";
 import type { Quantity } from "../app/engine/types";
 

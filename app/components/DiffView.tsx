@@ -1,6 +1,6 @@
 // Shows a TreeDiff: the tree's own fields, then nodes added, removed and changed (with each
 // changed field's before and after, as written in the tree file).
-import type { FieldChange, NodeRef, TreeDiff } from "~/models/tree-diff";
+import type { FieldChange, NodeRef, TreeDiff } from "~/lib/tree-diff";
 
 function Change({ c }: { c: FieldChange }) {
   return (

@@ -5,10 +5,10 @@ import { decode } from "@auth/core/jwt";
 import Credentials from "@auth/core/providers/credentials";
 import { redirect } from "react-router";
 import { z } from "zod";
-import { loadSession, revokeSession, SESSION_HOURS, signIn, type SessionUser } from "../models/sign-in.server";
+import { loadSession, revokeSession, SESSION_HOURS, signIn, type SessionUser } from "./sign-in.server";
 import type { Ctx } from "./context";
 import { env } from "./env.server";
-import { HOME_PATH, type Role } from "./roles";
+import { HOME_PATH } from "./roles";
 
 class WrongCredentials extends CredentialsSignin {
   override code = "credentials";
@@ -108,19 +108,6 @@ export async function requireUser(request: Request): Promise<SessionUser & { ctx
     throw redirect(next && next !== "/" ? `/login?next=${encodeURIComponent(next)}` : "/login");
   }
   return { ...user, ctx: { shopId: user.shopId, userId: user.userId, role: user.role } };
-}
-
-/** Owners may do what leads do; every other role is exactly itself. */
-export function roleAllows(role: Role, allowed: readonly Role[]): boolean {
-  return allowed.includes(role) || (role === "owner" && allowed.includes("lead"));
-}
-
-export async function requireRole(request: Request, allowed: readonly Role[]) {
-  const user = await requireUser(request);
-  if (!roleAllows(user.role, allowed)) {
-    throw Response.json({ error: `This page is for ${allowed.join(" or ")} roles.` }, { status: 403 });
-  }
-  return user;
 }
 
 function setCookies(response: Response): string[] {

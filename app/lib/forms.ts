@@ -27,12 +27,3 @@ export function formStrings(form: FormData): Record<string, string> {
   for (const [k, v] of form) if (typeof v === "string") out[k] = v;
   return out;
 }
-
-export type ParsedForm<T> = { ok: true; data: T; values: Record<string, string> } | { ok: false; values: Record<string, string>; errors: Record<string, string> };
-
-/** A submitted form checked against `schema`, with what was typed kept for re-showing. */
-export async function parseForm<S extends z.ZodType>(request: Request, schema: S): Promise<ParsedForm<z.infer<S>>> {
-  const values = formStrings(await request.formData());
-  const parsed = schema.safeParse(values);
-  return parsed.success ? { ok: true, data: parsed.data, values } : { ok: false, values, errors: fieldErrors(parsed.error) };
-}

@@ -3,8 +3,8 @@
 import { DeleteObjectCommand, GetObjectCommand, NoSuchKey, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { fileTypeFromBuffer } from "file-type";
 import { env } from "./env.server";
-
-export const MAX_IMAGE_BYTES = 10 * 1024 * 1024;
+import { Refusal } from "./refusal";
+import { MAX_IMAGE_BYTES, TOO_LARGE_PHOTO } from "./uploads";
 /** Image types accepted, judged by their content (magic bytes), never by name or declared type. */
 export const IMAGE_TYPES: Record<string, string> = {
   "image/jpeg": "jpg",
@@ -26,18 +26,16 @@ function s3(): S3Client {
   }));
 }
 
-export type ImageCheck = { ok: true; mime: string; ext: string } | { ok: false; message: string; status: 413 | 415 | 400 };
-
-export async function checkImage(bytes: Uint8Array): Promise<ImageCheck> {
-  if (bytes.byteLength === 0) return { ok: false, status: 400, message: "The file is empty." };
-  if (bytes.byteLength > MAX_IMAGE_BYTES)
-    return { ok: false, status: 413, message: `The photo is larger than ${MAX_IMAGE_BYTES / 1024 / 1024} MB. Take it again at a lower resolution.` };
+/** The image's type and file extension, judged by its bytes; a Refusal when it is empty, too large or not an image. */
+export async function checkImage(bytes: Uint8Array): Promise<{ mime: string; ext: string }> {
+  if (bytes.byteLength === 0) throw new Refusal("invalid", "The file is empty.");
+  if (bytes.byteLength > MAX_IMAGE_BYTES) throw new Refusal("too-large", TOO_LARGE_PHOTO);
   const type = await fileTypeFromBuffer(bytes);
   const ext = type ? IMAGE_TYPES[type.mime] : undefined;
   // file-type takes any "GIF" prefix for a GIF; the format's signature is GIF87a or GIF89a.
   const badGif = type?.mime === "image/gif" && !/^GIF8[79]a$/.test(new TextDecoder().decode(bytes.subarray(0, 6)));
-  if (!type || !ext || badGif) return { ok: false, status: 415, message: "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF)." };
-  return { ok: true, mime: type.mime, ext };
+  if (!type || !ext || badGif) throw new Refusal("wrong-type", "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF).");
+  return { mime: type.mime, ext };
 }
 
 /** A server-made key: the shop first, so one shop's objects never share a prefix with another's. */

@@ -2,29 +2,26 @@
 // a 404, like an unknown one.
 import { z } from "zod";
 import { CATEGORIES } from "~/engine/types";
-import { LIBRARY_SORTS, LIBRARY_STATES, type LibraryQuery, type VersionRef } from "~/models/trees.server";
-import { notFound } from "./http.server";
+import { notFound } from "./refusal";
+import { LIBRARY_SORTS, LIBRARY_STATES, type LibraryQuery, type VersionRef } from "./tree-library";
 
 const Id = z.string().regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/);
 const Ref = z.union([z.literal("draft"), z.coerce.number().int().positive().max(1_000_000)]);
 
 export function treeIdOf(params: { treeId?: string }): string {
   const r = Id.safeParse(params.treeId);
-  if (!r.success) notFound("That tree");
-  return r.data;
+  return r.success ? r.data : notFound("That tree");
 }
 
 export function idOf(raw: string | undefined, what: string): string {
   const r = Id.safeParse(raw);
-  if (!r.success) notFound(what);
-  return r.data;
+  return r.success ? r.data : notFound(what);
 }
 
 /** "draft" or a version number from a route parameter or query value. */
 export function versionRefOf(raw: string | null | undefined): VersionRef {
   const r = Ref.safeParse(raw);
-  if (!r.success) notFound("That version");
-  return r.data;
+  return r.success ? r.data : notFound("That version");
 }
 
 const Library = z.object({

@@ -1,18 +1,25 @@
 // Reading an upload without trusting the client: the body is read up to a cap (plus room for the
 // multipart envelope) and refused beyond it, before anything is parsed or stored.
-import { MAX_IMAGE_BYTES } from "./storage.server";
+import { Refusal } from "./refusal";
+import { MAX_IMAGE_BYTES, TOO_LARGE_PHOTO } from "./uploads";
 
 const ENVELOPE = 64 * 1024;
 
-export type UploadForm = { ok: true; form: FormData } | { ok: false; status: 400 | 413; message: string };
+export type UploadLimits = {
+  maxBytes?: number;
+  /** What the user reads when the upload is over the cap. */
+  tooLarge?: string;
+  /** What the user reads when the body is not a multipart form (or is empty). */
+  malformed?: string;
+};
 
-const tooBig = (): UploadForm => ({ ok: false, status: 413, message: `The photo is larger than ${MAX_IMAGE_BYTES / 1024 / 1024} MB. Take it again at a lower resolution.` });
-
-export async function readUploadForm(request: Request, maxBytes = MAX_IMAGE_BYTES): Promise<UploadForm> {
+/** The multipart form of an upload, read up to the cap; a Refusal (413, or 400) otherwise. */
+export async function readUploadForm(request: Request, limits: UploadLimits = {}): Promise<FormData> {
+  const { maxBytes = MAX_IMAGE_BYTES, tooLarge = TOO_LARGE_PHOTO, malformed = "Send the photo as a multipart form with a file field named “photo”." } = limits;
   const limit = maxBytes + ENVELOPE;
   const declared = Number(request.headers.get("content-length") ?? "0");
-  if (declared > limit) return tooBig();
-  if (!request.body) return { ok: false, status: 400, message: "The upload was empty." };
+  if (declared > limit) throw new Refusal("too-large", tooLarge);
+  if (!request.body) throw new Refusal("invalid", limits.malformed ?? "The upload was empty.");
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -22,14 +29,13 @@ export async function readUploadForm(request: Request, maxBytes = MAX_IMAGE_BYTE
     total += value.byteLength;
     if (total > limit) {
       await reader.cancel();
-      return tooBig();
+      throw new Refusal("too-large", tooLarge);
     }
     chunks.push(value);
   }
   try {
-    const form = await new Response(new Blob(chunks as BlobPart[]), { headers: { "content-type": request.headers.get("content-type") ?? "" } }).formData();
-    return { ok: true, form };
+    return await new Response(new Blob(chunks as BlobPart[]), { headers: { "content-type": request.headers.get("content-type") ?? "" } }).formData();
   } catch {
-    return { ok: false, status: 400, message: "Send the photo as a multipart form with a file field named “photo”." };
+    throw new Refusal("invalid", malformed);
   }
 }

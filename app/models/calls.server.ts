@@ -10,7 +10,6 @@ import {
   memberships,
   runs,
   serviceCalls,
-  shops,
   sites,
   users,
   type CallPriority,
@@ -20,7 +19,11 @@ import type { EquipmentCategory } from "../engine/types";
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
 import { optionalText } from "../lib/forms";
-import { listPublished, type PublishedTreeSummary } from "./trees.server";
+import { authorize } from "../lib/policy";
+import { fieldRefusal, notFound } from "../lib/refusal";
+import { withNextNumber, withPlace } from "./_query.server";
+import { searchUnits } from "./equipment.server";
+import { listPublished, type PublishedTreeSummary } from "./trees/library.server";
 
 
 export const callInput = z.object({
@@ -59,13 +62,10 @@ function callColumns() {
 }
 
 function callsQuery() {
-  return db()
-    .select(callColumns())
-    .from(serviceCalls)
-    .innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId))
-    .innerJoin(sites, eq(sites.id, equipmentUnits.siteId))
-    .innerJoin(customers, eq(customers.id, sites.customerId))
-    .leftJoin(assignee, eq(assignee.id, serviceCalls.assignedTo));
+  return withPlace(db().select(callColumns()).from(serviceCalls).innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId)).$dynamic()).leftJoin(
+    assignee,
+    eq(assignee.id, serviceCalls.assignedTo),
+  );
 }
 
 const PRIORITY_ORDER = sql`FIELD(${serviceCalls.priority}, 'urgent', 'high', 'normal', 'low')`;
@@ -80,6 +80,7 @@ export type CallFilter = {
 const ACTIVE: CallStatus[] = ["open", "in_progress", "escalated"];
 
 export async function listCalls(ctx: Ctx, filter: CallFilter = {}) {
+  authorize(ctx, "calls.view");
   const term = filter.q?.trim();
   const pattern = term ? `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : "";
   const number = term && /^#?\d+$/.test(term) ? Number(term.replace("#", "")) : null;
@@ -114,6 +115,7 @@ export async function listCalls(ctx: Ctx, filter: CallFilter = {}) {
 
 /** The caller's open calls, with the run in progress on each (if any). */
 export async function myCalls(ctx: Ctx) {
+  authorize(ctx, "calls.mine");
   const calls = await callsQuery()
     .where(and(eq(serviceCalls.shopId, ctx.shopId), eq(serviceCalls.assignedTo, ctx.userId), inArray(serviceCalls.status, ACTIVE)))
     .orderBy(PRIORITY_ORDER, asc(serviceCalls.openedAt));
@@ -128,6 +130,7 @@ export async function myCalls(ctx: Ctx) {
 
 /** Calls the caller closed in the last `days` days. */
 export async function recentlyDone(ctx: Ctx, days = 7) {
+  authorize(ctx, "calls.mine");
   return callsQuery()
     .where(
       and(
@@ -141,21 +144,29 @@ export async function recentlyDone(ctx: Ctx, days = 7) {
     .limit(20);
 }
 
-export async function getCall(ctx: Ctx, id: string) {
-  const [row] = await db()
-    .select({ call: serviceCalls, unit: equipmentUnits, site: sites, customer: customers, assigneeName: assignee.name })
-    .from(serviceCalls)
-    .innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId))
-    .innerJoin(sites, eq(sites.id, equipmentUnits.siteId))
-    .innerJoin(customers, eq(customers.id, sites.customerId))
+async function callRow(ctx: Ctx, id: string) {
+  const [row] = await withPlace(
+    db()
+      .select({ call: serviceCalls, unit: equipmentUnits, site: sites, customer: customers, assigneeName: assignee.name })
+      .from(serviceCalls)
+      .innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId))
+      .$dynamic(),
+  )
     .leftJoin(assignee, eq(assignee.id, serviceCalls.assignedTo))
     .where(and(eq(serviceCalls.id, id), eq(serviceCalls.shopId, ctx.shopId)))
     .limit(1);
-  return row ?? null;
+  return row ?? notFound("That service call");
+}
+
+/** One call with its unit, site, customer and assignee. */
+export async function getCall(ctx: Ctx, id: string) {
+  authorize(ctx, "calls.view");
+  return callRow(ctx, id);
 }
 
 /** The shop's technicians and leads, who can be sent on a call. */
 export async function assignablePeople(ctx: Ctx) {
+  authorize(ctx, "calls.view");
   return db()
     .select({ id: users.id, name: users.name, role: memberships.role })
     .from(memberships)
@@ -164,43 +175,28 @@ export async function assignablePeople(ctx: Ctx) {
     .orderBy(asc(users.name));
 }
 
-type Check = { ok: true } | { ok: false; field: string; message: string };
+/** What the call form offers: the shop's units and the people who can be sent. */
+export async function callFormChoices(ctx: Ctx) {
+  authorize(ctx, "calls.write");
+  const [units, people] = await Promise.all([searchUnits(ctx), assignablePeople(ctx)]);
+  return { units, people };
+}
 
-async function checkRefs(ctx: Ctx, input: CallInput): Promise<Check> {
+/** The call's unit and assignee must be the shop's; a refusal names the field otherwise. */
+async function checkRefs(ctx: Ctx, input: CallInput): Promise<void> {
   const [unit] = await db()
     .select({ id: equipmentUnits.id })
     .from(equipmentUnits)
     .where(and(eq(equipmentUnits.id, input.unitId), eq(equipmentUnits.shopId, ctx.shopId)))
     .limit(1);
-  if (!unit) return { ok: false, field: "unitId", message: "Choose one of your shop's units." };
-  if (input.assignedTo && !(await assignablePeople(ctx)).some((p) => p.id === input.assignedTo))
-    return { ok: false, field: "assignedTo", message: "Choose a technician or lead of your shop." };
-  return { ok: true };
+  if (!unit) throw fieldRefusal("unitId", "Choose one of your shop's units.");
+  if (input.assignedTo && !(await assignablePeople(ctx)).some((p) => p.id === input.assignedTo)) throw fieldRefusal("assignedTo", "Choose a technician or lead of your shop.");
 }
 
-function isDuplicate(e: unknown): boolean {
-  const err = e as { code?: string; cause?: { code?: string } };
-  return err?.code === "ER_DUP_ENTRY" || err?.cause?.code === "ER_DUP_ENTRY";
-}
-
-/** Inserts with the shop's next number; retries when two inserts pick the same one. */
-export async function withNextNumber<T>(
-  next: () => Promise<number>,
-  insert: (n: number) => Promise<T>,
-): Promise<T> {
-  for (let attempt = 0; ; attempt++) {
-    const n = await next();
-    try {
-      return await insert(n);
-    } catch (e) {
-      if (!isDuplicate(e) || attempt >= 5) throw e;
-    }
-  }
-}
-
-export async function createCall(ctx: Ctx, input: CallInput): Promise<{ ok: true; id: string; number: number } | { ok: false; field: string; message: string }> {
-  const check = await checkRefs(ctx, input);
-  if (!check.ok) return check;
+/** Opens a call with the shop's next number. */
+export async function createCall(ctx: Ctx, input: CallInput): Promise<{ id: string; number: number }> {
+  authorize(ctx, "calls.write");
+  await checkRefs(ctx, input);
   const id = crypto.randomUUID();
   const now = new Date();
   const number = await withNextNumber(
@@ -215,21 +211,20 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ ok: true
       return n;
     },
   );
-  return { ok: true, id, number };
+  return { id, number };
 }
 
-export async function updateCall(ctx: Ctx, id: string, input: CallEditInput): Promise<{ ok: true } | { ok: false; field: string; message: string }> {
-  const current = await getCall(ctx, id);
-  if (!current) return { ok: false, field: "", message: "not-found" };
-  const check = await checkRefs(ctx, input);
-  if (!check.ok) return check;
+/** Changes a call; closing it stamps when, reopening it clears that. */
+export async function updateCall(ctx: Ctx, id: string, input: CallEditInput): Promise<void> {
+  authorize(ctx, "calls.write");
+  const current = await callRow(ctx, id);
+  await checkRefs(ctx, input);
   const closing = (input.status === "done" || input.status === "cancelled") && current.call.closedAt === null;
   const reopening = input.status !== "done" && input.status !== "cancelled";
   await db()
     .update(serviceCalls)
     .set({ ...input, updatedAt: new Date(), closedAt: closing ? new Date() : reopening ? null : current.call.closedAt })
     .where(and(eq(serviceCalls.id, id), eq(serviceCalls.shopId, ctx.shopId)));
-  return { ok: true };
 }
 
 /** Words that carry meaning in a symptom ("heats unevenly" → heat, uneven). */
@@ -250,6 +245,7 @@ export type TreeSuggestion = PublishedTreeSummary & { score: number; sameCategor
  * reported symptom they share with the tree's title and symptom; then the rest of the library.
  */
 export async function suggestTrees(ctx: Ctx, category: EquipmentCategory, symptom: string): Promise<TreeSuggestion[]> {
+  authorize(ctx, "trees.view");
   const reported = words(symptom);
   const all = await listPublished(ctx);
   return all
@@ -264,13 +260,8 @@ export async function suggestTrees(ctx: Ctx, category: EquipmentCategory, sympto
 
 /** Calls on one unit, newest first (the unit's history). */
 export async function callsOfUnit(ctx: Ctx, unitId: string) {
+  authorize(ctx, "calls.view");
   return callsQuery()
     .where(and(eq(serviceCalls.shopId, ctx.shopId), eq(serviceCalls.unitId, unitId)))
     .orderBy(desc(serviceCalls.openedAt));
-}
-
-/** The shop's time zone (from its settings), for showing times. */
-export async function shopTimeZone(ctx: Ctx): Promise<string> {
-  const [row] = await db().select({ settings: shops.settings }).from(shops).where(eq(shops.id, ctx.shopId)).limit(1);
-  return row?.settings.timeZone || "UTC";
 }

@@ -5,26 +5,34 @@ import { customers, EQUIPMENT_CATEGORIES, equipmentUnits, memberships, sites, ty
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
 import { optionalText } from "../lib/forms";
+import { authorize } from "../lib/policy";
+import { notFound } from "../lib/refusal";
+import { unitWithPlace, withPlace } from "./_query.server";
+
+async function customerRow(ctx: Ctx, id: string) {
+  const [row] = await db().select().from(customers).where(and(eq(customers.id, id), eq(customers.shopId, ctx.shopId))).limit(1);
+  return row ?? notFound("That customer");
+}
+
+async function siteRow(ctx: Ctx, id: string) {
+  const [row] = await db().select().from(sites).where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId))).limit(1);
+  return row ?? notFound("That site");
+}
 
 export async function getCustomer(ctx: Ctx, id: string) {
-  const [row] = await db().select().from(customers).where(and(eq(customers.id, id), eq(customers.shopId, ctx.shopId))).limit(1);
-  return row ?? null;
+  authorize(ctx, "equipment.view");
+  return customerRow(ctx, id);
 }
 
 export async function getSite(ctx: Ctx, id: string) {
-  const [row] = await db().select().from(sites).where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId))).limit(1);
-  return row ?? null;
+  authorize(ctx, "equipment.view");
+  return siteRow(ctx, id);
 }
 
+/** One of the shop's units with its site and customer. */
 export async function getUnit(ctx: Ctx, id: string) {
-  const [row] = await db()
-    .select({ unit: equipmentUnits, site: sites, customer: customers })
-    .from(equipmentUnits)
-    .innerJoin(sites, eq(sites.id, equipmentUnits.siteId))
-    .innerJoin(customers, eq(customers.id, sites.customerId))
-    .where(and(eq(equipmentUnits.id, id), eq(equipmentUnits.shopId, ctx.shopId)))
-    .limit(1);
-  return row ?? null;
+  authorize(ctx, "equipment.view");
+  return (await unitWithPlace(ctx, id)) ?? notFound("That equipment unit");
 }
 
 export async function listUnits(ctx: Ctx) {
@@ -33,6 +41,7 @@ export async function listUnits(ctx: Ctx) {
 
 /** Real counts for the owner's overview. */
 export async function shopCounts(ctx: Ctx) {
+  authorize(ctx, "shop.overview");
   const one = async (table: typeof customers | typeof sites | typeof equipmentUnits | typeof memberships) => {
     const [row] = await db().select({ n: count() }).from(table).where(eq(table.shopId, ctx.shopId));
     return row?.n ?? 0;
@@ -76,6 +85,7 @@ export type UnitInput = z.infer<typeof unitInput>;
 const like = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
 export async function listCustomers(ctx: Ctx, q = "") {
+  authorize(ctx, "equipment.view");
   const term = q.trim();
   const pattern = like(term);
   return db()
@@ -102,20 +112,23 @@ export async function listCustomers(ctx: Ctx, q = "") {
 }
 
 export async function createCustomer(ctx: Ctx, input: CustomerInput): Promise<string> {
+  authorize(ctx, "equipment.write");
   const id = crypto.randomUUID();
   await db().insert(customers).values({ id, shopId: ctx.shopId, name: input.name, phone: input.phone });
   return id;
 }
 
-export async function updateCustomer(ctx: Ctx, id: string, input: CustomerInput): Promise<boolean> {
+export async function updateCustomer(ctx: Ctx, id: string, input: CustomerInput): Promise<void> {
+  authorize(ctx, "equipment.write");
   const [res] = await db()
     .update(customers)
     .set({ name: input.name, phone: input.phone })
     .where(and(eq(customers.id, id), eq(customers.shopId, ctx.shopId)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That customer");
 }
 
 export async function sitesOf(ctx: Ctx, customerId: string) {
+  authorize(ctx, "equipment.view");
   return db()
     .select({ site: sites, units: count(equipmentUnits.id) })
     .from(sites)
@@ -125,9 +138,10 @@ export async function sitesOf(ctx: Ctx, customerId: string) {
     .orderBy(asc(sites.name));
 }
 
-/** Null when the customer is not the caller's shop's. */
-export async function createSite(ctx: Ctx, customerId: string, input: SiteInput): Promise<string | null> {
-  if (!(await getCustomer(ctx, customerId))) return null;
+/** A new site of one of the shop's customers. */
+export async function createSite(ctx: Ctx, customerId: string, input: SiteInput): Promise<string> {
+  authorize(ctx, "equipment.write");
+  await customerRow(ctx, customerId);
   const id = crypto.randomUUID();
   await db()
     .insert(sites)
@@ -135,25 +149,28 @@ export async function createSite(ctx: Ctx, customerId: string, input: SiteInput)
   return id;
 }
 
-export async function updateSite(ctx: Ctx, id: string, input: SiteInput): Promise<boolean> {
+export async function updateSite(ctx: Ctx, id: string, input: SiteInput): Promise<void> {
+  authorize(ctx, "equipment.write");
   const [res] = await db()
     .update(sites)
     .set(input)
     .where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That site");
 }
 
 export async function getSiteWithCustomer(ctx: Ctx, id: string) {
+  authorize(ctx, "equipment.view");
   const [row] = await db()
     .select({ site: sites, customer: customers })
     .from(sites)
     .innerJoin(customers, eq(customers.id, sites.customerId))
     .where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId)))
     .limit(1);
-  return row ?? null;
+  return row ?? notFound("That site");
 }
 
 export async function unitsAt(ctx: Ctx, siteId: string) {
+  authorize(ctx, "equipment.view");
   return db()
     .select()
     .from(equipmentUnits)
@@ -161,9 +178,10 @@ export async function unitsAt(ctx: Ctx, siteId: string) {
     .orderBy(asc(equipmentUnits.model));
 }
 
-/** Null when the site is not the caller's shop's. Nameplate ratings start empty. */
-export async function createUnit(ctx: Ctx, siteId: string, input: UnitInput): Promise<string | null> {
-  if (!(await getSite(ctx, siteId))) return null;
+/** A new unit at one of the shop's sites. Nameplate ratings start empty. */
+export async function createUnit(ctx: Ctx, siteId: string, input: UnitInput): Promise<string> {
+  authorize(ctx, "equipment.write");
+  await siteRow(ctx, siteId);
   const id = crypto.randomUUID();
   await db()
     .insert(equipmentUnits)
@@ -171,21 +189,23 @@ export async function createUnit(ctx: Ctx, siteId: string, input: UnitInput): Pr
   return id;
 }
 
-export async function updateUnit(ctx: Ctx, id: string, input: UnitInput): Promise<boolean> {
+export async function updateUnit(ctx: Ctx, id: string, input: UnitInput): Promise<void> {
+  authorize(ctx, "equipment.write");
   const [res] = await db()
     .update(equipmentUnits)
     .set(input)
     .where(and(eq(equipmentUnits.id, id), eq(equipmentUnits.shopId, ctx.shopId)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That equipment unit");
 }
 
 export type UnitFilter = { q?: string; category?: EquipmentCategory };
 
 /** The shop's units, searched by make, model, serial, site or customer, and filtered by category. */
 export async function searchUnits(ctx: Ctx, filter: UnitFilter = {}) {
+  authorize(ctx, "equipment.view");
   const term = filter.q?.trim();
   const pattern = term ? like(term) : "";
-  return db()
+  const query = db()
     .select({
       id: equipmentUnits.id,
       category: equipmentUnits.category,
@@ -197,8 +217,8 @@ export async function searchUnits(ctx: Ctx, filter: UnitFilter = {}) {
       customerName: customers.name,
     })
     .from(equipmentUnits)
-    .innerJoin(sites, eq(sites.id, equipmentUnits.siteId))
-    .innerJoin(customers, eq(customers.id, sites.customerId))
+    .$dynamic();
+  return withPlace(query)
     .where(
       and(
         eq(equipmentUnits.shopId, ctx.shopId),

@@ -6,9 +6,11 @@ import { meters } from "../../db/schema";
 import { QUANTITIES, type Quantity } from "../engine/types";
 import { QUANTITY_INFO, unitQuantity } from "../engine/units";
 import type { Ctx } from "../lib/context";
-import { formNumber } from "../lib/forms";
 import { db } from "../lib/db.server";
-import type { MeterView } from "./run-log";
+import { formNumber } from "../lib/forms";
+import { authorize, can } from "../lib/policy";
+import { notFound } from "../lib/refusal";
+import type { MeterView } from "../lib/run-log";
 
 const positive = (what: string) => formNumber(`Enter the ${what} as a number.`).refine((n) => n > 0, `The ${what} must be more than 0.`);
 
@@ -45,14 +47,17 @@ function view(row: typeof meters.$inferSelect): MeterView & { retired: boolean }
   };
 }
 
+/** The shop's meters; retired ones too when asked for by someone who keeps the list. */
 export async function listMeters(ctx: Ctx, opts: { includeRetired?: boolean; quantity?: Quantity } = {}) {
+  authorize(ctx, "meters.view");
+  const includeRetired = opts.includeRetired === true && can(ctx, "meters.manage");
   const rows = await db()
     .select()
     .from(meters)
     .where(
       and(
         eq(meters.shopId, ctx.shopId),
-        opts.includeRetired ? undefined : isNull(meters.retiredAt),
+        includeRetired ? undefined : isNull(meters.retiredAt),
         opts.quantity ? eq(meters.quantity, opts.quantity) : undefined,
       ),
     )
@@ -61,15 +66,17 @@ export async function listMeters(ctx: Ctx, opts: { includeRetired?: boolean; qua
 }
 
 export async function getMeter(ctx: Ctx, id: string) {
+  authorize(ctx, "meters.view");
   const [row] = await db()
     .select()
     .from(meters)
     .where(and(eq(meters.id, id), eq(meters.shopId, ctx.shopId)))
     .limit(1);
-  return row ? view(row) : null;
+  return row ? view(row) : notFound("That meter");
 }
 
 export async function createMeter(ctx: Ctx, input: MeterInput): Promise<string> {
+  authorize(ctx, "meters.manage");
   const id = crypto.randomUUID();
   await db()
     .insert(meters)
@@ -77,19 +84,21 @@ export async function createMeter(ctx: Ctx, input: MeterInput): Promise<string> 
   return id;
 }
 
-export async function updateMeter(ctx: Ctx, id: string, input: MeterInput): Promise<boolean> {
+export async function updateMeter(ctx: Ctx, id: string, input: MeterInput): Promise<void> {
+  authorize(ctx, "meters.manage");
   const [res] = await db()
     .update(meters)
     .set({ ...input, updatedAt: new Date() })
     .where(and(eq(meters.id, id), eq(meters.shopId, ctx.shopId)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That meter");
 }
 
 /** Retired meters stay on the steps that used them; the runner stops offering them. */
-export async function setMeterRetired(ctx: Ctx, id: string, retired: boolean): Promise<boolean> {
+export async function setMeterRetired(ctx: Ctx, id: string, retired: boolean): Promise<void> {
+  authorize(ctx, "meters.manage");
   const [res] = await db()
     .update(meters)
     .set({ retiredAt: retired ? new Date() : null, updatedAt: new Date() })
     .where(and(eq(meters.id, id), eq(meters.shopId, ctx.shopId)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That meter");
 }

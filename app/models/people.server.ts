@@ -5,13 +5,16 @@ import { invitations, memberships, shops, users } from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import { db, writeTx } from "../lib/db.server";
 import { sendMail } from "../lib/mail.server";
-import { hashPassword, verifyPassword } from "../lib/password.server";
+import { hashPassword, passwordProblem, verifyPassword } from "../lib/password.server";
+import { authorize } from "../lib/policy";
+import { fieldRefusal, notFound, Refusal } from "../lib/refusal";
 import { ROLE_LABEL, type Role } from "../lib/roles";
-import { normaliseEmail } from "./sign-in.server";
+import { normaliseEmail } from "../lib/sign-in.server";
 
 export const INVITATION_DAYS = 7;
 
 export async function listMembers(ctx: Ctx) {
+  authorize(ctx, "people.manage");
   return db()
     .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, since: memberships.createdAt })
     .from(memberships)
@@ -21,6 +24,7 @@ export async function listMembers(ctx: Ctx) {
 }
 
 export async function listOpenInvitations(ctx: Ctx, now = new Date()) {
+  authorize(ctx, "people.manage");
   return db()
     .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt })
     .from(invitations)
@@ -32,6 +36,7 @@ const sha256 = (s: string) => createHash("sha256").update(s).digest("hex");
 
 /** Creates an invitation and returns the token for the link (only its hash is stored). */
 export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ id: string; token: string }> {
+  authorize(ctx, "people.manage");
   const token = Buffer.from(crypto.getRandomValues(new Uint8Array(24))).toString("base64url");
   const id = crypto.randomUUID();
   await db().insert(invitations).values({
@@ -48,6 +53,7 @@ export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ 
 
 /** E-mails the invitation link. Returns false when the mail server refused it (the link still works). */
 export async function sendInvitationMail(ctx: Ctx, to: string, role: Role, link: string): Promise<boolean> {
+  authorize(ctx, "people.manage");
   const [shop] = await db().select({ name: shops.name }).from(shops).where(eq(shops.id, ctx.shopId)).limit(1);
   const [from] = await db().select({ name: users.name }).from(users).where(eq(users.id, ctx.userId)).limit(1);
   try {
@@ -71,12 +77,13 @@ export async function sendInvitationMail(ctx: Ctx, to: string, role: Role, link:
   }
 }
 
-export async function revokeInvitation(ctx: Ctx, id: string): Promise<boolean> {
+export async function revokeInvitation(ctx: Ctx, id: string): Promise<void> {
+  authorize(ctx, "people.manage");
   const [res] = await db()
     .update(invitations)
     .set({ revokedAt: new Date() })
     .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt)));
-  return res.affectedRows > 0;
+  if (res.affectedRows === 0) notFound("That invitation");
 }
 
 export type OpenInvitation = { id: string; email: string; role: Role; shopId: string; shopName: string; hasAccount: boolean };
@@ -94,21 +101,26 @@ export async function findInvitation(token: string, now = new Date()): Promise<O
   return { ...row, hasAccount: Boolean(user) };
 }
 
-export type AcceptResult = { ok: true } | { ok: false; field: "password" | "token"; message: string };
-
 /**
  * Accepts an invitation: a new person sets their name and password; someone who already has an
  * account confirms with their password. Either way they become a member with the invited role.
  */
-export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<AcceptResult> {
+export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<{ shopName: string }> {
   const inv = await findInvitation(token);
-  if (!inv) return { ok: false, field: "token", message: "This invitation has expired, was withdrawn, or was already used." };
-  return writeTx(async (tx) => {
+  if (!inv) throw new Refusal("gone", "This invitation has expired, was withdrawn, or was already used.");
+  if (!inv.hasAccount) {
+    // A new account: a name for the reports, and a password the rules accept.
+    const fields: Record<string, string> = {};
+    if (!input.name?.trim()) fields.name = "Enter your name as customers should see it on reports.";
+    const problem = passwordProblem(input.password, inv.email);
+    if (problem) fields.password = problem;
+    if (Object.keys(fields).length) throw new Refusal("invalid", Object.values(fields)[0]!, { fields });
+  }
+  await writeTx(async (tx) => {
     const [existing] = await tx.select().from(users).where(eq(users.email, inv.email)).limit(1);
     let userId: string;
     if (existing) {
-      if (!(await verifyPassword(existing.passwordHash, input.password)))
-        return { ok: false, field: "password", message: "That password doesn't match your existing account." } as const;
+      if (!(await verifyPassword(existing.passwordHash, input.password))) throw fieldRefusal("password", "That password doesn't match your existing account.");
       userId = existing.id;
     } else {
       userId = crypto.randomUUID();
@@ -118,6 +130,6 @@ export async function acceptInvitation(token: string, input: { name?: string; pa
     if (member) await tx.update(memberships).set({ role: inv.role }).where(eq(memberships.id, member.id));
     else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });
     await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));
-    return { ok: true } as const;
   });
+  return { shopName: inv.shopName };
 }

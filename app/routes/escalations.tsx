@@ -1,28 +1,30 @@
 // /escalations — runs technicians handed to a lead, oldest first: read the run, take it over.
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireRole } from "~/lib/auth.server";
-import { shopTimeZone } from "~/models/calls.server";
-import { changeRunStatus, listOpenEscalations } from "~/models/runs.server";
+import { requireUser } from "~/lib/auth.server";
 import { atShop, placeName } from "~/lib/display";
+import { form, page, readForm } from "~/lib/route.server";
+import { changeRunStatus } from "~/models/runs/lifecycle.server";
+import { listOpenEscalations } from "~/models/runs/queries.server";
+import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/escalations";
 
 export const meta: Route.MetaFunction = () => [{ title: "Escalations · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const [escalations, tz] = await Promise.all([listOpenEscalations(user.ctx), shopTimeZone(user.ctx)]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const [escalations, tz] = await Promise.all([listOpenEscalations(ctx), shopTimeZone(ctx)]);
   return { escalations, tz };
-}
+});
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const parsed = z.object({ runId: z.string().uuid() }).safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ message: "Choose a run to take over." }, { status: 400 });
-  const r = await changeRunStatus(user.ctx, parsed.data.runId, { action: "take-over" });
-  if (!r.ok) return data({ message: r.message }, { status: r.status });
-  throw redirect(`/runs/${parsed.data.runId}`);
-}
+const TakeOver = z.object({ runId: z.string({ message: "Choose a run to take over." }).uuid("Choose a run to take over.") });
+
+export const action = form(async ({ request }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const { runId } = await readForm(request, TakeOver);
+  await changeRunStatus(ctx, runId, { action: "take-over" });
+  return redirect(`/runs/${runId}`);
+});
 
 export default function Escalations({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";

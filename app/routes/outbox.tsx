@@ -1,18 +1,19 @@
 // /outbox — what the shop has e-mailed (service reports, invitations), as the local mail catcher
 // received it. Owners and leads.
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
-import { shopTimeZone } from "~/models/calls.server";
+import { page } from "~/lib/route.server";
 import { listOutbox } from "~/models/outbox.server";
+import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/outbox";
 
 export const meta: Route.MetaFunction = () => [{ title: "Outbox · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["lead"]);
-  const [outbox, tz] = await Promise.all([listOutbox(user.ctx), shopTimeZone(user.ctx)]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const [outbox, tz] = await Promise.all([listOutbox(ctx), shopTimeZone(ctx)]);
   return { ...outbox, tz };
-}
+});
 
 export default function Outbox({ loaderData }: Route.ComponentProps) {
   const { enabled, messages } = loaderData;

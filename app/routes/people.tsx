@@ -1,59 +1,50 @@
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
-import { requireRole } from "~/lib/auth.server";
+import { requireUser } from "~/lib/auth.server";
+import { form, page, readForm } from "~/lib/route.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
 import { invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "~/models/people.server";
 import type { Route } from "./+types/people";
 
 export const meta: Route.MetaFunction = () => [{ title: "People · Cluepath" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireRole(request, ["owner"]);
-  const [members, invitations] = await Promise.all([listMembers(user.ctx), listOpenInvitations(user.ctx)]);
+export const loader = page(async ({ request }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const [members, invitations] = await Promise.all([listMembers(ctx), listOpenInvitations(ctx)]);
   return { members, invitations };
-}
+});
 
 const inviteForm = z.object({
   intent: z.literal("invite"),
   email: z.string().trim().min(1, "Enter the person's e-mail address.").email("That doesn't look like an e-mail address."),
   role: z.enum(ROLES, { message: "Choose a role." }),
 });
-const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid() });
+const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid("That invitation was not found.") });
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireRole(request, ["owner"]);
-  const raw = Object.fromEntries(await request.formData());
-  if (raw.intent === "revoke") {
-    const parsed = revokeForm.safeParse(raw);
-    if (!parsed.success || !(await revokeInvitation(user.ctx, parsed.data.id)))
-      return data({ kind: "error" as const, message: "That invitation was not found." }, { status: 404 });
-    return { kind: "revoked" as const };
+export const action = form(async ({ request }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const input = await readForm(request, (values) => (values.intent === "revoke" ? revokeForm : inviteForm));
+  if (input.intent === "revoke") {
+    await revokeInvitation(ctx, input.id);
+    return { ok: true as const, kind: "revoked" as const };
   }
-  const parsed = inviteForm.safeParse(raw);
-  if (!parsed.success) {
-    const f = z.flattenError(parsed.error).fieldErrors;
-    return data(
-      { kind: "invalid" as const, values: { email: String(raw.email ?? ""), role: String(raw.role ?? "") }, errors: { email: f.email?.[0], role: f.role?.[0] } },
-      { status: 400 },
-    );
-  }
-  const { token } = await invite(user.ctx, parsed.data.email, parsed.data.role);
+  const { token } = await invite(ctx, input.email, input.role);
   const link = new URL(`/invite/${token}`, request.url).toString();
-  const mailed = await sendInvitationMail(user.ctx, parsed.data.email, parsed.data.role, link);
-  return { kind: "invited" as const, email: parsed.data.email, link, mailed };
-}
+  const mailed = await sendInvitationMail(ctx, input.email, input.role, link);
+  return { ok: true as const, kind: "invited" as const, email: input.email, link, mailed };
+});
 
 export default function People({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
-  const invalid = actionData?.kind === "invalid" ? actionData : undefined;
+  const invalid = actionData?.ok === false ? actionData : undefined;
   return (
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">People</h1>
       <section className="card space-y-3">
         <h2 className="text-lg font-bold">Invite someone</h2>
-        {actionData?.kind === "invited" && (
+        {actionData?.ok && actionData.kind === "invited" && (
           <div role="status" className="rounded-lg bg-within-soft p-3 text-within">
             <p className="font-semibold">Invitation made for {actionData.email}.</p>
             <p className="text-ink">
@@ -66,7 +57,7 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
         )}
         {/* A new key after each invitation empties the form for the next one. */}
         <Form
-          key={actionData?.kind === "invited" ? actionData.link : "invite"}
+          key={actionData?.ok && actionData.kind === "invited" ? actionData.link : "invite"}
           method="post"
           className="grid gap-4 sm:grid-cols-[1fr_12rem_auto] sm:items-end"
           noValidate

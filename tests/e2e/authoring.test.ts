@@ -307,11 +307,11 @@ describe("the build keeps reactflow in the editor's lazy chunk", () => {
     // Which chunks import it: only the editor route's own chunk, and only with import().
     const importers = js.filter((f) => f !== holders[0] && readFileSync(`${assets}/${f}`, "utf8").includes(holders[0]!));
     expect(importers).toHaveLength(1);
-    expect(importers[0]).toMatch(/^tree-edit-/);
+    expect(importers[0]).toMatch(/^trees\._treeId\.edit-/);
     expect(readFileSync(`${assets}/${importers[0]}`, "utf8")).toMatch(new RegExp(`import\\([\`"']\\./${holders[0]!.replace(/[.-]/g, "\\$&")}[\`"']\\)`));
     const build = (await import(pathToFileURL(`${dir}/server/index.js`).href)) as { assets: { routes: Record<string, { module: string; imports?: string[] }> } };
     const routes = Object.entries(build.assets.routes);
-    expect(routes.some(([id]) => id === "routes/runner")).toBe(true);
+    expect(routes.some(([id]) => id === "routes/runs.$runId")).toBe(true);
     for (const [id, r] of routes) expect([r.module, ...(r.imports ?? [])].some((f) => f.endsWith(holders[0]!)), id).toBe(false);
   });
 });

@@ -5,7 +5,7 @@ import { DEMO_PASSWORD } from "../../db/demo";
 import { getUser, signInWithPassword, signOut } from "../../app/lib/auth.server";
 import { closeDb, db } from "../../app/lib/db.server";
 import { hashPassword } from "../../app/lib/password.server";
-import { SIGN_IN_LIMITS, signIn } from "../../app/models/sign-in.server";
+import { SIGN_IN_LIMITS, signIn } from "../../app/lib/sign-in.server";
 import { action as loginAction } from "../../app/routes/login";
 import { routeArgs } from "../support/session";
 

@@ -4,7 +4,7 @@ import { stableId } from "../../db/seed";
 import { closeDb } from "../../app/lib/db.server";
 import type { Ctx } from "../../app/lib/context";
 import { getCustomer, getSite, getUnit, listUnits } from "../../app/models/equipment.server";
-import { loader as unitLoader } from "../../app/routes/equipment-unit";
+import { loader as unitLoader } from "../../app/routes/equipment.$unitId";
 import { cookieFor, requestWith, routeArgs } from "../support/session";
 
 afterAll(() => closeDb());
@@ -19,15 +19,15 @@ const unitA = stableId("unit:larkspur-rotisserie");
 
 describe("shop scope", () => {
   it("a shop sees its own customer, site and unit", async () => {
-    expect((await getCustomer(asA, customerA))?.name).toBe("Larkspur Market");
-    expect((await getSite(asA, siteA))?.customerId).toBe(customerA);
-    expect((await getUnit(asA, unitA))?.unit.serial).toBe("VR22-004417");
+    expect((await getCustomer(asA, customerA)).name).toBe("Larkspur Market");
+    expect((await getSite(asA, siteA)).customerId).toBe(customerA);
+    expect((await getUnit(asA, unitA)).unit.serial).toBe("VR22-004417");
   });
 
-  it("another shop asking for them by id gets nothing", async () => {
-    expect(await getCustomer(asB, customerA)).toBeNull();
-    expect(await getSite(asB, siteA)).toBeNull();
-    expect(await getUnit(asB, unitA)).toBeNull();
+  it("another shop asking for them by id is told they were not found", async () => {
+    await expect(getCustomer(asB, customerA)).rejects.toMatchObject({ kind: "not-found", status: 404 });
+    await expect(getSite(asB, siteA)).rejects.toMatchObject({ kind: "not-found", status: 404 });
+    await expect(getUnit(asB, unitA)).rejects.toMatchObject({ kind: "not-found", status: 404 });
     const listed = await listUnits(asB);
     expect(listed.length).toBeGreaterThan(0);
     expect(listed.map((u) => u.id)).not.toContain(unitA);

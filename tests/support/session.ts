@@ -5,7 +5,7 @@ import { memberships, users } from "../../db/schema";
 import { sessionCookieName } from "../../app/lib/auth.server";
 import { db } from "../../app/lib/db.server";
 import { env } from "../../app/lib/env.server";
-import { openSession } from "../../app/models/sign-in.server";
+import { openSession } from "../../app/lib/sign-in.server";
 
 export async function cookieFor(email: string): Promise<{ cookie: string; sessionId: string }> {
   const [row] = await db()

@@ -1,7 +1,7 @@
 // What stands between the screen and the saved draft: a conflict with a second editor (with the
 // diff and the three ways out), a draft that is gone, or a save that is being retried.
 import { DiffView } from "~/components/DiffView";
-import { diffTrees } from "~/models/tree-diff";
+import { diffTrees } from "~/lib/tree-diff";
 import type { Tree } from "~/engine/types";
 import type { Autosave } from "./useAutosave";
 import type { ConflictHandle } from "./useConflict";

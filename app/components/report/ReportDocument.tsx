@@ -1,7 +1,7 @@
 // The service report, one component for the page, the print view and the e-mail (rendered to
 // static HTML on the server). Styled by REPORT_CSS so it reads the same in a mail client.
 import { atShop, placeName } from "~/lib/display";
-import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "~/models/report-data";
+import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "~/lib/report-data";
 
 export const REPORT_CSS = `
 .rp { font-family: "Source Sans 3", Arial, Helvetica, sans-serif; color: #1c232e; line-height: 1.45; max-width: 52rem; margin: 0 auto; background: #fff; padding: 1.5rem; font-size: 16px; }

@@ -1,5 +1,5 @@
 // The run so far: every step, with the ones taken back struck through.
-import type { StepView } from "~/models/run-log";
+import type { StepView } from "~/lib/run-log";
 import { clock } from "./clock";
 import type { RunHandle } from "./useRun";
 

@@ -8,7 +8,7 @@ import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, NameplateNode, VerdictKind } from "~/engine/types";
 import { parseReading, QUANTITY_INFO, unitQuantity } from "~/engine/units";
 import { describeMeter, evaluateReading } from "~/engine/verdict";
-import { meterAccuracy, type MeterView } from "~/models/run-log";
+import { meterAccuracy, type MeterView } from "~/lib/run-log";
 import { useKeepInView } from "./inView";
 import type { RunHandle } from "./useRun";
 

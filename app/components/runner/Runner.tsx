@@ -4,7 +4,7 @@
 import { useEffect, useRef, useState, type ReactNode } from "react";
 import { Announcer } from "~/components/Announcer";
 import type { OutcomeNode } from "~/engine/types";
-import type { RunView } from "~/models/run-log";
+import type { RunView } from "~/lib/run-log";
 import { Closed } from "./ends/Closed";
 import { DoneScreen } from "./ends/DoneScreen";
 import { EscalatedScreen } from "./ends/EscalatedScreen";

@@ -1,3 +1,2 @@
-// The photo cap the phone checks before uploading; the server's MAX_IMAGE_BYTES is the rule
-// (a unit test keeps the two equal).
-export const MAX_PHOTO_MB = 10;
+// The photo cap the phone checks before uploading: the same number the server refuses beyond.
+export { MAX_IMAGE_MB as MAX_PHOTO_MB } from "~/lib/uploads";

@@ -5,7 +5,7 @@ import { useIsMutating, useMutation, useMutationState, useQuery, useQueryClient 
 import { useMemo, useState } from "react";
 import { replay, tryEntry, type LogEntry } from "~/engine/traversal";
 import type { TreeNode } from "~/engine/types";
-import { logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "~/models/run-log";
+import { logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "~/lib/run-log";
 import { ApiError, backoff, getJson, postForm, postJson, retryable } from "./api";
 
 type StepResponse = { step: StepView; replayed: boolean; run: { status: RunView["run"]["status"]; currentNode: string | null; endKind: string | null; stepCount: number } };

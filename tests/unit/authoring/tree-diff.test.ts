@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { Tree } from "../../../app/engine/types";
-import { diffTrees } from "../../../app/models/tree-diff";
+import { diffTrees } from "../../../app/lib/tree-diff";
 import { smallTree } from "../../support/trees";
 
 describe("diffTrees", () => {

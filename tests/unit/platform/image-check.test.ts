@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { checkImage, MAX_IMAGE_BYTES } from "../../../app/lib/storage.server";
+import { checkImage } from "../../../app/lib/storage.server";
+import { MAX_IMAGE_BYTES } from "../../../app/lib/uploads";
 
 // Signatures: PNG 89 50 4E 47 0D 0A 1A 0A (PNG spec, ISO/IEC 15948 §5.2); JPEG starts FF D8 FF
 // (JFIF / ISO/IEC 10918-1 SOI marker); GIF starts "GIF87a" or "GIF89a" (GIF89a spec, §17).
@@ -11,20 +12,22 @@ const gif = Buffer.concat([Buffer.from("GIF89a"), Buffer.from("01000100800000fff
 
 describe("uploaded images are judged by their content", () => {
   it("accepts a real PNG and a real GIF whatever they are called", async () => {
-    expect(await checkImage(png)).toEqual({ ok: true, mime: "image/png", ext: "png" });
-    expect(await checkImage(gif)).toMatchObject({ ok: true, mime: "image/gif" });
+    expect(await checkImage(png)).toEqual({ mime: "image/png", ext: "png" });
+    expect(await checkImage(gif)).toMatchObject({ mime: "image/gif" });
   });
   it("refuses text, a fake GIF signature, and an empty file", async () => {
-    expect(await checkImage(Buffer.from("<html>not a photo</html>"))).toMatchObject({ ok: false, status: 415 });
-    expect(await checkImage(Buffer.from("GIF? no, just text"))).toMatchObject({ ok: false, status: 415 });
-    expect(await checkImage(new Uint8Array())).toMatchObject({ ok: false, status: 400 });
+    await expect(checkImage(Buffer.from("<html>not a photo</html>"))).rejects.toMatchObject({ kind: "wrong-type", status: 415 });
+    await expect(checkImage(Buffer.from("GIF? no, just text"))).rejects.toMatchObject({ kind: "wrong-type", status: 415 });
+    await expect(checkImage(new Uint8Array())).rejects.toMatchObject({ kind: "invalid", status: 400 });
   });
   it("refuses anything over the 10 MB cap before looking further", async () => {
+    // 10 MB: the cap DEVELOPERS.md states for uploads (Decisions, "Uploads").
+    expect(MAX_IMAGE_BYTES).toBe(10 * 1024 * 1024);
     const big = new Uint8Array(MAX_IMAGE_BYTES + 1);
     big.set(png);
-    expect(await checkImage(big)).toMatchObject({ ok: false, status: 413 });
+    await expect(checkImage(big)).rejects.toMatchObject({ kind: "too-large", status: 413 });
     const atCap = new Uint8Array(MAX_IMAGE_BYTES);
     atCap.set(png);
-    expect((await checkImage(atCap)).ok).toBe(true);
+    expect(await checkImage(atCap)).toMatchObject({ mime: "image/png" });
   });
 });

@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { TreeSchema } from "../../../app/engine/schema";
-import { rowsToTree, treeToRows } from "../../../app/models/tree-rows";
+import { rowsToTree, treeToRows } from "../../../app/lib/tree-rows";
 
 const files = readdirSync("trees").filter((f) => f.endsWith(".md"));
 

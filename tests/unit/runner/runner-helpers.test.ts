@@ -1,16 +1,14 @@
 // Pure pieces of the runner and the run log: position in a tree, typed readings, the payload
-// identity behind idempotency keys, the safe Markdown subset, and the photo cap kept in step.
+// identity behind idempotency keys, and the safe Markdown subset.
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { replay } from "../../../app/engine/traversal";
-import { MAX_PHOTO_MB } from "../../../app/components/runner/limits";
 import { stepsToGo } from "../../../app/components/runner/progress";
 import { composeReading } from "../../../app/components/runner/Reading";
 import { markdownBlocks } from "../../../app/lib/md.server";
 import { placeName } from "../../../app/lib/display";
-import { MAX_IMAGE_BYTES } from "../../../app/lib/storage.server";
-import { canonicalPayload, entryOf, logOf, type StepView } from "../../../app/models/run-log";
+import { canonicalPayload, entryOf, logOf, type StepView } from "../../../app/lib/run-log";
 
 const parsed = parseTree(readFileSync("trees/rotisserie-uneven-heat.md", "utf8"));
 if (!parsed.ok) throw new Error("the starter tree does not parse");
@@ -119,9 +117,6 @@ describe("step bodies as safe Markdown blocks", () => {
 });
 
 describe("small rules", () => {
-  it("the phone's photo cap is the server's", () => {
-    expect(MAX_PHOTO_MB * 1024 * 1024).toBe(MAX_IMAGE_BYTES);
-  });
   it("a site named after its customer is not named twice", () => {
     expect(placeName("Larkspur Market", "Larkspur Market — Deli counter")).toBe("Larkspur Market — Deli counter");
     expect(placeName("Hollin Street School District", "Central Kitchen")).toBe("Hollin Street School District — Central Kitchen");

@@ -3,8 +3,8 @@
 // mailed twice by a stray tap.
 import { announce } from "~/components/Announcer";
 import { useAsk } from "~/components/useAsk";
-import type { RunView } from "~/models/run-log";
-import { reportNumber } from "~/models/report-data";
+import type { RunView } from "~/lib/run-log";
+import { reportNumber } from "~/lib/report-data";
 import { clock } from "../clock";
 import type { RunHandle } from "../useRun";
 

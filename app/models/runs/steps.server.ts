@@ -1,0 +1,140 @@
+// Recording a run's steps. Every log entry is a step row; the engine replays the stored log to
+// judge each new entry, on the server as on the phone. Retries carry the same idempotency key.
+import { createHash } from "node:crypto";
+import { and, eq } from "drizzle-orm";
+import { z } from "zod";
+import { meters, runs, runSteps, type RunStatus } from "../../../db/schema";
+import { tryEntry, type LogEntry, type RunState } from "../../engine/traversal";
+import type { Meter } from "../../engine/types";
+import type { Ctx } from "../../lib/context";
+import { writeTx } from "../../lib/db.server";
+import { authorize } from "../../lib/policy";
+import { notFound, Refusal } from "../../lib/refusal";
+import { canonicalPayload, logOf, meterAccuracy, type StepView } from "../../lib/run-log";
+import { lockOwn } from "../_query.server";
+import { stepRows, stepView } from "./_log.server";
+import { nodeOf, versionContent } from "./_version.server";
+
+export const nodeKey = z.string().min(1).max(64);
+export const stepPayload = z.object({
+  key: z.string().uuid("Each step needs an idempotency key (a UUID)."),
+  entry: z.discriminatedUnion("type", [
+    z.object({ type: z.literal("answer"), node: nodeKey, answer: z.string().min(1).max(220) }),
+    z.object({ type: z.literal("reading"), node: nodeKey, reading: z.string().trim().min(1, "Enter the reading.").max(120) }),
+    z.object({ type: z.literal("nameplate"), node: nodeKey, value: z.string().trim().min(1, "Enter the value.").max(120) }),
+    z.object({ type: z.literal("acknowledge"), node: nodeKey }),
+    z.object({ type: z.literal("continue"), node: nodeKey }),
+    z.object({ type: z.literal("undo") }),
+  ]),
+  meterId: z.string().uuid().nullish(),
+  at: z.iso.datetime({ offset: true }).nullish(),
+});
+export type StepInput = z.infer<typeof stepPayload>;
+
+export type StepResult = { replayed: boolean; step: StepView; run: { status: RunStatus; currentNode: string | null; endKind: string | null; stepCount: number } };
+
+const sha256 = (s: string) => createHash("sha256").update(s).digest("hex");
+
+function runSummary(r: { status: RunStatus; currentNode: string | null; endKind: string | null; stepCount: number }) {
+  return { status: r.status, currentNode: r.currentNode, endKind: r.endKind, stepCount: r.stepCount };
+}
+
+function endOf(state: RunState): { endKind: string | null; endNode: string | null } {
+  return state.finished ? { endKind: state.finished.kind, endNode: state.finished.node } : { endKind: null, endNode: null };
+}
+
+/**
+ * Records one step. The same idempotency key again answers with the stored step (no second row);
+ * the same key with another payload is refused (422). The engine judges the entry against the
+ * stored log; the verdict stored is the server's.
+ */
+export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promise<StepResult> {
+  authorize(ctx, "runs.view");
+  const meterId = input.entry.type === "reading" ? (input.meterId ?? null) : null;
+  const hash = sha256(canonicalPayload(input.entry as LogEntry, meterId));
+  return writeTx(async (tx) => {
+    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
+    const [existing] = await tx
+      .select()
+      .from(runSteps)
+      .where(and(eq(runSteps.runId, runId), eq(runSteps.idempotencyKey, input.key)))
+      .limit(1);
+    if (existing) {
+      if (existing.payloadHash !== hash) throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
+      return { replayed: true, step: stepView(existing), run: runSummary(run) };
+    }
+    authorize(ctx, "runs.step", { holder: run.technicianId === ctx.userId });
+    if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", `This run is ${run.status === "done" ? "finished" : run.status}; it takes no more steps.`, { code: "closed" });
+    const content = await versionContent(ctx, run.versionId, tx);
+
+    let entry = input.entry as LogEntry;
+    let meterRow: typeof meters.$inferSelect | undefined;
+    if (entry.type === "reading") {
+      const node = nodeOf(content.tree, entry.node);
+      if (meterId) {
+        [meterRow] = await tx
+          .select()
+          .from(meters)
+          .where(and(eq(meters.id, meterId), eq(meters.shopId, ctx.shopId)))
+          .limit(1);
+        if (!meterRow) throw new Refusal("rejected", "That meter is not in your shop's list.", { code: "meter" });
+        if (node?.kind === "measurement" && meterRow.quantity !== node.quantity)
+          throw new Refusal("rejected", `${meterRow.name} does not measure ${node.quantity}; choose another meter.`, { code: "meter" });
+        entry = { ...entry, meter: meterAccuracy(meterRow) };
+      } else if (node?.kind === "measurement" && node.meter) {
+        entry = { ...entry, meter: node.meter };
+      }
+    }
+
+    const rows = await stepRows(runId, tx);
+    const log = logOf(rows.map(stepView));
+    const tried = tryEntry(content.tree, log, entry);
+    if (!tried.ok) throw new Refusal("rejected", tried.rejection.message, { code: tried.rejection.code });
+
+    const seq = run.stepCount;
+    const s = tried.step;
+    const v = s?.verdict;
+    const undoneSeq = entry.type === "undo" ? (tried.state.undone[tried.state.undone.length - 1] ?? null) : null;
+    const usedMeter: Meter | null = entry.type === "reading" ? (entry.meter ?? null) : null;
+    const row: typeof runSteps.$inferInsert = {
+      id: crypto.randomUUID(),
+      runId,
+      shopId: ctx.shopId,
+      seq,
+      idempotencyKey: input.key,
+      payloadHash: hash,
+      type: entry.type,
+      nodeKey: entry.type === "undo" ? null : entry.node,
+      kind: s?.kind ?? null,
+      answer: s?.answer ?? null,
+      typed: entry.type === "reading" ? entry.reading.trim() : entry.type === "nameplate" ? entry.value.trim() : null,
+      value: v?.reading.value ?? s?.nameplate?.value ?? null,
+      unit: v?.reading.unit ?? s?.nameplate?.unit ?? null,
+      siValue: v?.reading.si ?? s?.nameplate?.si ?? null,
+      siUnit: v?.reading.siUnit ?? s?.nameplate?.siUnit ?? null,
+      verdict: v?.verdict ?? null,
+      limitsLo: v?.limits.lo ?? null,
+      limitsHi: v?.limits.hi ?? null,
+      limits: v?.limits ?? null,
+      message: v ? v.message.slice(0, 600) : s?.nameplate ? `${s.nameplate.display} ${s.nameplate.unit}` : null,
+      meterId: meterRow?.id ?? null,
+      meter: usedMeter,
+      uncertainty: v?.uncertainty?.value ?? null,
+      branch: s?.branch ?? null,
+      toNode: s?.to ?? null,
+      undoesSeq: undoneSeq,
+      enteredBy: ctx.userId,
+      clientAt: input.at ? new Date(input.at) : null,
+      recordedAt: new Date(),
+    };
+    await tx.insert(runSteps).values(row);
+    if (undoneSeq !== null) await tx.update(runSteps).set({ undone: true }).where(and(eq(runSteps.runId, runId), eq(runSteps.seq, undoneSeq)));
+    const next = { status: "active" as RunStatus, currentNode: tried.state.current, ...endOf(tried.state), stepCount: seq + 1 };
+    await tx
+      .update(runs)
+      .set({ ...next, pausedAt: null, updatedAt: new Date() })
+      .where(eq(runs.id, runId));
+    const [stored] = await tx.select().from(runSteps).where(eq(runSteps.id, row.id!));
+    return { replayed: false, step: stepView(stored!), run: runSummary(next) };
+  });
+}

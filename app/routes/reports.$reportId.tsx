@@ -1,0 +1,72 @@
+// /reports/:reportId — the service report: printable (print stylesheet), e-mailed to the site contact.
+import { Form, useNavigation } from "react-router";
+import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
+import { reportMailHtml } from "~/components/report/reportMail";
+import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { reportNumber } from "~/lib/report-data";
+import { form, page } from "~/lib/route.server";
+import { getReport, sendReport } from "~/models/runs/reports.server";
+import type { Route } from "./+types/reports.$reportId";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service report ${reportNumber(data.report.number)} · Cluepath` : "Service report · Cluepath" }];
+
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  return { report: await getReport(ctx, params.reportId) };
+});
+
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const { to } = await sendReport(ctx, params.reportId, reportMailHtml);
+  return { ok: true as const, to };
+});
+
+export default function Report({ loaderData, actionData }: Route.ComponentProps) {
+  const { report } = loaderData;
+  const busy = useNavigation().state !== "idle";
+  return (
+    <div className="min-h-dvh bg-paper print:bg-white">
+      <style>{REPORT_CSS}</style>
+      <div className="mx-auto flex max-w-3xl flex-wrap items-center justify-between gap-2 px-4 py-3 print:hidden">
+        <a href={`/runs/${report.runId}`} className="flex min-h-12 items-center font-semibold">
+          ← Back to the run
+        </a>
+        <div className="flex flex-wrap gap-2">
+          <button type="button" className="btn-quiet" onClick={() => window.print()}>
+            Print
+          </button>
+          {report.site && (
+            <Form method="post">
+              <button className="btn-primary" disabled={busy}>
+                {report.sentAt ? "E-mail again" : "E-mail"} to {report.site.contactName}
+              </button>
+            </Form>
+          )}
+        </div>
+      </div>
+      <div className="mx-auto max-w-3xl px-4 print:hidden">
+        {actionData?.ok === true && (
+          <p role="status" className="mb-3 rounded-lg bg-within-soft p-3 font-semibold text-within">
+            Sent to {actionData.to}.
+          </p>
+        )}
+        {actionData?.ok === false && (
+          <p role="alert" className="mb-3 rounded-lg bg-out-soft p-3 font-semibold text-out">
+            {actionData.message}
+          </p>
+        )}
+        {report.sentAt && !actionData && (
+          <p className="mb-3 text-ink-soft">
+            Last e-mailed to {report.sentTo} on {atShop(report.sentAt, report.shop.timeZone)}.
+          </p>
+        )}
+      </div>
+      <div className="mx-auto max-w-3xl px-4 pb-8 print:px-0">
+        <div className="rounded-xl border border-rule bg-card print:border-0">
+          <ReportDocument report={report} photoSrc={(id) => `/api/photos/${id}`} />
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,40 @@
+import { redirect } from "react-router";
+import { z } from "zod";
+import { Editor } from "~/components/editor/Editor";
+import type { Finding } from "~/engine/types";
+import { requireUser } from "~/lib/auth.server";
+import { form, page, readForm } from "~/lib/route.server";
+import { treeIdOf } from "~/lib/tree-params.server";
+import { openEditor } from "~/models/trees/editor.server";
+import { publishDraft } from "~/models/trees/publish.server";
+import type { Route } from "./+types/trees.$treeId.edit";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing ${data?.tree.title ?? "a tree"} · Cluepath` }];
+
+export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
+  const { ctx } = await requireUser(request);
+  const treeId = treeIdOf(params);
+  const editor = await openEditor(ctx, treeId);
+  // No open draft (published meanwhile, or never started): the tree page offers to start one.
+  if (!editor) throw redirect(`/trees/${treeId}`);
+  return { treeId, ...editor };
+});
+
+const Publish = z.object({
+  intent: z.literal("publish", { message: "That action isn't one this page knows." }),
+  revision: z.coerce.number({ message: "Reload the editor and publish again." }).int().positive(),
+  changeNote: z.string().max(500, "Say what changed in this version (up to 500 characters)."),
+});
+
+export const action = form(async ({ request, params }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request);
+  const treeId = treeIdOf(params);
+  const input = await readForm(request, Publish);
+  const { number } = await publishDraft(ctx, treeId, input.revision, input.changeNote);
+  return redirect(`/trees/${treeId}?published=${number}`);
+});
+
+export default function EditTree({ loaderData, actionData }: Route.ComponentProps) {
+  const publishError = actionData ? { message: actionData.message, findings: actionData.details?.findings as Finding[] | undefined } : undefined;
+  return <Editor {...loaderData} publishError={publishError} />;
+}
