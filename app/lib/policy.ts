@@ -50,6 +50,7 @@ export const POLICY = {
   "shop.view": { roles: EVERYONE, refusal: "Your role cannot see the shop's settings." },
   "outbox.view": { roles: LEADS, refusal: "The outbox is for leads and owners." },
   "people.manage": { roles: ["owner"], refusal: "Only the shop's owner invites people and withdraws invitations." },
+  "audit.view": { roles: ["owner"], refusal: "The audit trail is for the shop's owner." },
   "shop.overview": { roles: ["owner"], refusal: "The overview is for the shop's owner." },
   "training.view": { roles: ["trainer"], refusal: "Training is the trainer's page." },
 } as const satisfies Record<string, Rule>;

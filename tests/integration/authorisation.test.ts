@@ -13,6 +13,7 @@ import { reportMailHtml } from "../../app/components/report/reportMail";
 import type { Ctx } from "../../app/lib/context";
 import { closeDb, db } from "../../app/lib/db.server";
 import { can, POLICY, type Action } from "../../app/lib/policy";
+import * as audit from "../../app/models/audit.server";
 import * as calls from "../../app/models/calls.server";
 import * as equipment from "../../app/models/equipment.server";
 import * as meters from "../../app/models/meters.server";
@@ -148,6 +149,7 @@ const ROWS: Row[] = [
   // the shop
   row(shop.shopTimeZone, "shop.view", nothing, (c) => shop.shopTimeZone(c)),
   row(outbox.listOutbox, "outbox.view", nothing, (c) => outbox.listOutbox(c)),
+  row(audit.listAudit, "audit.view", nothing, (c) => audit.listAudit(c)),
   row(people.listMembers, "people.manage", nothing, (c) => people.listMembers(c)),
   row(people.listOpenInvitations, "people.manage", nothing, (c) => people.listOpenInvitations(c)),
   row(people.invite, "people.manage", nothing, (c) => people.invite(c, `new-${tag()}@tinderbox.example`, "technician")),
