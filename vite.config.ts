@@ -27,6 +27,7 @@ export default defineConfig({
           name: "integration",
           include: ["tests/integration/**/*.test.ts"],
           globalSetup: ["tests/support/integration-setup.ts"],
+          setupFiles: ["tests/support/integration-file.ts"],
           environment: "node",
           fileParallelism: false,
           testTimeout: 30_000,

@@ -4,5 +4,9 @@ declare module "vitest" {
   export interface ProvidedContext {
     baseUrl: string;
     secondBaseUrl: string;
+    /** The seeded database the browser tests' app servers use. */
+    e2eDatabaseUrl: string;
+    /** The seeded template each integration test file copies. */
+    templateDatabaseUrl: string;
   }
 }
