@@ -40,6 +40,7 @@ export default defineConfig({
           name: "e2e",
           include: ["tests/e2e/**/*.test.ts"],
           globalSetup: ["tests/support/e2e-setup.ts"],
+          setupFiles: ["tests/support/e2e-file.ts"],
           environment: "node",
           fileParallelism: false,
           testTimeout: 90_000,

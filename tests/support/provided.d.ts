@@ -6,6 +6,8 @@ declare module "vitest" {
     secondBaseUrl: string;
     /** The seeded database the browser tests' app servers use. */
     e2eDatabaseUrl: string;
+    /** The app servers' AUTH_SECRET (signs session cookies). */
+    e2eAuthSecret: string;
     /** The seeded template each integration test file copies. */
     templateDatabaseUrl: string;
   }
