@@ -6,11 +6,12 @@ import { stableId } from "../../db/seed";
 import type { Tree } from "../../app/engine/types";
 import type { Ctx } from "../../app/lib/context";
 import { createCall } from "../../app/models/calls.server";
+import { invite } from "../../app/models/people.server";
 import { addPhoto } from "../../app/models/photos.server";
 import { reportNumber } from "../../app/models/report-data";
 import { sendReport } from "../../app/models/reports.server";
 import { postStep, recordOutcome, startRun, type StepInput } from "../../app/models/runs.server";
-import { createPublishedTree, getVersionRow, replaceDraftContent, startDraft } from "../../app/models/trees.server";
+import { addTreeImage, createPublishedTree, getVersionRow, replaceDraftContent, startDraft } from "../../app/models/trees.server";
 import { TINY_PNG } from "./photo";
 import { smallTree } from "./trees";
 
@@ -23,6 +24,7 @@ export function ctxOf(email: string): Ctx {
 
 const lead = ctxOf("lead@tinderbox.example");
 const tech = ctxOf("tech@tinderbox.example");
+const owner = ctxOf("owner@tinderbox.example");
 
 export const DEMO_UNITS = {
   rotisserie: stableId("unit:larkspur-rotisserie"),
@@ -44,26 +46,37 @@ export async function freshCall(unit: keyof typeof DEMO_UNITS, symptom: string):
  * The four-node capacitor tree (tests/support/trees.ts) published as version 1 under `title`.
  * With `draft`, an open draft follows it: a copy of version 1, or what `draft` makes of it.
  */
-export async function publishedTree(title: string, draft?: true | ((v1: Tree) => Tree)): Promise<{ treeId: string; path: string }> {
+export async function publishedTree(title: string, draft?: true | ((v1: Tree) => Tree)): Promise<{ treeId: string; path: string; draftId: string | null }> {
   const v1 = smallTree(title);
   const { treeId } = await createPublishedTree(lead, v1, "Fixture: version 1");
-  if (draft) {
-    const opened = await startDraft(lead, treeId);
-    if (!opened.ok) throw new Error(`fixture draft not started: ${opened.reason}`);
-    if (draft !== true) {
-      const row = await getVersionRow(lead, opened.versionId);
-      const saved = await replaceDraftContent(lead, opened.versionId, draft(v1), row!.revision);
-      if (!saved.ok) throw new Error(`fixture draft not saved: ${saved.reason}`);
-    }
+  if (!draft) return { treeId, path: `/trees/${treeId}`, draftId: null };
+  const opened = await startDraft(lead, treeId);
+  if (!opened.ok) throw new Error(`fixture draft not started: ${opened.reason}`);
+  if (draft !== true) {
+    const row = await getVersionRow(lead, opened.versionId);
+    const saved = await replaceDraftContent(lead, opened.versionId, draft(v1), row!.revision);
+    if (!saved.ok) throw new Error(`fixture draft not saved: ${saved.reason}`);
   }
-  return { treeId, path: `/trees/${treeId}` };
+  return { treeId, path: `/trees/${treeId}`, draftId: opened.versionId };
+}
+
+/** An image for a tree's step bodies (the 1×1 test PNG). */
+export async function treeImage(treeId: string): Promise<string> {
+  const r = await addTreeImage(lead, treeId, TINY_PNG, "terminal block.png");
+  if (!r.ok) throw new Error(`fixture image refused: ${r.message}`);
+  return r.id;
+}
+
+/** An open invitation from the demo shop's owner; the token is the secret of the invite link. */
+export async function pendingInvitation(email: string): Promise<{ id: string; token: string }> {
+  return invite(owner, email, "technician");
 }
 
 const ROTISSERIE_TREE = stableId("tree:rotisserie-uneven-heat.md");
 
 /** A run started by the demo technician on a fresh rotisserie call. */
-export async function startedRun(): Promise<{ callId: string; runId: string; path: string }> {
-  const call = await freshCall("rotisserie", "heats unevenly");
+export async function startedRun(symptom = "heats unevenly"): Promise<{ callId: string; runId: string; path: string }> {
+  const call = await freshCall("rotisserie", symptom);
   const started = await startRun(tech, { treeId: ROTISSERIE_TREE, callId: call.id });
   if (!started.ok) throw new Error(`fixture run not started: ${started.message}`);
   return { callId: call.id, runId: started.runId, path: `/runs/${started.runId}` };
@@ -76,8 +89,8 @@ export async function startedRun(): Promise<{ callId: string; runId: string; pat
  * parts. `partNumber` is the motor's part number (unique per call, so a test finds its own run).
  * With `send`, the report is e-mailed to the site contact.
  */
-export async function finishedRun(opts: { send?: boolean } = {}) {
-  const { callId, runId, path } = await startedRun();
+export async function finishedRun(opts: { send?: boolean; symptom?: string } = {}) {
+  const { callId, runId, path } = await startedRun(opts.symptom);
   const step = async (entry: StepInput["entry"], meter?: string) => {
     const r = await postStep(tech, runId, { key: crypto.randomUUID(), entry, meterId: meter ? stableId(meter) : null });
     if (!r.ok) throw new Error(`fixture step ${JSON.stringify(entry)} refused: ${r.message}`);
@@ -107,5 +120,5 @@ export async function finishedRun(opts: { send?: boolean } = {}) {
     const sent = await sendReport(tech, done.reportId);
     if (!sent.ok) throw new Error(`fixture report not sent: ${sent.message}`);
   }
-  return { callId, runId, path, reportId: done.reportId, reportPath: `/reports/${done.reportId}`, reportNumber: reportNumber(done.number), partNumber };
+  return { callId, runId, path, photoId: photo.photo.id, reportId: done.reportId, reportPath: `/reports/${done.reportId}`, reportNumber: reportNumber(done.number), partNumber };
 }
