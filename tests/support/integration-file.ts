@@ -1,17 +1,14 @@
-// Runs before each integration test file: the file gets its own copy of the seeded template
-// database, so no file sees what another wrote and any file can run alone or in any order.
-// The copy is dropped after the file (docs/decisions/0140-a-database-per-test-file.md).
-import { randomBytes } from "node:crypto";
+// Runs before each integration test file: the file starts from the seeded template's rows and
+// nothing else, in its worker's own database, so no file sees what another wrote and any file can
+// run alone or in any order (docs/decisions/0140-a-database-per-test-file.md).
 import { afterAll, inject } from "vitest";
-import { copyDatabase, databaseName, dropDatabase } from "./database";
+import { databaseName, resetFromTemplate } from "./database";
 
 const template = inject("templateDatabaseUrl");
-const url = await copyDatabase(template, `${databaseName(template)}_f${randomBytes(4).toString("hex")}`);
-// Read by app/lib/env.server.ts on first use: the app's pool in this file opens on the copy.
-process.env.DATABASE_URL = url;
+// One database per worker (Vitest numbers them), so files may also run side by side.
+process.env.DATABASE_URL = await resetFromTemplate(template, `${databaseName(template)}_w${process.env.VITEST_POOL_ID ?? "1"}`);
 
 afterAll(async () => {
   const { closeDb } = await import("../../app/lib/db.server");
   await closeDb();
-  await dropDatabase(url);
 });
