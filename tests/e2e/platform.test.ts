@@ -3,7 +3,7 @@ import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { launchBrowser, PHONE, signInAs } from "../support/browser";
-import { freePort } from "../support/net";
+import { freePort } from "../support/e2e-setup";
 
 const baseUrl = inject("baseUrl");
 const secondBaseUrl = inject("secondBaseUrl");

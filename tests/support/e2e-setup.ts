@@ -4,9 +4,19 @@
 // (tests/support/fixtures.ts); the seed is only read.
 import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
+import { createServer } from "node:net";
 import type { TestProject } from "vitest/node";
 import { freshSeededDatabase } from "./database";
-import { freePort } from "./net";
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = createServer();
+    s.listen(0, "127.0.0.1", () => {
+      const addr = s.address();
+      s.close(() => (typeof addr === "object" && addr ? resolve(addr.port) : reject(new Error("no port"))));
+    });
+  });
+}
 
 /** Signs the app servers' session cookies; tests that mint a session cookie need the same. */
 const AUTH_SECRET = "e2e-secret-e2e-secret-e2e-secret-e2e";
