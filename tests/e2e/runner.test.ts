@@ -1,19 +1,19 @@
 // A technician works the demo call on the two-fan rotisserie end to end on a phone-sized browser:
 // cautions, the supply reading, the fans, the run capacitor (1.47 µF, then 1470 nF after going
 // back), a photo, the root cause, parts, and the report e-mailed to the site contact.
-// Screenshots of every runner screen go to tests/screenshots/runner-*.png.
+// Screenshots of every runner screen go to tests/screenshots/runner-*.png. Each test makes its own
+// call or finished run (tests/support/fixtures.ts), so any one of them runs alone.
 import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { finishedRun, freshCall, startedRun } from "../support/fixtures";
 import { TINY_PNG } from "../support/photo";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-let runUrl = "";
-let reportUrl = "";
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -116,6 +116,7 @@ function mailFor(subjectStart: string) {
 
 describe("the phone runner (390×844)", () => {
   it("a technician works the rotisserie call from My calls to the e-mailed service report", async () => {
+    const call = await freshCall("rotisserie", "heats unevenly");
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     const editorChunks: string[] = [];
@@ -126,13 +127,12 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await snap(page, "my-calls", true);
 
-    await page.getByRole("link", { name: /Call 1041: heats unevenly/ }).click();
+    await page.getByRole("link", { name: `Call ${call.number}: heats unevenly` }).click();
     await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
     await page.getByText("Best match for “heats unevenly”").waitFor();
     await snap(page, "call", true);
     await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
-    runUrl = page.url();
 
     // Three cautions, each with the safety wording and an explicit acknowledgement.
     await snap(page, "start");
@@ -269,7 +269,7 @@ describe("the phone runner (390×844)", () => {
     await expect(page.evaluate(() => document.activeElement?.textContent)).resolves.toBe("Send it again…");
     await expect(smallTargets(page)).resolves.toEqual([]);
     await snap(page, "report-sent");
-    reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
+    const reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
     expect(reportUrl).toMatch(/^\/reports\/[0-9a-f-]{36}$/);
 
     const number = (await page.getByRole("heading", { name: /Service report R-\d{4}/ }).textContent())!.replace("Service report ", "");
@@ -288,13 +288,13 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("the report page shows the readings table with verdicts and limits, the photo and the cautions; prints without the toolbar", async () => {
-    expect(reportUrl).not.toBe("");
+    const { reportPath } = await finishedRun();
     for (const [size, viewport] of [["phone", PHONE], ["laptop", LAPTOP]] as const) {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();
       await signInAs(page, baseUrl, "tech@tinderbox.example");
       await page.waitForURL(`${baseUrl}/calls`);
-      await page.goto(`${baseUrl}${reportUrl}`);
+      await page.goto(`${baseUrl}${reportPath}`);
       const table = page.getByRole("table").filter({ hasText: "Meter accuracy" });
       await expect(table.getByRole("row").count()).resolves.toBe(3);
       await expect(table.getByRole("row", { name: /Run capacitor against its rating/ }).textContent()).resolves.toMatch(/1470 nF \(1\.47 µF\).*Within limits.*1\.41–1\.59 µF/);
@@ -312,11 +312,12 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("at laptop size: the lead reads the finished run, and the owner sees the report in the outbox", async () => {
+    const run = await finishedRun({ send: true });
     const lead = await browser.newContext({ viewport: LAPTOP });
     const page = await lead.newPage();
     await signInAs(page, baseUrl, "lead@tinderbox.example");
     await page.waitForURL(`${baseUrl}/authoring`);
-    await page.goto(runUrl);
+    await page.goto(`${baseUrl}${run.path}`);
     await page.getByText("Job finished").waitFor();
     await expect(page.getByRole("region", { name: "Steps so far" }).getByText("(taken back)").count()).resolves.toBe(1);
     await snap(page, "lead-reads-run-laptop", true);
@@ -338,17 +339,18 @@ describe("the phone runner (390×844)", () => {
     await op.waitForURL(`${baseUrl}/overview`);
     await op.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await op.waitForURL(`${baseUrl}/outbox`);
-    await op.getByText(/^Service report R-\d{4} — Vantor RCF-2208/).first().waitFor();
+    await op.getByText(`Service report ${run.reportNumber} — Vantor RCF-2208`, { exact: false }).first().waitFor();
     await snap(op, "outbox-laptop");
     await owner.close();
   });
 
   it("another shop cannot open the run, and the fryer call lists its own procedures first; the technician's phone never sees another shop's run", async () => {
+    const run = await startedRun();
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "tech@pellham.example");
     await page.waitForURL(`${baseUrl}/calls`);
-    const res = await page.goto(runUrl);
+    const res = await page.goto(`${baseUrl}${run.path}`);
     expect(res?.status()).toBe(404);
     await context.close();
 
@@ -363,12 +365,13 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("pause and resume keep the run; escalating hands it to a lead, who reads it on a phone and takes it over", async () => {
+    const call = await freshCall("griddle", "right-hand section stays cold");
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "tech@tinderbox.example");
     await page.waitForURL(`${baseUrl}/calls`);
-    await page.goto(`${baseUrl}/calls/all?q=1043`);
-    await page.getByRole("link", { name: "Call 1043" }).click();
+    await page.goto(`${baseUrl}/calls/all?q=${call.number}`);
+    await page.getByRole("link", { name: `Call ${call.number}` }).click();
     await page.getByRole("button", { name: "Start: Electric griddle section does not heat" }).click();
     await page.waitForURL(/\/runs\//);
     const griddleRun = page.url();
@@ -401,12 +404,14 @@ describe("the phone runner (390×844)", () => {
     await signInAs(lp, baseUrl, "lead@tinderbox.example");
     await lp.waitForURL(`${baseUrl}/authoring`);
     await lp.goto(`${baseUrl}/calls/all`);
-    await lp.getByText("1 run is waiting for a lead.").waitFor();
+    // Other tests' runs may be waiting too: this one is found by its link.
+    await lp.getByText(/^\d+ runs? (is|are) waiting for a lead\.$/).waitFor();
     await lp.getByRole("link", { name: "Escalations" }).click();
-    await lp.getByText("“Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.”").waitFor();
-    await expect(lp.getByText(/stopped at “Turn the cold section's thermostat to maximum/).isVisible()).resolves.toBe(true);
+    const escalation = lp.getByRole("listitem").filter({ has: lp.locator(`a[href="${new URL(griddleRun).pathname}"]`) });
+    await escalation.getByText("“Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.”").waitFor();
+    await expect(escalation.getByText(/stopped at “Turn the cold section's thermostat to maximum/).isVisible()).resolves.toBe(true);
     await snap(lp, "escalations-phone", true);
-    await lp.getByRole("link", { name: "Read the run" }).click();
+    await escalation.getByRole("link", { name: "Read the run" }).click();
     await lp.waitForURL(griddleRun);
     await expect(lp.getByRole("region", { name: "Steps so far" }).getByText("Hot plate and live terminals").isVisible()).resolves.toBe(true);
     await lp.getByRole("button", { name: "Take over this run" }).click();
@@ -417,6 +422,7 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("at laptop size a lead finds a customer, opens its site and unit, sees field errors on the forms, and adds a meter", async () => {
+    const { partNumber } = await finishedRun();
     const context = await browser.newContext({ viewport: LAPTOP });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "lead@tinderbox.example");
@@ -432,7 +438,7 @@ describe("the phone runner (390×844)", () => {
 
     await page.goto(`${baseUrl}/equipment/${stableId("unit:larkspur-rotisserie")}`);
     await page.getByText("Failed fan motor — seized or dragging shaft").first().waitFor();
-    await expect(page.getByText(/1 × Convection fan motor, 208 V, same frame and rotation as the original \(FM-208-R\)/).isVisible()).resolves.toBe(true);
+    await expect(page.getByText(`1 × Convection fan motor, 208 V, same frame and rotation as the original (${partNumber})`).isVisible()).resolves.toBe(true);
     await snap(page, "unit-history-laptop", true);
 
     await page.goto(`${baseUrl}/calls/new`);
