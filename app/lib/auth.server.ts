@@ -7,6 +7,7 @@ import { redirect } from "react-router";
 import { z } from "zod";
 import { loadSession, revokeSession, SESSION_HOURS, signIn, type SessionUser } from "./sign-in.server";
 import type { Ctx } from "./context";
+import { authorize, type Action } from "./policy";
 import { env } from "./env.server";
 import { HOME_PATH } from "./roles";
 
@@ -99,7 +100,12 @@ function isApi(request: Request): boolean {
   return new URL(request.url).pathname.startsWith("/api/");
 }
 
-export async function requireUser(request: Request): Promise<SessionUser & { ctx: Ctx }> {
+/**
+ * The signed-in caller (else sign-in, or 401 for an API). With `may`, a caller whose role can never
+ * do that action is refused (403) before the request is read, so a role that may not write gets
+ * the same answer whatever it sends; the model still decides for the record itself.
+ */
+export async function requireUser(request: Request, may?: Action): Promise<SessionUser & { ctx: Ctx }> {
   const user = await getUser(request);
   if (!user) {
     if (isApi(request)) throw Response.json({ error: "Sign in first." }, { status: 401 });
@@ -107,7 +113,9 @@ export async function requireUser(request: Request): Promise<SessionUser & { ctx
     const next = url.pathname + url.search;
     throw redirect(next && next !== "/" ? `/login?next=${encodeURIComponent(next)}` : "/login");
   }
-  return { ...user, ctx: { shopId: user.shopId, userId: user.userId, role: user.role } };
+  const ctx: Ctx = { shopId: user.shopId, userId: user.userId, role: user.role };
+  if (may) authorize(ctx, may);
+  return { ...user, ctx };
 }
 
 function setCookies(response: Response): string[] {

@@ -28,7 +28,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 const startForm = z.object({ treeId: z.string({ message: "Choose a procedure to run." }).uuid("Choose a procedure to run.") });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "runs.start");
   const { treeId } = await readForm(request, startForm);
   try {
     const { runId } = await startRun(ctx, { treeId, callId: params.callId });

@@ -30,7 +30,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "calls.write");
   if (params.callId) {
     await updateCall(ctx, params.callId, await readForm(request, callEditInput));
     return redirect(`/calls/${params.callId}`);

@@ -24,7 +24,7 @@ const inviteForm = z.object({
 const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid("That invitation was not found.") });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "people.manage");
   const input = await readForm(request, (values) => (values.intent === "revoke" ? revokeForm : inviteForm));
   if (input.intent === "revoke") {
     await revokeInvitation(ctx, input.id);

@@ -27,7 +27,7 @@ const Publish = z.object({
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const treeId = treeIdOf(params);
   const input = await readForm(request, Publish);
   const { number } = await publishDraft(ctx, treeId, input.revision, input.changeNote);
