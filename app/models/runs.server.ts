@@ -33,6 +33,7 @@ import { withNextNumber } from "./calls.server";
 import { getUnit } from "./equipment.server";
 import { canonicalPayload, logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "./run-log";
 import { loadVersion } from "./trees.server";
+import { recordRunFacts } from "./insights/facts.server";
 
 
 export type Failure = { ok: false; status: 403 | 404 | 409 | 422; message: string; code?: string };
@@ -526,6 +527,7 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
         await set({ status: "abandoned", abandonReason: input.reason, completedAt: now });
         await closeEscalations(tx, runId);
         await setCallStatus(tx, run.callId, "open", ["in_progress", "escalated"]);
+        await recordRunFacts(tx, runId);
         return { ok: true, status: "abandoned" };
       case "escalate": {
         if (!holds) return fail(403, "Only the technician holding this run can escalate it.");
@@ -601,6 +603,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
+    await recordRunFacts(tx, runId);
     const id = crypto.randomUUID();
     const number = await withNextNumber(
       async () => {

@@ -2,3 +2,4 @@ export * from "./platform";
 export * from "./equipment";
 export * from "./trees";
 export * from "./runs";
+export * from "./insights";
