@@ -30,7 +30,7 @@ function statements(scope: FactScope): SQL[] {
         r.status, r.version_id, r.call_id,
         IF(r.status = 'done', r.end_node, NULL), IF(r.status = 'done', r.root_cause, NULL), r.started_at,
         IF(r.status = 'done',
-          (SELECT TIMESTAMPDIFF(SECOND, r.started_at, MAX(st.recorded_at)) FROM run_steps st
+          (SELECT TIMESTAMPDIFF(SECOND, r.started_at, MAX(st.created_at)) FROM run_steps st
             WHERE st.run_id = r.id AND st.undone = 0 AND st.type <> 'undo'),
           NULL),
         IF(r.status = 'done', r.minutes_on_job, NULL),

@@ -1,0 +1,438 @@
+// The owner's overview: root causes, first-time fixes, time to diagnose and on the job, parts,
+// readings out of limits and hand-offs to a lead — every figure from the shop's own ended real
+// runs (the summary rows in db/schema/insights.ts), filtered as the URL says.
+import { TZDate } from "@date-fns/tz";
+import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
+import { customers, equipmentUnits, memberships, sites, treeNodes, trees, treeVersions, users } from "../../../db/schema";
+import { CATEGORIES } from "../../engine/types";
+import { roleAllows } from "../../lib/auth.server";
+import type { Ctx } from "../../lib/context";
+import { db } from "../../lib/db.server";
+import type { OverviewFilters } from "../../lib/insights/filters";
+import { percentile } from "../../lib/insights/stats";
+import { share, type Row, type Table, type TableId } from "../../lib/insights/table";
+import { shopTimeZone } from "../trees.server";
+
+/** The trade's first-time fix, as the page states it. */
+export const FIRST_TIME_FIX_DEFINITION =
+  "A call counts as fixed first time when the first run started on it reached a root cause and closed the call, and no new call " +
+  "(other than a cancelled one) was opened on the same unit in the 30 days after. Calls are counted in the month they closed; " +
+  "calls closed in the last 30 days can still lose their first-time fix.";
+export const RETURN_WINDOW_DAYS = 30;
+
+const TOP = 15;
+
+export type Failure = { ok: false; status: 403; message: string };
+const NOT_ALLOWED: Failure = { ok: false, status: 403, message: "The overview is for owners and leads." };
+
+/** The filters resolved against the shop's calendar: a half-open UTC range and the months in it. */
+export type Scope = {
+  shopId: string;
+  filters: OverviewFilters;
+  timeZone: string;
+  start: Date;
+  end: Date;
+  /** Local month starts inside [start, end), the first one possibly before start. */
+  months: { start: Date; label: string; key: string }[];
+};
+
+const dayStart = (y: number, m: number, d: number, tz: string) => new Date(new TZDate(y, m, d, tz).getTime());
+
+export function resolveScope(shopId: string, filters: OverviewFilters, timeZone: string, now = new Date()): Scope {
+  let start: Date;
+  let end: Date;
+  if (filters.period === "range" && filters.from && filters.to) {
+    const [fy, fm, fd] = filters.from.split("-").map(Number) as [number, number, number];
+    const [ty, tm, td] = filters.to.split("-").map(Number) as [number, number, number];
+    start = dayStart(fy, fm - 1, fd, timeZone);
+    end = dayStart(ty, tm - 1, td + 1, timeZone);
+  } else {
+    const days = Number(filters.period === "range" ? "90" : filters.period);
+    const today = new TZDate(now.getTime(), timeZone);
+    start = dayStart(today.getFullYear(), today.getMonth(), today.getDate() - (days - 1), timeZone);
+    end = dayStart(today.getFullYear(), today.getMonth(), today.getDate() + 1, timeZone);
+  }
+  const months: Scope["months"] = [];
+  const first = new TZDate(start.getTime(), timeZone);
+  for (let y = first.getFullYear(), m = first.getMonth(); ; m++) {
+    const s = dayStart(y, m, 1, timeZone);
+    if (s >= end) break;
+    const local = new TZDate(s.getTime(), timeZone);
+    months.push({
+      start: s,
+      key: `${local.getFullYear()}-${String(local.getMonth() + 1).padStart(2, "0")}`,
+      label: new Intl.DateTimeFormat("en-US", { timeZone, month: "short", year: "numeric" }).format(s),
+    });
+  }
+  return { shopId, filters, timeZone, start, end, months };
+}
+
+/** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). */
+function where(scope: Scope, a: string): SQL {
+  const c = (name: string) => sql.raw(`${a}.${name}`);
+  const f = scope.filters;
+  const parts: SQL[] = [sql`${c("shop_id")} = ${scope.shopId}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
+  if (f.category) parts.push(sql`${c("category")} = ${f.category}`);
+  if (f.make) parts.push(sql`${c("make")} = ${f.make}`);
+  if (f.model) parts.push(sql`${c("model")} = ${f.model}`);
+  if (f.treeId) parts.push(sql`${c("tree_id")} = ${f.treeId}`);
+  if (f.customerId) parts.push(sql`${c("customer_id")} = ${f.customerId}`);
+  if (f.siteId) parts.push(sql`${c("site_id")} = ${f.siteId}`);
+  if (f.technicianId) parts.push(sql`${c("technician_id")} = ${f.technicianId}`);
+  return sql.join(parts, sql` AND `);
+}
+
+async function rows<T>(query: SQL): Promise<T[]> {
+  const [result] = (await db().execute(query)) as unknown as [T[]];
+  return result;
+}
+
+const num = (v: unknown) => Number(v ?? 0);
+const minutes = (seconds: number | null) => (seconds === null ? null : seconds / 60);
+
+async function treeTitles(shopId: string): Promise<Map<string, string>> {
+  const list = await db().select({ id: trees.id, title: trees.title }).from(trees).where(eq(trees.shopId, shopId));
+  return new Map(list.map((t) => [t.id, t.title]));
+}
+
+const equipmentLabel = (make: string, model: string) => (make || model ? `${make} ${model}`.trim() : "No unit recorded");
+
+// --- the queries, one per figure ---------------------------------------------------------------
+
+async function rootCauses(scope: Scope): Promise<Table[]> {
+  const list = await rows<{ cause: string; n: number; total: number }>(sql`
+    SELECT f.root_cause AS cause, COUNT(*) AS n, SUM(COUNT(*)) OVER () AS total
+    FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
+    GROUP BY f.root_cause ORDER BY n DESC, cause ASC`);
+  const total = num(list[0]?.total);
+  return [
+    {
+      id: "root-causes",
+      title: "Most common root causes",
+      caption: `Root causes of ${total} completed run${total === 1 ? "" : "s"}${list.length > TOP ? `: the ${TOP} most common of ${list.length}` : ""}. Share is of all completed runs in the filters.`,
+      columns: [
+        { key: "cause", label: "Root cause", kind: "text" },
+        { key: "runs", label: "Runs", kind: "count" },
+        { key: "share", label: "Share", kind: "percent" },
+      ],
+      rows: list.slice(0, TOP).map((r) => ({ cause: r.cause ?? "", runs: num(r.n), share: share(num(r.n), total) })),
+    },
+  ];
+}
+
+async function firstTimeFix(scope: Scope): Promise<Table[]> {
+  const bucket = scope.months.length
+    ? sql`CASE ${sql.join(
+        scope.months.slice(1).map((m, i) => sql`WHEN f.ended_at < ${m.start} THEN ${i}`),
+        sql` `,
+      )} ELSE ${scope.months.length - 1} END`
+    : sql`0`;
+  const list = await rows<{ month: number; category: string; make: string; model: string; calls: number; fixed: number }>(sql`
+    SELECT ${bucket} AS month, f.category, f.make, f.model, COUNT(*) AS calls,
+      SUM(CASE WHEN f.first_on_call THEN NOT EXISTS (
+        SELECT 1 FROM service_calls c
+        WHERE c.shop_id = f.shop_id AND c.unit_id = f.unit_id AND c.id <> f.call_id AND c.status <> 'cancelled'
+          AND c.opened_at > f.ended_at AND c.opened_at <= f.ended_at + INTERVAL ${RETURN_WINDOW_DAYS} DAY) ELSE 0 END) AS fixed
+    FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.call_id IS NOT NULL
+    GROUP BY month, f.category, f.make, f.model`);
+  const byMonth = scope.months.map(() => ({ calls: 0, fixed: 0 }));
+  const byUnit = new Map<string, { category: string; make: string; model: string; calls: number; fixed: number }>();
+  for (const r of list) {
+    const m = byMonth[num(r.month)]!;
+    m.calls += num(r.calls);
+    m.fixed += num(r.fixed);
+    const key = `${r.category}\u0000${r.make}\u0000${r.model}`;
+    const u = byUnit.get(key) ?? { category: r.category, make: r.make, model: r.model, calls: 0, fixed: 0 };
+    u.calls += num(r.calls);
+    u.fixed += num(r.fixed);
+    byUnit.set(key, u);
+  }
+  const columns = [
+    { key: "calls", label: "Calls closed", kind: "count" as const },
+    { key: "fixed", label: "Fixed first time", kind: "count" as const },
+    { key: "rate", label: "First-time-fix rate", kind: "percent" as const },
+  ];
+  const equipment = [...byUnit.values()].sort((a, b) => b.calls - a.calls || equipmentLabel(a.make, a.model).localeCompare(equipmentLabel(b.make, b.model)));
+  return [
+    {
+      id: "first-time-fix-by-month",
+      title: "First-time-fix rate by month",
+      caption: "Calls closed each month and how many were fixed first time.",
+      columns: [{ key: "month", label: "Month", kind: "month" }, ...columns],
+      rows: scope.months.map((m, i) => ({ month: m.label, calls: byMonth[i]!.calls, fixed: byMonth[i]!.fixed, rate: share(byMonth[i]!.fixed, byMonth[i]!.calls) })),
+    },
+    {
+      id: "first-time-fix-by-equipment",
+      title: "First-time-fix rate by equipment",
+      caption: `Calls closed per make and model${equipment.length > TOP ? `: the ${TOP} with the most calls of ${equipment.length}` : ""}.`,
+      columns: [{ key: "category", label: "Category", kind: "text" }, { key: "equipment", label: "Make and model", kind: "text" }, ...columns],
+      rows: equipment.slice(0, TOP).map((u) => ({ category: u.category, equipment: equipmentLabel(u.make, u.model), calls: u.calls, fixed: u.fixed, rate: share(u.fixed, u.calls) })),
+    },
+  ];
+}
+
+type Times = { diagnose: number[]; job: number[] };
+function timeRow(t: Times): { runs: number } & Row {
+  const d = t.diagnose.sort((a, b) => a - b);
+  const j = t.job.sort((a, b) => a - b);
+  return {
+    runs: Math.max(d.length, j.length),
+    diagnoseMedian: minutes(percentile(d, 0.5)),
+    diagnoseP90: minutes(percentile(d, 0.9)),
+    jobMedian: percentile(j, 0.5),
+    jobP90: percentile(j, 0.9),
+  };
+}
+
+async function timeToDiagnose(scope: Scope): Promise<Table[]> {
+  const [list, titles] = await Promise.all([
+    rows<{ t: string; c: string; mk: string; md: string; d: number | null; j: number | null }>(sql`
+      SELECT f.tree_id AS t, f.category AS c, f.make AS mk, f.model AS md, f.diagnose_seconds AS d, f.job_minutes AS j
+      FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'`),
+    treeTitles(scope.shopId),
+  ]);
+  const byTree = new Map<string, Times>();
+  const byUnit = new Map<string, Times & { category: string; make: string; model: string }>();
+  for (const r of list) {
+    const t = byTree.get(r.t) ?? { diagnose: [], job: [] };
+    byTree.set(r.t, t);
+    const key = `${r.c}\u0000${r.mk}\u0000${r.md}`;
+    const u = byUnit.get(key) ?? { diagnose: [], job: [], category: r.c, make: r.mk, model: r.md };
+    byUnit.set(key, u);
+    for (const x of [t, u]) {
+      if (r.d !== null) x.diagnose.push(num(r.d));
+      if (r.j !== null) x.job.push(num(r.j));
+    }
+  }
+  const columns = [
+    { key: "runs", label: "Runs", kind: "count" as const },
+    { key: "diagnoseMedian", label: "To diagnose, median (min)", kind: "minutes" as const },
+    { key: "diagnoseP90", label: "To diagnose, 90th percentile (min)", kind: "minutes" as const },
+    { key: "jobMedian", label: "On the job, median (min)", kind: "minutes" as const },
+    { key: "jobP90", label: "On the job, 90th percentile (min)", kind: "minutes" as const },
+  ];
+  const treeRows = [...byTree.entries()].map(([id, t]) => ({ tree: titles.get(id) ?? "(a removed tree)", ...timeRow(t) }));
+  treeRows.sort((a, b) => num(b.runs) - num(a.runs) || a.tree.localeCompare(b.tree));
+  const unitRows = [...byUnit.values()].map((u) => ({ category: u.category, equipment: equipmentLabel(u.make, u.model), ...timeRow(u) }));
+  unitRows.sort((a, b) => num(b.runs) - num(a.runs) || a.equipment.localeCompare(b.equipment));
+  return [
+    {
+      id: "time-by-tree",
+      title: "Time to diagnose and on the job, by tree",
+      caption: "Time to diagnose runs from the start of the run to the step that reached the root cause; time on the job is what the technician recorded with the outcome.",
+      columns: [{ key: "tree", label: "Tree (symptom)", kind: "text" }, ...columns],
+      rows: treeRows,
+    },
+    {
+      id: "time-by-equipment",
+      title: "Time to diagnose and on the job, by equipment",
+      caption: `The same times per make and model${unitRows.length > TOP ? `: the ${TOP} with the most runs of ${unitRows.length}` : ""}.`,
+      columns: [{ key: "category", label: "Category", kind: "text" }, { key: "equipment", label: "Make and model", kind: "text" }, ...columns],
+      rows: unitRows.slice(0, TOP),
+    },
+  ];
+}
+
+async function parts(scope: Scope): Promise<Table[]> {
+  const list = await rows<{ make: string; model: string; pn: string; description: string; qty: number; runs: number }>(sql`
+    SELECT p.make, p.model, p.part_number AS pn, p.description, SUM(p.quantity) AS qty, COUNT(DISTINCT p.run_id) AS runs
+    FROM insight_parts p WHERE ${where(scope, "p")}
+    GROUP BY p.make, p.model, p.part_number, p.description`);
+  const byPart = new Map<string, { pn: string; description: string; qty: number; runs: number }>();
+  for (const r of list) {
+    const key = `${r.pn}\u0000${r.description}`;
+    const x = byPart.get(key) ?? { pn: r.pn, description: r.description, qty: 0, runs: 0 };
+    x.qty += num(r.qty);
+    x.runs += num(r.runs);
+    byPart.set(key, x);
+  }
+  const top = [...byPart.values()].sort((a, b) => b.qty - a.qty || a.description.localeCompare(b.description));
+  const perModel = [...list].sort((a, b) => num(b.qty) - num(a.qty) || equipmentLabel(a.make, a.model).localeCompare(equipmentLabel(b.make, b.model)) || a.description.localeCompare(b.description));
+  return [
+    {
+      id: "parts",
+      title: "Parts used",
+      caption: `Parts recorded with root causes, by quantity${top.length > TOP ? `: the ${TOP} most used of ${top.length}` : ""}.`,
+      columns: [
+        { key: "partNumber", label: "Part number", kind: "text" },
+        { key: "description", label: "Part", kind: "text" },
+        { key: "quantity", label: "Quantity", kind: "count" },
+        { key: "runs", label: "Runs", kind: "count" },
+      ],
+      rows: top.slice(0, TOP).map((p) => ({ partNumber: p.pn, description: p.description, quantity: p.qty, runs: p.runs })),
+    },
+    {
+      id: "parts-by-model",
+      title: "Parts used by make and model",
+      caption: `What to stock for each make and model${perModel.length > TOP * 2 ? `: the ${TOP * 2} largest of ${perModel.length}` : ""}.`,
+      columns: [
+        { key: "equipment", label: "Make and model", kind: "text" },
+        { key: "partNumber", label: "Part number", kind: "text" },
+        { key: "description", label: "Part", kind: "text" },
+        { key: "quantity", label: "Quantity", kind: "count" },
+        { key: "runs", label: "Runs", kind: "count" },
+      ],
+      rows: perModel.slice(0, TOP * 2).map((p) => ({ equipment: equipmentLabel(p.make, p.model), partNumber: p.pn, description: p.description, quantity: num(p.qty), runs: num(p.runs) })),
+    },
+  ];
+}
+
+async function readingsOutOfLimits(scope: Scope): Promise<Table[]> {
+  const list = await rows<{ t: string; node: string; n: number; out: number; marginal: number }>(sql`
+    SELECT r.tree_id AS t, r.node_key AS node, COUNT(*) AS n,
+      SUM(r.verdict IN ('low', 'high')) AS \`out\`, SUM(r.verdict = 'marginal') AS marginal
+    FROM insight_readings r WHERE ${where(scope, "r")}
+    GROUP BY r.tree_id, r.node_key`);
+  const top = list
+    .map((r) => ({ ...r, n: num(r.n), out: num(r.out), marginal: num(r.marginal) }))
+    .filter((r) => r.out > 0)
+    .sort((a, b) => b.out - a.out || b.out / b.n - a.out / a.n || a.node.localeCompare(b.node))
+    .slice(0, TOP);
+  const [titles, nodes] = await Promise.all([treeTitles(scope.shopId), stepTitles(scope.shopId, top.map((r) => r.t))]);
+  return [
+    {
+      id: "readings-out-of-limits",
+      title: "Measurement steps most often out of limits",
+      caption: "Readings kept in ended runs (undone ones left out). Out of limits means low or high; marginal readings sat within the meter's accuracy of a limit.",
+      columns: [
+        { key: "step", label: "Measurement step", kind: "text" },
+        { key: "tree", label: "Tree", kind: "text" },
+        { key: "readings", label: "Readings", kind: "count" },
+        { key: "out", label: "Out of limits", kind: "count" },
+        { key: "share", label: "Share out of limits", kind: "percent" },
+        { key: "marginal", label: "Marginal", kind: "count" },
+      ],
+      rows: top.map((r) => ({ step: nodes.get(`${r.t}\u0000${r.node}`) ?? r.node, tree: titles.get(r.t) ?? "", readings: r.n, out: r.out, share: share(r.out, r.n), marginal: r.marginal })),
+    },
+  ];
+}
+
+/** Step titles of the shop's trees, from their newest published (or retired) version holding the step. */
+async function stepTitles(shopId: string, treeIds: string[]): Promise<Map<string, string>> {
+  if (!treeIds.length) return new Map();
+  const list = await db()
+    .select({ treeId: treeVersions.treeId, node: treeNodes.nodeKey, title: treeNodes.title })
+    .from(treeNodes)
+    .innerJoin(treeVersions, eq(treeVersions.id, treeNodes.versionId))
+    .where(and(eq(treeVersions.shopId, shopId), inArray(treeVersions.treeId, [...new Set(treeIds)]), ne(treeVersions.state, "draft"), eq(treeNodes.kind, "measurement")))
+    .orderBy(asc(treeVersions.number));
+  return new Map(list.map((n) => [`${n.treeId}\u0000${n.node}`, n.title]));
+}
+
+async function handOffs(scope: Scope): Promise<Table[]> {
+  const [list, titles] = await Promise.all([
+    rows<{ t: string; n: number; handed: number }>(sql`
+      SELECT f.tree_id AS t, COUNT(*) AS n, SUM(f.escalated) AS handed
+      FROM insight_runs f WHERE ${where(scope, "f")}
+      GROUP BY f.tree_id`),
+    treeTitles(scope.shopId),
+  ]);
+  const byTree = list.map((r) => ({ tree: titles.get(r.t) ?? "(a removed tree)", runs: num(r.n), handed: num(r.handed), share: share(num(r.handed), num(r.n)) }));
+  byTree.sort((a, b) => b.handed - a.handed || b.runs - a.runs || a.tree.localeCompare(b.tree));
+  return [
+    {
+      id: "hand-offs",
+      title: "Runs handed to a lead",
+      caption: "Ended runs (completed or abandoned) per tree, and how many were handed to a lead on the way.",
+      columns: [
+        { key: "tree", label: "Tree (symptom)", kind: "text" },
+        { key: "runs", label: "Runs ended", kind: "count" },
+        { key: "handed", label: "Handed to a lead", kind: "count" },
+        { key: "share", label: "Share", kind: "percent" },
+      ],
+      rows: byTree,
+    },
+  ];
+}
+
+const QUERIES: Record<string, (scope: Scope) => Promise<Table[]>> = { rootCauses, firstTimeFix, timeToDiagnose, parts, readingsOutOfLimits, handOffs };
+export const QUERY_NAMES = Object.keys(QUERIES);
+
+const TABLE_QUERY: Record<TableId, keyof typeof QUERIES> = {
+  "root-causes": "rootCauses",
+  "first-time-fix-by-month": "firstTimeFix",
+  "first-time-fix-by-equipment": "firstTimeFix",
+  "time-by-tree": "timeToDiagnose",
+  "time-by-equipment": "timeToDiagnose",
+  parts: "parts",
+  "parts-by-model": "parts",
+  "readings-out-of-limits": "readingsOutOfLimits",
+  "hand-offs": "handOffs",
+};
+
+// --- filter choices ------------------------------------------------------------------------------
+
+export type FilterOptions = Awaited<ReturnType<typeof filterOptions>>;
+
+/** What the filters offer: the shop's trees, equipment, customers (and the chosen customer's sites) and people. */
+export async function filterOptions(ctx: Ctx, filters: Pick<OverviewFilters, "customerId">) {
+  const d = db();
+  const [treeList, equipment, customerList, siteList, people] = await Promise.all([
+    d.select({ id: trees.id, title: trees.title }).from(trees).where(eq(trees.shopId, ctx.shopId)).orderBy(asc(trees.title)),
+    d
+      .selectDistinct({ make: equipmentUnits.make, model: equipmentUnits.model })
+      .from(equipmentUnits)
+      .where(eq(equipmentUnits.shopId, ctx.shopId))
+      .orderBy(asc(equipmentUnits.make), asc(equipmentUnits.model)),
+    d.select({ id: customers.id, name: customers.name }).from(customers).where(eq(customers.shopId, ctx.shopId)).orderBy(asc(customers.name)),
+    filters.customerId
+      ? d
+          .select({ id: sites.id, name: sites.name })
+          .from(sites)
+          .where(and(eq(sites.shopId, ctx.shopId), eq(sites.customerId, filters.customerId)))
+          .orderBy(asc(sites.name))
+      : Promise.resolve([]),
+    d
+      .select({ id: users.id, name: users.name })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .where(and(eq(memberships.shopId, ctx.shopId), ne(memberships.role, "trainer")))
+      .orderBy(asc(users.name)),
+  ]);
+  return {
+    categories: [...CATEGORIES],
+    trees: treeList,
+    makes: [...new Set(equipment.map((e) => e.make))],
+    models: equipment,
+    customers: customerList,
+    sites: siteList,
+    technicians: people,
+  };
+}
+
+// --- what routes call -------------------------------------------------------------------------------
+
+const mayRead = (ctx: Ctx) => roleAllows(ctx.role, ["lead"]);
+
+async function scopeOf(ctx: Ctx, filters: OverviewFilters, now?: Date): Promise<Scope> {
+  return resolveScope(ctx.shopId, filters, await shopTimeZone(ctx), now);
+}
+
+/** Everything the overview shows, for owners and leads of the caller's shop. */
+export async function overview(ctx: Ctx, filters: OverviewFilters, now?: Date) {
+  if (!mayRead(ctx)) return NOT_ALLOWED;
+  const scope = await scopeOf(ctx, filters, now);
+  const [options, ...groups] = await Promise.all([filterOptions(ctx, filters), ...Object.values(QUERIES).map((q) => q(scope))]);
+  const tables = Object.fromEntries(groups.flat().map((t) => [t.id, t])) as Record<TableId, Table>;
+  return {
+    ok: true as const,
+    period: { start: scope.start.toISOString(), end: scope.end.toISOString(), timeZone: scope.timeZone },
+    options,
+    tables,
+    definition: FIRST_TIME_FIX_DEFINITION,
+  };
+}
+
+/** One table of the overview with the filters applied: the rows a CSV download writes. */
+export async function overviewTable(ctx: Ctx, filters: OverviewFilters, id: TableId, now?: Date): Promise<{ ok: true; table: Table; start: Date; end: Date } | Failure> {
+  if (!mayRead(ctx)) return NOT_ALLOWED;
+  const scope = await scopeOf(ctx, filters, now);
+  const tables = await QUERIES[TABLE_QUERY[id]]!(scope);
+  return { ok: true, table: tables.find((t) => t.id === id)!, start: scope.start, end: scope.end };
+}
+
+/** For the benchmark: one named query on already-resolved filters. */
+export async function runQuery(ctx: Ctx, name: string, filters: OverviewFilters, now?: Date): Promise<Table[]> {
+  if (!mayRead(ctx)) throw new Error("owners and leads only");
+  return QUERIES[name]!(await scopeOf(ctx, filters, now));
+}
