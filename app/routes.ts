@@ -16,6 +16,9 @@ export default [
   route("api/runs/:runId/outcome", "routes/api/run-outcome.ts"),
   route("api/photos/:photoId", "routes/api/photo.ts"),
   route("api/reports/:reportId/send", "routes/api/report-send.ts"),
+  // Owner insights: CSV of one overview table, and "found here before" for the runner.
+  route("api/insights/csv/:table", "routes/api.insights.csv.ts"),
+  route("api/insights/found-here", "routes/api.insights.found-here.ts"),
   // Field runs: the phone runner and the printable report, full screen (outside the shell).
   route("runs/:runId", "routes/runner.tsx"),
   route("reports/:reportId", "routes/report.tsx"),

@@ -21,6 +21,7 @@ import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
 import { optionalText } from "../lib/forms";
 import { listPublished, type PublishedTreeSummary } from "./trees.server";
+import { recordNewCall } from "./insights/facts.server";
 
 
 export const callInput = z.object({
@@ -215,6 +216,7 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ ok: true
       return n;
     },
   );
+  await recordNewCall(db(), ctx.shopId, input.unitId, id, now);
   return { ok: true, id, number };
 }
 

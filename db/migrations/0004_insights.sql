@@ -67,6 +67,7 @@ CREATE TABLE `insight_runs` (
 	`job_minutes` int,
 	`escalated` boolean NOT NULL,
 	`first_on_call` boolean NOT NULL,
+	`came_back` boolean NOT NULL DEFAULT false,
 	CONSTRAINT `insight_runs_shop_id_ended_at_run_id_pk` PRIMARY KEY(`shop_id`,`ended_at`,`run_id`),
 	CONSTRAINT `insight_runs_run_uq` UNIQUE(`run_id`)
 );
@@ -82,4 +83,5 @@ CREATE TABLE `insight_step_tallies` (
 --> statement-breakpoint
 CREATE INDEX `insight_parts_run_idx` ON `insight_parts` (`run_id`);--> statement-breakpoint
 CREATE INDEX `insight_readings_run_idx` ON `insight_readings` (`run_id`);--> statement-breakpoint
+CREATE INDEX `insight_runs_unit_idx` ON `insight_runs` (`shop_id`,`unit_id`,`ended_at`);--> statement-breakpoint
 CREATE INDEX `service_calls_unit_opened_idx` ON `service_calls` (`shop_id`,`unit_id`,`opened_at`);

@@ -53,10 +53,13 @@ export const insightRuns = mysqlTable(
     escalated: boolean("escalated").notNull(),
     /** The run was the first run started on its call (no earlier run on the call). */
     firstOnCall: boolean("first_on_call").notNull(),
+    /** A new call was opened on the same unit within 30 days after this run ended (set when that call is opened). */
+    cameBack: boolean("came_back").notNull().default(false),
   },
   (t) => [
     primaryKey({ columns: [t.shopId, t.endedAt, t.runId] }),
     uniqueIndex("insight_runs_run_uq").on(t.runId),
+    index("insight_runs_unit_idx").on(t.shopId, t.unitId, t.endedAt),
   ],
 );
 

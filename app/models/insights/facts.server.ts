@@ -42,6 +42,12 @@ function statements(scope: FactScope): SQL[] {
       LEFT JOIN equipment_units u ON u.id = r.unit_id
       LEFT JOIN sites s ON s.id = u.site_id
       WHERE ${runs} AND r.practice = 0 AND r.status IN ('done', 'abandoned') AND r.completed_at IS NOT NULL`,
+    // A new call on the same unit within the return window (normally set later, when that call is opened).
+    sql`UPDATE insight_runs f SET f.came_back = EXISTS (
+        SELECT 1 FROM service_calls c FORCE INDEX (service_calls_unit_opened_idx)
+        WHERE c.shop_id = f.shop_id AND c.unit_id = f.unit_id AND c.id <> f.call_id
+          AND c.opened_at > f.ended_at AND c.opened_at <= f.ended_at + INTERVAL ${RETURN_WINDOW_DAYS} DAY)
+      WHERE ${facts} AND f.status = 'done' AND f.unit_id IS NOT NULL AND f.call_id IS NOT NULL`,
     sql`INSERT INTO insight_readings (${DIMS}, seq, node_key, verdict)
       SELECT ${F_DIMS}, st.seq, st.node_key, st.verdict
       FROM insight_runs f JOIN run_steps st ON st.run_id = f.run_id
@@ -68,6 +74,19 @@ function statements(scope: FactScope): SQL[] {
       ORDER BY f.shop_id, f.tree_id, f.make, f.model, f.end_node
       ON DUPLICATE KEY UPDATE runs = runs + VALUES(runs)`,
   ];
+}
+
+/** Days after a fix within which a new call on the same unit means it was not fixed first time. */
+export const RETURN_WINDOW_DAYS = 30;
+
+/**
+ * A call was just opened on a unit: runs that fixed it in the 30 days before did not fix it for
+ * good. Called by the model right after it stores the call.
+ */
+export async function recordNewCall(tx: Tx | Db, shopId: string, unitId: string, callId: string, openedAt: Date): Promise<void> {
+  await tx.execute(sql`UPDATE insight_runs SET came_back = TRUE
+    WHERE shop_id = ${shopId} AND unit_id = ${unitId} AND status = 'done' AND call_id <> ${callId}
+      AND ended_at < ${openedAt} AND ended_at >= ${openedAt} - INTERVAL ${RETURN_WINDOW_DAYS} DAY`);
 }
 
 /** Writes the summary rows of runs that have just ended, inside the caller's transaction. Runs already summarised are skipped. */

@@ -12,13 +12,13 @@ import type { OverviewFilters } from "../../lib/insights/filters";
 import { percentile } from "../../lib/insights/stats";
 import { share, type Row, type Table, type TableId } from "../../lib/insights/table";
 import { shopTimeZone } from "../trees.server";
+import { RETURN_WINDOW_DAYS } from "./facts.server";
 
 /** The trade's first-time fix, as the page states it. */
 export const FIRST_TIME_FIX_DEFINITION =
-  "A call counts as fixed first time when the first run started on it reached a root cause and closed the call, and no new call " +
-  "(other than a cancelled one) was opened on the same unit in the 30 days after. Calls are counted in the month they closed; " +
-  "calls closed in the last 30 days can still lose their first-time fix.";
-export const RETURN_WINDOW_DAYS = 30;
+  `A call counts as fixed first time when the first run started on it reached a root cause and closed the call, and no new call ` +
+  `was opened on the same unit in the ${RETURN_WINDOW_DAYS} days after. Calls are counted in the month they closed; ` +
+  `calls closed in the last ${RETURN_WINDOW_DAYS} days can still lose their first-time fix.`;
 
 const TOP = 15;
 
@@ -32,6 +32,9 @@ export type Scope = {
   timeZone: string;
   start: Date;
   end: Date;
+  /** The first and last local day, "2026-09-02". */
+  firstDay: string;
+  lastDay: string;
   /** Local month starts inside [start, end), the first one possibly before start. */
   months: { start: Date; label: string; key: string }[];
 };
@@ -64,7 +67,11 @@ export function resolveScope(shopId: string, filters: OverviewFilters, timeZone:
       label: new Intl.DateTimeFormat("en-US", { timeZone, month: "short", year: "numeric" }).format(s),
     });
   }
-  return { shopId, filters, timeZone, start, end, months };
+  const ymd = (d: Date) => {
+    const l = new TZDate(d.getTime(), timeZone);
+    return `${l.getFullYear()}-${String(l.getMonth() + 1).padStart(2, "0")}-${String(l.getDate()).padStart(2, "0")}`;
+  };
+  return { shopId, filters, timeZone, start, end, firstDay: ymd(start), lastDay: ymd(new Date(end.getTime() - 1)), months };
 }
 
 /** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). */
@@ -121,7 +128,8 @@ async function rootCauses(scope: Scope): Promise<Table[]> {
 }
 
 async function firstTimeFix(scope: Scope): Promise<Table[]> {
-  const bucket = scope.months.length
+  const bucket =
+    scope.months.length > 1
     ? sql`CASE ${sql.join(
         scope.months.slice(1).map((m, i) => sql`WHEN f.ended_at < ${m.start} THEN ${i}`),
         sql` `,
@@ -129,10 +137,7 @@ async function firstTimeFix(scope: Scope): Promise<Table[]> {
     : sql`0`;
   const list = await rows<{ month: number; category: string; make: string; model: string; calls: number; fixed: number }>(sql`
     SELECT ${bucket} AS month, f.category, f.make, f.model, COUNT(*) AS calls,
-      SUM(CASE WHEN f.first_on_call THEN NOT EXISTS (
-        SELECT 1 FROM service_calls c
-        WHERE c.shop_id = f.shop_id AND c.unit_id = f.unit_id AND c.id <> f.call_id AND c.status <> 'cancelled'
-          AND c.opened_at > f.ended_at AND c.opened_at <= f.ended_at + INTERVAL ${RETURN_WINDOW_DAYS} DAY) ELSE 0 END) AS fixed
+      SUM(f.first_on_call AND NOT f.came_back) AS fixed
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.call_id IS NOT NULL
     GROUP BY month, f.category, f.make, f.model`);
   const byMonth = scope.months.map(() => ({ calls: 0, fixed: 0 }));
@@ -191,6 +196,7 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
       FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'`),
     treeTitles(scope.shopId),
   ]);
+  const all: Times = { diagnose: [], job: [] };
   const byTree = new Map<string, Times>();
   const byUnit = new Map<string, Times & { category: string; make: string; model: string }>();
   for (const r of list) {
@@ -199,7 +205,7 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
     const key = `${r.c}\u0000${r.mk}\u0000${r.md}`;
     const u = byUnit.get(key) ?? { diagnose: [], job: [], category: r.c, make: r.mk, model: r.md };
     byUnit.set(key, u);
-    for (const x of [t, u]) {
+    for (const x of [all, t, u]) {
       if (r.d !== null) x.diagnose.push(num(r.d));
       if (r.j !== null) x.job.push(num(r.j));
     }
@@ -213,13 +219,14 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
   ];
   const treeRows = [...byTree.entries()].map(([id, t]) => ({ tree: titles.get(id) ?? "(a removed tree)", ...timeRow(t) }));
   treeRows.sort((a, b) => num(b.runs) - num(a.runs) || a.tree.localeCompare(b.tree));
+  if (treeRows.length) treeRows.unshift({ tree: "All trees", ...timeRow(all) });
   const unitRows = [...byUnit.values()].map((u) => ({ category: u.category, equipment: equipmentLabel(u.make, u.model), ...timeRow(u) }));
   unitRows.sort((a, b) => num(b.runs) - num(a.runs) || a.equipment.localeCompare(b.equipment));
   return [
     {
       id: "time-by-tree",
       title: "Time to diagnose and on the job, by tree",
-      caption: "Time to diagnose runs from the start of the run to the step that reached the root cause; time on the job is what the technician recorded with the outcome.",
+      caption: "Completed runs. Time to diagnose runs from the start of the run to the step that reached the root cause; time on the job is what the technician recorded with the outcome. The first row is all trees together.",
       columns: [{ key: "tree", label: "Tree (symptom)", kind: "text" }, ...columns],
       rows: treeRows,
     },
@@ -414,9 +421,19 @@ export async function overview(ctx: Ctx, filters: OverviewFilters, now?: Date) {
   const scope = await scopeOf(ctx, filters, now);
   const [options, ...groups] = await Promise.all([filterOptions(ctx, filters), ...Object.values(QUERIES).map((q) => q(scope))]);
   const tables = Object.fromEntries(groups.flat().map((t) => [t.id, t])) as Record<TableId, Table>;
+  const sum = (id: TableId, key: string) => tables[id].rows.reduce((n, r) => n + num(r[key]), 0);
+  const allTrees = tables["time-by-tree"].rows[0];
   return {
     ok: true as const,
-    period: { start: scope.start.toISOString(), end: scope.end.toISOString(), timeZone: scope.timeZone },
+    totals: {
+      ended: sum("hand-offs", "runs"),
+      handed: sum("hand-offs", "handed"),
+      done: num(allTrees?.runs),
+      diagnoseMedian: (allTrees?.diagnoseMedian as number | null | undefined) ?? null,
+      calls: sum("first-time-fix-by-month", "calls"),
+      fixed: sum("first-time-fix-by-month", "fixed"),
+    },
+    period: { start: scope.start.toISOString(), end: scope.end.toISOString(), firstDay: scope.firstDay, lastDay: scope.lastDay, timeZone: scope.timeZone },
     options,
     tables,
     definition: FIRST_TIME_FIX_DEFINITION,
@@ -424,11 +441,11 @@ export async function overview(ctx: Ctx, filters: OverviewFilters, now?: Date) {
 }
 
 /** One table of the overview with the filters applied: the rows a CSV download writes. */
-export async function overviewTable(ctx: Ctx, filters: OverviewFilters, id: TableId, now?: Date): Promise<{ ok: true; table: Table; start: Date; end: Date } | Failure> {
+export async function overviewTable(ctx: Ctx, filters: OverviewFilters, id: TableId, now?: Date): Promise<{ ok: true; table: Table; firstDay: string; lastDay: string } | Failure> {
   if (!mayRead(ctx)) return NOT_ALLOWED;
   const scope = await scopeOf(ctx, filters, now);
   const tables = await QUERIES[TABLE_QUERY[id]]!(scope);
-  return { ok: true, table: tables.find((t) => t.id === id)!, start: scope.start, end: scope.end };
+  return { ok: true, table: tables.find((t) => t.id === id)!, firstDay: scope.firstDay, lastDay: scope.lastDay };
 }
 
 /** For the benchmark: one named query on already-resolved filters. */
