@@ -20,18 +20,30 @@ const PERIOD_LABEL = { "30": "30 days", "90": "90 days", "365": "365 days", rang
 
 export function Filters({ filters, errors, options }: { filters: OverviewFilters; errors: Partial<Record<FilterKey, string>>; options: FilterChoices }) {
   const submit = useSubmit();
+  // Only the filters in use go into the URL (without scripts the browser sends every field; that works too).
+  const go = (form: HTMLFormElement) => {
+    const data = new FormData(form);
+    for (const [key, value] of [...data.entries()]) {
+      if (value === "" || ((key === "from" || key === "to") && data.get("period") !== "range")) data.delete(key);
+    }
+    submit(data, { method: "get", preventScrollReset: true });
+  };
   const more = Boolean(filters.make || filters.model || filters.treeId || filters.customerId || filters.siteId || filters.technicianId);
   return (
     <Form
       method="get"
       role="search"
       aria-label="Filter the overview"
-      className="card space-y-4"
+      className="group/filters card space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        go(e.currentTarget);
+      }}
       onChange={(e) => {
         const target = e.target as unknown as HTMLInputElement;
         // Dates wait for "Show": a half-typed date, or "Dates" picked before any date, is not a filter yet.
         if (target.type === "date" || (target.name === "period" && target.value === "range")) return;
-        submit(e.currentTarget, { preventScrollReset: true });
+        go(e.currentTarget);
       }}
     >
       <fieldset>
@@ -46,9 +58,12 @@ export function Filters({ filters, errors, options }: { filters: OverviewFilters
         </div>
         {errors.period && <p className="field-error">{errors.period}</p>}
       </fieldset>
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Field label="First day (with Dates)" name="from" type="date" defaultValue={filters.from ?? ""} error={errors.from} />
+      {/* The two days show once "Dates" is picked (CSS :has, so it works before scripts load too). */}
+      <div className={`${errors.from || errors.to ? "grid" : "hidden"} gap-3 group-has-[input[value=range]:checked]/filters:grid sm:grid-cols-2 lg:grid-cols-4`}>
+        <Field label="First day" name="from" type="date" defaultValue={filters.from ?? ""} error={errors.from} />
         <Field label="Last day" name="to" type="date" defaultValue={filters.to ?? ""} error={errors.to} />
+      </div>
+      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
         <SelectField label="Equipment category" name="category" defaultValue={filters.category ?? ""} error={errors.category}>
           <option value="">All categories</option>
           {options.categories.map((c) => (
