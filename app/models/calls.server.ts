@@ -216,7 +216,7 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ ok: true
       return n;
     },
   );
-  await recordNewCall(db(), ctx.shopId, input.unitId, id, now);
+  await recordNewCall(db(), ctx.shopId, input.unitId, now);
   return { ok: true, id, number };
 }
 

@@ -25,18 +25,26 @@ const TOP = 15;
 export type Failure = { ok: false; status: 403; message: string };
 const NOT_ALLOWED: Failure = { ok: false, status: 403, message: "The overview is for owners and leads." };
 
+/** The shop's key for a thing (a scalar subquery: no key, no rows). */
+const keyOf = (shopId: string, kind: string, name: string) => sql`(SELECT id FROM insight_keys WHERE shop_id = ${shopId} AND kind = ${kind} AND name = ${name})`;
+
 /** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). */
 function where(scope: Scope, a: string): SQL {
   const c = (name: string) => sql.raw(`${a}.${name}`);
   const f = scope.filters;
-  const parts: SQL[] = [sql`${c("shop_id")} = ${scope.shopId}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
-  if (f.category) parts.push(sql`${c("category")} = ${f.category}`);
-  if (f.make) parts.push(sql`${c("make")} = ${f.make}`);
-  if (f.model) parts.push(sql`${c("model")} = ${f.model}`);
-  if (f.treeId) parts.push(sql`${c("tree_id")} = ${f.treeId}`);
-  if (f.customerId) parts.push(sql`${c("customer_id")} = ${f.customerId}`);
-  if (f.siteId) parts.push(sql`${c("site_id")} = ${f.siteId}`);
-  if (f.technicianId) parts.push(sql`${c("technician_id")} = ${f.technicianId}`);
+  const shop = scope.shopId;
+  const parts: SQL[] = [sql`${c("shop_id")} = ${shop}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
+  if (f.category || f.make || f.model) {
+    const eq: SQL[] = [sql`shop_id = ${shop}`, sql`kind = 'equipment'`];
+    if (f.category) eq.push(sql`category = ${f.category}`);
+    if (f.make) eq.push(sql`make = ${f.make}`);
+    if (f.model) eq.push(sql`model = ${f.model}`);
+    parts.push(sql`${c("equipment_k")} IN (SELECT id FROM insight_keys WHERE ${sql.join(eq, sql` AND `)})`);
+  }
+  if (f.treeId) parts.push(sql`${c("tree_k")} = ${keyOf(shop, "tree", f.treeId)}`);
+  if (f.customerId) parts.push(sql`${c("customer_k")} = ${keyOf(shop, "customer", f.customerId)}`);
+  if (f.siteId) parts.push(sql`${c("site_k")} = ${keyOf(shop, "site", f.siteId)}`);
+  if (f.technicianId) parts.push(sql`${c("technician_k")} = ${keyOf(shop, "technician", f.technicianId)}`);
   return sql.join(parts, sql` AND `);
 }
 
@@ -48,32 +56,45 @@ async function rows<T>(query: SQL): Promise<T[]> {
 const num = (v: unknown) => Number(v ?? 0);
 const minutes = (seconds: number | null) => (seconds === null ? null : seconds / 60);
 
+type Key = { id: number; kind: string; name: string; category: string | null; make: string | null; model: string | null; a: string | null; b: string | null };
+
+/** The shop's keys by number, for labels (a few hundred rows at most; only the kinds asked for). */
+async function keysOf(shopId: string, ids: Iterable<unknown>): Promise<Map<number, Key>> {
+  const list = [...new Set([...ids].map(num))].filter((n) => n > 0);
+  if (!list.length) return new Map();
+  const found = await rows<Key>(sql`SELECT id, kind, name, category, make, model, a, b FROM insight_keys WHERE shop_id = ${shopId} AND id IN (${sql.join(list.map((n) => sql`${n}`), sql`, `)})`);
+  return new Map(found.map((k) => [num(k.id), k]));
+}
+
 async function treeTitles(shopId: string): Promise<Map<string, string>> {
   const list = await db().select({ id: trees.id, title: trees.title }).from(trees).where(eq(trees.shopId, shopId));
   return new Map(list.map((t) => [t.id, t.title]));
 }
 
-const equipmentLabel = (make: string, model: string) => (make || model ? `${make} ${model}`.trim() : "No unit recorded");
+const equipmentLabel = (k: Key | undefined) => (k?.make || k?.model ? `${k.make} ${k.model}`.trim() : "No unit recorded");
+const treeLabel = (k: Key | undefined, titles: Map<string, string>) => (k ? (titles.get(k.name) ?? "(a removed tree)") : "(a removed tree)");
 
 // --- the queries, one per figure ---------------------------------------------------------------
 
 async function rootCauses(scope: Scope): Promise<Table[]> {
-  const list = await rows<{ cause: string; n: number; total: number }>(sql`
-    SELECT f.root_cause AS cause, COUNT(*) AS n, SUM(COUNT(*)) OVER () AS total
+  const list = await rows<{ k: number; n: number }>(sql`
+    SELECT f.cause_k AS k, COUNT(*) AS n
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
-    GROUP BY f.root_cause ORDER BY n DESC, cause ASC`);
-  const total = num(list[0]?.total);
+    GROUP BY f.cause_k`);
+  const total = list.reduce((s, r) => s + num(r.n), 0);
+  const keys = await keysOf(scope.shopId, list.map((r) => r.k));
+  const sorted = list.map((r) => ({ cause: keys.get(num(r.k))?.name ?? "", runs: num(r.n) })).sort((a, b) => b.runs - a.runs || a.cause.localeCompare(b.cause));
   return [
     {
       id: "root-causes",
       title: "Most common root causes",
-      caption: `Root causes of ${total} completed run${total === 1 ? "" : "s"}${list.length > TOP ? `: the ${TOP} most common of ${list.length}` : ""}. Share is of all completed runs in the filters.`,
+      caption: `Root causes of ${total} completed run${total === 1 ? "" : "s"}${sorted.length > TOP ? `: the ${TOP} most common of ${sorted.length}` : ""}. Share is of all completed runs in the filters.`,
       columns: [
         { key: "cause", label: "Root cause", kind: "text" },
         { key: "runs", label: "Runs", kind: "count" },
         { key: "share", label: "Share", kind: "percent" },
       ],
-      rows: list.slice(0, TOP).map((r) => ({ cause: r.cause ?? "", runs: num(r.n), share: share(num(r.n), total) })),
+      rows: sorted.slice(0, TOP).map((r) => ({ ...r, share: share(r.runs, total) })),
     },
   ];
 }
@@ -81,34 +102,33 @@ async function rootCauses(scope: Scope): Promise<Table[]> {
 async function firstTimeFix(scope: Scope): Promise<Table[]> {
   const bucket =
     scope.months.length > 1
-    ? sql`CASE ${sql.join(
-        scope.months.slice(1).map((m, i) => sql`WHEN f.ended_at < ${m.start} THEN ${i}`),
-        sql` `,
-      )} ELSE ${scope.months.length - 1} END`
-    : sql`0`;
-  const list = await rows<{ month: number; category: string; make: string; model: string; calls: number; fixed: number }>(sql`
-    SELECT ${bucket} AS month, f.category, f.make, f.model, COUNT(*) AS calls,
-      SUM(f.first_on_call AND NOT f.came_back) AS fixed
-    FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.call_id IS NOT NULL
-    GROUP BY month, f.category, f.make, f.model`);
+      ? sql`CASE ${sql.join(
+          scope.months.slice(1).map((m, i) => sql`WHEN f.ended_at < ${m.start} THEN ${i}`),
+          sql` `,
+        )} ELSE ${scope.months.length - 1} END`
+      : sql`0`;
+  const list = await rows<{ month: number; k: number; calls: number; fixed: number }>(sql`
+    SELECT ${bucket} AS month, f.equipment_k AS k, COUNT(*) AS calls, SUM(f.first_on_call AND NOT f.came_back) AS fixed
+    FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.on_call
+    GROUP BY month, f.equipment_k`);
+  const keys = await keysOf(scope.shopId, list.map((r) => r.k));
   const byMonth = scope.months.map(() => ({ calls: 0, fixed: 0 }));
-  const byUnit = new Map<string, { category: string; make: string; model: string; calls: number; fixed: number }>();
+  const byUnit = new Map<number, { key: Key | undefined; calls: number; fixed: number }>();
   for (const r of list) {
     const m = byMonth[num(r.month)]!;
     m.calls += num(r.calls);
     m.fixed += num(r.fixed);
-    const key = `${r.category}\u0000${r.make}\u0000${r.model}`;
-    const u = byUnit.get(key) ?? { category: r.category, make: r.make, model: r.model, calls: 0, fixed: 0 };
+    const u = byUnit.get(num(r.k)) ?? { key: keys.get(num(r.k)), calls: 0, fixed: 0 };
     u.calls += num(r.calls);
     u.fixed += num(r.fixed);
-    byUnit.set(key, u);
+    byUnit.set(num(r.k), u);
   }
   const columns = [
     { key: "calls", label: "Calls closed", kind: "count" as const },
     { key: "fixed", label: "Fixed first time", kind: "count" as const },
     { key: "rate", label: "First-time-fix rate", kind: "percent" as const },
   ];
-  const equipment = [...byUnit.values()].sort((a, b) => b.calls - a.calls || equipmentLabel(a.make, a.model).localeCompare(equipmentLabel(b.make, b.model)));
+  const equipment = [...byUnit.values()].sort((a, b) => b.calls - a.calls || equipmentLabel(a.key).localeCompare(equipmentLabel(b.key)));
   return [
     {
       id: "first-time-fix-by-month",
@@ -122,7 +142,7 @@ async function firstTimeFix(scope: Scope): Promise<Table[]> {
       title: "First-time-fix rate by equipment",
       caption: `Calls closed per make and model${equipment.length > TOP ? `: the ${TOP} with the most calls of ${equipment.length}` : ""}.`,
       columns: [{ key: "category", label: "Category", kind: "text" }, { key: "equipment", label: "Make and model", kind: "text" }, ...columns],
-      rows: equipment.slice(0, TOP).map((u) => ({ category: u.category, equipment: equipmentLabel(u.make, u.model), calls: u.calls, fixed: u.fixed, rate: share(u.fixed, u.calls) })),
+      rows: equipment.slice(0, TOP).map((u) => ({ category: u.key?.category ?? "", equipment: equipmentLabel(u.key), calls: u.calls, fixed: u.fixed, rate: share(u.fixed, u.calls) })),
     },
   ];
 }
@@ -140,27 +160,39 @@ function timeRow(t: Times): { runs: number } & Row {
   };
 }
 
+/** "120,480,660" → [120, 480, 660] (GROUP_CONCAT of sorted numbers). */
+const numbers = (list: string | null) => (list ? list.split(",").map(Number) : []);
+
 async function timeToDiagnose(scope: Scope): Promise<Table[]> {
+  // One row per tree and equipment, each carrying its times sorted by the server: 50,000 runs come
+  // back as a few dozen strings rather than 50,000 rows.
   const [list, titles] = await Promise.all([
-    rows<{ t: string; c: string; mk: string; md: string; d: number | null; j: number | null }>(sql`
-      SELECT f.tree_id AS t, f.category AS c, f.make AS mk, f.model AS md, f.diagnose_seconds AS d, f.job_minutes AS j
-      FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'`),
+    rows<{ t: number; e: number; n: number; d: string | null; j: string | null; dn: number; jn: number }>(sql`
+      SELECT f.tree_k AS t, f.equipment_k AS e, COUNT(*) AS n,
+        COUNT(f.diagnose_seconds) AS dn, GROUP_CONCAT(f.diagnose_seconds ORDER BY f.diagnose_seconds SEPARATOR ',') AS d,
+        COUNT(f.job_minutes) AS jn, GROUP_CONCAT(f.job_minutes ORDER BY f.job_minutes SEPARATOR ',') AS j
+      FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
+      GROUP BY f.tree_k, f.equipment_k`),
     treeTitles(scope.shopId),
   ]);
   const all: Times = { diagnose: [], job: [] };
-  const byTree = new Map<string, Times>();
-  const byUnit = new Map<string, Times & { category: string; make: string; model: string }>();
+  const byTree = new Map<number, Times>();
+  const byUnit = new Map<number, Times>();
   for (const r of list) {
+    const d = numbers(r.d);
+    const j = numbers(r.j);
+    // group_concat_max_len (1 MiB by default) cuts a list short with only a warning: refuse to show wrong figures.
+    if (d.length !== num(r.dn) || j.length !== num(r.jn)) throw new Error("time lists were cut short: raise group_concat_max_len");
     const t = byTree.get(r.t) ?? { diagnose: [], job: [] };
     byTree.set(r.t, t);
-    const key = `${r.c}\u0000${r.mk}\u0000${r.md}`;
-    const u = byUnit.get(key) ?? { diagnose: [], job: [], category: r.c, make: r.mk, model: r.md };
-    byUnit.set(key, u);
+    const u = byUnit.get(r.e) ?? { diagnose: [], job: [] };
+    byUnit.set(r.e, u);
     for (const x of [all, t, u]) {
-      if (r.d !== null) x.diagnose.push(num(r.d));
-      if (r.j !== null) x.job.push(num(r.j));
+      for (const v of d) x.diagnose.push(v);
+      for (const v of j) x.job.push(v);
     }
   }
+  const keys = await keysOf(scope.shopId, [...byTree.keys(), ...byUnit.keys()]);
   const columns = [
     { key: "runs", label: "Runs", kind: "count" as const },
     { key: "diagnoseMedian", label: "To diagnose, median (min)", kind: "minutes" as const },
@@ -168,11 +200,11 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
     { key: "jobMedian", label: "On the job, median (min)", kind: "minutes" as const },
     { key: "jobP90", label: "On the job, 90th percentile (min)", kind: "minutes" as const },
   ];
-  const treeRows = [...byTree.entries()].map(([id, t]) => ({ tree: titles.get(id) ?? "(a removed tree)", ...timeRow(t) }));
-  treeRows.sort((a, b) => num(b.runs) - num(a.runs) || a.tree.localeCompare(b.tree));
+  const treeRows = [...byTree.entries()].map(([k, t]) => ({ tree: treeLabel(keys.get(k), titles), ...timeRow(t) }));
+  treeRows.sort((a, b) => b.runs - a.runs || a.tree.localeCompare(b.tree));
   if (treeRows.length) treeRows.unshift({ tree: "All trees", ...timeRow(all) });
-  const unitRows = [...byUnit.values()].map((u) => ({ category: u.category, equipment: equipmentLabel(u.make, u.model), ...timeRow(u) }));
-  unitRows.sort((a, b) => num(b.runs) - num(a.runs) || a.equipment.localeCompare(b.equipment));
+  const unitRows = [...byUnit.entries()].map(([k, u]) => ({ category: keys.get(k)?.category ?? "", equipment: equipmentLabel(keys.get(k)), ...timeRow(u) }));
+  unitRows.sort((a, b) => b.runs - a.runs || a.equipment.localeCompare(b.equipment));
   return [
     {
       id: "time-by-tree",
@@ -192,20 +224,24 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
 }
 
 async function parts(scope: Scope): Promise<Table[]> {
-  const list = await rows<{ make: string; model: string; pn: string; description: string; qty: number; runs: number }>(sql`
-    SELECT p.make, p.model, p.part_number AS pn, p.description, SUM(p.quantity) AS qty, COUNT(DISTINCT p.run_id) AS runs
+  const list = await rows<{ e: number; p: number; qty: number; runs: number }>(sql`
+    SELECT p.equipment_k AS e, p.part_k AS p, SUM(p.quantity) AS qty, COUNT(DISTINCT p.run_id) AS runs
     FROM insight_parts p WHERE ${where(scope, "p")}
-    GROUP BY p.make, p.model, p.part_number, p.description`);
-  const byPart = new Map<string, { pn: string; description: string; qty: number; runs: number }>();
+    GROUP BY p.equipment_k, p.part_k`);
+  const byPart = new Map<number, { p: number; qty: number; runs: number }>();
   for (const r of list) {
-    const key = `${r.pn}\u0000${r.description}`;
-    const x = byPart.get(key) ?? { pn: r.pn, description: r.description, qty: 0, runs: 0 };
+    const x = byPart.get(num(r.p)) ?? { p: num(r.p), qty: 0, runs: 0 };
     x.qty += num(r.qty);
     x.runs += num(r.runs);
-    byPart.set(key, x);
+    byPart.set(num(r.p), x);
   }
-  const top = [...byPart.values()].sort((a, b) => b.qty - a.qty || a.description.localeCompare(b.description));
-  const perModel = [...list].sort((a, b) => num(b.qty) - num(a.qty) || equipmentLabel(a.make, a.model).localeCompare(equipmentLabel(b.make, b.model)) || a.description.localeCompare(b.description));
+  const keys = await keysOf(scope.shopId, [...list.map((r) => r.e), ...list.map((r) => r.p)]);
+  const desc = (k: number) => keys.get(k)?.b ?? "";
+  const pn = (k: number) => keys.get(k)?.a ?? "";
+  const top = [...byPart.values()].sort((a, b) => b.qty - a.qty || desc(a.p).localeCompare(desc(b.p)));
+  const perModel = list
+    .map((r) => ({ equipment: equipmentLabel(keys.get(num(r.e))), partNumber: pn(num(r.p)), description: desc(num(r.p)), quantity: num(r.qty), runs: num(r.runs) }))
+    .sort((a, b) => b.quantity - a.quantity || a.equipment.localeCompare(b.equipment) || a.description.localeCompare(b.description));
   return [
     {
       id: "parts",
@@ -217,7 +253,7 @@ async function parts(scope: Scope): Promise<Table[]> {
         { key: "quantity", label: "Quantity", kind: "count" },
         { key: "runs", label: "Runs", kind: "count" },
       ],
-      rows: top.slice(0, TOP).map((p) => ({ partNumber: p.pn, description: p.description, quantity: p.qty, runs: p.runs })),
+      rows: top.slice(0, TOP).map((p) => ({ partNumber: pn(p.p), description: desc(p.p), quantity: p.qty, runs: p.runs })),
     },
     {
       id: "parts-by-model",
@@ -230,23 +266,23 @@ async function parts(scope: Scope): Promise<Table[]> {
         { key: "quantity", label: "Quantity", kind: "count" },
         { key: "runs", label: "Runs", kind: "count" },
       ],
-      rows: perModel.slice(0, TOP * 2).map((p) => ({ equipment: equipmentLabel(p.make, p.model), partNumber: p.pn, description: p.description, quantity: num(p.qty), runs: num(p.runs) })),
+      rows: perModel.slice(0, TOP * 2),
     },
   ];
 }
 
 async function readingsOutOfLimits(scope: Scope): Promise<Table[]> {
-  const list = await rows<{ t: string; node: string; n: number; out: number; marginal: number }>(sql`
-    SELECT r.tree_id AS t, r.node_key AS node, COUNT(*) AS n,
-      SUM(r.verdict IN ('low', 'high')) AS \`out\`, SUM(r.verdict = 'marginal') AS marginal
+  const list = await rows<{ k: number; n: number; out: number; marginal: number }>(sql`
+    SELECT r.node_k AS k, COUNT(*) AS n, SUM(r.verdict IN ('low', 'high')) AS \`out\`, SUM(r.verdict = 'marginal') AS marginal
     FROM insight_readings r WHERE ${where(scope, "r")}
-    GROUP BY r.tree_id, r.node_key`);
+    GROUP BY r.node_k`);
   const top = list
-    .map((r) => ({ ...r, n: num(r.n), out: num(r.out), marginal: num(r.marginal) }))
+    .map((r) => ({ k: num(r.k), n: num(r.n), out: num(r.out), marginal: num(r.marginal) }))
     .filter((r) => r.out > 0)
-    .sort((a, b) => b.out - a.out || b.out / b.n - a.out / a.n || a.node.localeCompare(b.node))
+    .sort((a, b) => b.out - a.out || b.out / b.n - a.out / a.n || a.k - b.k)
     .slice(0, TOP);
-  const [titles, nodes] = await Promise.all([treeTitles(scope.shopId), stepTitles(scope.shopId, top.map((r) => r.t))]);
+  const keys = await keysOf(scope.shopId, top.map((r) => r.k));
+  const [titles, nodes] = await Promise.all([treeTitles(scope.shopId), stepTitles(scope.shopId, [...keys.values()].map((k) => k.a ?? ""))]);
   return [
     {
       id: "readings-out-of-limits",
@@ -260,7 +296,10 @@ async function readingsOutOfLimits(scope: Scope): Promise<Table[]> {
         { key: "share", label: "Share out of limits", kind: "percent" },
         { key: "marginal", label: "Marginal", kind: "count" },
       ],
-      rows: top.map((r) => ({ step: nodes.get(`${r.t}\u0000${r.node}`) ?? r.node, tree: titles.get(r.t) ?? "", readings: r.n, out: r.out, share: share(r.out, r.n), marginal: r.marginal })),
+      rows: top.map((r) => {
+        const k = keys.get(r.k);
+        return { step: nodes.get(`${k?.a}\u0000${k?.b}`) ?? k?.b ?? "", tree: titles.get(k?.a ?? "") ?? "", readings: r.n, out: r.out, share: share(r.out, r.n), marginal: r.marginal };
+      }),
     },
   ];
 }
@@ -279,13 +318,14 @@ async function stepTitles(shopId: string, treeIds: string[]): Promise<Map<string
 
 async function handOffs(scope: Scope): Promise<Table[]> {
   const [list, titles] = await Promise.all([
-    rows<{ t: string; n: number; handed: number }>(sql`
-      SELECT f.tree_id AS t, COUNT(*) AS n, SUM(f.escalated) AS handed
+    rows<{ t: number; n: number; handed: number }>(sql`
+      SELECT f.tree_k AS t, COUNT(*) AS n, SUM(f.escalated) AS handed
       FROM insight_runs f WHERE ${where(scope, "f")}
-      GROUP BY f.tree_id`),
+      GROUP BY f.tree_k`),
     treeTitles(scope.shopId),
   ]);
-  const byTree = list.map((r) => ({ tree: titles.get(r.t) ?? "(a removed tree)", runs: num(r.n), handed: num(r.handed), share: share(num(r.handed), num(r.n)) }));
+  const keys = await keysOf(scope.shopId, list.map((r) => r.t));
+  const byTree = list.map((r) => ({ tree: treeLabel(keys.get(num(r.t)), titles), runs: num(r.n), handed: num(r.handed), share: share(num(r.handed), num(r.n)) }));
   byTree.sort((a, b) => b.handed - a.handed || b.runs - a.runs || a.tree.localeCompare(b.tree));
   return [
     {
