@@ -25,26 +25,41 @@ const TOP = 15;
 export type Failure = { ok: false; status: 403; message: string };
 const NOT_ALLOWED: Failure = { ok: false, status: 403, message: "The overview is for owners and leads." };
 
-/** The shop's key for a thing (a scalar subquery: no key, no rows). */
-const keyOf = (shopId: string, kind: string, name: string) => sql`(SELECT id FROM insight_keys WHERE shop_id = ${shopId} AND kind = ${kind} AND name = ${name})`;
+type Keyed = Scope & { keys: FilterKeys };
 
-/** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). */
-function where(scope: Scope, a: string): SQL {
-  const c = (name: string) => sql.raw(`${a}.${name}`);
+/** The filters' things as the shop's keys, looked up once so no scan runs a subquery per row. */
+type FilterKeys = { equipment: number[] | null; tree: number | null; customer: number | null; site: number | null; technician: number | null };
+
+async function filterKeys(scope: Scope): Promise<FilterKeys> {
   const f = scope.filters;
   const shop = scope.shopId;
-  const parts: SQL[] = [sql`${c("shop_id")} = ${shop}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
-  if (f.category || f.make || f.model) {
+  const one = async (kind: string, name: string | undefined) => {
+    if (!name) return null;
+    const [k] = await rows<{ id: number }>(sql`SELECT id FROM insight_keys WHERE shop_id = ${shop} AND kind = ${kind} AND name = ${name}`);
+    return k ? num(k.id) : 0;
+  };
+  const equipment = async () => {
+    if (!f.category && !f.make && !f.model) return null;
     const eq: SQL[] = [sql`shop_id = ${shop}`, sql`kind = 'equipment'`];
     if (f.category) eq.push(sql`category = ${f.category}`);
     if (f.make) eq.push(sql`make = ${f.make}`);
     if (f.model) eq.push(sql`model = ${f.model}`);
-    parts.push(sql`${c("equipment_k")} IN (SELECT id FROM insight_keys WHERE ${sql.join(eq, sql` AND `)})`);
-  }
-  if (f.treeId) parts.push(sql`${c("tree_k")} = ${keyOf(shop, "tree", f.treeId)}`);
-  if (f.customerId) parts.push(sql`${c("customer_k")} = ${keyOf(shop, "customer", f.customerId)}`);
-  if (f.siteId) parts.push(sql`${c("site_k")} = ${keyOf(shop, "site", f.siteId)}`);
-  if (f.technicianId) parts.push(sql`${c("technician_k")} = ${keyOf(shop, "technician", f.technicianId)}`);
+    return (await rows<{ id: number }>(sql`SELECT id FROM insight_keys WHERE ${sql.join(eq, sql` AND `)}`)).map((k) => num(k.id));
+  };
+  const [e, tree, customer, site, technician] = await Promise.all([equipment(), one("tree", f.treeId), one("customer", f.customerId), one("site", f.siteId), one("technician", f.technicianId)]);
+  return { equipment: e, tree, customer, site, technician };
+}
+
+/** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). A thing never seen matches nothing. */
+function where(scope: Scope & { keys: FilterKeys }, a: string): SQL {
+  const c = (name: string) => sql.raw(`${a}.${name}`);
+  const k = scope.keys;
+  const parts: SQL[] = [sql`${c("shop_id")} = ${scope.shopId}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
+  if (k.equipment) parts.push(k.equipment.length ? sql`${c("equipment_k")} IN (${sql.join(k.equipment.map((n) => sql`${n}`), sql`, `)})` : sql`FALSE`);
+  if (k.tree !== null) parts.push(sql`${c("tree_k")} = ${k.tree}`);
+  if (k.customer !== null) parts.push(sql`${c("customer_k")} = ${k.customer}`);
+  if (k.site !== null) parts.push(sql`${c("site_k")} = ${k.site}`);
+  if (k.technician !== null) parts.push(sql`${c("technician_k")} = ${k.technician}`);
   return sql.join(parts, sql` AND `);
 }
 
@@ -76,11 +91,11 @@ const treeLabel = (k: Key | undefined, titles: Map<string, string>) => (k ? (tit
 
 // --- the queries, one per figure ---------------------------------------------------------------
 
-async function rootCauses(scope: Scope): Promise<Table[]> {
+async function rootCauses(scope: Keyed): Promise<Table[]> {
   const list = await rows<{ k: number; n: number }>(sql`
     SELECT f.cause_k AS k, COUNT(*) AS n
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
-    GROUP BY f.cause_k`);
+    GROUP BY f.cause_k ORDER BY NULL`);
   const total = list.reduce((s, r) => s + num(r.n), 0);
   const keys = await keysOf(scope.shopId, list.map((r) => r.k));
   const sorted = list.map((r) => ({ cause: keys.get(num(r.k))?.name ?? "", runs: num(r.n) })).sort((a, b) => b.runs - a.runs || a.cause.localeCompare(b.cause));
@@ -99,7 +114,7 @@ async function rootCauses(scope: Scope): Promise<Table[]> {
   ];
 }
 
-async function firstTimeFix(scope: Scope): Promise<Table[]> {
+async function firstTimeFix(scope: Keyed): Promise<Table[]> {
   const bucket =
     scope.months.length > 1
       ? sql`CASE ${sql.join(
@@ -110,7 +125,7 @@ async function firstTimeFix(scope: Scope): Promise<Table[]> {
   const list = await rows<{ month: number; k: number; calls: number; fixed: number }>(sql`
     SELECT ${bucket} AS month, f.equipment_k AS k, COUNT(*) AS calls, SUM(f.first_on_call AND NOT f.came_back) AS fixed
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.on_call
-    GROUP BY month, f.equipment_k`);
+    GROUP BY month, f.equipment_k ORDER BY NULL`);
   const keys = await keysOf(scope.shopId, list.map((r) => r.k));
   const byMonth = scope.months.map(() => ({ calls: 0, fixed: 0 }));
   const byUnit = new Map<number, { key: Key | undefined; calls: number; fixed: number }>();
@@ -163,7 +178,7 @@ function timeRow(t: Times): { runs: number } & Row {
 /** "120,480,660" → [120, 480, 660] (GROUP_CONCAT of sorted numbers). */
 const numbers = (list: string | null) => (list ? list.split(",").map(Number) : []);
 
-async function timeToDiagnose(scope: Scope): Promise<Table[]> {
+async function timeToDiagnose(scope: Keyed): Promise<Table[]> {
   // One row per tree and equipment, each carrying its times sorted by the server: 50,000 runs come
   // back as a few dozen strings rather than 50,000 rows.
   const [list, titles] = await Promise.all([
@@ -172,7 +187,7 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
         COUNT(f.diagnose_seconds) AS dn, GROUP_CONCAT(f.diagnose_seconds ORDER BY f.diagnose_seconds SEPARATOR ',') AS d,
         COUNT(f.job_minutes) AS jn, GROUP_CONCAT(f.job_minutes ORDER BY f.job_minutes SEPARATOR ',') AS j
       FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
-      GROUP BY f.tree_k, f.equipment_k`),
+      GROUP BY f.tree_k, f.equipment_k ORDER BY NULL`),
     treeTitles(scope.shopId),
   ]);
   const all: Times = { diagnose: [], job: [] };
@@ -223,11 +238,11 @@ async function timeToDiagnose(scope: Scope): Promise<Table[]> {
   ];
 }
 
-async function parts(scope: Scope): Promise<Table[]> {
+async function parts(scope: Keyed): Promise<Table[]> {
   const list = await rows<{ e: number; p: number; qty: number; runs: number }>(sql`
     SELECT p.equipment_k AS e, p.part_k AS p, SUM(p.quantity) AS qty, COUNT(DISTINCT p.run_id) AS runs
     FROM insight_parts p WHERE ${where(scope, "p")}
-    GROUP BY p.equipment_k, p.part_k`);
+    GROUP BY p.equipment_k, p.part_k ORDER BY NULL`);
   const byPart = new Map<number, { p: number; qty: number; runs: number }>();
   for (const r of list) {
     const x = byPart.get(num(r.p)) ?? { p: num(r.p), qty: 0, runs: 0 };
@@ -271,11 +286,11 @@ async function parts(scope: Scope): Promise<Table[]> {
   ];
 }
 
-async function readingsOutOfLimits(scope: Scope): Promise<Table[]> {
+async function readingsOutOfLimits(scope: Keyed): Promise<Table[]> {
   const list = await rows<{ k: number; n: number; out: number; marginal: number }>(sql`
     SELECT r.node_k AS k, COUNT(*) AS n, SUM(r.verdict IN ('low', 'high')) AS \`out\`, SUM(r.verdict = 'marginal') AS marginal
     FROM insight_readings r WHERE ${where(scope, "r")}
-    GROUP BY r.node_k`);
+    GROUP BY r.node_k ORDER BY NULL`);
   const top = list
     .map((r) => ({ k: num(r.k), n: num(r.n), out: num(r.out), marginal: num(r.marginal) }))
     .filter((r) => r.out > 0)
@@ -316,12 +331,12 @@ async function stepTitles(shopId: string, treeIds: string[]): Promise<Map<string
   return new Map(list.map((n) => [`${n.treeId}\u0000${n.node}`, n.title]));
 }
 
-async function handOffs(scope: Scope): Promise<Table[]> {
+async function handOffs(scope: Keyed): Promise<Table[]> {
   const [list, titles] = await Promise.all([
     rows<{ t: number; n: number; handed: number }>(sql`
       SELECT f.tree_k AS t, COUNT(*) AS n, SUM(f.escalated) AS handed
       FROM insight_runs f WHERE ${where(scope, "f")}
-      GROUP BY f.tree_k`),
+      GROUP BY f.tree_k ORDER BY NULL`),
     treeTitles(scope.shopId),
   ]);
   const keys = await keysOf(scope.shopId, list.map((r) => r.t));
@@ -343,7 +358,7 @@ async function handOffs(scope: Scope): Promise<Table[]> {
   ];
 }
 
-const QUERIES: Record<string, (scope: Scope) => Promise<Table[]>> = { rootCauses, firstTimeFix, timeToDiagnose, parts, readingsOutOfLimits, handOffs };
+const QUERIES: Record<string, (scope: Keyed) => Promise<Table[]>> = { rootCauses, firstTimeFix, timeToDiagnose, parts, readingsOutOfLimits, handOffs };
 export const QUERY_NAMES = Object.keys(QUERIES);
 
 const TABLE_QUERY: Record<TableId, keyof typeof QUERIES> = {
@@ -402,8 +417,9 @@ export async function filterOptions(ctx: Ctx, filters: Pick<OverviewFilters, "cu
 
 const mayRead = (ctx: Ctx) => roleAllows(ctx.role, ["lead"]);
 
-async function scopeOf(ctx: Ctx, filters: OverviewFilters, now?: Date): Promise<Scope> {
-  return resolveScope(ctx.shopId, filters, await shopTimeZone(ctx), now);
+async function scopeOf(ctx: Ctx, filters: OverviewFilters, now?: Date): Promise<Keyed> {
+  const scope = resolveScope(ctx.shopId, filters, await shopTimeZone(ctx), now);
+  return { ...scope, keys: await filterKeys(scope) };
 }
 
 /** Everything the overview shows, for owners and leads of the caller's shop. */
