@@ -11,11 +11,12 @@ const ROW = 46;
 const LABEL = 18;
 const BAR = 16;
 
-export function BarChart({ data, label }: { data: BarDatum[]; label: string }) {
+/** `max`: the scale's end (1 for shares, so 9 % never looks like a full bar); the largest value otherwise. */
+export function BarChart({ data, label, max: fixed }: { data: BarDatum[]; label: string; max?: number }) {
   const { parentRef, width: measured } = useParentSize({ initialSize: { width: 640 }, debounceTime: 60 });
   const width = Math.max(measured || 640, 240);
   const height = Math.max(data.length, 1) * ROW;
-  const max = Math.max(0, ...data.map((d) => d.value));
+  const max = fixed ?? Math.max(0, ...data.map((d) => d.value));
   const valueRoom = 76;
   const x = scaleLinear<number>({ domain: [0, max || 1], range: [0, width - valueRoom] });
   // About 7.5 px a character at 15 px: a longer label is cut with an ellipsis (the table has it whole).

@@ -81,7 +81,7 @@ export function Overview({ data }: { data: OverviewData }) {
       <Figure
         table={t["first-time-fix-by-equipment"]}
         query={q}
-        chart={<BarChart data={bars(t["first-time-fix-by-equipment"], "rate", (r) => String(r.equipment))} label="Bar chart of the first-time-fix rate per make and model; the table below has the same figures." />}
+        chart={<BarChart max={1} data={bars(t["first-time-fix-by-equipment"], "rate", (r) => String(r.equipment))} label="Bar chart of the first-time-fix rate per make and model; the table below has the same figures." />}
       />
 
       <h2 className="text-xl font-bold">Time to diagnose and time on the job</h2>
@@ -94,7 +94,7 @@ export function Overview({ data }: { data: OverviewData }) {
 
       <h2 className="text-xl font-bold">Readings and hand-offs</h2>
       <Figure table={t["readings-out-of-limits"]} query={q} chart={<BarChart data={bars(t["readings-out-of-limits"], "out")} label="Bar chart of out-of-limits readings per measurement step; the table below has the same figures." />} />
-      <Figure table={t["hand-offs"]} query={q} chart={<BarChart data={bars(t["hand-offs"], "share")} label="Bar chart of the share of runs handed to a lead per tree; the table below has the same figures." />} />
+      <Figure table={t["hand-offs"]} query={q} chart={<BarChart max={1} data={bars(t["hand-offs"], "share")} label="Bar chart of the share of runs handed to a lead per tree; the table below has the same figures." />} />
     </div>
   );
 }
