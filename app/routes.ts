@@ -21,6 +21,9 @@ export default [
   route("api/runs/:runId/outcome", "routes/api.runs.$runId.outcome.ts"),
   route("api/photos/:photoId", "routes/api.photos.$photoId.ts"),
   route("api/reports/:reportId/send", "routes/api.reports.$reportId.send.ts"),
+  // Owner insights: CSV of one overview table, and "found here before" for the runner.
+  route("api/insights/csv/:table", "routes/api.insights.csv.ts"),
+  route("api/insights/found-here", "routes/api.insights.found-here.ts"),
   // Field runs: the phone runner and the printable report, full screen (outside the shell).
   route("runs/:runId", "routes/runs.$runId.tsx"),
   route("reports/:reportId", "routes/reports.$reportId.tsx"),

@@ -51,7 +51,7 @@ export const POLICY = {
   "outbox.view": { roles: LEADS, refusal: "The outbox is for leads and owners." },
   "people.manage": { roles: ["owner"], refusal: "Only the shop's owner invites people and withdraws invitations." },
   "audit.view": { roles: ["owner"], refusal: "The audit trail is for the shop's owner." },
-  "shop.overview": { roles: ["owner"], refusal: "The overview is for the shop's owner." },
+  "shop.overview": { roles: LEADS, refusal: "The overview is for the shop's owner and its leads." },
   "training.view": { roles: ["trainer"], refusal: "Training is the trainer's page." },
 } as const satisfies Record<string, Rule>;
 

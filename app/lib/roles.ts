@@ -23,7 +23,7 @@ export const NAV: readonly NavItem[] = [
   { to: "/calls", label: "My calls", roles: ["technician"] },
   { to: "/authoring", label: "Authoring", roles: ["lead"] },
   { to: "/training", label: "Training", roles: ["trainer"] },
-  { to: "/overview", label: "Overview", roles: ["owner"] },
+  { to: "/overview", label: "Overview", roles: ["owner", "lead"] },
   { to: "/calls/all", label: "Calls", roles: ["lead", "owner"] },
   { to: "/trees", label: "Trees", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/equipment", label: "Equipment", roles: ["technician", "lead", "trainer", "owner"] },

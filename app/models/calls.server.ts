@@ -23,6 +23,7 @@ import { authorize } from "../lib/policy";
 import { fieldRefusal, notFound } from "../lib/refusal";
 import { withNextNumber, withPlace } from "./_query.server";
 import { searchUnits } from "./equipment.server";
+import { recordNewCall } from "./insights/_facts.server";
 import { listPublished, type PublishedTreeSummary } from "./trees/library.server";
 
 
@@ -211,6 +212,7 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ id: stri
       return n;
     },
   );
+  await recordNewCall(db(), ctx.shopId, input.unitId, now);
   return { id, number };
 }
 

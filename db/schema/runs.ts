@@ -56,6 +56,8 @@ export const serviceCalls = mysqlTable(
     index("service_calls_shop_status_idx").on(t.shopId, t.status),
     index("service_calls_assigned_idx").on(t.assignedTo, t.status),
     index("service_calls_unit_idx").on(t.unitId),
+    // Owner insights: "no new call on the same unit within 30 days" probes this per closed call.
+    index("service_calls_unit_opened_idx").on(t.shopId, t.unitId, t.openedAt),
   ],
 );
 

@@ -65,7 +65,9 @@ const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }
   "/calls": { read: ["technician"] },
   "/authoring": { read: LEADS },
   "/training": { read: ["trainer"] },
-  "/overview": { read: ["owner"] },
+  "/overview": { read: LEADS },
+  "/api/insights/csv/:table": { read: LEADS },
+  "/api/insights/found-here": { read: ALL },
   "/equipment": { read: ALL },
   "/equipment/:unitId": { read: ALL },
   "/calls/all": { read: ALL },
@@ -172,6 +174,7 @@ async function demoShopRecords(): Promise<Sample> {
       meterId: stableId(meter.key),
       token: invitation.token,
       ref: "1",
+      table: "parts",
     },
     markers: [symptom, `sweep marker active call ${t}`, title, equipment, email, done.partNumber, customer.name, site.name, site.contactEmail, unit.serial, meter.name],
   };
@@ -179,7 +182,8 @@ async function demoShopRecords(): Promise<Sample> {
 
 /** The same parameter names, filled with ids that exist in no shop. */
 function unknownIds(p: Record<string, string>): Record<string, string> {
-  return Object.fromEntries(Object.entries(p).map(([k, v]) => [k, k === "ref" ? v : crypto.randomUUID()]));
+  // `ref` (a version number) and `table` (an overview table's name) are not ids.
+  return Object.fromEntries(Object.entries(p).map(([k, v]) => [k, k === "ref" || k === "table" ? v : crypto.randomUUID()]));
 }
 
 // --- requests -------------------------------------------------------------------------------------

@@ -11,11 +11,14 @@ import { stableId } from "../../db/seed";
 import { serializeTree } from "../../app/engine/markdown/serialize";
 import { reportMailHtml } from "../../app/components/report/reportMail";
 import type { Ctx } from "../../app/lib/context";
+import { parseFilters } from "../../app/lib/insights/filters";
 import { closeDb, db } from "../../app/lib/db.server";
 import { can, POLICY, type Action } from "../../app/lib/policy";
 import * as audit from "../../app/models/audit.server";
 import * as calls from "../../app/models/calls.server";
 import * as equipment from "../../app/models/equipment.server";
+import * as foundHere from "../../app/models/insights/found-here.server";
+import * as insights from "../../app/models/insights/overview.server";
 import * as meters from "../../app/models/meters.server";
 import * as outbox from "../../app/models/outbox.server";
 import * as people from "../../app/models/people.server";
@@ -134,6 +137,12 @@ const ROWS: Row[] = [
   row(equipment.getSiteWithCustomer, "equipment.view", nothing, (c) => equipment.getSiteWithCustomer(c, siteId)),
   row(equipment.unitsAt, "equipment.view", nothing, (c) => equipment.unitsAt(c, siteId)),
   row(equipment.shopCounts, "shop.overview", nothing, (c) => equipment.shopCounts(c)),
+  // owner insights
+  row(insights.overview, "shop.overview", nothing, (c) => insights.overview(c, parseFilters(new URLSearchParams("period=30")).filters)),
+  row(insights.overviewTable, "shop.overview", nothing, (c) => insights.overviewTable(c, parseFilters(new URLSearchParams("period=30")).filters, "parts")),
+  row(insights.runQuery, "shop.overview", nothing, (c) => insights.runQuery(c, "rootCauses", parseFilters(new URLSearchParams("period=30")).filters)),
+  row(insights.filterOptions, "shop.overview", nothing, (c) => insights.filterOptions(c, {})),
+  row(foundHere.foundHereBefore, "runs.view", publishedTree, (c, t) => foundHere.foundHereBefore(c, { versionId: t.versionId })),
   row(equipment.createCustomer, "equipment.write", nothing, (c) => equipment.createCustomer(c, { name: `Quarry Bakery ${tag()}`, phone: null })),
   row(equipment.updateCustomer, "equipment.write", () => equipment.createCustomer(lead, { name: `Mill Cafe ${tag()}`, phone: null }), (c, id) => equipment.updateCustomer(c, id, { name: "Mill Cafe", phone: "555-0100" })),
   row(equipment.createSite, "equipment.write", () => equipment.createCustomer(lead, { name: `Ford Diner ${tag()}`, phone: null }), (c, id) => equipment.createSite(c, id, site)),

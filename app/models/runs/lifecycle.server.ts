@@ -10,6 +10,7 @@ import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { lockOwn, withNextNumber } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
+import { recordRunFacts } from "../insights/_facts.server";
 
 export const statusInput = z.discriminatedUnion("action", [
   z.object({ action: z.literal("pause") }),
@@ -66,6 +67,7 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
         await set({ status: "abandoned", abandonReason: input.reason, completedAt: now });
         await closeEscalations(tx, runId);
         await setCallStatus(tx, run.callId, "open", ["in_progress", "escalated"]);
+        await recordRunFacts(tx, runId);
         return { status: "abandoned" };
       case "escalate": {
         authorize(ctx, "runs.escalate", facts);
@@ -141,6 +143,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
+    await recordRunFacts(tx, runId);
     const id = crypto.randomUUID();
     const number = await withNextNumber(
       async () => {
