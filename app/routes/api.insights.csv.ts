@@ -2,7 +2,7 @@
 // string) as the page, so it holds exactly the rows the page shows. Owners and leads.
 import { z } from "zod";
 import { requireUser } from "~/lib/auth.server";
-import { notFound } from "~/lib/refusal";
+import { Refusal } from "~/lib/refusal";
 import { api } from "~/lib/route.server";
 import { parseFilters } from "~/lib/insights/filters";
 import { TABLE_IDS, toCsv } from "~/lib/insights/table";
@@ -12,7 +12,7 @@ import type { Route } from "./+types/api.insights.csv";
 export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request, "shop.overview");
   const id = z.enum(TABLE_IDS).safeParse(params.table);
-  if (!id.success) notFound("That table of the overview");
+  if (!id.success) throw new Refusal("not-found", "There is no such table on the overview.");
   const { filters } = parseFilters(new URL(request.url).searchParams);
   const result = await overviewTable(ctx, filters, id.data);
   const name = `${id.data}_${result.firstDay}_${result.lastDay}.csv`;

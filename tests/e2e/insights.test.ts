@@ -121,8 +121,8 @@ describe("the build keeps the chart library on the overview", () => {
     };
     for (const h of holders) {
       const users = routes.filter(([, r]) => [r.module, ...(r.imports ?? [])].some((f) => f.endsWith(h))).map(([id]) => id);
-      expect(users, h).toEqual(["routes/home-owner"]);
+      expect(users, h).toEqual(["routes/overview"]);
     }
-    expect(loads("routes/runner").some((f) => holders.some((h) => f.endsWith(h)))).toBe(false);
+    expect(loads("routes/runs.$runId").some((f) => holders.some((h) => f.endsWith(h)))).toBe(false);
   });
 });
