@@ -83,11 +83,11 @@ function Did({ step, typed, trainee }: { step: ReviewStep & StepFlags; typed?: s
   return <p className="text-ink-soft">{step.kind === "caution" ? "Acknowledged" : "Done"}</p>;
 }
 
-const ROW_MARK: Record<ReviewRow["kind"], { label: string; cls: string } | null> = {
+const ROW_MARK: Record<ReviewRow["kind"], { label: string; cls: string; word: string } | null> = {
   same: null,
-  turn: { label: "Different way", cls: "border-out bg-out-soft" },
-  "trainee-only": { label: "Not needed by the reference", cls: "border-marginal bg-marginal-soft" },
-  "reference-only": { label: "Not reached", cls: "border-rule bg-paper" },
+  turn: { label: "Different way", cls: "border-out bg-out-soft", word: "text-out" },
+  "trainee-only": { label: "Not needed by the reference", cls: "border-marginal bg-marginal-soft", word: "text-marginal" },
+  "reference-only": { label: "Not reached", cls: "border-rule bg-paper", word: "text-ink-soft" },
 };
 
 export default function ReviewPage({ loaderData, actionData }: Route.ComponentProps) {
@@ -197,13 +197,13 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
             </thead>
             <tbody>
               {review.rows.map((row, i) => {
-                const mark = i === turn?.row ? { label: "First wrong turn", cls: "border-out bg-out-soft" } : ROW_MARK[row.kind];
+                const mark = i === turn?.row ? { label: "First wrong turn", cls: "border-out bg-out-soft", word: "text-out" } : ROW_MARK[row.kind];
                 const seq = row.trainee?.index;
                 const onStep = seq === undefined ? [] : comments.filter((c) => c.seq === seq);
                 return (
                   <tr key={i} className={`border-b border-rule align-top last:border-0 ${mark ? `border-l-8 ${mark.cls}` : ""}`} aria-label={mark ? `${mark.label}: ${title(row.node)}` : undefined}>
                     <td className="px-3 py-2">
-                      {mark && <p className="text-sm font-bold uppercase tracking-wide text-out">{mark.label}</p>}
+                      {mark && <p className={`text-sm font-bold uppercase tracking-wide ${mark.word}`}>{mark.label}</p>}
                       <p className="text-sm font-semibold uppercase tracking-wide text-copper-dark">{KIND[t[row.node]?.kind ?? "step"]}</p>
                       <p className="font-semibold">{title(row.node)}</p>
                     </td>
@@ -216,7 +216,8 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                         </p>
                       ))}
                       {seq !== undefined && (
-                        <details className="mt-1">
+                        // A fresh, closed form once the comment is saved.
+                        <details key={onStep.length} className="mt-1">
                           <summary className="min-h-11 cursor-pointer py-2 text-base font-semibold text-copper-dark">Comment on this step</summary>
                           <Form method="post" action="?intent=comment" className="space-y-2">
                             <input type="hidden" name="seq" value={seq} />

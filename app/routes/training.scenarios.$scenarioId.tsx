@@ -160,7 +160,8 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
                   </>
                 )}
                 {r.scripted?.kind === "nameplate" && <>Label: {r.scripted.label}</>}
-                {(r.kind === "caution" || r.kind === "step") && "Acknowledged / done"}
+                {r.kind === "caution" && "Acknowledged"}
+                {r.kind === "step" && "Done"}
               </span>
             </li>
           ))}
@@ -179,7 +180,8 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
         ) : technicians.length === 0 ? (
           <p className="card text-ink-soft">The shop has no technicians to assign practice to.</p>
         ) : (
-          <Form method="post" className="card space-y-3">
+          // A fresh form once an assignment is made (nothing left ticked).
+          <Form key={assignments.length} method="post" className="card space-y-3">
             <input type="hidden" name="intent" value="assign" />
             <fieldset>
               <legend className="field-label">Technicians</legend>

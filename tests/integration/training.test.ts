@@ -157,7 +157,9 @@ describe("a practice run follows the trainee's call", () => {
     await expect(finishPractice(tech, runId)).resolves.toEqual({ status: "done" });
     const done = await getRunView(tech, runId);
     expect(done.practice?.fault).toEqual({ node: "cap-failed", title: "Failed run capacitor" });
-    expect(done.run.rootCause).toBe("Failed fan motor — weak winding");
+    // Where it ended is the end node's; no root cause goes on the run (root causes are the owner's figures).
+    expect(done.run.rootCause).toBeNull();
+    expect(done.run.endKind).toBe("outcome");
 
     // The review.
     const r = await getPracticeReview(trainer, runId);

@@ -6,8 +6,15 @@ import { useMemo, useState } from "react";
 import { Labelled } from "~/components/Field";
 import { formatLimits } from "~/engine/markdown/syntax";
 import { nodesToward } from "~/engine/training/script";
-import type { Tree, TreeNode } from "~/engine/types";
+import { computeLimits } from "~/engine/limits";
+import type { MeasurementNode, Tree, TreeNode } from "~/engine/types";
 import { scriptableSteps, worldField } from "~/lib/training";
+
+/** The limits as the technician reads them when they are fixed, else as the author wrote them ("rated_uf ± 6 %"). */
+function limitsText(node: MeasurementNode): string {
+  const fixed = computeLimits(node, {});
+  return fixed.ok ? fixed.limits.text : formatLimits(node.limits).replace(/`/g, "");
+}
 
 const KIND_WORD = { question: "Question", measurement: "Reading", nameplate: "Rating" } as const;
 
@@ -41,7 +48,7 @@ function StepFields({ node, values, set, errors }: { node: TreeNode; values: Rec
         </div>
       )}
       {node.kind === "measurement" && (
-        <Labelled label="The meter shows" hint={`With its unit, e.g. “1.31 ${node.unit}”. The step's limits: ${formatLimits(node.limits).replace(/`/g, "")}${node.limits.kind === "nominal" || node.limits.kind === "range" ? "" : ` ${node.unit}`}.`} error={errors[field("shows")]}>
+        <Labelled label="The meter shows" hint={`The value with its unit, in ${node.unit}. The step's limits: ${limitsText(node)}.`} error={errors[field("shows")]}>
           {(c) => <input {...c} {...bind("shows")} className="field-input max-w-xs" autoComplete="off" />}
         </Labelled>
       )}

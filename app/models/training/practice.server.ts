@@ -193,7 +193,11 @@ export async function startPractice(ctx: Ctx, assignmentId: string): Promise<{ r
   });
 }
 
-/** Finishes a practice run that stands at an end of the tree: the trainee then sees the hidden fault. Repeating it does nothing. */
+/**
+ * Finishes a practice run that stands at an end of the tree: the trainee then sees the hidden
+ * fault. Repeating it does nothing. No root cause is recorded on the run (the end node says where
+ * it ended): root causes are the owner's figures, and practice stays out of them.
+ */
 export async function finishPractice(ctx: Ctx, runId: string): Promise<{ status: "done" }> {
   authorize(ctx, "runs.view");
   return writeTx(async (tx) => {
@@ -203,13 +207,8 @@ export async function finishPractice(ctx: Ctx, runId: string): Promise<{ status:
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This practice run is closed.", { code: "closed" });
     if (!run.endKind) throw new Refusal("conflict", "The practice has not reached an end of the procedure yet.", { code: "not-at-end" });
-    const content = await versionContent(ctx, run.versionId, tx);
-    const end = nodeOf(content.tree, run.endNode);
     const now = new Date();
-    await tx
-      .update(runs)
-      .set({ status: "done", rootCause: run.endKind === "outcome" && end ? end.title.slice(0, 300) : null, completedAt: now, pausedAt: null, updatedAt: now })
-      .where(eq(runs.id, runId));
+    await tx.update(runs).set({ status: "done", completedAt: now, pausedAt: null, updatedAt: now }).where(eq(runs.id, runId));
     return { status: "done" as const };
   });
 }

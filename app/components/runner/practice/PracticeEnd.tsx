@@ -6,7 +6,6 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { ReactNode } from "react";
 import { ApiError, postJson } from "../api";
 import { EndHeading } from "../ends/EndHeading";
-import { VERDICT_STYLE } from "../Reading";
 import type { RunHandle } from "../useRun";
 import { CALL_WORDS } from "./PracticeReading";
 
@@ -49,13 +48,14 @@ function Result({ right, children }: { right: boolean; children: ReactNode }) {
 export function PracticeDoneScreen({ run }: { run: RunHandle }) {
   const { view } = run;
   const fault = view.practice?.fault;
-  const endNode = view.run.rootCause;
-  const right = Boolean(fault && run.state.finished?.kind === "outcome" && run.state.finished.node === fault.node);
+  const end = run.state.finished;
+  const reached = end?.kind === "outcome" ? run.byId.get(end.node)?.title : null;
+  const right = Boolean(fault && end?.kind === "outcome" && end.node === fault.node);
   const readings = view.steps.filter((s) => s.type === "reading" && s.verdict && s.call);
   return (
     <section className="space-y-4">
       <Result right={right}>
-        <EndHeading kicker={right ? "Practice finished — right cause" : "Practice finished — not the hidden fault"} title={endNode ?? "No cause reached"} tone={right ? "text-within" : "text-out"} />
+        <EndHeading kicker={right ? "Practice finished — right cause" : "Practice finished — not the hidden fault"} title={reached ?? "No cause reached: the procedure handed over"} tone={right ? "text-within" : "text-out"} />
         {fault && (
           <p className="mt-2 text-lg">
             The hidden fault: <strong>{fault.title}</strong>
@@ -69,7 +69,7 @@ export function PracticeDoneScreen({ run }: { run: RunHandle }) {
             {readings.map((s) => {
               const same = s.call === s.verdict;
               return (
-                <li key={s.key} className={`rounded-lg border-l-8 px-3 py-2 ${s.undone ? "opacity-70" : ""} ${VERDICT_STYLE[s.verdict!].box}`}>
+                <li key={s.key} className={`rounded-lg border-l-8 px-3 py-2 ${s.undone ? "opacity-70" : ""} ${same ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}>
                   <p className="font-semibold text-ink">
                     {run.byId.get(s.node ?? "")?.title}
                     {s.undone ? " (taken back)" : ""}
