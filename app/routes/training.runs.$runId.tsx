@@ -186,7 +186,7 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
           The trainee's path beside the reference
         </h2>
         <div className="card overflow-x-auto p-0">
-          <table className="w-full">
+          <table className="w-full min-w-[48rem]">
             <thead className="border-b border-rule text-left text-sm text-ink-soft">
               <tr>
                 <th className="px-3 py-2">Step</th>

@@ -57,7 +57,7 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
           <p className="card text-ink-soft">No finished practice run is waiting for a review.</p>
         ) : (
           <div className="card overflow-x-auto p-0">
-            <table className="w-full">
+            <table className="w-full min-w-[40rem]">
               <thead className="border-b border-rule">
                 <tr>
                   <th className={th}>Finished</th>
@@ -100,7 +100,7 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
           <p className="card text-ink-soft">No scenarios yet. Write one on a published tree: the hidden fault, and what the trainee finds on the way.</p>
         ) : (
           <div className="card overflow-x-auto p-0">
-            <table className="w-full">
+            <table className="w-full min-w-[40rem]">
               <thead className="border-b border-rule">
                 <tr>
                   <th className={th}>Scenario</th>
@@ -142,7 +142,7 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
           <p className="card text-ink-soft">Nothing is assigned. Open a scenario whose check passed and assign it to technicians.</p>
         ) : (
           <div className="card overflow-x-auto p-0">
-            <table className="w-full">
+            <table className="w-full min-w-[40rem]">
               <thead className="border-b border-rule">
                 <tr>
                   <th className={th}>Trainee</th>
@@ -187,7 +187,7 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
         ) : (
           trainees.map((t) => (
             <div key={t.id} className="card overflow-x-auto p-0">
-              <table className="w-full">
+              <table className="w-full min-w-[40rem]">
                 <caption className="px-3 pt-3 text-left text-lg font-bold">{t.name}</caption>
                 <thead className="border-b border-rule">
                   <tr>
