@@ -6,6 +6,7 @@ import { StateBadge } from "~/components/training/Badges";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
 import { form, page } from "~/lib/route.server";
+import type { AssignmentState } from "~/lib/training";
 import { myPractice, startPractice } from "~/models/training/practice.server";
 import type { Route } from "./+types/practice";
 
@@ -30,6 +31,15 @@ export const action = form(async ({ request }: Route.ActionArgs) => {
   const { runId } = await startPractice(ctx, String(data.get("assignmentId") ?? ""));
   return redirect(`/runs/${runId}`);
 });
+
+function Head({ item }: { item: { name: string; state: AssignmentState } }) {
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      <span className="text-lg font-bold">{item.name}</span>
+      <StateBadge state={item.state} />
+    </div>
+  );
+}
 
 export default function Practice({ loaderData, actionData }: Route.ComponentProps) {
   const { items } = loaderData;
@@ -56,10 +66,7 @@ export default function Practice({ loaderData, actionData }: Route.ComponentProp
           <ul className="space-y-3">
             {open.map((i) => (
               <li key={i.id} className="card space-y-2 border-practice">
-                <div className="flex flex-wrap items-center gap-2">
-                  <span className="text-lg font-bold">{i.name}</span>
-                  <StateBadge state={i.state} />
-                </div>
+                <Head item={i} />
                 <p className="text-xl font-semibold">“{i.complaint}”</p>
                 <p className="text-ink-soft">{i.unitText}</p>
                 {i.due && <p className="font-semibold">Due by {i.due}</p>}
@@ -80,10 +87,7 @@ export default function Practice({ loaderData, actionData }: Route.ComponentProp
           <ul className="space-y-3">
             {past.map((i) => (
               <li key={i.id} className="card space-y-2">
-                <div className="flex flex-wrap items-center gap-2">
-                  <span className="text-lg font-bold">{i.name}</span>
-                  <StateBadge state={i.state} />
-                </div>
+                <Head item={i} />
                 {i.result && (
                   <div className={`rounded-lg border-l-8 px-3 py-2 ${i.result.right ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}>
                     <p>

@@ -4,6 +4,7 @@
 // hidden fault; comments on steps and an overall note the trainee reads on their practice list.
 import { Form, Link } from "react-router";
 import { CauseMark } from "~/components/training/Badges";
+import { Notice, Section } from "~/components/training/Section";
 import { branchName } from "~/engine/graph";
 import type { ReviewRow, ReviewStep, StepFlags } from "~/engine/training/compare";
 import type { TreeNode } from "~/engine/types";
@@ -112,11 +113,7 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
           {finished ? ` · finished ${finished}` : ` · ${run.status === "abandoned" ? "abandoned" : "not finished yet"}`} · {duration(review.totalMs)} in all
         </p>
       </div>
-      {sent && (
-        <p role={sent.ok ? "status" : "alert"} className={sent.ok ? "rounded-xl bg-within-soft p-3 font-semibold text-within" : "rounded-xl bg-out-soft p-3 font-semibold text-out"}>
-          {sent.message}
-        </p>
-      )}
+      <Notice sent={sent} />
 
       <section className={`rounded-xl border-2 p-4 ${review.rightFault ? "border-within bg-within-soft" : "border-out bg-out-soft"}`} aria-label="Cause reached">
         <div className="flex flex-wrap items-center gap-3">
@@ -154,10 +151,7 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
       </section>
 
       {review.misjudged.length > 0 && (
-        <section aria-labelledby="misjudged-heading" className="space-y-2">
-          <h2 id="misjudged-heading" className="text-lg font-bold">
-            Misjudged readings
-          </h2>
+        <Section title="Misjudged readings">
           <ul className="space-y-2">
             {review.misjudged.map((m) => (
               <li key={m.index} className="rounded-lg border-l-8 border-out bg-out-soft px-3 py-2">
@@ -178,13 +172,10 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
               </li>
             ))}
           </ul>
-        </section>
+        </Section>
       )}
 
-      <section aria-labelledby="path-heading" className="space-y-2">
-        <h2 id="path-heading" className="text-lg font-bold">
-          The trainee's path beside the reference
-        </h2>
+      <Section title="The trainee's path beside the reference">
         <div className="card overflow-x-auto p-0">
           <table className="w-full min-w-[48rem]">
             <thead className="border-b border-rule text-left text-sm text-ink-soft">
@@ -244,13 +235,10 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
           </table>
         </div>
         <p className="text-sm text-ink-soft">Time on a step runs from the entry before it to this one, by the phone's clock; the first step's from the start of the run.</p>
-      </section>
+      </Section>
 
       {review.undos.length > 0 && (
-        <section aria-labelledby="undo-heading" className="space-y-2">
-          <h2 id="undo-heading" className="text-lg font-bold">
-            Undo entries
-          </h2>
+        <Section title="Undo entries">
           <ul className="card space-y-2">
             {review.undos.map((u) => {
               const was = review.undone.find((s) => s.index === u.undid);
@@ -262,13 +250,10 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
               );
             })}
           </ul>
-        </section>
+        </Section>
       )}
 
-      <section aria-labelledby="note-heading" className="space-y-2">
-        <h2 id="note-heading" className="text-lg font-bold">
-          Note for the trainee
-        </h2>
+      <Section title="Note for the trainee">
         {note && (
           <p className="text-ink-soft">
             Reviewed by {note.reviewer}, {note.when}.
@@ -290,7 +275,7 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
         ) : (
           <p className="card text-ink-soft">The note opens once the trainee has finished the run.</p>
         )}
-      </section>
+      </Section>
     </div>
   );
 }

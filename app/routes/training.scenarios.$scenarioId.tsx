@@ -3,6 +3,7 @@
 // version of its tree, and where each assignment stands.
 import { Form, Link, redirect } from "react-router";
 import { CauseMark, CheckBadge, StateBadge } from "~/components/training/Badges";
+import { Notice, Section } from "~/components/training/Section";
 import { branchName } from "~/engine/graph";
 import type { TreeNode } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
@@ -96,11 +97,7 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
           )}
         </div>
       </div>
-      {sent && (
-        <p role={sent.ok ? "status" : "alert"} className={sent.ok ? "rounded-xl bg-within-soft p-3 font-semibold text-within" : "rounded-xl bg-out-soft p-3 font-semibold text-out"}>
-          {sent.message}
-        </p>
-      )}
+      <Notice sent={sent} />
 
       <section className="card grid gap-3 md:grid-cols-3" aria-label="The call">
         <div>
@@ -117,10 +114,7 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
         </div>
       </section>
 
-      <section aria-labelledby="check-heading" className="space-y-2">
-        <h2 id="check-heading" className="flex items-center gap-2 text-lg font-bold">
-          The engine's check <CheckBadge ok={check.ok} errors={findings.filter((f) => f.severity === "error").length} />
-        </h2>
+      <Section title={<>The engine's check <CheckBadge ok={check.ok} errors={findings.filter((f) => f.severity === "error").length} /></>}>
         {findings.length === 0 ? (
           <p className="text-ink-soft">Walking the tree with this script reaches the hidden fault, with a readable value at every step on the way.</p>
         ) : (
@@ -133,12 +127,9 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
             ))}
           </ul>
         )}
-      </section>
+      </Section>
 
-      <section aria-labelledby="ref-heading" className="space-y-2">
-        <h2 id="ref-heading" className="text-lg font-bold">
-          The reference path
-        </h2>
+      <Section title="The reference path">
         <p className="text-ink-soft">What a trainee who reads everything right does, step by step. Reviews set each trainee's path beside it.</p>
         <ol className="card divide-y divide-rule p-0">
           {reference.map((r) => (
@@ -167,12 +158,9 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
           ))}
           <li className="px-3 py-2 font-semibold">{end ? `Ends at: ${end.title}` : "The walk stops before an end (see the check above)."}</li>
         </ol>
-      </section>
+      </Section>
 
-      <section aria-labelledby="assign-heading" className="space-y-2">
-        <h2 id="assign-heading" className="text-lg font-bold">
-          Assign
-        </h2>
+      <Section title="Assign">
         {retired ? (
           <p className="card text-ink-soft">This scenario was replaced by a copy on a newer version: assign the copy.</p>
         ) : !check.ok ? (
@@ -232,7 +220,7 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
             ))}
           </ul>
         )}
-      </section>
+      </Section>
     </div>
   );
 }

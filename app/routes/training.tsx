@@ -2,6 +2,7 @@
 // check, open assignments, and each trainee's progress over time.
 import { Link } from "react-router";
 import { CauseMark, CheckBadge, StateBadge } from "~/components/training/Badges";
+import { CardTable, Section } from "~/components/training/Section";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
 import { page } from "~/lib/route.server";
@@ -32,7 +33,7 @@ function monthName(m: string) {
   return new Intl.DateTimeFormat("en-US", { month: "long", year: "numeric", timeZone: "UTC" }).format(new Date(Date.UTC(y!, mo! - 1, 15)));
 }
 
-const th = "px-3 py-2 text-left text-sm font-semibold text-ink-soft";
+const tr = "border-b border-rule last:border-0";
 const td = "px-3 py-2 align-top";
 
 export default function TrainerHome({ loaderData }: Route.ComponentProps) {
@@ -49,173 +50,91 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
         </Link>
       </div>
 
-      <section aria-labelledby="waiting-heading" className="space-y-2">
-        <h2 id="waiting-heading" className="text-lg font-bold">
-          Runs waiting for review {waiting.length > 0 && <span className="text-ink-soft">({waiting.length})</span>}
-        </h2>
-        {waiting.length === 0 ? (
-          <p className="card text-ink-soft">No finished practice run is waiting for a review.</p>
-        ) : (
-          <div className="card overflow-x-auto p-0">
-            <table className="w-full min-w-[40rem]">
-              <thead className="border-b border-rule">
-                <tr>
-                  <th className={th}>Finished</th>
-                  <th className={th}>Trainee</th>
-                  <th className={th}>Scenario</th>
-                  <th className={th}>Cause reached</th>
-                  <th className={th}>
-                    <span className="sr-only">Review</span>
-                  </th>
-                </tr>
-              </thead>
-              <tbody>
-                {waiting.map((w) => (
-                  <tr key={w.runId} className="border-b border-rule last:border-0">
-                    <td className={td}>{w.finished}</td>
-                    <td className={`${td} font-semibold`}>{w.trainee}</td>
-                    <td className={td}>{w.scenario}</td>
-                    <td className={td}>
-                      <span className="mr-2">{w.reached ?? "No cause (handed over)"}</span>
-                      <CauseMark right={w.right} />
-                    </td>
-                    <td className={td}>
-                      <Link to={`/training/runs/${w.runId}`} className="btn-quiet min-h-11 text-base" aria-label={`Review ${w.trainee}'s run of ${w.scenario}`}>
-                        Review
-                      </Link>
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
-        )}
-      </section>
+      <Section title={<>Runs waiting for review {waiting.length > 0 && <span className="text-ink-soft">({waiting.length})</span>}</>}>
+        <CardTable empty="No finished practice run is waiting for a review." rows={waiting.length} head={["Finished", "Trainee", "Scenario", "Cause reached", ""]}>
+          {waiting.map((w) => (
+            <tr key={w.runId} className={tr}>
+              <td className={td}>{w.finished}</td>
+              <td className={`${td} font-semibold`}>{w.trainee}</td>
+              <td className={td}>{w.scenario}</td>
+              <td className={td}>
+                <span className="mr-2">{w.reached ?? "No cause (handed over)"}</span>
+                <CauseMark right={w.right} />
+              </td>
+              <td className={td}>
+                <Link to={`/training/runs/${w.runId}`} className="btn-quiet min-h-11 text-base" aria-label={`Review ${w.trainee}'s run of ${w.scenario}`}>
+                  Review
+                </Link>
+              </td>
+            </tr>
+          ))}
+        </CardTable>
+      </Section>
 
-      <section aria-labelledby="scenarios-heading" className="space-y-2">
-        <h2 id="scenarios-heading" className="text-lg font-bold">
-          Scenarios
-        </h2>
-        {scenarios.length === 0 ? (
-          <p className="card text-ink-soft">No scenarios yet. Write one on a published tree: the hidden fault, and what the trainee finds on the way.</p>
-        ) : (
-          <div className="card overflow-x-auto p-0">
-            <table className="w-full min-w-[40rem]">
-              <thead className="border-b border-rule">
-                <tr>
-                  <th className={th}>Scenario</th>
-                  <th className={th}>Tree</th>
-                  <th className={th}>Check</th>
-                  <th className={th}>Assigned</th>
-                  <th className={th}>Changed</th>
-                </tr>
-              </thead>
-              <tbody>
-                {scenarios.map((s) => (
-                  <tr key={s.id} className="border-b border-rule last:border-0">
-                    <td className={td}>
-                      <Link to={`/training/scenarios/${s.id}`} className="font-semibold">
-                        {s.name}
-                      </Link>
-                    </td>
-                    <td className={td}>
-                      {s.treeTitle} <span className="text-ink-soft">v{s.versionNumber}</span>
-                    </td>
-                    <td className={td}>
-                      <CheckBadge ok={s.checkStatus === "ready"} errors={s.errors} />
-                    </td>
-                    <td className={td}>{s.assigned}</td>
-                    <td className={td}>{s.changed}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
-        )}
-      </section>
+      <Section title="Scenarios">
+        <CardTable empty="No scenarios yet. Write one on a published tree: the hidden fault, and what the trainee finds on the way." rows={scenarios.length} head={["Scenario", "Tree", "Check", "Assigned", "Changed"]}>
+          {scenarios.map((s) => (
+            <tr key={s.id} className={tr}>
+              <td className={td}>
+                <Link to={`/training/scenarios/${s.id}`} className="font-semibold">
+                  {s.name}
+                </Link>
+              </td>
+              <td className={td}>
+                {s.treeTitle} <span className="text-ink-soft">v{s.versionNumber}</span>
+              </td>
+              <td className={td}>
+                <CheckBadge ok={s.checkStatus === "ready"} errors={s.errors} />
+              </td>
+              <td className={td}>{s.assigned}</td>
+              <td className={td}>{s.changed}</td>
+            </tr>
+          ))}
+        </CardTable>
+      </Section>
 
-      <section aria-labelledby="assignments-heading" className="space-y-2">
-        <h2 id="assignments-heading" className="text-lg font-bold">
-          Assignments
-        </h2>
-        {assignments.length === 0 ? (
-          <p className="card text-ink-soft">Nothing is assigned. Open a scenario whose check passed and assign it to technicians.</p>
-        ) : (
-          <div className="card overflow-x-auto p-0">
-            <table className="w-full min-w-[40rem]">
-              <thead className="border-b border-rule">
-                <tr>
-                  <th className={th}>Trainee</th>
-                  <th className={th}>Scenario</th>
-                  <th className={th}>Assigned</th>
-                  <th className={th}>Due</th>
-                  <th className={th}>Where it stands</th>
-                </tr>
-              </thead>
-              <tbody>
-                {assignments.map((a) => (
-                  <tr key={a.id} className="border-b border-rule last:border-0">
-                    <td className={`${td} font-semibold`}>{a.trainee}</td>
-                    <td className={td}>
-                      <Link to={`/training/scenarios/${a.scenarioId}`}>{a.scenario}</Link>
-                    </td>
-                    <td className={td}>{a.assigned}</td>
-                    <td className={td}>{a.due ?? "—"}</td>
-                    <td className={td}>
-                      <StateBadge state={a.state} />
-                      {a.runId && a.state === "finished" && (
-                        <Link to={`/training/runs/${a.runId}`} className="ml-2">
-                          Review
-                        </Link>
-                      )}
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
-        )}
-      </section>
+      <Section title="Assignments">
+        <CardTable empty="Nothing is assigned. Open a scenario whose check passed and assign it to technicians." rows={assignments.length} head={["Trainee", "Scenario", "Assigned", "Due", "Where it stands"]}>
+          {assignments.map((a) => (
+            <tr key={a.id} className={tr}>
+              <td className={`${td} font-semibold`}>{a.trainee}</td>
+              <td className={td}>
+                <Link to={`/training/scenarios/${a.scenarioId}`}>{a.scenario}</Link>
+              </td>
+              <td className={td}>{a.assigned}</td>
+              <td className={td}>{a.due ?? "—"}</td>
+              <td className={td}>
+                <StateBadge state={a.state} />
+                {a.runId && a.state === "finished" && (
+                  <Link to={`/training/runs/${a.runId}`} className="ml-2">
+                    Review
+                  </Link>
+                )}
+              </td>
+            </tr>
+          ))}
+        </CardTable>
+      </Section>
 
-      <section aria-labelledby="trainees-heading" className="space-y-2">
-        <h2 id="trainees-heading" className="text-lg font-bold">
-          Trainees over time
-        </h2>
+      <Section title="Trainees over time">
         <p className="text-ink-soft">Finished practice runs. Misjudged readings count every call that differed from the verdict, even when undone; time to a cause runs from the start to the step that reached it, by the phone's clock.</p>
-        {trainees.length === 0 ? (
-          <p className="card text-ink-soft">No practice run has been finished yet.</p>
-        ) : (
-          trainees.map((t) => (
-            <div key={t.id} className="card overflow-x-auto p-0">
-              <table className="w-full min-w-[40rem]">
-                <caption className="px-3 pt-3 text-left text-lg font-bold">{t.name}</caption>
-                <thead className="border-b border-rule">
-                  <tr>
-                    <th className={th}>Period</th>
-                    <th className={th}>Practice runs</th>
-                    <th className={th}>Ended at the right fault</th>
-                    <th className={th}>Misjudged readings per run</th>
-                    <th className={th}>Median time to a cause</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {[{ month: "All", ...t.all }, ...t.months].map((m) => (
-                    <tr key={m.month} className={`border-b border-rule last:border-0 ${m.month === "All" ? "font-semibold" : ""}`}>
-                      <th scope="row" className={`${td} text-left ${m.month === "All" ? "font-semibold" : "font-normal"}`}>
-                        {m.month === "All" ? "All" : monthName(m.month)}
-                      </th>
-                      <td className={td}>{m.runs}</td>
-                      <td className={td}>{pct(m.rightShare)}</td>
-                      <td className={td}>{perRun(m.misjudgedPerRun)}</td>
-                      <td className={td}>{duration(m.medianToCauseMs)}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
-          ))
-        )}
-      </section>
+        {trainees.length === 0 && <p className="card text-ink-soft">No practice run has been finished yet.</p>}
+        {trainees.map((t) => (
+          <CardTable key={t.id} caption={t.name} empty="" rows={1} head={["Period", "Practice runs", "Ended at the right fault", "Misjudged readings per run", "Median time to a cause"]}>
+            {[{ month: "All", ...t.all }, ...t.months].map((m) => (
+              <tr key={m.month} className={`${tr} ${m.month === "All" ? "font-semibold" : ""}`}>
+                <th scope="row" className={`${td} text-left ${m.month === "All" ? "font-semibold" : "font-normal"}`}>
+                  {m.month === "All" ? "All" : monthName(m.month)}
+                </th>
+                <td className={td}>{m.runs}</td>
+                <td className={td}>{pct(m.rightShare)}</td>
+                <td className={td}>{perRun(m.misjudgedPerRun)}</td>
+                <td className={td}>{duration(m.medianToCauseMs)}</td>
+              </tr>
+            ))}
+          </CardTable>
+        ))}
+      </Section>
     </div>
   );
 }
