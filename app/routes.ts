@@ -19,6 +19,7 @@ export default [
   route("api/runs/:runId/photos", "routes/api.runs.$runId.photos.ts"),
   route("api/runs/:runId/status", "routes/api.runs.$runId.status.ts"),
   route("api/runs/:runId/outcome", "routes/api.runs.$runId.outcome.ts"),
+  route("api/runs/:runId/finish", "routes/api.runs.$runId.finish.ts"),
   route("api/photos/:photoId", "routes/api.photos.$photoId.ts"),
   route("api/reports/:reportId/send", "routes/api.reports.$reportId.send.ts"),
   // Owner insights: CSV of one overview table, and "found here before" for the runner.
@@ -65,6 +66,12 @@ export default [
     route("escalations", "routes/escalations.tsx"),
     route("outbox", "routes/outbox.tsx"),
     route("people", "routes/people.tsx"),
+    // Training: the trainer's scenarios and reviews, the technician's practice list.
+    route("training/scenarios/new", "routes/training.scenarios.new.tsx"),
+    route("training/scenarios/:scenarioId", "routes/training.scenarios.$scenarioId.tsx"),
+    route("training/scenarios/:scenarioId/edit", "routes/training.scenarios.new.tsx", { id: "routes/training.scenarios.$scenarioId.edit" }),
+    route("training/runs/:runId", "routes/training.runs.$runId.tsx"),
+    route("practice", "routes/practice.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

@@ -19,6 +19,7 @@ const EVERYONE = ROLES;
 const FIELD: readonly Role[] = ["technician", "lead", "owner"];
 // Owners may do what leads do: the owner is written out on every lead row (a unit test holds it).
 const LEADS: readonly Role[] = ["lead", "owner"];
+const TRAINERS: readonly Role[] = ["trainer", ...LEADS];
 
 export const POLICY = {
   // Calls, customers, sites and units.
@@ -52,7 +53,12 @@ export const POLICY = {
   "people.manage": { roles: ["owner"], refusal: "Only the shop's owner invites people and withdraws invitations." },
   "audit.view": { roles: ["owner"], refusal: "The audit trail is for the shop's owner." },
   "shop.overview": { roles: LEADS, refusal: "The overview is for the shop's owner and its leads." },
-  "training.view": { roles: ["trainer"], refusal: "Training is the trainer's page." },
+  // Training: trainers and leads (and so the owner) write scenarios, assign and review them; the
+  // technician takes the practice assigned to them.
+  "training.summary": { roles: TRAINERS, refusal: "Training summaries are for trainers, leads and the owner." },
+  "training.write": { roles: TRAINERS, refusal: "Your role cannot write or assign practice scenarios: trainers and leads do." },
+  "training.review": { roles: TRAINERS, refusal: "Your role cannot review practice runs: trainers and leads do." },
+  "training.practice": { roles: ["technician"], refusal: "Practice is for technicians; a trainer assigns it." },
 } as const satisfies Record<string, Rule>;
 
 export type Action = keyof typeof POLICY;

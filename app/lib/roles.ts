@@ -22,12 +22,15 @@ export type NavItem = { to: string; label: string; roles: readonly Role[] };
 export const NAV: readonly NavItem[] = [
   { to: "/calls", label: "My calls", roles: ["technician"] },
   { to: "/authoring", label: "Authoring", roles: ["lead"] },
+  { to: "/practice", label: "Practice", roles: ["technician"] },
   { to: "/training", label: "Training", roles: ["trainer"] },
   { to: "/overview", label: "Overview", roles: ["owner", "lead"] },
   { to: "/calls/all", label: "Calls", roles: ["lead", "owner"] },
   { to: "/trees", label: "Trees", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/equipment", label: "Equipment", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/outbox", label: "Outbox", roles: ["lead", "owner"] },
+  // Leads write and review practice too; owners read the trainees' figures.
+  { to: "/training", label: "Training", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },
 ];
 

@@ -2,6 +2,7 @@ import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { requireUser } from "~/lib/auth.server";
 import { page } from "~/lib/route.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
+import { myPractice } from "~/models/training/practice.server";
 import { placeName } from "~/lib/display";
 import type { Route } from "./+types/calls._index";
 
@@ -9,8 +10,11 @@ export const meta: Route.MetaFunction = () => [{ title: "My calls · Cluepath" }
 
 export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const user = await requireUser(request);
-  const [calls, done] = await Promise.all([myCalls(user.ctx), recentlyDone(user.ctx)]);
-  return { firstName: user.name.split(" ")[0], calls, done };
+  const [calls, done, practice] = await Promise.all([myCalls(user.ctx), recentlyDone(user.ctx), myPractice(user.ctx)]);
+  // Practice stays apart from real calls: a count and a link to the practice list.
+  const toDo = practice.items.filter((i) => i.state === "to do" || i.state === "in progress" || i.state === "abandoned");
+  const newNotes = practice.items.filter((i) => i.state === "reviewed").length;
+  return { firstName: user.name.split(" ")[0], calls, done, practice: { toDo: toDo.map((i) => i.name), reviewed: newNotes } };
 });
 
 export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
@@ -47,6 +51,22 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
       <p>
         <a href="/calls/all">All of the shop's calls</a>
       </p>
+      {(loaderData.practice.toDo.length > 0 || loaderData.practice.reviewed > 0) && (
+        <section aria-labelledby="practice-heading" className="card space-y-1 border-practice">
+          <h2 id="practice-heading" className="text-lg font-bold text-practice">
+            Practice
+          </h2>
+          <p>
+            {loaderData.practice.toDo.length > 0
+              ? `${loaderData.practice.toDo.length} practice call${loaderData.practice.toDo.length === 1 ? "" : "s"} from your trainer: ${loaderData.practice.toDo.join(", ")}.`
+              : "Nothing to practise right now."}
+            {loaderData.practice.reviewed > 0 ? ` ${loaderData.practice.reviewed} reviewed, with your trainer's notes.` : ""}
+          </p>
+          <a href="/practice" className="font-semibold">
+            Open my practice →
+          </a>
+        </section>
+      )}
       {done.length > 0 && (
         <section>
           <h2 className="mb-2 text-lg font-bold">Finished this week</h2>

@@ -4,3 +4,4 @@ export * from "./trees";
 export * from "./runs";
 export * from "./audit";
 export * from "./insights";
+export * from "./training";

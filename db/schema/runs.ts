@@ -141,6 +141,8 @@ export const runSteps = mysqlTable(
     siValue: double("si_value"),
     siUnit: varchar("si_unit", { length: 16 }),
     verdict: mysqlEnum("verdict", STEP_VERDICTS),
+    /** On a practice reading: the trainee's own call, the branch the run followed (the verdict is the engine's). */
+    call: mysqlEnum("trainee_call", STEP_VERDICTS),
     limitsLo: double("limits_lo"),
     limitsHi: double("limits_hi"),
     /** The limits the engine applied, as computed (text, derivation, formulas). */

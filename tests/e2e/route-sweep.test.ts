@@ -39,6 +39,8 @@ const ALL: readonly Role[] = ["technician", "lead", "trainer", "owner"];
 const WORKERS: readonly Role[] = ["technician", "lead", "owner"];
 /** Leads, and owners (who may do what a lead does). */
 const LEADS: readonly Role[] = ["lead", "owner"];
+/** Trainers, leads and owners: who write scenarios and review practice. */
+const TRAINERS: readonly Role[] = ["trainer", "lead", "owner"];
 
 /** Who may read (GET) and who may change (POST, PUT, PATCH, DELETE) through each route. */
 const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }> = {
@@ -64,7 +66,13 @@ const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }
   "/trees/:treeId/images/:imageId": { read: ALL },
   "/calls": { read: ["technician"] },
   "/authoring": { read: LEADS },
-  "/training": { read: ["trainer"] },
+  "/training": { read: TRAINERS },
+  "/training/scenarios/new": { read: TRAINERS, write: TRAINERS },
+  "/training/scenarios/:scenarioId": { read: TRAINERS, write: TRAINERS },
+  "/training/scenarios/:scenarioId/edit": { read: TRAINERS, write: TRAINERS },
+  "/training/runs/:runId": { read: TRAINERS, write: TRAINERS },
+  "/practice": { read: ["technician"], write: ["technician"] },
+  "/api/runs/:runId/finish": { write: ["technician"] },
   "/overview": { read: LEADS },
   "/api/insights/csv/:table": { read: LEADS },
   "/api/insights/found-here": { read: ALL },

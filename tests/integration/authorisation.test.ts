@@ -38,6 +38,11 @@ import * as library from "../../app/models/trees/library.server";
 import * as publish from "../../app/models/trees/publish.server";
 import * as transfer from "../../app/models/trees/transfer.server";
 import * as versions from "../../app/models/trees/versions.server";
+import * as practice from "../../app/models/training/practice.server";
+import * as reviews from "../../app/models/training/reviews.server";
+import * as scenarios from "../../app/models/training/scenarios.server";
+import * as summary from "../../app/models/training/summary.server";
+import { assigned, newScenario, scenarioFields, smallPracticeAtEnd, SMALL_WORLD } from "../support/training";
 import { TINY_PNG } from "../support/photo";
 import { smallTree } from "../support/trees";
 
@@ -86,6 +91,16 @@ const publishedTree = async () => {
 const publishedWithDraft = async () => {
   const t = await publishedTree();
   return { ...t, draftId: (await drafts.startDraft(lead, t.treeId)).versionId };
+};
+// Practice on the small tree: a scenario (the trainer writes it), one assigned to the technician, a
+// practice run of theirs at its end, and one finished.
+const scenario = () => newScenario(trainer, publishedTreeId, "cap-failed", SMALL_WORLD);
+const assignment = async () => assigned(trainer, tech, await scenario());
+const practiceAtEnd = () => smallPracticeAtEnd(trainer, tech, publishedTreeId);
+const practiceDone = async () => {
+  const p = await practiceAtEnd();
+  await practice.finishPractice(tech, p.runId);
+  return p;
 };
 const meterInput = { name: `Bench meter ${tag()}`, quantity: "voltage" as const, unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 };
 const site = { name: "Back kitchen", address: "1 Mill Row", contactName: "A. Person", contactEmail: "a@bakery.example" };
@@ -189,6 +204,29 @@ const ROWS: Row[] = [
   row(queries.historyOfUnit, "runs.view", nothing, (c) => queries.historyOfUnit(c, unitId)),
   row(reports.getReport, "reports.view", report, (c, id) => reports.getReport(c, id)),
   row(reports.sendReport, "reports.send", report, (c, id) => reports.sendReport(c, id, reportMailHtml)),
+  // training
+  row(scenarios.scenarioFormChoices, "training.write", nothing, (c) => scenarios.scenarioFormChoices(c, publishedTreeId)),
+  row(scenarios.createScenario, "training.write", nothing, (c) => scenarios.createScenario(c, publishedTreeId, scenarioFields("Domed capacitor", "cap-failed", SMALL_WORLD))),
+  row(scenarios.updateScenario, "training.write", scenario, (c, id) => scenarios.updateScenario(c, id, scenarioFields("Domed capacitor, renamed", "cap-failed", SMALL_WORLD))),
+  row(scenarios.copyScenario, "training.write", async () => {
+    const id = await scenario();
+    const draft = await drafts.startDraft(lead, publishedTreeId);
+    const { revision } = await drafts.replaceDraftContent(lead, draft.versionId, smallTree(`Authorisation copy ${tag()}`), 1);
+    await publish.publishDraft(lead, publishedTreeId, revision, "A newer version to copy onto");
+    return id;
+  }, (c, id) => scenarios.copyScenario(c, id)),
+  row(scenarios.getScenario, "training.write", scenario, (c, id) => scenarios.getScenario(c, id)),
+  row(scenarios.listScenarios, "training.summary", nothing, (c) => scenarios.listScenarios(c)),
+  row(practice.assignScenario, "training.write", scenario, (c, id) => practice.assignScenario(c, id, { trainees: [tech.userId], dueOn: "2026-12-31" })),
+  row(practice.withdrawAssignment, "training.write", assignment, (c, id) => practice.withdrawAssignment(c, id)),
+  row(practice.myPractice, "training.practice", nothing, (c) => practice.myPractice(c)),
+  row(practice.startPractice, "training.practice", assignment, (c, id) => practice.startPractice(c, id)),
+  row(practice.finishPractice, "runs.outcome", practiceAtEnd, (c, p) => practice.finishPractice(c, p.runId), held),
+  row(reviews.getPracticeReview, "training.review", practiceDone, (c, p) => reviews.getPracticeReview(c, p.runId)),
+  row(reviews.addComment, "training.review", practiceDone, (c, p) => reviews.addComment(c, p.runId, { seq: 0, text: "Good: the domed top was enough to call it." })),
+  row(reviews.saveReview, "training.review", practiceDone, (c, p) => reviews.saveReview(c, p.runId, { note: "Quick and right." })),
+  row(summary.trainingBoard, "training.summary", nothing, (c) => summary.trainingBoard(c)),
+  row(summary.traineeProgress, "training.summary", nothing, (c) => summary.traineeProgress(c)),
   // trees
   row(library.listLibrary, "trees.view", nothing, (c) => library.listLibrary(c)),
   row(library.listPublished, "trees.view", nothing, (c) => library.listPublished(c)),
@@ -262,7 +300,6 @@ describe("every model function decides who may, from the caller's role", () => {
 
   it("every action of the policy is exercised by some row", () => {
     const used = new Set(ROWS.map((r) => r.action));
-    // training.view guards the trainer's page, which loads nothing from a model yet.
-    expect(Object.keys(POLICY).filter((a) => !used.has(a as Action))).toEqual(["training.view"]);
+    expect(Object.keys(POLICY).filter((a) => !used.has(a as Action))).toEqual([]);
   });
 });

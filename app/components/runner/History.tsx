@@ -3,7 +3,9 @@ import type { StepView } from "~/lib/run-log";
 import { clock } from "./clock";
 import type { RunHandle } from "./useRun";
 
-function stepSummary(s: StepView): string {
+function stepSummary(s: StepView, practice: boolean): string {
+  // Practice: the trainee's call, not the verdict, while the practice runs.
+  if (practice && s.type === "reading" && s.call) return `${s.typed ?? ""} — your call: ${s.call}`;
   switch (s.type) {
     case "answer":
       return s.answer ?? "";
@@ -22,6 +24,7 @@ function stepSummary(s: StepView): string {
 
 export function History({ run, onClose }: { run: RunHandle; onClose?: () => void }) {
   const rows = run.view.steps.filter((s) => s.type !== "undo");
+  const practice = run.view.run.practice && run.view.run.status !== "done";
   return (
     <section className="card space-y-2" aria-label="Steps so far">
       <div className="flex items-center justify-between">
@@ -42,8 +45,8 @@ export function History({ run, onClose }: { run: RunHandle; onClose?: () => void
                 <span>{run.byId.get(s.node ?? "")?.title ?? s.node}</span>
                 <span className="shrink-0 font-normal text-ink-soft">{clock(new Date(s.recordedAt), run.view.timeZone)}</span>
               </p>
-              <p className={s.verdict === "within" ? "text-within" : s.verdict === "marginal" ? "text-marginal" : s.verdict ? "text-out" : ""}>
-                {stepSummary(s)}
+              <p className={practice ? "" : s.verdict === "within" ? "text-within" : s.verdict === "marginal" ? "text-marginal" : s.verdict ? "text-out" : ""}>
+                {stepSummary(s, practice)}
                 {s.pending ? " · saving…" : ""}
                 {s.undone ? " (taken back)" : ""}
               </p>

@@ -49,6 +49,9 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
     const now = new Date();
     const set = (patch: Partial<typeof runs.$inferInsert>) => tx.update(runs).set({ ...patch, updatedAt: now }).where(eq(runs.id, runId));
     if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
+    // A practice run stays the trainee's: no lead is called to it (escalations are real work).
+    if (run.practice && (input.action === "escalate" || input.action === "take-over"))
+      throw new Refusal("conflict", "A practice run is not handed to a lead: finish it or abandon it.", { code: "practice" });
     switch (input.action) {
       case "pause":
         authorize(ctx, "runs.pause", facts);
@@ -128,6 +131,8 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
     if (run.status === "done") return null;
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
+    // A practice run makes no report and closes no call: it is finished from the training model.
+    if (run.practice) throw new Refusal("conflict", "A practice run makes no service report: finish the practice instead.", { code: "practice" });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This run is not in progress.", { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
     const outcome = nodeOf(content.tree, run.endNode);
