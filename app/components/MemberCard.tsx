@@ -71,7 +71,10 @@ export function MemberCard({ m, busy }: { m: Member; busy: boolean }) {
           <input type="hidden" name="intent" value="deactivate" />
           <input type="hidden" name="userId" value={m.userId} />
           <p className="font-semibold text-out">Turn off {m.name}'s access?</p>
-          <p>They are signed out at once and can't sign in to this shop until you turn it back on. Their runs, reports and calls stay as they are.</p>
+          <p>
+            They are signed out at once and can't sign in to this shop until you turn it back on. Their runs, reports and calls stay as they
+            are.
+          </p>
           <p className="flex flex-wrap gap-2">
             <button ref={off.answer} className="btn min-h-11 bg-out text-base text-white" disabled={busy}>
               Turn off access

@@ -16,7 +16,10 @@ export const RESET_MINUTES = 30;
  * theirs that is still open stops working, so only the newest mail counts.
  */
 export async function issueResetToken(tx: Tx, userId: string, requestedBy: string | null, now = new Date()): Promise<string> {
-  await tx.update(passwordResets).set({ usedAt: now }).where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt)));
+  await tx
+    .update(passwordResets)
+    .set({ usedAt: now })
+    .where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt)));
   const token = newToken();
   await tx.insert(passwordResets).values({
     userId,
@@ -50,7 +53,9 @@ export async function sendResetMail(mail: ResetMail): Promise<boolean> {
         mail.link,
         "",
         "Setting a new password signs you out everywhere else.",
-        mail.sentBy ? "If you did not expect this, tell your shop's owner." : "If you did not ask for this, ignore this message: your password stays as it is.",
+        mail.sentBy
+          ? "If you did not expect this, tell your shop's owner."
+          : "If you did not ask for this, ignore this message: your password stays as it is.",
       ].join("\n"),
     });
     return true;

@@ -23,7 +23,16 @@ function sessionRef(sessionId: string): string {
 
 async function me(ctx: Ctx) {
   const [row] = await db()
-    .select({ name: users.name, email: users.email, passwordHash: users.passwordHash, sessionVersion: users.sessionVersion, role: memberships.role, shopName: shops.name, shopTown: shops.town, settings: shops.settings })
+    .select({
+      name: users.name,
+      email: users.email,
+      passwordHash: users.passwordHash,
+      sessionVersion: users.sessionVersion,
+      role: memberships.role,
+      shopName: shops.name,
+      shopTown: shops.town,
+      settings: shops.settings,
+    })
     .from(users)
     .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.shopId, ctx.shopId)))
     .innerJoin(shops, eq(shops.id, ctx.shopId))
@@ -35,10 +44,24 @@ async function me(ctx: Ctx) {
 /** The caller's live sessions (any shop of theirs), newest first. */
 async function liveSessions(ctx: Ctx, sessionVersion: number) {
   return db()
-    .select({ id: sessions.id, createdAt: sessions.createdAt, lastSeenAt: sessions.lastSeenAt, userAgent: sessions.userAgent, address: sessions.address, shopName: shops.name })
+    .select({
+      id: sessions.id,
+      createdAt: sessions.createdAt,
+      lastSeenAt: sessions.lastSeenAt,
+      userAgent: sessions.userAgent,
+      address: sessions.address,
+      shopName: shops.name,
+    })
     .from(sessions)
     .innerJoin(shops, eq(shops.id, sessions.shopId))
-    .where(and(eq(sessions.userId, ctx.userId), isNull(sessions.revokedAt), gt(sessions.expiresAt, new Date()), eq(sessions.sessionVersion, sessionVersion)))
+    .where(
+      and(
+        eq(sessions.userId, ctx.userId),
+        isNull(sessions.revokedAt),
+        gt(sessions.expiresAt, new Date()),
+        eq(sessions.sessionVersion, sessionVersion),
+      ),
+    )
     .orderBy(desc(sessions.createdAt));
 }
 
@@ -58,10 +81,20 @@ export async function getAccount(ctx: Ctx, caller: Pick<Caller, "sessionId">) {
   }));
   // This device first, then the most recently seen.
   list.sort((a, b) => Number(b.current) - Number(a.current) || b.lastSeenAt.getTime() - a.lastSeenAt.getTime());
-  return { name: row.name, email: row.email, role: row.role, shopName: row.shopName, shopTown: row.shopTown, timeZone: row.settings.timeZone || "UTC", sessions: list };
+  return {
+    name: row.name,
+    email: row.email,
+    role: row.role,
+    shopName: row.shopName,
+    shopTown: row.shopTown,
+    timeZone: row.settings.timeZone || "UTC",
+    sessions: list,
+  };
 }
 
-export const nameInput = z.object({ name: z.string().trim().min(1, "Enter your name as customers should see it on reports.").max(120, "Keep your name under 120 characters.") });
+export const nameInput = z.object({
+  name: z.string().trim().min(1, "Enter your name as customers should see it on reports.").max(120, "Keep your name under 120 characters."),
+});
 
 /** The name on reports and lists; the person's own to change. */
 export async function renameSelf(ctx: Ctx, input: z.infer<typeof nameInput>): Promise<void> {
@@ -75,7 +108,11 @@ export async function renameSelf(ctx: Ctx, input: z.infer<typeof nameInput>): Pr
  * rate limit, so a borrowed session cannot try passwords), the new one under the sign-up rules.
  * Every other session of theirs ends; this one stays.
  */
-export async function changePassword(ctx: Ctx, caller: Caller, input: { currentPassword: string; newPassword: string }): Promise<{ otherSessionsEnded: number }> {
+export async function changePassword(
+  ctx: Ctx,
+  caller: Caller,
+  input: { currentPassword: string; newPassword: string },
+): Promise<{ otherSessionsEnded: number }> {
   authorize(ctx, "account.self");
   const row = await me(ctx);
   if (!(await signInAllowed(row.email, caller.address))) {
@@ -91,9 +128,15 @@ export async function changePassword(ctx: Ctx, caller: Caller, input: { currentP
   const hash = await hashPassword(input.newPassword);
   return writeTx(async (tx) => {
     // A new session version ends every session made before it; this one moves to the new version.
-    await tx.update(users).set({ passwordHash: hash, sessionVersion: sql`${users.sessionVersion} + 1` }).where(eq(users.id, ctx.userId));
+    await tx
+      .update(users)
+      .set({ passwordHash: hash, sessionVersion: sql`${users.sessionVersion} + 1` })
+      .where(eq(users.id, ctx.userId));
     const [u] = await tx.select({ v: users.sessionVersion }).from(users).where(eq(users.id, ctx.userId));
-    await tx.update(sessions).set({ sessionVersion: u!.v }).where(and(eq(sessions.id, caller.sessionId), eq(sessions.userId, ctx.userId)));
+    await tx
+      .update(sessions)
+      .set({ sessionVersion: u!.v })
+      .where(and(eq(sessions.id, caller.sessionId), eq(sessions.userId, ctx.userId)));
     const otherSessionsEnded = await endSessions(tx, { userId: ctx.userId, except: caller.sessionId });
     await recordAudit(
       {
@@ -117,7 +160,11 @@ export async function changePassword(ctx: Ctx, caller: Caller, input: { currentP
  * Ends one of the caller's sessions (by its ref from the page), or every one but this ("sign out
  * everywhere else"). Says whether the caller's own session was the one ended.
  */
-export async function endMySessions(ctx: Ctx, caller: Caller, which: { ref: string } | { allButThis: true }): Promise<{ ended: number; endedThisOne: boolean }> {
+export async function endMySessions(
+  ctx: Ctx,
+  caller: Caller,
+  which: { ref: string } | { allButThis: true },
+): Promise<{ ended: number; endedThisOne: boolean }> {
   authorize(ctx, "account.self");
   const row = await me(ctx);
   let target: string | undefined;
@@ -128,7 +175,10 @@ export async function endMySessions(ctx: Ctx, caller: Caller, which: { ref: stri
   return writeTx(async (tx) => {
     let ended: number;
     if (target) {
-      const [res] = await tx.update(sessions).set({ revokedAt: new Date() }).where(and(eq(sessions.id, target), eq(sessions.userId, ctx.userId), isNull(sessions.revokedAt)));
+      const [res] = await tx
+        .update(sessions)
+        .set({ revokedAt: new Date() })
+        .where(and(eq(sessions.id, target), eq(sessions.userId, ctx.userId), isNull(sessions.revokedAt)));
       ended = res.affectedRows;
     } else {
       ended = await endSessions(tx, { userId: ctx.userId, except: caller.sessionId });

@@ -19,7 +19,14 @@ import { issueResetToken, sendResetMail } from "./_reset-links.server";
  */
 async function lockMembers(tx: Tx, ctx: Ctx, userId: string) {
   const rows = await tx
-    .select({ id: memberships.id, userId: memberships.userId, role: memberships.role, deactivatedAt: memberships.deactivatedAt, name: users.name, email: users.email })
+    .select({
+      id: memberships.id,
+      userId: memberships.userId,
+      role: memberships.role,
+      deactivatedAt: memberships.deactivatedAt,
+      name: users.name,
+      email: users.email,
+    })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(eq(memberships.shopId, ctx.shopId))
@@ -33,11 +40,16 @@ async function lockMembers(tx: Tx, ctx: Ctx, userId: string) {
 const LAST_OWNER = "the shop's only owner. Make someone else an owner first, so the shop always has one.";
 
 /** Gives a member another role. The last owner keeps theirs. */
-export async function setMemberRole(ctx: Ctx, userId: string, role: Role, address?: string | null): Promise<{ changed: boolean }> {
+export async function setMemberRole(
+  ctx: Ctx,
+  userId: string,
+  role: Role,
+  address?: string | null,
+): Promise<{ changed: boolean; name: string }> {
   authorize(ctx, "people.manage");
   return writeTx(async (tx) => {
     const { target, lastOwner } = await lockMembers(tx, ctx, userId);
-    if (target.role === role) return { changed: false };
+    if (target.role === role) return { changed: false, name: target.name };
     if (lastOwner) throw new Refusal("conflict", `${target.name} is ${LAST_OWNER}`, { code: "last-owner" });
     await tx.update(memberships).set({ role }).where(eq(memberships.id, target.id));
     await recordAudit(
@@ -51,7 +63,7 @@ export async function setMemberRole(ctx: Ctx, userId: string, role: Role, addres
       },
       tx,
     );
-    return { changed: true };
+    return { changed: true, name: target.name };
   });
 }
 
@@ -60,14 +72,23 @@ export async function setMemberRole(ctx: Ctx, userId: string, role: Role, addres
  * once) or back on. Their runs, reports and everything else stay. Nobody turns off their own access,
  * and the last owner's stays on.
  */
-export async function setMemberActive(ctx: Ctx, userId: string, active: boolean, address?: string | null): Promise<{ changed: boolean; sessionsEnded: number }> {
+export async function setMemberActive(
+  ctx: Ctx,
+  userId: string,
+  active: boolean,
+  address?: string | null,
+): Promise<{ changed: boolean; sessionsEnded: number; name: string }> {
   authorize(ctx, "people.manage");
-  if (!active && userId === ctx.userId) throw new Refusal("conflict", "You can't turn off your own access. Another owner can.", { code: "self" });
+  if (!active && userId === ctx.userId)
+    throw new Refusal("conflict", "You can't turn off your own access. Another owner can.", { code: "self" });
   return writeTx(async (tx) => {
     const { target, lastOwner } = await lockMembers(tx, ctx, userId);
-    if ((target.deactivatedAt === null) === active) return { changed: false, sessionsEnded: 0 };
+    if ((target.deactivatedAt === null) === active) return { changed: false, sessionsEnded: 0, name: target.name };
     if (!active && lastOwner) throw new Refusal("conflict", `${target.name} is ${LAST_OWNER}`, { code: "last-owner" });
-    await tx.update(memberships).set({ deactivatedAt: active ? null : new Date() }).where(eq(memberships.id, target.id));
+    await tx
+      .update(memberships)
+      .set({ deactivatedAt: active ? null : new Date() })
+      .where(eq(memberships.id, target.id));
     const sessionsEnded = active ? 0 : await endSessions(tx, { userId, shopId: ctx.shopId });
     await recordAudit(
       {
@@ -82,7 +103,7 @@ export async function setMemberActive(ctx: Ctx, userId: string, active: boolean,
       },
       tx,
     );
-    return { changed: true, sessionsEnded };
+    return { changed: true, sessionsEnded, name: target.name };
   });
 }
 
@@ -92,7 +113,12 @@ export async function setMemberActive(ctx: Ctx, userId: string, active: boolean,
  * link, so an owner cannot take over a person's account. Their current password works until they
  * use the link; to shut someone out now, turn their access off.
  */
-export async function resetMemberSignIn(ctx: Ctx, userId: string, linkFor: (token: string) => string, address?: string | null): Promise<{ email: string; mailed: boolean; sessionsEnded: number }> {
+export async function resetMemberSignIn(
+  ctx: Ctx,
+  userId: string,
+  linkFor: (token: string) => string,
+  address?: string | null,
+): Promise<{ name: string; email: string; mailed: boolean; sessionsEnded: number }> {
   authorize(ctx, "people.manage");
   if (userId === ctx.userId) throw new Refusal("conflict", "To change your own password, use your Account page.", { code: "self" });
   const done = await writeTx(async (tx) => {
@@ -103,12 +129,37 @@ export async function resetMemberSignIn(ctx: Ctx, userId: string, linkFor: (toke
     const token = await issueResetToken(tx, userId, ctx.userId);
     const who = byCaller(ctx, address);
     if (sessionsEnded) {
-      await recordAudit({ ...who, action: "sessions.ended", subjectType: "user", subjectId: userId, summary: `Ended ${target.name}'s ${sessionsEnded} session${sessionsEnded === 1 ? "" : "s"}`, details: { ended: sessionsEnded } }, tx);
+      await recordAudit(
+        {
+          ...who,
+          action: "sessions.ended",
+          subjectType: "user",
+          subjectId: userId,
+          summary: `Ended ${target.name}'s ${sessionsEnded} session${sessionsEnded === 1 ? "" : "s"}`,
+          details: { ended: sessionsEnded },
+        },
+        tx,
+      );
     }
-    await recordAudit({ ...who, action: "password.reset-requested", subjectType: "user", subjectId: userId, summary: `Sent ${target.name} a link to set a new password`, details: { by: "owner" } }, tx);
+    await recordAudit(
+      {
+        ...who,
+        action: "password.reset-requested",
+        subjectType: "user",
+        subjectId: userId,
+        summary: `Sent ${target.name} a link to set a new password`,
+        details: { by: "owner" },
+      },
+      tx,
+    );
     return { target, token, sessionsEnded, ownerName: owner?.name ?? "Your shop's owner" };
   });
-  const mailed = await sendResetMail({ shopId: ctx.shopId, to: done.target.email, name: done.target.name, link: linkFor(done.token), sentBy: done.ownerName });
-  return { email: done.target.email, mailed, sessionsEnded: done.sessionsEnded };
+  const mailed = await sendResetMail({
+    shopId: ctx.shopId,
+    to: done.target.email,
+    name: done.target.name,
+    link: linkFor(done.token),
+    sentBy: done.ownerName,
+  });
+  return { name: done.target.name, email: done.target.email, mailed, sessionsEnded: done.sessionsEnded };
 }
-

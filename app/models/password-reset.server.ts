@@ -34,7 +34,11 @@ export type ResetRequestResult = { kind: "accepted" } | { kind: "rate-limited" }
  * account, and so is its timing: the link is made and mailed after the answer. Every request counts
  * against the reset limiter (per address, per address and e-mail, per e-mail), known or not.
  */
-export async function requestPasswordReset(emailRaw: string, origin: { address: string }, linkFor: (token: string) => string): Promise<ResetRequestResult> {
+export async function requestPasswordReset(
+  emailRaw: string,
+  origin: { address: string },
+  linkFor: (token: string) => string,
+): Promise<ResetRequestResult> {
   const email = normaliseEmail(emailRaw);
   const now = new Date();
   if (!(await signInAllowed(email, origin.address, now, "password-reset"))) return { kind: "rate-limited" };
@@ -45,7 +49,12 @@ export async function requestPasswordReset(emailRaw: string, origin: { address: 
   return { kind: "accepted" };
 }
 
-async function issueAndMail(account: NonNullable<Awaited<ReturnType<typeof activeAccount>>>, address: string, linkFor: (token: string) => string, now: Date) {
+async function issueAndMail(
+  account: NonNullable<Awaited<ReturnType<typeof activeAccount>>>,
+  address: string,
+  linkFor: (token: string) => string,
+  now: Date,
+) {
   try {
     const token = await writeTx(async (tx) => {
       const t = await issueResetToken(tx, account.userId, null, now);
@@ -89,7 +98,11 @@ const GONE = "This link has expired or was already used. Ask for a new one: link
  * Sets the new password with a reset link: the link is used up, every session of the person ends
  * (a new session version), and a new session is opened for them here. Returns it for the cookie.
  */
-export async function completePasswordReset(token: string, password: string, origin: SessionOrigin): Promise<{ sessionId: string; userId: string; role: Role }> {
+export async function completePasswordReset(
+  token: string,
+  password: string,
+  origin: SessionOrigin,
+): Promise<{ sessionId: string; userId: string; role: Role }> {
   const found = await findPasswordReset(token);
   if (!found) throw new Refusal("gone", GONE, { code: "link-gone" });
   const problem = passwordProblem(password, found.email);
@@ -112,9 +125,18 @@ export async function completePasswordReset(token: string, password: string, ori
       .limit(1);
     if (!member) throw new Refusal("gone", GONE, { code: "link-gone" });
     // This link and any other open one of theirs are used up.
-    await tx.update(passwordResets).set({ usedAt: now }).where(and(eq(passwordResets.userId, reset.userId), isNull(passwordResets.usedAt)));
-    await tx.update(users).set({ passwordHash: hash, sessionVersion: sql`${users.sessionVersion} + 1` }).where(eq(users.id, reset.userId));
-    const [user] = await tx.select({ v: users.sessionVersion, name: users.name, email: users.email }).from(users).where(eq(users.id, reset.userId));
+    await tx
+      .update(passwordResets)
+      .set({ usedAt: now })
+      .where(and(eq(passwordResets.userId, reset.userId), isNull(passwordResets.usedAt)));
+    await tx
+      .update(users)
+      .set({ passwordHash: hash, sessionVersion: sql`${users.sessionVersion} + 1` })
+      .where(eq(users.id, reset.userId));
+    const [user] = await tx
+      .select({ v: users.sessionVersion, name: users.name, email: users.email })
+      .from(users)
+      .where(eq(users.id, reset.userId));
     const sessionsEnded = await endSessions(tx, { userId: reset.userId });
     const sessionId = await openSession(reset.userId, member.shopId, user!.v, origin, tx);
     await recordAudit(

@@ -46,7 +46,10 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
       return { ok: true as const, done: "Your name is saved." };
     case "password": {
       const { otherSessionsEnded } = await changePassword(ctx, caller, input);
-      return { ok: true as const, done: `Your password is changed.${otherSessionsEnded ? ` You were signed out of ${otherSessionsEnded} other session${otherSessionsEnded === 1 ? "" : "s"}.` : ""}` };
+      return {
+        ok: true as const,
+        done: `Your password is changed.${otherSessionsEnded ? ` You were signed out of ${otherSessionsEnded} other session${otherSessionsEnded === 1 ? "" : "s"}.` : ""}`,
+      };
     }
     case "end": {
       const { endedThisOne } = await endMySessions(ctx, caller, { ref: input.ref });
@@ -55,7 +58,10 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
     }
     case "end-others": {
       const { ended } = await endMySessions(ctx, caller, { allButThis: true });
-      return { ok: true as const, done: ended ? `Signed out of ${ended} other session${ended === 1 ? "" : "s"}.` : "You were not signed in anywhere else." };
+      return {
+        ok: true as const,
+        done: ended ? `Signed out of ${ended} other session${ended === 1 ? "" : "s"}.` : "You were not signed in anywhere else.",
+      };
     }
   }
 });
@@ -106,23 +112,6 @@ export default function Account({ loaderData: a, actionData }: Route.ComponentPr
         </Form>
       </section>
 
-      <section className="card space-y-4" aria-labelledby="pw">
-        <h2 id="pw" className="text-lg font-bold">
-          Change your password
-        </h2>
-        <Form method="post" noValidate className="space-y-4">
-          <input type="hidden" name="intent" value="password" />
-          {/* For password managers: the account the new password belongs to. */}
-          <input type="email" name="username" autoComplete="username" value={a.email} readOnly hidden />
-          <Field label="Current password" name="currentPassword" type="password" autoComplete="current-password" error={errorsFor("password").currentPassword} />
-          <Field label="New password" name="newPassword" type="password" autoComplete="new-password" hint={PASSWORD_HINT} error={errorsFor("password").newPassword} />
-          <p className="text-ink-soft">Changing it signs you out everywhere else.</p>
-          <button className="btn-primary" disabled={busy}>
-            Change password
-          </button>
-        </Form>
-      </section>
-
       <section className="space-y-3" aria-labelledby="where">
         <h2 id="where" className="text-lg font-bold">
           Where you are signed in
@@ -147,7 +136,11 @@ export default function Account({ loaderData: a, actionData }: Route.ComponentPr
               <Form method="post">
                 <input type="hidden" name="intent" value="end" />
                 <input type="hidden" name="ref" value={s.ref} />
-                <button className="btn-quiet min-h-11 text-base" disabled={busy} aria-label={s.current ? "Sign out here (this device)" : `Sign out of this one: ${s.device}, last seen ${s.lastSeenAt}`}>
+                <button
+                  className="btn-quiet min-h-11 text-base"
+                  disabled={busy}
+                  aria-label={s.current ? "Sign out here (this device)" : `Sign out of this one: ${s.device}, last seen ${s.lastSeenAt}`}
+                >
                   {s.current ? "Sign out here" : "Sign out of this one"}
                 </button>
               </Form>
@@ -162,6 +155,36 @@ export default function Account({ loaderData: a, actionData }: Route.ComponentPr
             </button>
           </Form>
         )}
+      </section>
+
+      <section className="card space-y-4" aria-labelledby="pw">
+        <h2 id="pw" className="text-lg font-bold">
+          Change your password
+        </h2>
+        <Form method="post" noValidate className="space-y-4">
+          <input type="hidden" name="intent" value="password" />
+          {/* For password managers: the account the new password belongs to. */}
+          <input type="email" name="username" autoComplete="username" value={a.email} readOnly hidden />
+          <Field
+            label="Current password"
+            name="currentPassword"
+            type="password"
+            autoComplete="current-password"
+            error={errorsFor("password").currentPassword}
+          />
+          <Field
+            label="New password"
+            name="newPassword"
+            type="password"
+            autoComplete="new-password"
+            hint={PASSWORD_HINT}
+            error={errorsFor("password").newPassword}
+          />
+          <p className="text-ink-soft">Changing it signs you out everywhere else.</p>
+          <button className="btn-primary" disabled={busy}>
+            Change password
+          </button>
+        </Form>
       </section>
     </div>
   );

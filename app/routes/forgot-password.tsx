@@ -12,13 +12,27 @@ import type { Route } from "./+types/forgot-password";
 
 export const meta: Route.MetaFunction = () => [{ title: "Forgot your password? · Cluepath" }];
 
-const Ask = z.object({ email: z.string().trim().min(1, "Enter your e-mail address.").max(254, "That e-mail address is too long.").email("That doesn't look like an e-mail address.") });
+const Ask = z.object({
+  email: z
+    .string()
+    .trim()
+    .min(1, "Enter your e-mail address.")
+    .max(254, "That e-mail address is too long.")
+    .email("That doesn't look like an e-mail address."),
+});
 
 export const action = form(async ({ request, context }: Route.ActionArgs) => {
   const { email } = await readForm(request, Ask);
-  const result = await requestPasswordReset(email, { address: clientAddress(context) }, (token) => publicLink(request, `/reset-password/${token}`));
+  const result = await requestPasswordReset(email, { address: clientAddress(context) }, (token) =>
+    publicLink(request, `/reset-password/${token}`),
+  );
   if (result.kind === "rate-limited") {
-    const refused: FormRefusal = { ok: false, message: "Too many requests from here. Wait 15 minutes and ask again, or ask your shop's owner.", errors: {}, values: { email } };
+    const refused: FormRefusal = {
+      ok: false,
+      message: "Too many requests from here. Wait 15 minutes and ask again, or ask your shop's owner.",
+      errors: {},
+      values: { email },
+    };
     return data(refused, { status: 429 });
   }
   return { ok: true as const, email, minutes: RESET_MINUTES };
@@ -36,18 +50,27 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
           <Notice kind="done">
             <p className="font-semibold">Check your e-mail.</p>
             <p className="text-ink">
-              If {actionData.email} belongs to a Cluepath account, a link to set a new password is on its way to it. The link works once, within{" "}
-              {actionData.minutes} minutes.
+              If {actionData.email} belongs to a Cluepath account, a link to set a new password is on its way to it. The link works once,
+              within {actionData.minutes} minutes.
             </p>
           </Notice>
-          <p className="text-ink-soft">Nothing after a few minutes? Look in the spam folder, check the address, or ask your shop's owner to send you a link.</p>
+          <p className="text-ink-soft">
+            Nothing after a few minutes? Look in the spam folder, check the address, or ask your shop's owner to send you a link.
+          </p>
         </>
       ) : (
         <>
           <p className="mt-1 text-ink-soft">Type the e-mail you sign in with. We'll send you a link to choose a new password.</p>
           {refused && Object.keys(refused.errors).length === 0 && <Notice kind="problem">{refused.message}</Notice>}
           <Form ref={ref} method="post" className="mt-6 space-y-5" noValidate>
-            <Field label="Email" name="email" type="email" autoComplete="username" defaultValue={refused?.values.email} error={refused?.errors.email} />
+            <Field
+              label="Email"
+              name="email"
+              type="email"
+              autoComplete="username"
+              defaultValue={refused?.values.email}
+              error={refused?.errors.email}
+            />
             <button className="btn-primary w-full" disabled={busy}>
               {busy ? "Sending…" : "Send me a link"}
             </button>

@@ -48,17 +48,18 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
       await revokeInvitation(ctx, input.id);
       return { ok: true as const, kind: "revoked" as const };
     case "role": {
-      const { changed } = await setMemberRole(ctx, input.userId, input.role, address);
-      return { ok: true as const, kind: "member" as const, done: changed ? `Role changed to ${ROLE_LABEL[input.role]}.` : "That was already their role." };
+      const { changed, name } = await setMemberRole(ctx, input.userId, input.role, address);
+      return { ok: true as const, kind: "member" as const, done: changed ? `${name} is now ${ROLE_LABEL[input.role]}.` : `${name} already is ${ROLE_LABEL[input.role]}.` };
     }
     case "deactivate":
     case "reactivate": {
       const on = input.intent === "reactivate";
-      const { sessionsEnded } = await setMemberActive(ctx, input.userId, on, address);
+      const { sessionsEnded, name } = await setMemberActive(ctx, input.userId, on, address);
+      const ended = sessionsEnded ? ` and was signed out (${sessionsEnded} session${sessionsEnded === 1 ? "" : "s"})` : "";
       return {
         ok: true as const,
         kind: "member" as const,
-        done: on ? "Access is back on: they can sign in again." : `Access turned off${sessionsEnded ? `; ${sessionsEnded} session${sessionsEnded === 1 ? "" : "s"} ended` : ""}. Their work stays.`,
+        done: on ? `${name}'s access is back on: they can sign in again.` : `${name}'s access is off${ended}. Their runs and reports stay.`,
       };
     }
     case "reset": {
@@ -66,8 +67,8 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
       return {
         ok: true as const,
         kind: "member" as const,
-        done: `${r.sessionsEnded ? `Signed them out (${r.sessionsEnded} session${r.sessionsEnded === 1 ? "" : "s"}). ` : ""}${
-          r.mailed ? `We e-mailed ${r.email} a link to set a new password (valid 30 minutes).` : `The mail server did not take the message to ${r.email}; try again in a moment.`
+        done: `${r.sessionsEnded ? `${r.name} is signed out (${r.sessionsEnded} session${r.sessionsEnded === 1 ? "" : "s"}). ` : ""}${
+          r.mailed ? `We e-mailed ${r.email} a link to set a new password (valid 30 minutes).` : `The mail server did not take the message to ${r.email}; try Reset sign-in again in a moment.`
         }`,
       };
     }

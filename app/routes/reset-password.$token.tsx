@@ -20,11 +20,16 @@ export async function loader({ params }: Route.LoaderArgs) {
   return { email: found?.email ?? null };
 }
 
-const NewPassword = z.object({ password: z.string({ message: "Choose a new password." }).min(1, "Choose a new password.").max(1024, "Use at most 128 characters.") });
+const NewPassword = z.object({
+  password: z.string({ message: "Choose a new password." }).min(1, "Choose a new password.").max(1024, "Use at most 128 characters."),
+});
 
 export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const { password } = await readForm(request, NewPassword);
-  const done = await completePasswordReset(params.token, password, { address: clientAddress(context), userAgent: request.headers.get("user-agent") });
+  const done = await completePasswordReset(params.token, password, {
+    address: clientAddress(context),
+    userAgent: request.headers.get("user-agent"),
+  });
   return redirect(HOME_PATH[done.role], { headers: await sessionCookie(done.sessionId, done.userId) });
 });
 
@@ -58,7 +63,14 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
       <Form ref={ref} method="post" className="mt-6 space-y-5" noValidate>
         {/* The account's e-mail, for password managers to save the new password under. */}
         <Field label="Email" name="username" type="email" autoComplete="username" value={loaderData.email} readOnly />
-        <Field label="New password" name="password" type="password" autoComplete="new-password" hint={PASSWORD_HINT} error={refused?.errors.password} />
+        <Field
+          label="New password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          hint={PASSWORD_HINT}
+          error={refused?.errors.password}
+        />
         <button className="btn-primary w-full" disabled={busy}>
           {busy ? "Saving…" : "Save and sign in"}
         </button>

@@ -55,7 +55,8 @@ async function answer(run: () => unknown) {
 const post = (path: string, fields: Record<string, string>, headers: Record<string, string> = {}) =>
   new Request(`http://localhost${path}`, { method: "POST", body: new URLSearchParams(fields), headers });
 
-const forgot = (email: string, addr: string) => answer(() => forgotAction(routeArgs(post("/forgot-password", { email }), {}, { clientAddress: addr })));
+const forgot = (email: string, addr: string) =>
+  answer(() => forgotAction(routeArgs(post("/forgot-password", { email }), {}, { clientAddress: addr })));
 
 describe("forgot your password? (no enumeration)", () => {
   it("a known and an unknown e-mail get the same answer; only the known one gets a link", async () => {
@@ -106,7 +107,10 @@ describe("forgot your password? (no enumeration)", () => {
     await requestPasswordReset(p.email, { address: address() }, link);
     const late = await resetTokenFor(demoShop, p.email, 2);
     expect(late).not.toBe(token);
-    await db().update(passwordResets).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(passwordResets.tokenHash, tokenHash(late)));
+    await db()
+      .update(passwordResets)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(passwordResets.tokenHash, tokenHash(late)));
     await expect(completePasswordReset(late, "yet another pass phrase", {})).rejects.toMatchObject({ kind: "gone" });
   });
 
@@ -130,7 +134,9 @@ describe("forgot your password? (no enumeration)", () => {
       ["password123", /commonly used/],
       [p.email, /e-mail address/],
     ] as const) {
-      const r = await answer(() => resetAction(routeArgs(post(`/reset-password/${token}`, { password: pw }), { token }, { clientAddress: address() })));
+      const r = await answer(() =>
+        resetAction(routeArgs(post(`/reset-password/${token}`, { password: pw }), { token }, { clientAddress: address() })),
+      );
       expect(r.status).toBe(400);
       expect(r.body?.errors).toMatchObject({ password: expect.stringMatching(message) });
       expect(r.body?.values).toEqual({});
@@ -147,7 +153,13 @@ describe("forgot your password? (no enumeration)", () => {
     const token = await resetTokenFor(demoShop, p.email);
 
     const r = await answer(() =>
-      resetAction(routeArgs(post(`/reset-password/${token}`, { password: "quiet harbour lantern" }, { "user-agent": PHONE_UA }), { token }, { clientAddress: "198.51.100.7" })),
+      resetAction(
+        routeArgs(
+          post(`/reset-password/${token}`, { password: "quiet harbour lantern" }, { "user-agent": PHONE_UA }),
+          { token },
+          { clientAddress: "198.51.100.7" },
+        ),
+      ),
     );
     expect(r.status).toBe(302);
     expect(r.headers?.get("location")).toBe("/calls");
@@ -159,8 +171,16 @@ describe("forgot your password? (no enumeration)", () => {
     const [row] = await db().select().from(sessions).where(eq(sessions.id, me!.sessionId));
     expect(row).toMatchObject({ address: "198.51.100.7", userAgent: PHONE_UA });
     // Both old rows are marked ended, not only outdated.
-    const ended = await db().select().from(sessions).where(and(eq(sessions.userId, p.ctx.userId)));
-    expect(ended.filter((s) => s.revokedAt !== null).map((s) => s.id).sort()).toEqual([a.sessionId, b.sessionId].sort());
+    const ended = await db()
+      .select()
+      .from(sessions)
+      .where(and(eq(sessions.userId, p.ctx.userId)));
+    expect(
+      ended
+        .filter((s) => s.revokedAt !== null)
+        .map((s) => s.id)
+        .sort(),
+    ).toEqual([a.sessionId, b.sessionId].sort());
   });
 
   it(`rate limits trip: ${RESET_REQUEST_LIMITS.perPair} per e-mail from one address, ${RESET_REQUEST_LIMITS.perAccount} per e-mail from other addresses, ${RESET_REQUEST_LIMITS.perAddress} per address`, async () => {
@@ -177,12 +197,14 @@ describe("forgot your password? (no enumeration)", () => {
 
     // Per account: requests spread over many addresses stop too.
     const q = await newPerson(demoShop, "technician");
-    for (let i = 0; i < RESET_REQUEST_LIMITS.perAccount; i++) expect((await requestPasswordReset(q.email, { address: address() }, link)).kind).toBe("accepted");
+    for (let i = 0; i < RESET_REQUEST_LIMITS.perAccount; i++)
+      expect((await requestPasswordReset(q.email, { address: address() }, link)).kind).toBe("accepted");
     expect((await requestPasswordReset(q.email, { address: address() }, link)).kind).toBe("rate-limited");
 
     // Per address: one address asking for many e-mails, known or not (the limit tells nobody who has an account).
     const sprayer = address();
-    for (let i = 0; i < RESET_REQUEST_LIMITS.perAddress; i++) expect((await requestPasswordReset(`ghost-${i}-${tag()}@accounts.example`, { address: sprayer }, link)).kind).toBe("accepted");
+    for (let i = 0; i < RESET_REQUEST_LIMITS.perAddress; i++)
+      expect((await requestPasswordReset(`ghost-${i}-${tag()}@accounts.example`, { address: sprayer }, link)).kind).toBe("accepted");
     expect((await requestPasswordReset(`ghost-last-${tag()}@accounts.example`, { address: sprayer }, link)).kind).toBe("rate-limited");
   });
 
@@ -204,7 +226,12 @@ describe("the account page", () => {
   it("shows who they are and where they are signed in, with the device, address and last seen", async () => {
     const p = await newPerson(demoShop, "technician");
     const phone = await signIn(p.email, p.password, "198.51.100.20", PHONE_UA);
-    const laptop = await signIn(p.email, p.password, "198.51.100.21", "Mozilla/5.0 (Windows NT 10.0; Win64; x64; rv:128.0) Gecko/20100101 Firefox/128.0");
+    const laptop = await signIn(
+      p.email,
+      p.password,
+      "198.51.100.21",
+      "Mozilla/5.0 (Windows NT 10.0; Win64; x64; rv:128.0) Gecko/20100101 Firefox/128.0",
+    );
     if (phone.kind !== "ok" || laptop.kind !== "ok") throw new Error("sign-in failed");
     const a = await getAccount(p.ctx, { sessionId: phone.sessionId });
     expect(a).toMatchObject({ email: p.email, name: p.name, role: "technician", shopName: "Tinderbox Kitchen Repair" });
@@ -237,7 +264,15 @@ describe("the account page", () => {
     expect(list).toHaveLength(4);
     const ref = list.find((s) => !s.current)!.ref;
 
-    const one = await answer(() => accountAction(routeArgs(requestWith(here.cookie, "/account", { method: "POST", body: new URLSearchParams({ intent: "end", ref }) }), {}, { clientAddress: address() })));
+    const one = await answer(() =>
+      accountAction(
+        routeArgs(
+          requestWith(here.cookie, "/account", { method: "POST", body: new URLSearchParams({ intent: "end", ref }) }),
+          {},
+          { clientAddress: address() },
+        ),
+      ),
+    );
     expect(one.body).toMatchObject({ ok: true });
     const stillIn = await Promise.all([x, y, z].map(async (c) => (await getUser(requestWith(c.cookie))) !== null));
     expect(stillIn.filter(Boolean)).toHaveLength(2);
@@ -252,7 +287,15 @@ describe("the account page", () => {
 
     // Signing out of this one signs out here: redirect to sign-in with the cookie cleared.
     const self = (await getAccount(p.ctx, here)).sessions[0]!.ref;
-    const out = await answer(() => accountAction(routeArgs(requestWith(here.cookie, "/account", { method: "POST", body: new URLSearchParams({ intent: "end", ref: self }) }), {}, { clientAddress: address() })));
+    const out = await answer(() =>
+      accountAction(
+        routeArgs(
+          requestWith(here.cookie, "/account", { method: "POST", body: new URLSearchParams({ intent: "end", ref: self }) }),
+          {},
+          { clientAddress: address() },
+        ),
+      ),
+    );
     expect(out.status).toBe(302);
     expect(out.headers?.get("location")).toBe("/login?signedOut=1");
     expect(await getUser(requestWith(here.cookie))).toBeNull();
@@ -270,14 +313,22 @@ describe("the account page", () => {
     const here = await cookieFor(p.email);
     const other = await cookieFor(p.email);
     const caller = { sessionId: here.sessionId, address: address() };
-    await expect(changePassword(p.ctx, caller, { currentPassword: "not it at all", newPassword: "river stone kettle" })).rejects.toMatchObject({
+    await expect(
+      changePassword(p.ctx, caller, { currentPassword: "not it at all", newPassword: "river stone kettle" }),
+    ).rejects.toMatchObject({
       fields: { currentPassword: "That is not your current password." },
     });
-    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "1234567" })).rejects.toMatchObject({ fields: { newPassword: expect.stringMatching(/at least 8/) } });
-    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: p.password })).rejects.toMatchObject({ fields: { newPassword: expect.stringMatching(/different/) } });
+    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "1234567" })).rejects.toMatchObject({
+      fields: { newPassword: expect.stringMatching(/at least 8/) },
+    });
+    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: p.password })).rejects.toMatchObject({
+      fields: { newPassword: expect.stringMatching(/different/) },
+    });
     const before = await sessionVersionOf(p.ctx.userId);
 
-    expect(await changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "river stone kettle" })).toEqual({ otherSessionsEnded: 1 });
+    expect(await changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "river stone kettle" })).toEqual({
+      otherSessionsEnded: 1,
+    });
     expect(await sessionVersionOf(p.ctx.userId)).toBe(before + 1);
     expect((await getUser(requestWith(here.cookie)))?.email).toBe(p.email);
     expect(await getUser(requestWith(other.cookie))).toBeNull();
@@ -291,8 +342,11 @@ describe("the account page", () => {
     const p = await newPerson(demoShop, "technician");
     const here = await cookieFor(p.email);
     const caller = { sessionId: here.sessionId, address: address() };
-    for (let i = 0; i < SIGN_IN_LIMITS.perPair; i++) await changePassword(p.ctx, caller, { currentPassword: `guess ${i}`, newPassword: "river stone kettle" }).catch(() => {});
-    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "river stone kettle" })).rejects.toMatchObject({ fields: { currentPassword: expect.stringMatching(/Too many/) } });
+    for (let i = 0; i < SIGN_IN_LIMITS.perPair; i++)
+      await changePassword(p.ctx, caller, { currentPassword: `guess ${i}`, newPassword: "river stone kettle" }).catch(() => {});
+    await expect(changePassword(p.ctx, caller, { currentPassword: p.password, newPassword: "river stone kettle" })).rejects.toMatchObject({
+      fields: { currentPassword: expect.stringMatching(/Too many/) },
+    });
   });
 });
 
@@ -302,10 +356,16 @@ describe("an owner and the shop's people", () => {
     const c = await cookieFor(p.email);
     expect(await getUser(requestWith(c.cookie))).not.toBeNull();
 
-    expect(await setMemberActive(demoOwner, p.ctx.userId, false, "198.51.100.1")).toEqual({ changed: true, sessionsEnded: 1 });
+    expect(await setMemberActive(demoOwner, p.ctx.userId, false, "198.51.100.1")).toEqual({
+      changed: true,
+      sessionsEnded: 1,
+      name: p.name,
+    });
     expect(await getUser(requestWith(c.cookie))).toBeNull();
     expect((await signIn(p.email, p.password, address())).kind).toBe("access-off");
-    const viaForm = await answer(() => loginAction(routeArgs(post("/login", { email: p.email, password: p.password }), {}, { clientAddress: address() })));
+    const viaForm = await answer(() =>
+      loginAction(routeArgs(post("/login", { email: p.email, password: p.password }), {}, { clientAddress: address() })),
+    );
     expect(viaForm.status).toBe(403);
     expect(viaForm.body?.formError).toMatch(/turned off your access/);
     // A wrong password still reads as a wrong password: nothing is told to someone without it.
@@ -315,12 +375,17 @@ describe("an owner and the shop's people", () => {
     expect((await mailTo(demoShop, p.email, 1, 500)).length).toBe(0);
     expect((await listMembers(demoOwner)).find((m) => m.userId === p.ctx.userId)?.deactivatedAt).toBeInstanceOf(Date);
 
-    expect(await setMemberActive(demoOwner, p.ctx.userId, true)).toEqual({ changed: true, sessionsEnded: 0 });
+    expect(await setMemberActive(demoOwner, p.ctx.userId, true)).toEqual({ changed: true, sessionsEnded: 0, name: p.name });
     expect(await getUser(requestWith(c.cookie))).toBeNull(); // the old session stays ended
     expect((await signIn(p.email, p.password, address())).kind).toBe("ok");
 
     const [off] = await listAudit(demoOwner, { action: "member.deactivated" });
-    expect(off).toMatchObject({ actorId: demoOwner.userId, subjectId: p.ctx.userId, address: "198.51.100.1", details: { sessionsEnded: 1 } });
+    expect(off).toMatchObject({
+      actorId: demoOwner.userId,
+      subjectId: p.ctx.userId,
+      address: "198.51.100.1",
+      details: { sessionsEnded: 1 },
+    });
     const [on] = await listAudit(demoOwner, { action: "member.reactivated" });
     expect(on).toMatchObject({ subjectId: p.ctx.userId });
   });
@@ -328,16 +393,20 @@ describe("an owner and the shop's people", () => {
   it("the last owner can be neither demoted nor turned off; with two owners, one can step down", async () => {
     const { shopId, owner } = await newShop();
     const tech = await newPerson(shopId, "technician");
-    await expect(setMemberRole(owner.ctx, owner.ctx.userId, "lead")).rejects.toMatchObject({ kind: "conflict", code: "last-owner", message: expect.stringMatching(/only owner/) });
+    await expect(setMemberRole(owner.ctx, owner.ctx.userId, "lead")).rejects.toMatchObject({
+      kind: "conflict",
+      code: "last-owner",
+      message: expect.stringMatching(/only owner/),
+    });
     await expect(setMemberActive(owner.ctx, owner.ctx.userId, false)).rejects.toMatchObject({ kind: "conflict" });
 
-    expect(await setMemberRole(owner.ctx, tech.ctx.userId, "owner")).toEqual({ changed: true });
+    expect(await setMemberRole(owner.ctx, tech.ctx.userId, "owner")).toMatchObject({ changed: true });
     const second: Ctx = { ...tech.ctx, role: "owner" };
     // The second owner may turn the first one off, which leaves them the last: they cannot step down.
     await setMemberActive(second, owner.ctx.userId, false);
     await expect(setMemberRole(second, second.userId, "technician")).rejects.toMatchObject({ code: "last-owner" });
     await setMemberActive(second, owner.ctx.userId, true);
-    expect(await setMemberRole(second, second.userId, "lead")).toEqual({ changed: true });
+    expect(await setMemberRole(second, second.userId, "lead")).toMatchObject({ changed: true });
     await expect(setMemberRole(owner.ctx, owner.ctx.userId, "lead")).rejects.toMatchObject({ code: "last-owner" });
 
     const [changed] = await listAudit(owner.ctx, { action: "member.role-changed" });
@@ -367,7 +436,7 @@ describe("an owner and the shop's people", () => {
     const p = await newPerson(demoShop, "technician");
     const c = await cookieFor(p.email);
     const r = await resetMemberSignIn(demoOwner, p.ctx.userId, link, "198.51.100.2");
-    expect(r).toEqual({ email: p.email, mailed: true, sessionsEnded: 1 });
+    expect(r).toEqual({ name: p.name, email: p.email, mailed: true, sessionsEnded: 1 });
     expect(await getUser(requestWith(c.cookie))).toBeNull();
     const [mail] = await mailTo(demoShop, p.email);
     expect(mail?.text).toMatch(/has sent you a link to set a new password/);
@@ -376,7 +445,10 @@ describe("an owner and the shop's people", () => {
     expect((await completePasswordReset(token, "meadow copper lantern", {})).role).toBe("technician");
 
     const trail = await listAudit(demoOwner, { actorId: demoOwner.userId });
-    expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({ details: { by: "owner" }, address: "198.51.100.2" });
+    expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({
+      details: { by: "owner" },
+      address: "198.51.100.2",
+    });
     expect(trail.find((e) => e.action === "sessions.ended" && e.subjectId === p.ctx.userId)).toMatchObject({ details: { ended: 1 } });
     const [done] = await listAudit(demoOwner, { action: "password.reset", actorId: p.ctx.userId });
     expect(done).toMatchObject({ details: { linkSentByOwner: true, sessionsEnded: 0 } });
@@ -391,8 +463,16 @@ describe("an owner and the shop's people", () => {
     const token = await resetTokenFor(demoShop, p.email);
     await completePasswordReset(token, "orchard wire bell", { address: "198.51.100.4" });
     const trail = await listAudit(demoOwner, {});
-    expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({ actorId: null, actorEmail: p.email, address: "198.51.100.3", details: { by: "self" } });
-    expect(trail.find((e) => e.action === "password.reset" && e.subjectId === p.ctx.userId)).toMatchObject({ actorId: p.ctx.userId, address: "198.51.100.4" });
+    expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({
+      actorId: null,
+      actorEmail: p.email,
+      address: "198.51.100.3",
+      details: { by: "self" },
+    });
+    expect(trail.find((e) => e.action === "password.reset" && e.subjectId === p.ctx.userId)).toMatchObject({
+      actorId: p.ctx.userId,
+      address: "198.51.100.4",
+    });
   });
 });
 
@@ -401,7 +481,17 @@ describe("invitations sign the new member in (issue 17, item 18)", () => {
     const email = `joiner-${tag()}@accounts.example`;
     const { token } = await invite(demoOwner, email, "lead");
     const r = await answer(() =>
-      inviteAction(routeArgs(post(`/invite/${token}`, { username: email, name: "Joiner Person", password: "seven bright lanterns" }, { "user-agent": PHONE_UA }), { token }, { clientAddress: address() })),
+      inviteAction(
+        routeArgs(
+          post(
+            `/invite/${token}`,
+            { username: email, name: "Joiner Person", password: "seven bright lanterns" },
+            { "user-agent": PHONE_UA },
+          ),
+          { token },
+          { clientAddress: address() },
+        ),
+      ),
     );
     expect(r.status).toBe(302);
     expect(r.headers?.get("location")).toBe("/authoring");
@@ -412,10 +502,14 @@ describe("invitations sign the new member in (issue 17, item 18)", () => {
 
   it("an empty form gets an error for each field at once, and the password is not sent back", async () => {
     const { token } = await invite(demoOwner, `empty-${tag()}@accounts.example`, "technician");
-    const r = await answer(() => inviteAction(routeArgs(post(`/invite/${token}`, { name: "", password: "" }), { token }, { clientAddress: address() })));
+    const r = await answer(() =>
+      inviteAction(routeArgs(post(`/invite/${token}`, { name: "", password: "" }), { token }, { clientAddress: address() })),
+    );
     expect(r.status).toBe(400);
     expect(Object.keys(r.body?.errors as object).sort()).toEqual(["name", "password"]);
-    const typed = await answer(() => inviteAction(routeArgs(post(`/invite/${token}`, { name: "A", password: "abc" }), { token }, { clientAddress: address() })));
+    const typed = await answer(() =>
+      inviteAction(routeArgs(post(`/invite/${token}`, { name: "A", password: "abc" }), { token }, { clientAddress: address() })),
+    );
     expect(typed.body?.values).toEqual({ name: "A" });
   });
 

@@ -21,7 +21,9 @@ export async function newPerson(shopId: string, role: Role, password = `fresh pa
   const userId = crypto.randomUUID();
   const email = `p-${tag()}@accounts.example`;
   const name = `Person ${tag()}`;
-  await db().insert(users).values({ id: userId, email, name, passwordHash: await hashPassword(password) });
+  await db()
+    .insert(users)
+    .values({ id: userId, email, name, passwordHash: await hashPassword(password) });
   await db().insert(memberships).values({ shopId, userId, role });
   return { ctx: { shopId, userId, role }, email, password, name };
 }
@@ -29,7 +31,9 @@ export async function newPerson(shopId: string, role: Role, password = `fresh pa
 /** A shop of its own with one owner, for tests that change who owns it. */
 export async function newShop(): Promise<{ shopId: string; owner: Person }> {
   const shopId = crypto.randomUUID();
-  await db().insert(shops).values({ id: shopId, name: `Test shop ${tag()}`, town: "Ostley Ford", settings: { timeZone: "UTC" } });
+  await db()
+    .insert(shops)
+    .values({ id: shopId, name: `Test shop ${tag()}`, town: "Ostley Ford", settings: { timeZone: "UTC" } });
   return { shopId, owner: await newPerson(shopId, "owner") };
 }
 
