@@ -78,7 +78,7 @@ export default function Account({ loaderData: a, actionData }: Route.ComponentPr
     <div ref={ref} className="space-y-6">
       <h1 className="text-2xl font-bold">Your account</h1>
       {actionData?.ok && <Notice kind="done">{actionData.done}</Notice>}
-      {refused && Object.keys(refused.errors).length === 0 && <Notice kind="problem">{refused.message}</Notice>}
+      {refused && (Object.keys(refused.errors).length === 0 || sentIntent === "end") && <Notice kind="problem">{refused.message}</Notice>}
 
       <section className="card space-y-4" aria-labelledby="who">
         <h2 id="who" className="text-lg font-bold">
