@@ -10,6 +10,8 @@ export default [
   route("login", "routes/login.tsx"),
   route("logout", "routes/logout.ts"),
   route("invite/:token", "routes/invite.$token.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password/:token", "routes/reset-password.$token.tsx"),
   route("auth/*", "routes/auth.$.ts"),
   route("healthz", "routes/healthz.ts"),
   // Field runs: JSON resource routes used by the runner.
@@ -72,6 +74,7 @@ export default [
     route("training/scenarios/:scenarioId/edit", "routes/training.scenarios.new.tsx", { id: "routes/training.scenarios.$scenarioId.edit" }),
     route("training/runs/:runId", "routes/training.runs.$runId.tsx"),
     route("practice", "routes/practice.tsx"),
+    route("account", "routes/account.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

@@ -50,7 +50,9 @@ export const POLICY = {
   // The shop.
   "shop.view": { roles: EVERYONE, refusal: "Your role cannot see the shop's settings." },
   "outbox.view": { roles: LEADS, refusal: "The outbox is for leads and owners." },
-  "people.manage": { roles: ["owner"], refusal: "Only the shop's owner invites people and withdraws invitations." },
+  "people.manage": { roles: ["owner"], refusal: "Only the shop's owner manages people: invitations, roles, access and sign-in resets." },
+  // Everyone's own account: name, password, sessions.
+  "account.self": { roles: EVERYONE, refusal: "Sign in to see your account." },
   "audit.view": { roles: ["owner"], refusal: "The audit trail is for the shop's owner." },
   "shop.overview": { roles: LEADS, refusal: "The overview is for the shop's owner and its leads." },
   // Training: trainers and leads (and so the owner) write scenarios, assign and review them; the

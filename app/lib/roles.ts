@@ -32,6 +32,7 @@ export const NAV: readonly NavItem[] = [
   // Leads write and review practice too; owners read the trainees' figures.
   { to: "/training", label: "Training", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },
+  { to: "/account", label: "Account", roles: ["technician", "lead", "trainer", "owner"] },
 ];
 
 export function navFor(role: Role): NavItem[] {

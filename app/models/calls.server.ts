@@ -165,14 +165,14 @@ export async function getCall(ctx: Ctx, id: string) {
   return callRow(ctx, id);
 }
 
-/** The shop's technicians and leads, who can be sent on a call. */
+/** The shop's technicians and leads whose access is on: who can be sent on a call. */
 export async function assignablePeople(ctx: Ctx) {
   authorize(ctx, "calls.view");
   return db()
     .select({ id: users.id, name: users.name, role: memberships.role })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
-    .where(and(eq(memberships.shopId, ctx.shopId), inArray(memberships.role, ["technician", "lead"])))
+    .where(and(eq(memberships.shopId, ctx.shopId), inArray(memberships.role, ["technician", "lead"]), isNull(memberships.deactivatedAt)))
     .orderBy(asc(users.name));
 }
 

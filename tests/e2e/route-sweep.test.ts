@@ -32,6 +32,8 @@ const PUBLIC: Record<string, string> = {
   "/invite/:token": "the random token in the e-mailed link is the credential",
   "/auth/*": "Auth.js's own endpoints (CSRF token, callbacks), rate-limited",
   "/healthz": "the load balancer's health check",
+  "/forgot-password": "asks for a reset link; answers the same whether or not the e-mail has an account",
+  "/reset-password/:token": "the random token in the e-mailed link is the credential",
 };
 
 const ALL: readonly Role[] = ["technician", "lead", "trainer", "owner"];
@@ -72,6 +74,7 @@ const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }
   "/training/scenarios/:scenarioId/edit": { read: TRAINERS, write: TRAINERS },
   "/training/runs/:runId": { read: TRAINERS, write: TRAINERS },
   "/practice": { read: ["technician"], write: ["technician"] },
+  "/account": { read: ALL, write: ALL },
   "/api/runs/:runId/finish": { write: ["technician"] },
   "/overview": { read: LEADS },
   "/api/insights/csv/:table": { read: LEADS },

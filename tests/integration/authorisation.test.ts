@@ -14,13 +14,17 @@ import type { Ctx } from "../../app/lib/context";
 import { parseFilters } from "../../app/lib/insights/filters";
 import { closeDb, db } from "../../app/lib/db.server";
 import { can, POLICY, type Action } from "../../app/lib/policy";
+import { DEMO_PASSWORD } from "../../db/demo";
+import * as account from "../../app/models/account.server";
 import * as audit from "../../app/models/audit.server";
 import * as calls from "../../app/models/calls.server";
 import * as equipment from "../../app/models/equipment.server";
 import * as foundHere from "../../app/models/insights/found-here.server";
 import * as insights from "../../app/models/insights/overview.server";
+import * as members from "../../app/models/members.server";
 import * as meters from "../../app/models/meters.server";
 import * as outbox from "../../app/models/outbox.server";
+import * as passwordReset from "../../app/models/password-reset.server";
 import * as people from "../../app/models/people.server";
 import * as lifecycle from "../../app/models/runs/lifecycle.server";
 import * as notes from "../../app/models/runs/notes.server";
@@ -43,6 +47,7 @@ import * as reviews from "../../app/models/training/reviews.server";
 import * as scenarios from "../../app/models/training/scenarios.server";
 import * as summary from "../../app/models/training/summary.server";
 import { assigned, newScenario, scenarioFields, smallPracticeAtEnd, SMALL_WORLD } from "../support/training";
+import { address, newPerson } from "../support/accounts";
 import { TINY_PNG } from "../support/photo";
 import { smallTree } from "../support/trees";
 
@@ -179,6 +184,18 @@ const ROWS: Row[] = [
   row(people.invite, "people.manage", nothing, (c) => people.invite(c, `new-${tag()}@tinderbox.example`, "technician")),
   row(people.sendInvitationMail, "people.manage", nothing, (c) => people.sendInvitationMail(c, `new-${tag()}@tinderbox.example`, "trainer", "http://localhost/invite/x")),
   row(people.revokeInvitation, "people.manage", () => people.invite(owner, `w-${tag()}@tinderbox.example`, "lead"), (c, inv) => people.revokeInvitation(c, inv.id)),
+  row(members.setMemberRole, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberRole(c, p.ctx.userId, "lead")),
+  row(members.setMemberActive, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberActive(c, p.ctx.userId, false)),
+  row(members.resetMemberSignIn, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.resetMemberSignIn(c, p.ctx.userId, (t) => `http://localhost/reset-password/${t}`)),
+  // everyone's own account (the demo people keep their names and passwords: each change is undone)
+  row(account.getAccount, "account.self", nothing, (c) => account.getAccount(c, { sessionId: "none" })),
+  row(account.renameSelf, "account.self", nothing, async (c) => account.renameSelf(c, { name: (await account.getAccount(c, { sessionId: "none" })).name })),
+  row(account.changePassword, "account.self", nothing, async (c) => {
+    const caller = { sessionId: "none", address: address() };
+    await account.changePassword(c, caller, { currentPassword: DEMO_PASSWORD, newPassword: "a passing pass phrase" });
+    await account.changePassword(c, caller, { currentPassword: "a passing pass phrase", newPassword: DEMO_PASSWORD });
+  }),
+  row(account.endMySessions, "account.self", nothing, (c) => account.endMySessions(c, { sessionId: "none", address: address() }, { allButThis: true })),
   // runs
   row(start.startRun, "runs.start", nothing, (c) => start.startRun(c, { treeId: publishedTreeId })),
   row(view.getRunView, "runs.view", () => newRun(), (c, runId) => view.getRunView(c, runId)),
@@ -256,8 +273,14 @@ const ROWS: Row[] = [
   }, (c, t) => images.getTreeImage(c, t.treeId, t.imageId)),
 ];
 
-/** Model functions that take no caller: the token in an invitation link is the key. */
-const WITHOUT_CALLER = new Set<unknown>([people.findInvitation, people.acceptInvitation]);
+/** Model functions that take no caller: the token in an invitation or reset link is the key (or the e-mail asked for). */
+const WITHOUT_CALLER = new Set<unknown>([
+  people.findInvitation,
+  people.acceptInvitation,
+  passwordReset.requestPasswordReset,
+  passwordReset.findPasswordReset,
+  passwordReset.completePasswordReset,
+]);
 
 /** Rows in every table of the schema (one query), to see that a refusal wrote nothing. */
 async function rowCounts(): Promise<Record<string, number>> {
