@@ -7,6 +7,8 @@ import { atShop, placeName } from "~/lib/display";
 import { can } from "~/lib/policy";
 import { isRefusal } from "~/lib/refusal";
 import { reportNumber } from "~/lib/report-data";
+import { isBestMatch } from "~/lib/tree-match";
+import { categoryLabel } from "~/components/editor/kinds";
 import { form, page, readForm } from "~/lib/route.server";
 import { getCall, suggestTrees } from "~/models/calls.server";
 import { runsOfCall } from "~/models/runs/queries.server";
@@ -19,7 +21,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${d
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const call = await getCall(ctx, params.callId);
-  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit.category, call.call.symptom), shopTimeZone(ctx)]);
+  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit, call.call.symptom), shopTimeZone(ctx)]);
   const openRun = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated") ?? null;
   const canRun = can(ctx, "runs.start") && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
   return { call, runs, trees, openRun, canRun, tz, canEdit: can(ctx, "calls.write") };
@@ -45,8 +47,9 @@ const RUN_STATUS: Record<string, string> = { active: "In progress", paused: "Pau
 export default function Call({ loaderData, actionData }: Route.ComponentProps) {
   const { call: c, runs, trees, openRun } = loaderData;
   const busy = useNavigation().state !== "idle";
-  const matching = trees.filter((t) => t.sameCategory);
-  const others = trees.filter((t) => !t.sameCategory);
+  const matching = trees.filter((t) => t.fits);
+  const others = trees.filter((t) => !t.fits);
+  const best = isBestMatch(matching[0]);
   return (
     <div className="space-y-5">
       <p>
@@ -120,8 +123,8 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
           )}
           <ul className="space-y-3">
             {matching.map((t, i) => (
-              <li key={t.treeId} className={`card space-y-2 ${i === 0 && t.score > 0 ? "border-2 border-copper" : ""}`}>
-                {i === 0 && t.score > 0 && <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>}
+              <li key={t.treeId} className={`card space-y-2 ${i === 0 && best ? "border-2 border-copper" : ""}`}>
+                {i === 0 && best && <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>}
                 <p className="text-lg font-bold">{t.title}</p>
                 <p className="text-ink-soft">
                   {t.symptom} · version {t.number}
@@ -142,7 +145,8 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
                 {others.map((t) => (
                   <li key={t.treeId} className="flex flex-wrap items-center justify-between gap-2 border-t border-rule pt-2">
                     <span>
-                      {t.title} <span className="text-ink-soft">· {t.category}</span>
+                      {t.title} <span className="text-ink-soft">· {categoryLabel(t.category)}
+                        {t.otherKind && ` — written for ${t.otherKind}`}</span>
                     </span>
                     <Form method="post">
                       <input type="hidden" name="treeId" value={t.treeId} />

@@ -121,7 +121,7 @@ const ROWS: Row[] = [
   row(calls.callFormChoices, "calls.write", nothing, (c) => calls.callFormChoices(c)),
   row(calls.createCall, "calls.write", nothing, (c) => calls.createCall(c, { unitId, symptom: "no heat", priority: "low", assignedTo: null, notes: null })),
   row(calls.updateCall, "calls.write", newCall, (c, id) => calls.updateCall(c, id, { unitId, symptom: "no heat at all", priority: "high", assignedTo: null, notes: null, status: "open" })),
-  row(calls.suggestTrees, "trees.view", nothing, (c) => calls.suggestTrees(c, "rotisserie", "fan hums")),
+  row(calls.suggestTrees, "trees.view", nothing, (c) => calls.suggestTrees(c, { category: "rotisserie", make: "Vantor", model: "RCF-2208" }, "fan hums")),
   row(calls.callsOfUnit, "calls.view", nothing, (c) => calls.callsOfUnit(c, unitId)),
   // customers, sites, units
   row(equipment.getCustomer, "equipment.view", nothing, (c) => equipment.getCustomer(c, customerId)),
