@@ -113,19 +113,24 @@ export async function listCalls(ctx: Ctx, filter: CallFilter = {}) {
     .limit(200);
 }
 
-/** The caller's open calls, with the run in progress on each (if any). */
+/** The caller's open calls, with the run in progress on each (if any) and who holds it (a lead may have taken it over). */
 export async function myCalls(ctx: Ctx) {
   authorize(ctx, "calls.mine");
   const calls = await callsQuery()
     .where(and(eq(serviceCalls.shopId, ctx.shopId), eq(serviceCalls.assignedTo, ctx.userId), inArray(serviceCalls.status, ACTIVE)))
     .orderBy(PRIORITY_ORDER, asc(serviceCalls.openedAt));
+  const holder = alias(users, "holder");
   const open = calls.length
     ? await db()
-        .select({ id: runs.id, callId: runs.callId, status: runs.status })
+        .select({ id: runs.id, callId: runs.callId, status: runs.status, holderId: runs.technicianId, holder: holder.name })
         .from(runs)
+        .innerJoin(holder, eq(holder.id, runs.technicianId))
         .where(and(eq(runs.shopId, ctx.shopId), inArray(runs.callId, calls.map((c) => c.id)), inArray(runs.status, ["active", "paused", "escalated"])))
     : [];
-  return calls.map((c) => ({ ...c, openRun: open.find((r) => r.callId === c.id) ?? null }));
+  return calls.map((c) => {
+    const run = open.find((r) => r.callId === c.id);
+    return { ...c, openRun: run ? { id: run.id, status: run.status, holder: run.holder, heldByMe: run.holderId === ctx.userId } : null };
+  });
 }
 
 /** Calls the caller closed in the last `days` days. */

@@ -126,11 +126,11 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await snap(page, "my-calls", true);
 
-    await page.getByRole("link", { name: /Call 1041: heats unevenly/ }).click();
+    await page.getByRole("link", { name: /^Call 1041 .*“heats unevenly”/ }).click();
     await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
     await page.getByText("Best match for “heats unevenly”").waitFor();
     await snap(page, "call", true);
-    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
+    await page.getByRole("button", { name: "Start this procedure: Two-fan convection rotisserie heats unevenly" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
     runUrl = page.url();
 
@@ -369,7 +369,7 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await page.goto(`${baseUrl}/calls/all?q=1043`);
     await page.getByRole("link", { name: "Call 1043" }).click();
-    await page.getByRole("button", { name: "Start: Electric griddle section does not heat" }).click();
+    await page.getByRole("button", { name: "Start this procedure: Electric griddle section does not heat" }).click();
     await page.waitForURL(/\/runs\//);
     const griddleRun = page.url();
     await acknowledge(page, "Hot plate and live terminals", "griddle-caution");

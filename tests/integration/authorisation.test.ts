@@ -127,6 +127,7 @@ const ROWS: Row[] = [
   row(equipment.getCustomer, "equipment.view", nothing, (c) => equipment.getCustomer(c, customerId)),
   row(equipment.getSite, "equipment.view", nothing, (c) => equipment.getSite(c, siteId)),
   row(equipment.getUnit, "equipment.view", nothing, (c) => equipment.getUnit(c, unitId)),
+  row(equipment.unitRatings, "equipment.view", nothing, (c) => equipment.unitRatings(c, { category: "rotisserie", nameplate: { rated_uf: { value: 1.5, unit: "µF" } } })),
   row(equipment.listUnits, "equipment.view", nothing, (c) => equipment.listUnits(c)),
   row(equipment.searchUnits, "equipment.view", nothing, (c) => equipment.searchUnits(c, { q: "rotisserie" })),
   row(equipment.listCustomers, "equipment.view", nothing, (c) => equipment.listCustomers(c, "Larkspur")),

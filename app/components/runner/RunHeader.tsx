@@ -1,4 +1,5 @@
 // The runner's top bar: back to the call, the step count (opens the history), the save state.
+import { stepsDone } from "~/lib/run-log";
 import type { RunHandle } from "./useRun";
 
 function SaveState({ run }: { run: RunHandle }) {
@@ -22,8 +23,8 @@ function SaveState({ run }: { run: RunHandle }) {
 }
 
 export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
-  const { view, state } = run;
-  const done = state.steps.length;
+  const { view } = run;
+  const done = stepsDone(view.steps);
   const back = view.call ? `/calls/${view.call.id}` : "/";
   return (
     <header className="sticky top-0 z-20 border-b border-rule bg-card">
