@@ -80,7 +80,7 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
   const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <div className="min-h-dvh pb-20 md:grid md:grid-cols-[14rem_1fr] md:grid-rows-[auto_1fr] md:pb-0">
-      <a href="#main" className="sr-only z-30 rounded-lg bg-card px-4 py-3 font-semibold focus:not-sr-only focus:fixed focus:top-2 focus:left-2">
+      <a href="#main" className="sr-only z-30 rounded-lg border-2 border-focus bg-card px-4 font-semibold focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:flex focus:min-h-12 focus:items-center">
         Skip to the page's content
       </a>
       <header className="flex items-center justify-between gap-3 border-b border-rule bg-card px-4 py-2 md:col-span-2">

@@ -137,8 +137,8 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
                 </p>
                 <Form method="post">
                   <input type="hidden" name="treeId" value={t.treeId} />
-                  <button className="btn-primary min-h-14 w-full" disabled={busy}>
-                    Start this procedure<span className="sr-only">: {t.title}</span>
+                  <button className="btn-primary min-h-14 w-full" disabled={busy} aria-label={`Start this procedure: ${t.title}`}>
+                    Start this procedure
                   </button>
                 </Form>
               </li>
@@ -156,8 +156,8 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
                     </span>
                     <Form method="post">
                       <input type="hidden" name="treeId" value={t.treeId} />
-                      <button className="btn-quiet min-h-12 text-base" disabled={busy}>
-                        Start<span className="sr-only">: {t.title}</span>
+                      <button className="btn-quiet min-h-12 text-base" disabled={busy} aria-label={`Start: ${t.title}`}>
+                        Start
                       </button>
                     </Form>
                   </li>

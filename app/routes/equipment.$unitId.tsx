@@ -72,8 +72,10 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
           {site.contactName} · {site.contactEmail}
         </dd>
       </dl>
-      <section className="card">
-        <h2 className="mb-2 text-lg font-bold">Nameplate</h2>
+      <section className="card" aria-labelledby="nameplate-heading">
+        <h2 id="nameplate-heading" className="mb-2 text-lg font-bold">
+          Nameplate
+        </h2>
         {ratings.length === 0 ? (
           <p className="text-ink-soft">No ratings recorded.</p>
         ) : (

@@ -8,6 +8,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { expectNoSeriousViolations, smallTargets } from "../support/a11y";
 import { TINY_PNG } from "../support/photo";
 
 const baseUrl = inject("baseUrl");
@@ -39,6 +40,7 @@ async function acknowledge(page: Page, title: string, name: string) {
   await expect(ack.textContent()).resolves.toMatch(/Acknowledges the caution ‘.+’ and goes on/);
   await expect(page.getByRole("checkbox").count()).resolves.toBe(0);
   await expect(smallTargets(page)).resolves.toEqual([]);
+  await expectNoSeriousViolations(page, `the caution “${title}”`);
   await ack.scrollIntoViewIfNeeded();
   await snap(page, name);
   // Tapped from wherever the page stands (the tap must not be lost to a scroll on focus).
@@ -48,26 +50,6 @@ async function acknowledge(page: Page, title: string, name: string) {
 
 async function saved(page: Page) {
   await page.getByRole("status").filter({ hasText: "✓ Saved" }).waitFor({ timeout: 10_000 });
-}
-
-/**
- * Controls smaller than 44×44 CSS px (WCAG 2.2 SC 2.5.5, target size, enhanced). Links inside a
- * sentence are exempt (the SC's "inline" exception); a control drawn by its label (radio cards,
- * the camera input) is measured by the label.
- */
-async function smallTargets(page: Page): Promise<string[]> {
-  return page.evaluate(() => {
-    const out: string[] = [];
-    for (const el of document.querySelectorAll<HTMLElement>("a[href], button, input, select, textarea, summary")) {
-      if (el.closest("p, li") && el.tagName === "A") continue;
-      const box = el.closest("label") ?? el;
-      const r = box.getBoundingClientRect();
-      const style = getComputedStyle(box);
-      if (r.width === 0 || r.height === 0 || style.visibility === "hidden") continue;
-      if (r.width < 44 || r.height < 44) out.push(`${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`);
-    }
-    return out;
-  });
 }
 
 /** Whether `selector`'s element lies wholly between the sticky header and the bottom bar (or the window's foot). */
@@ -150,6 +132,7 @@ describe("the phone runner (390×844)", () => {
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
+    await expectNoSeriousViolations(page, "the supply measurement with its verdict");
     // The verdict is a live region right under the field. With the phone's keyboard open (here the
     // window made 364 px shorter, as a keyboard that resizes the page does) it stays in view.
     await expect(page.getByRole("status").filter({ hasText: "Within limits" }).count()).resolves.toBe(1);
@@ -256,6 +239,7 @@ describe("the phone runner (390×844)", () => {
 
     // The report, e-mailed to the site contact.
     await page.getByRole("heading", { level: 1, name: /^Job finished/ }).waitFor();
+    await expectNoSeriousViolations(page, "the job-finished screen");
     await snap(page, "finished", true);
     await page.getByRole("button", { name: "E-mail the report to Hal Brennick" }).click();
     await page.getByText("✓ E-mailed to deli@larkspur.example").waitFor();
@@ -301,6 +285,10 @@ describe("the phone runner (390×844)", () => {
       await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(true);
       const img = page.getByRole("img", { name: "Photo at: Run capacitor against its rating" });
       await expect(img.evaluate((el) => (el as HTMLImageElement).naturalWidth)).resolves.toBe(1);
+      // The report page is a page of its own (outside the shell): it has its own main landmark.
+      await expect(page.getByRole("main").count()).resolves.toBe(1);
+      await expectNoSeriousViolations(page, `the report page (${size})`);
+      await expect(smallTargets(page)).resolves.toEqual([]);
       await snap(page, `report-${size}`, true);
       if (size === "laptop") {
         await page.emulateMedia({ media: "print" });
