@@ -18,6 +18,21 @@ const tabLook = (active: boolean) =>
     active ? "bg-copper-soft text-copper-dark" : "text-ink hover:bg-paper",
   ].join(" ");
 
+/** Pages as a vertical list of links: the laptop's side column and the phone's "More" menu. */
+function NavList({ items, className }: { items: readonly NavItem[]; className: string }) {
+  return (
+    <ul className={className}>
+      {items.map((item) => (
+        <li key={item.to}>
+          <NavLink to={item.to} className={sideLink}>
+            {item.label}
+          </NavLink>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 /**
  * The phone's "More" tab: a disclosure that opens a list of the rest of the role's pages above the
  * bar. A native <details>, so it opens before the page's script has loaded; Escape, a tap outside
@@ -60,15 +75,7 @@ function MoreMenu({ items }: { items: NavItem[] }) {
           {here && <span className="sr-only"> (more pages)</span>}
         </span>
       </summary>
-      <ul className="absolute right-0 bottom-full mb-2 max-h-[70dvh] w-60 overflow-y-auto rounded-xl border border-rule bg-card p-2 shadow-lg">
-        {items.map((item) => (
-          <li key={item.to}>
-            <NavLink to={item.to} className={sideLink}>
-              {item.label}
-            </NavLink>
-          </li>
-        ))}
-      </ul>
+      <NavList items={items} className="absolute right-0 bottom-full mb-2 max-h-[70dvh] w-60 overflow-y-auto rounded-xl border border-rule bg-card p-2 shadow-lg" />
     </details>
   );
 }
@@ -121,15 +128,7 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
           )}
         </ul>
         {/* Laptop: every page in the side column. */}
-        <ul className="hidden flex-col gap-1 md:flex">
-          {nav.map((item) => (
-            <li key={item.to}>
-              <NavLink to={item.to} className={sideLink}>
-                {item.label}
-              </NavLink>
-            </li>
-          ))}
-        </ul>
+        <NavList items={nav} className="hidden flex-col gap-1 md:flex" />
       </nav>
       <main id="main" tabIndex={-1} className={`mx-auto w-full px-4 py-5 focus:outline-none ${wide ? "max-w-6xl" : "max-w-3xl"}`}>
         <Outlet />

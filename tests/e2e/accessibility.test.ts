@@ -89,6 +89,8 @@ describe("the phone's bottom bar", () => {
     it(`fits 390 px for the ${role}, with every page reachable`, async () => {
       const { context, page } = await open(role, "phone");
       const nav = page.getByRole("navigation", { name: "Main" });
+      await nav.waitFor();
+      await page.waitForLoadState("networkidle");
       const widths = await page.evaluate(() => ({ page: document.documentElement.scrollWidth, bar: document.querySelector('nav[aria-label="Main"] ul')!.scrollWidth, window: window.innerWidth }));
       expect(widths.page).toBeLessThanOrEqual(widths.window);
       expect(widths.bar).toBeLessThanOrEqual(widths.window);
@@ -119,6 +121,8 @@ describe("the phone's bottom bar", () => {
 
   it("a keyboard user skips the navigation with the first Tab, and Escape closes the More menu", async () => {
     const { context, page } = await open("owner", "phone");
+    await page.getByRole("navigation", { name: "Main" }).waitFor();
+    await page.waitForLoadState("networkidle");
     await page.keyboard.press("Tab");
     const skip = page.getByRole("link", { name: "Skip to the page's content" });
     await expect(skip.evaluate((el) => el === document.activeElement)).resolves.toBe(true);

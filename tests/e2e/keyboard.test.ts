@@ -139,6 +139,7 @@ describe("the keyboard alone", () => {
     await tabTo(page, new RegExp(`^Call ${lampCall}(?!\\d)`));
     await page.keyboard.press("Enter");
     await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
+    await page.getByRole("heading", { level: 1, name: `Call ${lampCall}` }).waitFor();
     // The tree just published is the best match for this hot-holding call.
     await page.getByText("Best match for “heat lamp stays dark”").waitFor();
     await tabTo(page, new RegExp(`^Start this procedure: ${title}`));
@@ -175,6 +176,8 @@ describe("the keyboard alone", () => {
     await signInByKeyboard(page, baseUrl, "tech@tinderbox.example", DEMO_PASSWORD);
     await tabTo(page, new RegExp(`^Call ${handOverCall}(?!\\d)`));
     await page.keyboard.press("Enter");
+    await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
+    await page.getByRole("heading", { level: 1, name: `Call ${handOverCall}` }).waitFor();
     await tabTo(page, new RegExp(`^Start this procedure: ${title}`));
     await page.keyboard.press("Enter");
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);

@@ -289,6 +289,13 @@ describe("the phone runner (390×844)", () => {
       await expect(page.getByRole("main").count()).resolves.toBe(1);
       await expectNoSeriousViolations(page, `the report page (${size})`);
       await expect(smallTargets(page)).resolves.toEqual([]);
+      // Sent already: no primary e-mail button; sending again is the quiet button that asks first.
+      await expect(page.getByRole("button", { name: /^E-mail/ }).count()).resolves.toBe(0);
+      await page.getByRole("button", { name: "Send it again…" }).click();
+      await page.getByText("Send the report to Hal Brennick (deli@larkspur.example) again? They already have it.").waitFor();
+      await snap(page, `report-send-again-asks-${size}`);
+      await page.getByRole("button", { name: "No", exact: true }).click();
+      await page.getByRole("button", { name: "Send it again…" }).waitFor();
       await snap(page, `report-${size}`, true);
       if (size === "laptop") {
         await page.emulateMedia({ media: "print" });
@@ -327,6 +334,10 @@ describe("the phone runner (390×844)", () => {
     await op.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await op.waitForURL(`${baseUrl}/outbox`);
     await op.getByText(/^Service report R-\d{4} — Vantor RCF-2208/).first().waitFor();
+    // Each report mail links to its report; the page speaks of what was sent, not of the catcher.
+    const links = await op.getByRole("link", { name: "Open the report" }).evaluateAll((els) => els.map((e) => e.getAttribute("href")));
+    expect(links).toContain(reportUrl);
+    await expect(op.getByText(/mail catcher/).count()).resolves.toBe(0);
     await snap(op, "outbox-laptop");
     await owner.close();
   });
