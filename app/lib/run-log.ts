@@ -131,6 +131,18 @@ export interface StepPayload {
   at?: string;
 }
 
+/**
+ * How many steps a run has done: the entries it stands on, leaving out undos and the steps they
+ * took back (a step taken back and done again counts once). The one count Cluepath shows — the
+ * runner's "Step 7 · 6 done", the hand-over list's "after 6 steps" — equal to the length of the
+ * engine's replayed path.
+ */
+export function stepsDone(steps: readonly Pick<StepView, "type" | "undone">[]): number {
+  let n = 0;
+  for (const s of steps) if (s.type !== "undo" && !s.undone) n++;
+  return n;
+}
+
 /** The engine's log entry a stored step stands for (the meter is the accuracy kept with it). */
 export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" | "meter" | "call">): LogEntry {
   const node = s.node ?? "";

@@ -3,6 +3,7 @@ import { requireUser } from "~/lib/auth.server";
 import { page } from "~/lib/route.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
 import { myPractice } from "~/models/training/practice.server";
+import { openRunLine } from "~/lib/calls";
 import { placeName } from "~/lib/display";
 import type { Route } from "./+types/calls._index";
 
@@ -30,7 +31,7 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
       <ul className="space-y-3">
         {calls.map((c) => (
           <li key={c.id}>
-            <a href={c.openRun ? `/runs/${c.openRun.id}` : `/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper" aria-label={`Call ${c.number}: ${c.symptom}, ${c.customerName}`}>
+            <a href={c.openRun ? `/runs/${c.openRun.id}` : `/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper">
               <div className="flex flex-wrap items-center gap-2">
                 <span className="text-lg font-bold">Call {c.number}</span>
                 <PriorityBadge priority={c.priority} />
@@ -43,13 +44,15 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
               <p className="text-ink-soft">
                 {placeName(c.customerName, c.siteName)}, {c.siteAddress}
               </p>
-              <p className="mt-2 font-semibold text-copper-dark">{c.openRun ? (c.openRun.status === "paused" ? "Resume the paused run →" : c.openRun.status === "escalated" ? "With a lead — open the run →" : "Carry on with the run →") : "Open the call →"}</p>
+              <p className="mt-2 font-semibold text-copper-dark">{c.openRun ? openRunLine(c.openRun) : "Open the call"} →</p>
             </a>
           </li>
         ))}
       </ul>
       <p>
-        <a href="/calls/all">All of the shop's calls</a>
+        <a href="/calls/all" className="tap">
+          All of the shop's calls
+        </a>
       </p>
       {(loaderData.practice.toDo.length > 0 || loaderData.practice.reviewed > 0) && (
         <section aria-labelledby="practice-heading" className="card space-y-1 border-practice">
@@ -72,11 +75,10 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
           <h2 className="mb-2 text-lg font-bold">Finished this week</h2>
           <ul className="space-y-2">
             {done.map((c) => (
-              <li key={c.id} className="card">
-                <a href={`/calls/${c.id}`} className="font-semibold">
-                  Call {c.number}
-                </a>{" "}
-                · {c.customerName} · “{c.symptom}”
+              <li key={c.id}>
+                <a href={`/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper">
+                  <span className="font-semibold text-copper-dark underline">Call {c.number}</span> · {c.customerName} · “{c.symptom}”
+                </a>
               </li>
             ))}
           </ul>

@@ -5,6 +5,7 @@
 import { readdirSync, readFileSync } from "node:fs";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { expectNoSeriousViolations } from "../support/a11y";
 import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { publishedTree, tag } from "../support/fixtures";
 import { routeAt, serverBuild } from "../support/routes";
@@ -144,6 +145,7 @@ describe("authoring a tree in the browser", () => {
     await page.screenshot({ path: screenshotPath("editor-canvas-keyboard-laptop") });
     await page.getByRole("button", { name: "Arrange automatically" }).click();
     await page.waitForTimeout(600);
+    await expectNoSeriousViolations(page, "the editor's canvas (laptop)");
     await page.screenshot({ path: screenshotPath("editor-canvas-laptop") });
     expect(canvas.length).toBeGreaterThan(0);
 
@@ -188,6 +190,7 @@ describe("authoring a tree in the browser", () => {
     await page.waitForURL(`${treeUrl}/edit`);
     const outline = page.getByRole("tree", { name: "Outline of the draft" });
     await outline.getByRole("treeitem").nth(4).waitFor();
+    await expectNoSeriousViolations(page, "the editor's outline (phone)");
     await page.screenshot({ path: screenshotPath("editor-outline-phone"), fullPage: true });
     // The canvas is not downloaded until the Canvas tab is opened.
     expect(canvas).toEqual([]);

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { finishedRun, freshCall, startedRun } from "../support/fixtures";
+import { expectNoSeriousViolations, smallTargets } from "../support/a11y";
 import { TINY_PNG } from "../support/photo";
 
 const baseUrl = inject("baseUrl");
@@ -39,6 +40,7 @@ async function acknowledge(page: Page, title: string, name: string) {
   await expect(ack.textContent()).resolves.toMatch(/Acknowledges the caution ‘.+’ and goes on/);
   await expect(page.getByRole("checkbox").count()).resolves.toBe(0);
   await expect(smallTargets(page)).resolves.toEqual([]);
+  await expectNoSeriousViolations(page, `the caution “${title}”`);
   await ack.scrollIntoViewIfNeeded();
   await snap(page, name);
   // Tapped from wherever the page stands (the tap must not be lost to a scroll on focus).
@@ -48,26 +50,6 @@ async function acknowledge(page: Page, title: string, name: string) {
 
 async function saved(page: Page) {
   await page.getByRole("status").filter({ hasText: "✓ Saved" }).waitFor({ timeout: 10_000 });
-}
-
-/**
- * Controls smaller than 44×44 CSS px (WCAG 2.2 SC 2.5.5, target size, enhanced). Links inside a
- * sentence are exempt (the SC's "inline" exception); a control drawn by its label (radio cards,
- * the camera input) is measured by the label.
- */
-async function smallTargets(page: Page): Promise<string[]> {
-  return page.evaluate(() => {
-    const out: string[] = [];
-    for (const el of document.querySelectorAll<HTMLElement>("a[href], button, input, select, textarea, summary")) {
-      if (el.closest("p, li") && el.tagName === "A") continue;
-      const box = el.closest("label") ?? el;
-      const r = box.getBoundingClientRect();
-      const style = getComputedStyle(box);
-      if (r.width === 0 || r.height === 0 || style.visibility === "hidden") continue;
-      if (r.width < 44 || r.height < 44) out.push(`${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`);
-    }
-    return out;
-  });
 }
 
 /** Whether `selector`'s element lies wholly between the sticky header and the bottom bar (or the window's foot). */
@@ -127,11 +109,11 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await snap(page, "my-calls", true);
 
-    await page.getByRole("link", { name: `Call ${call.number}: heats unevenly` }).click();
+    await page.getByRole("link", { name: new RegExp(`^Call ${call.number} .*“heats unevenly”`) }).click();
     await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
     await page.getByText("Best match for “heats unevenly”").waitFor();
     await snap(page, "call", true);
-    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
+    await page.getByRole("button", { name: "Start this procedure: Two-fan convection rotisserie heats unevenly" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
 
     // Three cautions, each with the safety wording and an explicit acknowledgement.
@@ -150,6 +132,7 @@ describe("the phone runner (390×844)", () => {
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
+    await expectNoSeriousViolations(page, "the supply measurement with its verdict");
     // The verdict is a live region right under the field. With the phone's keyboard open (here the
     // window made 364 px shorter, as a keyboard that resizes the page does) it stays in view.
     await expect(page.getByRole("status").filter({ hasText: "Within limits" }).count()).resolves.toBe(1);
@@ -256,6 +239,7 @@ describe("the phone runner (390×844)", () => {
 
     // The report, e-mailed to the site contact.
     await page.getByRole("heading", { level: 1, name: /^Job finished/ }).waitFor();
+    await expectNoSeriousViolations(page, "the job-finished screen");
     await snap(page, "finished", true);
     await page.getByRole("button", { name: "E-mail the report to Hal Brennick" }).click();
     await page.getByText("✓ E-mailed to deli@larkspur.example").waitFor();
@@ -301,6 +285,17 @@ describe("the phone runner (390×844)", () => {
       await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(true);
       const img = page.getByRole("img", { name: "Photo at: Run capacitor against its rating" });
       await expect(img.evaluate((el) => (el as HTMLImageElement).naturalWidth)).resolves.toBe(1);
+      // The report page is a page of its own (outside the shell): it has its own main landmark.
+      await expect(page.getByRole("main").count()).resolves.toBe(1);
+      await expectNoSeriousViolations(page, `the report page (${size})`);
+      await expect(smallTargets(page)).resolves.toEqual([]);
+      // Sent already: no primary e-mail button; sending again is the quiet button that asks first.
+      await expect(page.getByRole("button", { name: /^E-mail/ }).count()).resolves.toBe(0);
+      await page.getByRole("button", { name: "Send it again…" }).click();
+      await page.getByText("Send the report to Hal Brennick (deli@larkspur.example) again? They already have it.").waitFor();
+      await snap(page, `report-send-again-asks-${size}`);
+      await page.getByRole("button", { name: "No", exact: true }).click();
+      await page.getByRole("button", { name: "Send it again…" }).waitFor();
       await snap(page, `report-${size}`, true);
       if (size === "laptop") {
         await page.emulateMedia({ media: "print" });
@@ -340,6 +335,10 @@ describe("the phone runner (390×844)", () => {
     await op.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await op.waitForURL(`${baseUrl}/outbox`);
     await op.getByText(`Service report ${run.reportNumber} — Vantor RCF-2208`, { exact: false }).first().waitFor();
+    // Each report mail links to its report; the page speaks of what was sent, not of the catcher.
+    const links = await op.getByRole("link", { name: "Open the report" }).evaluateAll((els) => els.map((e) => e.getAttribute("href")));
+    expect(links).toContain(run.reportPath);
+    await expect(op.getByText(/mail catcher/).count()).resolves.toBe(0);
     await snap(op, "outbox-laptop");
     await owner.close();
   });
@@ -372,7 +371,7 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await page.goto(`${baseUrl}/calls/all?q=${call.number}`);
     await page.getByRole("link", { name: `Call ${call.number}` }).click();
-    await page.getByRole("button", { name: "Start: Electric griddle section does not heat" }).click();
+    await page.getByRole("button", { name: "Start this procedure: Electric griddle section does not heat" }).click();
     await page.waitForURL(/\/runs\//);
     const griddleRun = page.url();
     await acknowledge(page, "Hot plate and live terminals", "griddle-caution");

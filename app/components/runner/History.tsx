@@ -1,6 +1,6 @@
 // The run so far: every step, with the ones taken back struck through.
 import type { StepView } from "~/lib/run-log";
-import { clock } from "./clock";
+import { atShop } from "~/lib/display";
 import type { RunHandle } from "./useRun";
 
 function stepSummary(s: StepView, practice: boolean): string {
@@ -43,7 +43,7 @@ export function History({ run, onClose }: { run: RunHandle; onClose?: () => void
             <li key={s.key} className={`border-b border-rule pb-2 ${s.undone ? "text-ink-soft line-through" : ""}`}>
               <p className="flex justify-between gap-2 font-semibold">
                 <span>{run.byId.get(s.node ?? "")?.title ?? s.node}</span>
-                <span className="shrink-0 font-normal text-ink-soft">{clock(new Date(s.recordedAt), run.view.timeZone)}</span>
+                <span className="shrink-0 font-normal text-ink-soft">{atShop(s.recordedAt, run.view.timeZone, "time")}</span>
               </p>
               <p className={practice ? "" : s.verdict === "within" ? "text-within" : s.verdict === "marginal" ? "text-marginal" : s.verdict ? "text-out" : ""}>
                 {stepSummary(s, practice)}

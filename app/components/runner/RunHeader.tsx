@@ -1,5 +1,6 @@
 // The runner's top bar: back to the call, the step count (opens the history), the save state.
 import { PracticeBanner } from "./practice/Scripted";
+import { stepsDone } from "~/lib/run-log";
 import type { RunHandle } from "./useRun";
 
 function SaveState({ run }: { run: RunHandle }) {
@@ -23,8 +24,8 @@ function SaveState({ run }: { run: RunHandle }) {
 }
 
 export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
-  const { view, state } = run;
-  const done = state.steps.length;
+  const { view } = run;
+  const done = stepsDone(view.steps);
   const back = view.run.practice ? "/practice" : view.call ? `/calls/${view.call.id}` : "/";
   return (
     <header className="sticky top-0 z-20 border-b border-rule bg-card">

@@ -45,7 +45,9 @@ export function useRun(initial: RunView) {
     ...writes,
     mutationFn: (p: { key: string; entry: LogEntry; meterId: string | null; at: string }) =>
       postJson<StepResponse>(`/api/runs/${id}/steps`, { key: p.key, entry: stripMeter(p.entry), meterId: p.meterId, at: p.at }),
-    onSuccess: (res, p) => set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? res.step : s)), run: { ...v.run, ...res.run } })),
+    // The server's row replaces the optimistic one, but keeps a "taken back" the phone already
+    // applied: an undo sent while this step was on its way reaches the server after it.
+    onSuccess: (res, p) => set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? { ...res.step, undone: res.step.undone || s.undone } : s)), run: { ...v.run, ...res.run } })),
     onError: (e, p) => {
       // Drop this step and anything queued after it; the server's version is the truth.
       set((v) => {

@@ -155,6 +155,7 @@ export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportM
   try {
     ({ messageId } = await sendMail({
       shopId: ctx.shopId,
+      reportId,
       to: r.site.contactEmail,
       subject,
       text: reportText(r),
