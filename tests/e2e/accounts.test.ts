@@ -148,7 +148,10 @@ describe("a technician looks after their own access", () => {
 
     const page = await phone.newPage();
     await page.goto(`${baseUrl}/calls`);
-    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Account" }).click();
+    // On a phone the account is an occasional page: it sits under the bar's "More".
+    const nav = page.getByRole("navigation", { name: "Main" });
+    await nav.locator("summary").click();
+    await nav.getByRole("link", { name: "Account" }).click();
     await page.waitForURL(`${baseUrl}/account`);
     await page.getByRole("heading", { level: 1, name: "Your account" }).waitFor();
     const sessions = page.getByRole("region", { name: "Where you are signed in" }).getByRole("listitem");

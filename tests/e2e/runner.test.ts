@@ -272,7 +272,7 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("the report page shows the readings table with verdicts and limits, the photo and the cautions; prints without the toolbar", async () => {
-    const { reportPath } = await finishedRun();
+    const { reportPath } = await finishedRun({ send: true });
     for (const [size, viewport] of [["phone", PHONE], ["laptop", LAPTOP]] as const) {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();

@@ -19,6 +19,7 @@ import { foundHereBefore } from "../../app/models/insights/found-here.server";
 import { overview, overviewTable } from "../../app/models/insights/overview.server";
 import { changeRunStatus, recordOutcome, type OutcomeInput } from "../../app/models/runs/lifecycle.server";
 import { startRun } from "../../app/models/runs/start.server";
+import { finishPractice } from "../../app/models/training/practice.server";
 import { postStep, type StepInput } from "../../app/models/runs/steps.server";
 import { createPublishedTree } from "../../app/models/trees/drafts.server";
 import { loader as csvLoader } from "../../app/routes/api.insights.csv";
@@ -178,8 +179,10 @@ describe("the overview on a hand-built shop", () => {
 
     // R6 — a practice run by the trainer's trainee (tech1): a capacitor too, never counted.
     const r6 = await start(shop.tech1, rot!.treeId, "2026-11-25T15:00:00Z", undefined, true);
-    await steps(shop.tech1, r6, "2026-11-25T15:00:00Z", [...CAUTIONS, SUPPLY_OK, ...TO_CAP, CAP_LOW]);
-    await finish(shop.tech1, r6, "2026-11-25T15:30:00Z", { action: "Practice", minutes: 20, parts: [capacitor] });
+    // In practice the trainee makes their own call on each reading, and the run is finished, not closed with an outcome.
+    await steps(shop.tech1, r6, "2026-11-25T15:00:00Z", [...CAUTIONS, { ...SUPPLY_OK, call: "within" }, ...TO_CAP, { ...CAP_LOW, call: "low" }] as Entry[]);
+    at("2026-11-25T15:30:00Z");
+    await finishPractice(shop.tech1, r6);
     vi.useRealTimers();
   });
 
@@ -384,7 +387,8 @@ describe("found here before", () => {
     // A practice run and an abandoned run never count.
     const practice = await start(shop.tech1, griddle(shop).treeId, "2026-11-10T15:00:00Z", undefined, true);
     await steps(shop.tech1, practice, "2026-11-10T15:00:00Z", [ack("hot-plate"), { type: "answer", node: "heat-light", answer: "no" }]);
-    await finish(shop.tech1, practice, "2026-11-10T16:00:00Z", { action: "Practice", minutes: 30, parts: [] });
+    at("2026-11-10T16:00:00Z");
+    await finishPractice(shop.tech1, practice);
     const k = await call(shop, "H", "2026-11-11T14:00:00Z");
     const gone = await start(shop.tech1, griddle(shop).treeId, "2026-11-11T15:00:00Z", k);
     await steps(shop.tech1, gone, "2026-11-11T15:00:00Z", [ack("hot-plate"), { type: "answer", node: "heat-light", answer: "yes" }]);

@@ -27,7 +27,8 @@ export function Notice({ sent }: { sent: { ok: boolean; message: string } | unde
 export function CardTable({ empty, rows, minWidth = "min-w-[40rem]", head, children, caption }: { empty: string; rows: number; minWidth?: string; head: string[]; children: ReactNode; caption?: ReactNode }) {
   if (rows === 0) return <p className="card text-ink-soft">{empty}</p>;
   return (
-    <div className="card overflow-x-auto p-0">
+    // Focusable, so a keyboard can scroll a table wider than a phone (WCAG 2.1.1).
+    <div className="card overflow-x-auto p-0 focus-visible:outline-2" tabIndex={0}>
       <table className={`w-full ${minWidth}`}>
         {caption && <caption className="px-3 pt-3 text-left text-lg font-bold">{caption}</caption>}
         <thead className="border-b border-rule">
