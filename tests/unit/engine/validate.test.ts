@@ -3,6 +3,7 @@ import fc from "fast-check";
 import { readFileSync, readdirSync } from "node:fs";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { validateTree, validateTreeData } from "../../../app/engine/validate";
+import { adjacency, components, reachFrom } from "../../../app/engine/validation/walk";
 import type { Branch, Finding, MeasurementNode, Tree, TreeNode } from "../../../app/engine/types";
 
 const TREES = new URL("../../../trees/", import.meta.url);
@@ -277,5 +278,36 @@ describe("data of unknown shape", () => {
     expect(r.tree).toBeNull();
     expect(r.result.findings.map((f) => f.code)).toEqual(["shape", "shape"]);
     expect(r.result.findings[1]).toMatchObject({ nodeIndex: 0, nodeId: "A B" });
+  });
+});
+
+describe("graph walks (one depth-first search under reachability and Tarjan's components)", () => {
+  const graphs = fc.integer({ min: 1, max: 12 }).chain((n) => fc.tuple(fc.constant(n), fc.array(fc.tuple(fc.nat(n - 1), fc.nat(n - 1)), { maxLength: 30 })));
+  // Oracle: plain breadth-first reachability from each node.
+  function reaches(n: number, edges: [number, number][]): boolean[][] {
+    return Array.from({ length: n }, (_, s) => {
+      const seen = Array<boolean>(n).fill(false);
+      seen[s] = true;
+      const queue = [s];
+      for (let q = 0; q < queue.length; q++) for (const [a, b] of edges) if (a === queue[q] && !seen[b]) (seen[b] = true), queue.push(b);
+      return seen;
+    });
+  }
+  it("property: two nodes share a component exactly when each reaches the other; reverse post-order lists what the start reaches", () => {
+    fc.assert(
+      fc.property(graphs, ([n, edges]) => {
+        const g = adjacency(n, edges.map((e) => e[0]), edges.map((e) => e[1]), () => true);
+        const r = reaches(n, edges);
+        const c = components(g, n);
+        for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) expect(c.comp[a] === c.comp[b]).toBe(r[a]![b]! && r[b]![a]!);
+        const { reach, order } = reachFrom(g, n, 0);
+        expect([...reach].map(Boolean)).toEqual(r[0]);
+        expect([...order].sort((x, y) => x - y)).toEqual(r[0]!.flatMap((v, i) => (v ? [i] : [])));
+        // Reverse post-order: along an edge between different components, the tail comes first.
+        const pos = new Map(order.map((v, i) => [v, i]));
+        for (const [a, b] of edges) if (reach[a] && c.comp[a] !== c.comp[b]) expect(pos.get(a)!).toBeLessThan(pos.get(b)!);
+      }),
+      { numRuns: 500 },
+    );
   });
 });
