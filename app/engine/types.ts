@@ -101,6 +101,12 @@ export interface Meter {
   resolution: number;
   /** Unit of the resolution (and the scale the percentage applies to); default the node's unit. */
   unit?: string;
+  /**
+   * Top of the meter's range in `unit`, when the shop lists it: a reading above it is refused
+   * (the meter can't show it), and an overload ("OL") counts as high when it is at or above the
+   * step's upper limit. Trees don't carry it; the runner passes the chosen shop meter's.
+   */
+  range?: number;
 }
 
 export type Acceptance = "simple" | "guarded";

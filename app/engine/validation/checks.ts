@@ -2,7 +2,7 @@
 // branches, formulas, answers, variables) and at ids; they also collect the branches as edges for
 // the graph walks. Findings are written for a lead tech.
 import type { Limits, LimitValue, MeasurementNode, Quantity, Tree, TreeNode } from "../types";
-import { QUANTITY_INFO, kindNoun, resolveUnit, convertQty } from "../units";
+import { QUANTITY_INFO, belowAbsoluteZero, kindNoun, resolveUnit, convertQty } from "../units";
 import { compileFormula, isReservedName } from "../formula";
 import { possibleVerdicts } from "../limits";
 import { branchName, describeNode } from "../graph";
@@ -71,10 +71,14 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           message: `A limit of ${describeNode(node)} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
         });
       } else if (display && "value" in v) {
-        x = convertQty(v.value, r.qty, display.qty);
+        if (belowAbsoluteZero(v.value, r)) {
+          add({ severity: "error", code: "below-absolute-zero", ...at, field: "limits", message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.` });
+        } else x = convertQty(v.value, r.qty, display.qty);
       }
     } else if ("value" in v) {
-      x = v.value;
+      if (display && belowAbsoluteZero(v.value, display)) {
+        add({ severity: "error", code: "below-absolute-zero", ...at, field: "limits", message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.` });
+      } else x = v.value;
     }
     fixed.push(x);
     if ("formula" in v) checkFormula(v.formula, node, i, "limits", add);

@@ -37,7 +37,7 @@ describe("tree (1): two-fan rotisserie, 208 V unit", () => {
     const supply = s.steps.find((x) => x.node === "supply-voltage")!;
     expect(supply.verdict?.verdict).toBe("within"); // about 208 V across L1–L2 (common practice)
     const cap = s.steps.find((x) => x.node === "cap-measure")!;
-    expect(cap.verdict?.message).toBe("1.47 µF — within 1.41–1.59 µF (1.5 µF ± 6 %; meter ±0.035 µF)");
+    expect(cap.verdict?.message).toBe("1.47 µF — within 1.41–1.59 µF (1.5 µF ± 6 %; meter ±0.035 µF; acceptance limits 1.445–1.555 µF)");
     expect(s.variables.rated_uf).toMatchObject({ value: 1.5, unit: "µF", node: "cap-rating" });
     expect(s.variables.rated_uf!.si).toBeCloseTo(1.5e-6, 15);
   });
