@@ -203,4 +203,6 @@ export interface Finding {
   nodeIndex?: number;
   /** Which part of the node: "limits", "unit", "meter", "variable", "next", "branch:low", "answer:<label>"… */
   field?: string;
+  /** Ids of other nodes this finding accounts for: what a missing branch target or an unreachable step cuts off. */
+  covers?: string[];
 }

@@ -26,7 +26,7 @@ export function validateTree(tree: Tree): ValidationResult {
   };
   const nodes = checkNodes(tree, add);
   if (nodes.start !== undefined) {
-    const reached = checkGraph(tree, nodes.duplicate, nodes.start, nodes.edges, add);
+    const reached = checkGraph(tree, nodes.duplicate, nodes.start, nodes.edges, nodes.missing, add);
     checkDataFlow(tree, nodes.start, reached, nodes.edges, nodes.definers, add);
   }
 

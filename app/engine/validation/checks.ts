@@ -1,12 +1,15 @@
 // The checks of validation that look at one node at a time (units, limits, meters, verdict
 // branches, formulas, answers, variables) and at ids; they also collect the branches as edges for
 // the graph walks. Findings are written for a lead tech.
-import type { Limits, LimitValue, MeasurementNode, Quantity, Tree, TreeNode } from "../types";
+import type { Finding, Limits, LimitValue, MeasurementNode, NodeKind, Quantity, Tree, TreeNode } from "../types";
 import { QUANTITY_INFO, belowAbsoluteZero, kindNoun, resolveUnit, convertQty } from "../units";
 import { compileFormula, isReservedName } from "../formula";
 import { possibleVerdicts } from "../limits";
 import { branchName, describeNode } from "../graph";
+import { DEFAULT_REASON, DEFAULT_REMEDY, isDefaultTitle } from "../defaults";
 import { type Add, type Edges, branchAt, slotCount, slotKey } from "./shared";
+
+const KIND_NOUN: Record<NodeKind, string> = { question: "question", measurement: "measurement", step: "step", caution: "caution", nameplate: "nameplate value", outcome: "root cause", escalate: "hand-over" };
 
 const VERDICT_WORD: Record<string, string> = {
   low: "a low reading",
@@ -237,6 +240,14 @@ export interface NodeChecks {
   start: number | undefined;
   definers: Map<string, Definer>;
   edges: Edges;
+  /** Branches to ids no node has, with their findings (graph checks fold what they cut off into them). */
+  missing: MissingTarget[];
+}
+
+export interface MissingTarget {
+  from: number;
+  target: string;
+  finding: Finding;
 }
 
 /**
@@ -275,11 +286,37 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
   const edges: Edges = { edgeFrom: [], edgeTo: [], edgeLoop: [], edgeSlot: [] };
   const { edgeFrom, edgeTo, edgeLoop, edgeSlot } = edges;
 
+  const missing: MissingTarget[] = [];
+  const titled = new Map<string, number>();
+
   // (Helpers instead of per-node closures: nothing is built per node unless it is reported.)
   const at = (i: number) => ({ nodeId: nodes[i]!.id, nodeIndex: i });
   const nameOf = (i: number) => describeNode(nodes[i]!);
   for (let i = 0; i < N; i++) {
     const n = nodes[i]!;
+
+    // Titles: no editor placeholder left, and each node told apart from the others by its title.
+    if (isDefaultTitle(n.title)) {
+      add({ severity: "error", code: "default-text", ...at(i), field: "title", message: `${nameOf(i)} still has the editor's placeholder title ‘${n.title}’: say what this ${KIND_NOUN[n.kind]} is.` });
+    }
+    const same = duplicate[i] ? undefined : titled.get(n.title);
+    if (same === undefined) {
+      if (!duplicate[i]) titled.set(n.title, i);
+    } else if (!isDefaultTitle(n.title)) {
+      add({
+        severity: "warning",
+        code: "duplicate-title",
+        ...at(i),
+        field: "title",
+        message: `‘${n.id}’ and ‘${nodes[same]!.id}’ are both titled ‘${n.title}’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).`,
+      });
+    }
+    if (n.kind === "outcome" && n.remedy.trim() === DEFAULT_REMEDY) {
+      add({ severity: "error", code: "default-text", ...at(i), field: "remedy", message: `${nameOf(i)} still has the editor's placeholder remedy ‘${DEFAULT_REMEDY}’: write what the technician should do.` });
+    }
+    if (n.kind === "escalate" && n.reason.trim() === DEFAULT_REASON) {
+      add({ severity: "error", code: "default-text", ...at(i), field: "reason", message: `${nameOf(i)} still has the editor's placeholder reason ‘${DEFAULT_REASON}’: write why a lead should take over.` });
+    }
 
     switch (n.kind) {
       case "question": {
@@ -336,13 +373,15 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
       const to = index.get(branch.to);
       if (to === undefined) {
         const key = slotKey(n, slot);
-        add({
+        const finding: Finding = {
           severity: "error",
           code: "unknown-target",
           ...at(i),
           field: key,
           message: `${nameOf(i)} sends ‘${branchName(key)}’ to ‘${branch.to}’, but no step has that id.`,
-        });
+        };
+        add(finding);
+        missing.push({ from: i, target: branch.to, finding });
       } else {
         edgeFrom.push(i);
         edgeTo.push(to);
@@ -358,13 +397,15 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
         if (r.onExceed !== undefined) {
           const ex = index.get(r.onExceed);
           if (ex === undefined) {
-            add({
+            const finding: Finding = {
               severity: "error",
               code: "unknown-target",
               ...at(i),
               field: slotKey(n, slot),
               message: `${nameOf(i)} goes to ‘${r.onExceed}’ when the re-check limit is reached, but no step has that id.`,
-            });
+            };
+            add(finding);
+            missing.push({ from: i, target: r.onExceed, finding });
           } else {
             edgeFrom.push(i);
             edgeTo.push(ex);
@@ -384,5 +425,5 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
       add({ severity: "error", code: "dead-end", ...at(i), message: `${nameOf(i)} has no way on: ${fix}.` });
     }
   }
-  return { index, duplicate, start, definers, edges };
+  return { index, duplicate, start, definers, edges, missing };
 }

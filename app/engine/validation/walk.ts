@@ -36,9 +36,10 @@ export interface DfsVisitor {
   enter(v: number, parent: number): void;
   /**
    * The adjacency entry k (v → w) leads to a node already entered. `onPath` says w is on the
-   * current path from the root to v, so v → w closes a cycle (a back edge).
+   * current path from the root to v, so v → w closes a cycle (a back edge): the cycle is
+   * walk.nodes[walk.position[w] .. walk.depth], then back to w.
    */
-  seen(v: number, w: number, k: number, onPath: boolean): void;
+  seen(v: number, w: number, k: number, onPath: boolean, walk: DepthFirst): void;
   /** Every successor of v is done. */
   leave(v: number, parent: number): void;
 }
@@ -86,7 +87,7 @@ export class DepthFirst {
         next[d] = k + 1;
         const w = adj[k]!;
         if (entered[w]) {
-          visit.seen(v, w, k, position[w] !== -1);
+          visit.seen(v, w, k, position[w] !== -1, this);
         } else {
           entered[w] = 1;
           d++;
@@ -145,9 +146,9 @@ export function components(g: Adjacency, N: number, first: readonly number[] = [
       stack[sp++] = v;
       onStack[v] = 1;
     },
-    seen(v, w, k, onPath) {
+    seen(v, w, k, onPath, walk) {
       if (onStack[w] && idx[w]! < low[v]!) low[v] = idx[w]!;
-      if (onSeen) onSeen(v, w, k, onPath);
+      if (onSeen) onSeen(v, w, k, onPath, walk);
     },
     leave(v, parent) {
       if (low[v] === idx[v]) {

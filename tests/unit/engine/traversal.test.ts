@@ -127,6 +127,54 @@ describe("rejections", () => {
       "‘maybe’ isn't an answer to Question ‘With the elements heating, do both convection fans run at full speed?’; the answers are ‘both at full speed’, ‘one slow’, ‘one stopped’, ‘one slow, one stopped’, ‘both stopped’.",
     );
   });
+  it("one slow, one stopped: both fans are walked — each fan's capacitor, then its motor (trade practice: common practice)", () => {
+    const s = replay(rotisserie, [
+      ...TO_CAPACITOR.slice(0, 4),
+      { type: "answer", node: "fans", answer: "one slow, one stopped" },
+      { type: "acknowledge", node: "two-fans-lockout" },
+      { type: "nameplate", node: "stopped-cap-rating", value: "1.5 µF" },
+      { type: "reading", node: "stopped-cap-measure", reading: "1.30 µF" }, // below 1.41 µF: failed
+      { type: "nameplate", node: "sc-slow-rating", value: "1.5 µF" },
+      { type: "reading", node: "sc-slow-measure", reading: "1.50 µF" }, // good capacitor…
+      { type: "answer", node: "sc-slow-shaft", answer: "stiff, gritty or seized" }, // …so the slow fan's motor
+    ]);
+    expect(s.rejected).toEqual([]);
+    expect(s.finished).toEqual({ kind: "outcome", node: "stopped-cap-slow-motor" });
+    expect(s.steps.filter((x) => x.verdict).map((x) => [x.node, x.verdict!.verdict])).toEqual([
+      ["supply-voltage", "within"],
+      ["stopped-cap-measure", "low"],
+      ["sc-slow-measure", "within"],
+    ]);
+  });
+  it("one slow, one stopped: every way through checks both fans and ends in a root cause that names both", () => {
+    const byId = new Map(rotisserie.nodes.map((n) => [n.id, n]));
+    const next = (id: string): string[] => {
+      const n = byId.get(id)!;
+      const bs = n.kind === "question" ? n.answers : n.kind === "measurement" ? Object.values(n.branches) : "next" in n && n.next ? [n.next] : [];
+      // A re-check loop is taken at most its bound, then leaves by its exit: follow the exit instead.
+      return bs.flatMap((b) => (b!.recheck ? (b!.recheck.onExceed ? [b!.recheck.onExceed] : []) : [b!.to]));
+    };
+    const ends = new Set<string>();
+    let paths = 0;
+    const walkFrom = (id: string, path: string[]) => {
+      const n = byId.get(id)!;
+      if (n.kind === "outcome" || n.kind === "escalate") {
+        paths++;
+        ends.add(id);
+        expect(path).toContain("stopped-cap-measure");
+        expect(path.some((p) => p === "sc-slow-measure" || p === "sm-slow-measure")).toBe(true);
+        // a motor is only condemned after its shaft was checked
+        if (/motor/.test(id)) expect(path.some((p) => /shaft/.test(p))).toBe(true);
+        return;
+      }
+      for (const to of next(id)) walkFrom(to, [...path, to]);
+    };
+    const fans = byId.get("fans") as Extract<TreeNode, { kind: "question" }>;
+    const start = fans.answers.find((a) => a.label === "one slow, one stopped")!.to;
+    walkFrom(start, [start]);
+    expect(paths).toBeGreaterThan(8);
+    expect([...ends].sort()).toEqual(["both-caps-failed", "both-motors-failed", "stopped-cap-slow-motor", "stopped-motor-slow-cap"]);
+  });
   it("nothing applies after the end except undo", () => {
     const s = replay(rotisserie, [...TO_CAPACITOR.slice(0, 4), { type: "answer", node: "fans", answer: "both stopped" }, { type: "acknowledge", node: "fans-both-stopped" }]);
     expect(s.finished).toMatchObject({ kind: "escalate", node: "fans-both-stopped" });

@@ -4,6 +4,7 @@ import { readFileSync, readdirSync } from "node:fs";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { validateTree, validateTreeData } from "../../../app/engine/validate";
 import { adjacency, components, reachFrom } from "../../../app/engine/validation/walk";
+import { DEFAULT_REASON, DEFAULT_REMEDY, DEFAULT_TITLE } from "../../../app/engine/defaults";
 import type { Branch, Finding, MeasurementNode, Tree, TreeNode } from "../../../app/engine/types";
 
 const TREES = new URL("../../../trees/", import.meta.url);
@@ -99,7 +100,9 @@ describe("findings a lead tech can act on", () => {
       step("c", "a"),
       outcome("end"),
     ]);
-    expect(codes(t)).toContain("error:cycle@a");
+    // Reported at the branch that closes the unbounded loop: c's next, back to a (issue 10 item 10).
+    expect(codes(t)).toContain("error:cycle@c");
+    expect(find(t, "cycle")).toMatchObject({ nodeId: "c", field: "next" });
   });
   it("a re-check mark on a branch that doesn't loop is a warning; a bound below 1 is an error", () => {
     expect(codes(tree([step("a", "end", { recheck: { max: 2 } }), outcome("end")]))).toEqual(["warning:recheck-not-a-loop@a"]);
@@ -309,5 +312,82 @@ describe("graph walks (one depth-first search under reachability and Tarjan's co
       }),
       { numRuns: 500 },
     );
+  });
+});
+
+describe("issue 10 items 9–11: findings told once, at their cause, and placeholders caught", () => {
+  it("item 9: one branch to a missing node reports the cause once and folds what it cuts off into it", () => {
+    // The capacitor branch has a typo: 'cap-mesure' for 'cap-measure'; everything behind it is cut off.
+    const t = tree([
+      { id: "fans", kind: "question", title: "Fans", answers: [{ label: "ok", to: "end" }, { label: "slow", to: "cap-mesure" }] },
+      measure("cap-measure", { branches: { low: { to: "failed" }, within: { to: "shaft" }, high: { to: "failed" } } }),
+      { id: "shaft", kind: "question", title: "Shaft", answers: [{ label: "free", to: "winding" }, { label: "stiff", to: "seized" }] },
+      outcome("failed"),
+      outcome("winding"),
+      outcome("seized"),
+      outcome("end"),
+    ]);
+    const r = validateTree(t);
+    expect(r.findings.map((f) => `${f.severity}:${f.code}@${f.nodeId}`)).toEqual(["error:unknown-target@fans"]);
+    expect(r.findings[0]!.message).toBe(
+      "Question ‘Fans’ sends ‘slow’ to ‘cap-mesure’, but no step has that id — did you mean ‘cap-measure’? Until it is fixed, ‘cap-measure’ and the 4 steps after it can't be reached.",
+    );
+    expect(r.findings[0]!.covers).toEqual(["cap-measure", "failed", "shaft", "winding", "seized"]);
+  });
+  it("item 9: on a 10,000-node tree one typo is one finding, not a thousand", async () => {
+    const { generateTree } = await import("../../../scripts/bench-engine");
+    const big = generateTree(10_000);
+    const k = 417;
+    const m = big.nodes.find((n) => n.id === `b${k - 1}-m`) as MeasurementNode;
+    m.branches.within = { to: `b${k}-cuation` }; // typo for b417-caution
+    const r = validateTree(big);
+    expect(r.findings).toHaveLength(1);
+    expect(r.findings[0]!.message).toMatch(/did you mean ‘b417-caution’\? Until it is fixed, ‘b417-caution’ and the 4,\d{3} steps after it can't be reached\.$/);
+  });
+  it("item 9: an unreachable part with no missing branch behind it is one warning at its first node", () => {
+    const t = tree([step("a", "end"), outcome("end"), step("lost", "lost2"), step("lost2", "lost3"), outcome("lost3")]);
+    expect(validateTree(t).findings).toEqual([
+      {
+        severity: "warning",
+        code: "unreachable",
+        nodeId: "lost",
+        nodeIndex: 2,
+        message: "Step ‘Step lost’ can't be reached from the start, nor can the 2 steps after it: link to it from another step or delete them.",
+        covers: ["lost2", "lost3"],
+      },
+    ]);
+  });
+  it("item 10: an unbounded loop is reported at the branch that closes it", () => {
+    const t = tree([step("a", "b"), step("b", "c"), measure("c", { branches: { low: { to: "b" }, within: { to: "end" }, high: { to: "end" } } }), outcome("end")]);
+    const f = find(t, "cycle")!;
+    expect(f).toMatchObject({ nodeId: "c", nodeIndex: 2, field: "low" });
+    expect(f.message).toBe(
+      "These steps loop with no limit: b → c → b. ‘low’ of Measurement ‘Measure c’ goes back to ‘b’: mark it as a re-check loop, like ‘(re-check up to 2 times, then escalate-id)’, or remove it.",
+    );
+  });
+  it("item 11: the editor's placeholder texts are errors until replaced", () => {
+    const t = tree([
+      { id: "a", kind: "step", title: DEFAULT_TITLE.step, next: { to: "b" } },
+      { id: "b", kind: "question", title: "Is it hot?", answers: [{ label: "yes", to: "c" }, { label: "no", to: "d" }] },
+      { id: "c", kind: "outcome", title: "Element failed", remedy: DEFAULT_REMEDY, parts: [] },
+      { id: "d", kind: "escalate", title: DEFAULT_TITLE.escalate, reason: DEFAULT_REASON },
+    ]);
+    const r = validateTree(t);
+    expect(r.findings.map((f) => `${f.code}@${f.nodeId}:${f.field}`)).toEqual(["default-text@a:title", "default-text@c:remedy", "default-text@d:title", "default-text@d:reason"]);
+    expect(r.findings[0]!.message).toBe("Step ‘New step’ still has the editor's placeholder title ‘New step’: say what this step is.");
+    expect(r.ok).toBe(false);
+  });
+  it("item 11: two nodes with the same title are flagged, so they can be told apart", () => {
+    const t = tree([step("a", "b"), { id: "b", kind: "step", title: "Step a", next: { to: "end" } }, outcome("end")]);
+    expect(validateTree(t).findings).toEqual([
+      {
+        severity: "warning",
+        code: "duplicate-title",
+        nodeId: "b",
+        nodeIndex: 1,
+        field: "title",
+        message: "‘b’ and ‘a’ are both titled ‘Step a’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).",
+      },
+    ]);
   });
 });
