@@ -124,10 +124,22 @@ describe("item 1: no typed string makes the engine throw", () => {
   it("property: the run takes any typed reading or rating as an entry (applied or refused), never a throw", () => {
     const atSupply = TO_SUPPLY;
     const atRating: LogEntry[] = [...TO_SUPPLY, { type: "reading", node: "supply-voltage", reading: "208 V" }, { type: "answer", node: "fans", answer: "one slow" }, { type: "acknowledge", node: "cap-lockout" }];
+    const atAmbient: LogEntry[] = [
+      ...TO_SUPPLY,
+      { type: "reading", node: "supply-voltage", reading: "208 V" },
+      { type: "answer", node: "fans", answer: "both at full speed" },
+      { type: "answer", node: "fan-direction", answer: "yes" },
+      { type: "continue", node: "self-test" },
+      { type: "answer", node: "self-test-result", answer: "probe fault" },
+      { type: "acknowledge", node: "probe-lockout" },
+      { type: "answer", node: "probe-clean", answer: "yes" },
+      { type: "nameplate", node: "probe-type", value: "1000 Ω" },
+    ];
     fc.assert(
       fc.property(textArb, fc.boolean(), (text, confirmed) => {
         expect(typeof tryEntry(rotisserie, atSupply, { type: "reading", node: "supply-voltage", reading: text, confirmed }).ok).toBe("boolean");
         expect(typeof tryEntry(rotisserie, atRating, { type: "nameplate", node: "cap-rating", value: text }).ok).toBe("boolean");
+        expect(typeof tryEntry(rotisserie, atAmbient, { type: "reading", node: "ambient", reading: text }).ok).toBe("boolean"); // a °C step
       }),
       { numRuns: 1000 },
     );
@@ -292,6 +304,7 @@ describe("item 5: guarded acceptance states the acceptance limit it used (ILAC-G
         const L = n.limits as { min: { value: number }; max: { value: number } };
         const x = (L.min.value + t * (L.max.value - L.min.value)).toFixed(dec);
         const v = judged(n, `${x} V`);
+        expect(v.acceptanceText).toBeDefined();
         if (!v.acceptanceText) return;
         const num = (s: string) => Number(s.split(" ")[0]);
         const u = num(v.acceptanceText.u);
