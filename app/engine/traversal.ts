@@ -12,8 +12,8 @@ export type LogEntry =
   | { type: "answer"; node: string; answer: string }
   /**
    * `confirmed`: the technician confirmed an implausible reading (the verdict's `confirm`); without
-   * it such a reading is refused with code "needs-confirmation". Store it with the step and put it
-   * back when the log is rebuilt, or the stored log won't replay.
+   * it a new entry with such a reading is refused with code "needs-confirmation". Replaying a
+   * stored log doesn't ask again, so the flag is a record (keep it with the step), not a key.
    */
   | { type: "reading"; node: string; reading: string; meter?: Meter; confirmed?: boolean }
   | { type: "nameplate"; node: string; value: string }
@@ -182,8 +182,13 @@ export class Run {
     return { ok: false, rejection };
   }
 
-  /** Apply the next log entry. */
-  apply(entry: LogEntry): ApplyResult {
+  /**
+   * Apply the next log entry. A new entry (the default) must carry `confirmed: true` when its
+   * reading is implausible; with `replaying`, the entry comes from a log that was accepted entry by
+   * entry, so that gate was passed when it was stored and isn't asked again (older logs, stored
+   * before the rule, replay as they were accepted).
+   */
+  apply(entry: LogEntry, how: { replaying?: boolean } = {}): ApplyResult {
     const index = this.count++;
     if (entry.type === "undo") return this.undo(entry, index);
     if (this.error) return this.reject(entry, index, "broken-tree", this.error);
@@ -222,8 +227,8 @@ export class Run {
         const r = evaluateReading(node, e.reading, opts);
         if (!r.ok) return this.reject(entry, index, "reading", r.message, r.suggestions ? { suggestions: r.suggestions } : undefined);
         if (r.verdict.confirm) {
-          if (e.confirmed !== true) return this.reject(entry, index, "needs-confirmation", r.verdict.confirm.message, { confirm: r.verdict.confirm });
-          step.confirmed = true;
+          if (e.confirmed !== true && !how.replaying) return this.reject(entry, index, "needs-confirmation", r.verdict.confirm.message, { confirm: r.verdict.confirm });
+          if (e.confirmed === true) step.confirmed = true;
         }
         branchKey = r.verdict.verdict;
         branch = node.branches[r.verdict.verdict];
@@ -365,6 +370,8 @@ const NEEDS_WORD: Record<LogEntry["type"], string> = {
   undo: "an undo",
 };
 
+const REPLAYING = { replaying: true } as const;
+
 /** Start a run at the tree's first node. */
 export function startRun(tree: Tree): Run {
   return new Run(tree);
@@ -373,7 +380,7 @@ export function startRun(tree: Tree): Run {
 /** Replay a whole log. Deterministic: the same tree and log always give the same state. */
 export function replay(tree: Tree, log: readonly LogEntry[]): RunState {
   const run = new Run(tree);
-  for (const e of log) run.apply(e);
+  for (const e of log) run.apply(e, REPLAYING);
   return run.snapshot();
 }
 
@@ -387,7 +394,7 @@ export function tryEntry(
   entry: LogEntry,
 ): { ok: true; step?: RunStep; state: RunState } | { ok: false; rejection: Rejection; state: RunState } {
   const run = new Run(tree);
-  for (const e of log) run.apply(e);
+  for (const e of log) run.apply(e, REPLAYING);
   const r = run.apply(entry);
   const state = run.snapshot();
   if (r.ok) return r.step ? { ok: true, step: r.step, state } : { ok: true, state };

@@ -449,3 +449,13 @@ describe("item 8: impossible values refused; implausible ones confirmed before t
     expect(confirmed.ok && confirmed.step).toMatchObject({ confirmed: true, branch: "low", to: "low-supply" });
   });
 });
+
+describe("item 8: a confirmation gates a new entry; a stored log replays as it was accepted", () => {
+  it("replay does not ask again (the step was confirmed when it was stored), and records the flag when the log keeps it", () => {
+    const log: LogEntry[] = [...TO_SUPPLY, { type: "reading", node: "supply-voltage", reading: "208 mV" }];
+    expect(replay(rotisserie, log).finished).toEqual({ kind: "escalate", node: "low-supply", reason: expect.any(String) });
+    const kept: LogEntry[] = [...TO_SUPPLY, { type: "reading", node: "supply-voltage", reading: "208 mV", confirmed: true }];
+    expect(replay(rotisserie, kept).steps.at(-1)?.confirmed).toBe(true);
+    expect(replay(rotisserie, log).steps.at(-1)?.confirmed).toBeUndefined();
+  });
+});
