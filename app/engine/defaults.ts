@@ -23,8 +23,9 @@ export const DEFAULT_REASON = "Say why a lead should take over.";
 export const DEFAULT_VARIABLE = "rated_value";
 
 const TITLES: ReadonlySet<string> = new Set(Object.values(DEFAULT_TITLE));
+const LONGEST = Math.max(...[...TITLES].map((t) => t.length));
 
-/** True when a title is one of the editor's placeholders (of any kind: copied nodes keep theirs). */
+/** True when a title is one of the editor's placeholders (of any kind: copied nodes keep theirs). Titles are trimmed by the schema. */
 export function isDefaultTitle(title: string): boolean {
-  return TITLES.has(title.trim());
+  return title.length <= LONGEST && TITLES.has(title);
 }

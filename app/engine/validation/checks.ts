@@ -311,10 +311,10 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
         message: `‘${n.id}’ and ‘${nodes[same]!.id}’ are both titled ‘${n.title}’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).`,
       });
     }
-    if (n.kind === "outcome" && n.remedy.trim() === DEFAULT_REMEDY) {
+    if (n.kind === "outcome" && n.remedy === DEFAULT_REMEDY) {
       add({ severity: "error", code: "default-text", ...at(i), field: "remedy", message: `${nameOf(i)} still has the editor's placeholder remedy ‘${DEFAULT_REMEDY}’: write what the technician should do.` });
     }
-    if (n.kind === "escalate" && n.reason.trim() === DEFAULT_REASON) {
+    if (n.kind === "escalate" && n.reason === DEFAULT_REASON) {
       add({ severity: "error", code: "default-text", ...at(i), field: "reason", message: `${nameOf(i)} still has the editor's placeholder reason ‘${DEFAULT_REASON}’: write why a lead should take over.` });
     }
 
