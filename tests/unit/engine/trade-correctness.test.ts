@@ -269,11 +269,13 @@ describe("item 4: judged against the exact limits; rounded only for display, nev
         if (v.verdict === "low") expect(shown).toBeLessThan(lo);
         if (v.verdict === "high") expect(shown).toBeGreaterThan(hi);
         if (v.verdict === "within") expect(lo <= shown && shown <= hi).toBe(true);
-        // and the verdict is the exact one
+        // and the verdict is the exact one (to the engine's float tolerance, 1e-9 of the largest magnitude)
         const exactLo = nominal * (1 - pct / 100);
         const exactHi = nominal * (1 + pct / 100);
-        if (v.reading.value < exactLo * (1 - 1e-9)) expect(v.verdict).toBe("low");
-        if (v.reading.value > exactHi * (1 + 1e-9)) expect(v.verdict).toBe("high");
+        const e = 1e-9 * Math.max(exactHi, Math.abs(v.reading.value));
+        if (v.reading.value < exactLo - e) expect(v.verdict).toBe("low");
+        if (v.reading.value > exactHi + e) expect(v.verdict).toBe("high");
+        if (v.reading.value >= exactLo + e && v.reading.value <= exactHi - e) expect(v.verdict).toBe("within");
       }),
       { numRuns: 2000 },
     );
