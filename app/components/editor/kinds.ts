@@ -1,5 +1,6 @@
 // How the editor names each kind of node, and what a new one starts as. Shared by the palette,
 // the outline, the canvas and the node forms.
+import { DEFAULT_REASON, DEFAULT_REMEDY, DEFAULT_TITLE, DEFAULT_VARIABLE } from "~/engine/defaults";
 import { CATEGORIES, type NodeKind, type TreeNode } from "~/engine/types";
 
 export const KIND_LABEL: Record<NodeKind, string> = {
@@ -43,18 +44,8 @@ export function categoryLabel(c: string): string {
 /** Palette order: the usual flow of a tree. */
 export const PALETTE_KINDS: NodeKind[] = ["question", "measurement", "step", "caution", "nameplate", "outcome", "escalate"];
 
-const DEFAULT_TITLE: Record<NodeKind, string> = {
-  question: "New question",
-  measurement: "New measurement",
-  step: "New step",
-  caution: "New caution",
-  nameplate: "New nameplate value",
-  outcome: "New root cause",
-  escalate: "Needs a lead",
-};
-
 /** A node of `kind` that the engine's schema accepts, for the author to fill in. */
-export function newNode(kind: NodeKind, id: string, variable = "rated_value"): TreeNode {
+export function newNode(kind: NodeKind, id: string, variable = DEFAULT_VARIABLE): TreeNode {
   const title = DEFAULT_TITLE[kind];
   switch (kind) {
     case "question":
@@ -68,8 +59,8 @@ export function newNode(kind: NodeKind, id: string, variable = "rated_value"): T
     case "nameplate":
       return { id, kind, title, variable, quantity: "voltage", unit: "V" };
     case "outcome":
-      return { id, kind, title, remedy: "Say what to do about it.", parts: [] };
+      return { id, kind, title, remedy: DEFAULT_REMEDY, parts: [] };
     case "escalate":
-      return { id, kind, title, reason: "Say why a lead should take over." };
+      return { id, kind, title, reason: DEFAULT_REASON };
   }
 }

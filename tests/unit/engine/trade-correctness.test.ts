@@ -4,12 +4,12 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { unit as mathUnit } from "mathjs";
-import { readFileSync } from "node:fs";
 import { convert, EXACT_FACTORS, isOverload, parseRating, parseReading, QUANTITY_INFO, resolveUnit, unitQuantity, normaliseUnit } from "../../../app/engine/units";
 import { evaluateReading, type Verdict } from "../../../app/engine/verdict";
 import { computeLimits } from "../../../app/engine/limits";
 import { compileFormula, evaluateFormula } from "../../../app/engine/formula";
 import { replay, tryEntry, type LogEntry } from "../../../app/engine/traversal";
+import { rotisserie, TO_AMBIENT, TO_ELEMENT, TO_SUPPLY } from "./rotisserie";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { validateTree, validateTreeData } from "../../../app/engine/validate";
 import { QUANTITIES, type Limits, type MeasurementNode, type Meter, type Quantity, type Tree } from "../../../app/engine/types";
@@ -27,16 +27,6 @@ function refused(n: Node, text: string, opts: { variables?: Record<string, numbe
   if (r.ok) throw new Error(`${text} was judged: ${r.verdict.message}`);
   return r;
 }
-const rotisserie = (() => {
-  const r = parseTree(readFileSync(new URL("../../../trees/rotisserie-uneven-heat.md", import.meta.url), "utf8"));
-  if (!r.ok) throw new Error("rotisserie tree");
-  return r.tree;
-})();
-const TO_SUPPLY: LogEntry[] = [
-  { type: "acknowledge", node: "lockout" },
-  { type: "acknowledge", node: "discharge-caps" },
-  { type: "acknowledge", node: "live-test" },
-];
 const hotHoldingF = node("temperature", "°F", { kind: "atLeast", min: { value: 135 } }); // FDA Food Code 2022 §3-501.16(A) (read)
 const supply208 = node("voltage", "V", range(191, 218)); // ANSI C84.1-2016 Table 1, 208 V utilisation (from memory)
 const meter1pc3 = { percent: 1, counts: 3, resolution: 0.1 }; // ±(1 % + 3 counts) at 0.1 V — meter makers' convention (read, secondary)
@@ -59,23 +49,11 @@ describe("item 1: no typed string makes the engine throw", () => {
     expect(validateTree(t).findings.map((f) => f.code)).toEqual(["below-absolute-zero"]);
     expect(computeLimits(cold)).toMatchObject({ ok: false, code: "impossible" });
   });
-  it("the runner's replay refuses the entry and carries on", () => {
-    const s = replay(rotisserie, [...TO_SUPPLY.slice(0, 0)]);
-    expect(s.current).toBe("lockout");
-    const ambient: LogEntry[] = [
-      ...TO_SUPPLY,
-      { type: "reading", node: "supply-voltage", reading: "208 V" },
-      { type: "answer", node: "fans", answer: "both at full speed" },
-      { type: "answer", node: "fan-direction", answer: "yes" },
-      { type: "continue", node: "self-test" },
-      { type: "answer", node: "self-test-result", answer: "probe fault" },
-      { type: "acknowledge", node: "probe-lockout" },
-      { type: "answer", node: "probe-clean", answer: "yes" },
-      { type: "nameplate", node: "probe-type", value: "1000 Ω" },
-    ];
-    const r = tryEntry(rotisserie, ambient, { type: "reading", node: "ambient", reading: "-300 °C" });
+  it("the run refuses the entry with a message and stays where it was", () => {
+    const r = tryEntry(rotisserie, TO_AMBIENT, { type: "reading", node: "ambient", reading: "-300 °C" });
     expect(r.ok).toBe(false);
-    expect(!r.ok && r.rejection.code).toBe("reading");
+    expect(!r.ok && r.rejection).toMatchObject({ code: "reading", message: "‘-300 °C’ is below absolute zero (−273.15 °C): check the reading and its unit." });
+    expect(r.state.current).toBe("ambient");
   });
 
   // Strings of every shape: arbitrary text, and text built from the pieces technicians and
@@ -124,22 +102,11 @@ describe("item 1: no typed string makes the engine throw", () => {
   it("property: the run takes any typed reading or rating as an entry (applied or refused), never a throw", () => {
     const atSupply = TO_SUPPLY;
     const atRating: LogEntry[] = [...TO_SUPPLY, { type: "reading", node: "supply-voltage", reading: "208 V" }, { type: "answer", node: "fans", answer: "one slow" }, { type: "acknowledge", node: "cap-lockout" }];
-    const atAmbient: LogEntry[] = [
-      ...TO_SUPPLY,
-      { type: "reading", node: "supply-voltage", reading: "208 V" },
-      { type: "answer", node: "fans", answer: "both at full speed" },
-      { type: "answer", node: "fan-direction", answer: "yes" },
-      { type: "continue", node: "self-test" },
-      { type: "answer", node: "self-test-result", answer: "probe fault" },
-      { type: "acknowledge", node: "probe-lockout" },
-      { type: "answer", node: "probe-clean", answer: "yes" },
-      { type: "nameplate", node: "probe-type", value: "1000 Ω" },
-    ];
     fc.assert(
       fc.property(textArb, fc.boolean(), (text, confirmed) => {
         expect(typeof tryEntry(rotisserie, atSupply, { type: "reading", node: "supply-voltage", reading: text, confirmed }).ok).toBe("boolean");
         expect(typeof tryEntry(rotisserie, atRating, { type: "nameplate", node: "cap-rating", value: text }).ok).toBe("boolean");
-        expect(typeof tryEntry(rotisserie, atAmbient, { type: "reading", node: "ambient", reading: text }).ok).toBe("boolean"); // a °C step
+        expect(typeof tryEntry(rotisserie, TO_AMBIENT, { type: "reading", node: "ambient", reading: text }).ok).toBe("boolean"); // a °C step
       }),
       { numRuns: 1000 },
     );
@@ -348,20 +315,9 @@ describe("item 6: a meter's overload display (common practice: OL, O.L, 0.L)", (
     expect(refused(hotHoldingF, "OL").code).toBe("overload"); // an open probe must never pass a hot-holding check
   });
   it("the rotisserie tree's element check takes OL to the open element; a rating can't be OL", () => {
-    const toElement: LogEntry[] = [
-      ...TO_SUPPLY,
-      { type: "reading", node: "supply-voltage", reading: "208 V" },
-      { type: "answer", node: "fans", answer: "both at full speed" },
-      { type: "answer", node: "fan-direction", answer: "yes" },
-      { type: "continue", node: "self-test" },
-      { type: "answer", node: "self-test-result", answer: "element fault" },
-      { type: "acknowledge", node: "element-lockout" },
-      { type: "nameplate", node: "element-volts", value: "208 V" },
-      { type: "nameplate", node: "element-watts", value: "2000 W" },
-    ];
-    const r = tryEntry(rotisserie, toElement, { type: "reading", node: "element-ohms", reading: "O.L" });
+    const r = tryEntry(rotisserie, TO_ELEMENT, { type: "reading", node: "element-ohms", reading: "O.L" });
     expect(r.ok && r.state.finished).toEqual({ kind: "outcome", node: "element-open" });
-    const rating = tryEntry(rotisserie, toElement.slice(0, -1), { type: "nameplate", node: "element-watts", value: "OL" });
+    const rating = tryEntry(rotisserie, TO_ELEMENT.slice(0, -1), { type: "nameplate", node: "element-watts", value: "OL" });
     expect(!rating.ok && rating.rejection.message).toMatch(/type the rating printed on the nameplate/);
   });
 });

@@ -1,27 +1,8 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { readFileSync } from "node:fs";
-import { parseTree } from "../../../app/engine/markdown/parse";
 import { replay, startRun, tryEntry, type LogEntry } from "../../../app/engine/traversal";
 import type { Tree, TreeNode } from "../../../app/engine/types";
-
-function load(file: string): Tree {
-  const r = parseTree(readFileSync(new URL(`../../../trees/${file}`, import.meta.url), "utf8"));
-  if (!r.ok) throw new Error(file);
-  return r.tree;
-}
-const rotisserie = load("rotisserie-uneven-heat.md");
-
-// The path a later browser test walks on tree (1).
-const TO_CAPACITOR: LogEntry[] = [
-  { type: "acknowledge", node: "lockout" },
-  { type: "acknowledge", node: "discharge-caps" },
-  { type: "acknowledge", node: "live-test" },
-  { type: "reading", node: "supply-voltage", reading: "208 V" },
-  { type: "answer", node: "fans", answer: "one slow" },
-  { type: "acknowledge", node: "cap-lockout" },
-  { type: "nameplate", node: "cap-rating", value: "1.5 µF" },
-];
+import { rotisserie, TO_AMBIENT, TO_CAPACITOR } from "./rotisserie";
 
 describe("tree (1): two-fan rotisserie, 208 V unit", () => {
   it("walks cautions → L1–L2 supply → fans → rated µF → capacitor → root cause", () => {
@@ -78,14 +59,7 @@ describe("tree (1): two-fan rotisserie, 208 V unit", () => {
   });
   it("undo of a re-recorded variable brings back the earlier value, for formulas too", () => {
     const toAmbient: LogEntry[] = [
-      ...TO_CAPACITOR.slice(0, 4),
-      { type: "answer", node: "fans", answer: "both at full speed" },
-      { type: "answer", node: "fan-direction", answer: "yes" },
-      { type: "continue", node: "self-test" },
-      { type: "answer", node: "self-test-result", answer: "probe fault" },
-      { type: "acknowledge", node: "probe-lockout" },
-      { type: "answer", node: "probe-clean", answer: "yes" },
-      { type: "nameplate", node: "probe-type", value: "1000 Ω" },
+      ...TO_AMBIENT,
       { type: "reading", node: "ambient", reading: "60 °C" },
       { type: "continue", node: "probe-cool" },
       { type: "reading", node: "ambient", reading: "25 °C" },
