@@ -156,16 +156,16 @@ describe("the phone runner (390×844)", () => {
     await snap(page, "supply-reading");
     await page.keyboard.press("Enter");
 
-    // One fan slow, the other stopped: the question has that answer; the note says which is which.
+    // One fan slow: the single-fan walk (both fans' walk after "one slow, one stopped" is the engine's unit test).
     await atStep(page, "With the elements heating, do both convection fans run at full speed?");
     await expect(page.getByLabel("Last reading").getByText(/208 V — within 191–218 V/).isVisible()).resolves.toBe(true);
     await page.getByRole("button", { name: "Note", exact: true }).click();
-    await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan hums but is stopped.");
+    await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan at full speed.");
     await page.getByRole("button", { name: "Save note" }).click();
-    await page.getByText("Left fan runs slow; right fan hums but is stopped.").waitFor();
+    await page.getByText("Left fan runs slow; right fan at full speed.").waitFor();
     await saved(page);
     await snap(page, "fans-question");
-    await page.getByRole("button", { name: "One slow, one stopped", exact: true }).click();
+    await page.getByRole("button", { name: "One slow", exact: true }).click();
 
     await acknowledge(page, "Power down again and discharge the capacitor", "caution-cap");
 
