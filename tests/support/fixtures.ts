@@ -79,7 +79,7 @@ export async function startedRun(symptom = "heats unevenly"): Promise<{ callId: 
 
 /**
  * The rotisserie run the phone test walks, made through the models: cautions acknowledged, 208 V
- * on the van's voltmeter, one fan slow and one stopped, the capacitor rated 1.5 µF, read 1.47 µF,
+ * on the van's voltmeter, one fan slow, the capacitor rated 1.5 µF, read 1.47 µF,
  * taken back and read again as 1470 nF with a photo, the shaft seized, and the outcome with two
  * parts. `partNumber` is the motor's part number (unique per call, so a test finds its own run).
  * With `send`, the report is e-mailed to the site contact.
@@ -91,7 +91,7 @@ export async function finishedRun(opts: { send?: boolean; symptom?: string } = {
   };
   for (const node of ["lockout", "discharge-caps", "live-test"]) await step({ type: "acknowledge", node });
   await step({ type: "reading", node: "supply-voltage", reading: "208 V" }, "meter:van1-volts");
-  await step({ type: "answer", node: "fans", answer: "one slow, one stopped" });
+  await step({ type: "answer", node: "fans", answer: "one slow" });
   await step({ type: "acknowledge", node: "cap-lockout" });
   await step({ type: "nameplate", node: "cap-rating", value: "1.5 µF" });
   await step({ type: "reading", node: "cap-measure", reading: "1.47 µF" }, "meter:van1-cap");
