@@ -3,3 +3,4 @@ export * from "./equipment";
 export * from "./trees";
 export * from "./runs";
 export * from "./audit";
+export * from "./counters";

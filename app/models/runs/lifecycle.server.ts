@@ -1,6 +1,6 @@
 // A run's life after its start: pause and resume, escalate to a lead, take over, abandon with a
 // reason, and the outcome that closes the run and the call and makes the service report.
-import { and, eq, inArray, isNull, max } from "drizzle-orm";
+import { and, eq, inArray, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { escalations, reports, runParts, runs, serviceCalls, type RunStatus } from "../../../db/schema";
 import type { OutcomeNode } from "../../engine/types";
@@ -8,7 +8,7 @@ import type { Ctx } from "../../lib/context";
 import { db, writeTx, type Tx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
-import { lockOwn, withNextNumber } from "../_query.server";
+import { lockRunAndCall, nextNumber } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
 
 export const statusInput = z.discriminatedUnion("action", [
@@ -43,7 +43,7 @@ async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
 export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInput): Promise<StatusResult> {
   authorize(ctx, "runs.view");
   return writeTx(async (tx): Promise<StatusResult> => {
-    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
+    const run = (await lockRunAndCall(tx, ctx, runId)) ?? notFound("That run");
     const facts = { holder: run.technicianId === ctx.userId };
     const now = new Date();
     const set = (patch: Partial<typeof runs.$inferInsert>) => tx.update(runs).set({ ...patch, updatedAt: now }).where(eq(runs.id, runId));
@@ -123,7 +123,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     return r ? { reportId: r.id, number: r.number } : null;
   };
   const result = await writeTx(async (tx) => {
-    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
+    const run = (await lockRunAndCall(tx, ctx, runId)) ?? notFound("That run");
     if (run.status === "done") return null;
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This run is not in progress.", { code: "closed" });
@@ -142,16 +142,8 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
     const id = crypto.randomUUID();
-    const number = await withNextNumber(
-      async () => {
-        const [row] = await tx.select({ n: max(reports.number) }).from(reports).where(eq(reports.shopId, ctx.shopId));
-        return (row?.n ?? 0) + 1;
-      },
-      async (n) => {
-        await tx.insert(reports).values({ id, shopId: ctx.shopId, number: n, runId, callId: run.callId, createdBy: ctx.userId });
-        return n;
-      },
-    );
+    const number = await nextNumber(tx, ctx.shopId, "report");
+    await tx.insert(reports).values({ id, shopId: ctx.shopId, number, runId, callId: run.callId, createdBy: ctx.userId });
     return { reportId: id, number };
   });
   return result ?? (await existing()) ?? notFound("That run");
