@@ -62,6 +62,7 @@ export default [
     route("escalations", "routes/escalations.tsx"),
     route("outbox", "routes/outbox.tsx"),
     route("people", "routes/people.tsx"),
+    route("audit", "routes/audit.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

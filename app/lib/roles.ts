@@ -29,6 +29,7 @@ export const NAV: readonly NavItem[] = [
   { to: "/equipment", label: "Equipment", roles: ["technician", "lead", "trainer", "owner"] },
   { to: "/outbox", label: "Outbox", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },
+  { to: "/audit", label: "Audit", roles: ["owner"] },
 ];
 
 export function navFor(role: Role): NavItem[] {

@@ -57,6 +57,14 @@ export async function unitWithPlace(ctx: Ctx, unitId: string) {
   return row ?? null;
 }
 
+/** True when MariaDB refused a write for a unique index (ER_DUP_ENTRY), also when wrapped by Drizzle. */
+export function isDuplicate(e: unknown): boolean {
+  for (let x: unknown = e, depth = 0; x && depth < 4; x = (x as { cause?: unknown }).cause, depth++) {
+    if ((x as { code?: unknown }).code === "ER_DUP_ENTRY") return true;
+  }
+  return false;
+}
+
 /** The first number of each kind in a shop: calls from 1001, reports from R-0001. */
 const FIRST: Record<Counter, number> = { call: 1001, report: 1 };
 

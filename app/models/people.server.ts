@@ -10,6 +10,7 @@ import { authorize } from "../lib/policy";
 import { fieldRefusal, notFound, Refusal } from "../lib/refusal";
 import { ROLE_LABEL, type Role } from "../lib/roles";
 import { normaliseEmail } from "../lib/sign-in.server";
+import { byCaller, recordAudit } from "./_audit.server";
 
 export const INVITATION_DAYS = 7;
 
@@ -39,14 +40,18 @@ export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ 
   authorize(ctx, "people.manage");
   const token = Buffer.from(crypto.getRandomValues(new Uint8Array(24))).toString("base64url");
   const id = crypto.randomUUID();
-  await db().insert(invitations).values({
-    id,
-    shopId: ctx.shopId,
-    email: normaliseEmail(emailRaw),
-    role,
-    tokenHash: sha256(token),
-    invitedBy: ctx.userId,
-    expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
+  const email = normaliseEmail(emailRaw);
+  await writeTx(async (tx) => {
+    await tx.insert(invitations).values({
+      id,
+      shopId: ctx.shopId,
+      email,
+      role,
+      tokenHash: sha256(token),
+      invitedBy: ctx.userId,
+      expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
+    });
+    await recordAudit({ ...byCaller(ctx), action: "invitation.sent", subjectType: "invitation", subjectId: id, summary: `Invited ${email} as ${ROLE_LABEL[role]}`, details: { email, role } }, tx);
   });
   return { id, token };
 }
@@ -79,11 +84,16 @@ export async function sendInvitationMail(ctx: Ctx, to: string, role: Role, link:
 
 export async function revokeInvitation(ctx: Ctx, id: string): Promise<void> {
   authorize(ctx, "people.manage");
-  const [res] = await db()
-    .update(invitations)
-    .set({ revokedAt: new Date() })
-    .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt)));
-  if (res.affectedRows === 0) notFound("That invitation");
+  await writeTx(async (tx) => {
+    const [inv] = await tx
+      .select({ email: invitations.email, role: invitations.role })
+      .from(invitations)
+      .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)))
+      .for("update");
+    if (!inv) notFound("That invitation");
+    await tx.update(invitations).set({ revokedAt: new Date() }).where(eq(invitations.id, id));
+    await recordAudit({ ...byCaller(ctx), action: "invitation.withdrawn", subjectType: "invitation", subjectId: id, summary: `Withdrew the invitation of ${inv.email}`, details: { email: inv.email, role: inv.role } }, tx);
+  });
 }
 
 export type OpenInvitation = { id: string; email: string; role: Role; shopId: string; shopName: string; hasAccount: boolean };
@@ -105,7 +115,7 @@ export async function findInvitation(token: string, now = new Date()): Promise<O
  * Accepts an invitation: a new person sets their name and password; someone who already has an
  * account confirms with their password. Either way they become a member with the invited role.
  */
-export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<{ shopName: string }> {
+export async function acceptInvitation(token: string, input: { name?: string; password: string }, from: { address?: string } = {}): Promise<{ shopName: string }> {
   const inv = await findInvitation(token);
   if (!inv) throw new Refusal("gone", "This invitation has expired, was withdrawn, or was already used.");
   if (!inv.hasAccount) {
@@ -130,6 +140,20 @@ export async function acceptInvitation(token: string, input: { name?: string; pa
     if (member) await tx.update(memberships).set({ role: inv.role }).where(eq(memberships.id, member.id));
     else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });
     await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));
+    await recordAudit(
+      {
+        shopId: inv.shopId,
+        actorId: userId,
+        actorEmail: inv.email,
+        address: from.address ?? null,
+        action: "invitation.accepted",
+        subjectType: "invitation",
+        subjectId: inv.id,
+        summary: `${inv.email} accepted the invitation and joined as ${ROLE_LABEL[inv.role]}`,
+        details: { role: inv.role, newAccount: !existing },
+      },
+      tx,
+    );
   });
   return { shopName: inv.shopName };
 }

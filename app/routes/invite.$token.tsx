@@ -1,6 +1,7 @@
 import { Form, redirect } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
+import { clientAddress } from "~/lib/http.server";
 import { ROLE_LABEL } from "~/lib/roles";
 import { form, readForm } from "~/lib/route.server";
 import { acceptInvitation, findInvitation } from "~/models/people.server";
@@ -17,9 +18,9 @@ export async function loader({ params }: Route.LoaderArgs) {
 
 const Join = z.object({ name: z.string().trim().max(120, "Keep your name under 120 characters.").optional(), password: z.string({ message: "Enter a password." }) });
 
-export const action = form(async ({ request, params }: Route.ActionArgs) => {
+export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const input = await readForm(request, Join);
-  const { shopName } = await acceptInvitation(params.token, input);
+  const { shopName } = await acceptInvitation(params.token, input, { address: clientAddress(context) });
   return redirect(`/login?joined=${encodeURIComponent(shopName)}`);
 });
 

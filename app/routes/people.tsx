@@ -3,6 +3,7 @@ import { z } from "zod";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
 import { requireUser } from "~/lib/auth.server";
+import { fromClient } from "~/lib/http.server";
 import { form, page, readForm } from "~/lib/route.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
 import { invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "~/models/people.server";
@@ -23,8 +24,8 @@ const inviteForm = z.object({
 });
 const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid("That invitation was not found.") });
 
-export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+export const action = form(async ({ request, context }: Route.ActionArgs) => {
+  const ctx = fromClient((await requireUser(request)).ctx, context);
   const input = await readForm(request, (values) => (values.intent === "revoke" ? revokeForm : inviteForm));
   if (input.intent === "revoke") {
     await revokeInvitation(ctx, input.id);

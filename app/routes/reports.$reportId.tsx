@@ -4,6 +4,8 @@ import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
 import { reportMailHtml } from "~/components/report/reportMail";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
+import { fromClient } from "~/lib/http.server";
+import { can } from "~/lib/policy";
 import { reportNumber } from "~/lib/report-data";
 import { form, page } from "~/lib/route.server";
 import { getReport, sendReport } from "~/models/runs/reports.server";
@@ -13,12 +15,12 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service 
 
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
-  return { report: await getReport(ctx, params.reportId) };
+  return { report: await getReport(ctx, params.reportId), canSend: can(ctx, "reports.send") };
 });
 
-export const action = form(async ({ request, params }: Route.ActionArgs) => {
+export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const { ctx } = await requireUser(request);
-  const { to } = await sendReport(ctx, params.reportId, reportMailHtml);
+  const { to } = await sendReport(fromClient(ctx, context), params.reportId, reportMailHtml);
   return { ok: true as const, to };
 });
 
@@ -36,7 +38,7 @@ export default function Report({ loaderData, actionData }: Route.ComponentProps)
           <button type="button" className="btn-quiet" onClick={() => window.print()}>
             Print
           </button>
-          {report.site && (
+          {report.site && loaderData.canSend && (
             <Form method="post">
               <button className="btn-primary" disabled={busy}>
                 {report.sentAt ? "E-mail again" : "E-mail"} to {report.site.contactName}

@@ -3,6 +3,7 @@ import { z } from "zod";
 import { Editor } from "~/components/editor/Editor";
 import type { Finding } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
+import { fromClient } from "~/lib/http.server";
 import { form, page, readForm } from "~/lib/route.server";
 import { treeIdOf } from "~/lib/tree-params.server";
 import { openEditor } from "~/models/trees/editor.server";
@@ -26,11 +27,11 @@ const Publish = z.object({
   changeNote: z.string().max(500, "Say what changed in this version (up to 500 characters)."),
 });
 
-export const action = form(async ({ request, params }: Route.ActionArgs) => {
+export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
   const input = await readForm(request, Publish);
-  const { number } = await publishDraft(ctx, treeId, input.revision, input.changeNote);
+  const { number } = await publishDraft(fromClient(ctx, context), treeId, input.revision, input.changeNote);
   return redirect(`/trees/${treeId}?published=${number}`);
 });
 

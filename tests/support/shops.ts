@@ -12,7 +12,7 @@ export const FRESH_PASSWORD = "lantern-gauge-7305";
 export type FreshShop = {
   shopId: string;
   ctx: Ctx;
-  people: Record<Role, Ctx & { email: string }>;
+  people: Record<Role, Ctx & { email: string; name: string }>;
   siteId: string;
   unitId: string;
 };
@@ -25,9 +25,10 @@ export async function freshShop(label = crypto.randomUUID().slice(0, 8)): Promis
   for (const role of ["owner", "lead", "technician", "trainer"] as const) {
     const userId = crypto.randomUUID();
     const email = `${role}.${label}@wrenfield.example`;
-    await db().insert(users).values({ id: userId, email, name: `${role} ${label}`, passwordHash });
+    const name = `${role[0]!.toUpperCase()}${role.slice(1)} ${label}`;
+    await db().insert(users).values({ id: userId, email, name, passwordHash });
     await db().insert(memberships).values({ shopId, userId, role });
-    people[role] = { shopId, userId, role, email };
+    people[role] = { shopId, userId, role, email, name };
   }
   const owner = people.owner;
   const customerId = await createCustomer(owner, { name: `Customer ${label}`, phone: null });

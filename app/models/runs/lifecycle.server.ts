@@ -2,12 +2,13 @@
 // reason, and the outcome that closes the run and the call and makes the service report.
 import { and, eq, inArray, isNull } from "drizzle-orm";
 import { z } from "zod";
-import { escalations, reports, runParts, runs, serviceCalls, type RunStatus } from "../../../db/schema";
+import { escalations, reports, runParts, runs, serviceCalls, users, type RunStatus } from "../../../db/schema";
 import type { OutcomeNode } from "../../engine/types";
 import type { Ctx } from "../../lib/context";
 import { db, writeTx, type Tx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
+import { byCaller, recordAudit } from "../_audit.server";
 import { lockRunAndCall, nextNumber } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
 
@@ -37,6 +38,23 @@ async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
     .update(escalations)
     .set(takenBy ? { takenBy, takenAt: now, closedAt: now } : { closedAt: now })
     .where(and(eq(escalations.runId, runId), isNull(escalations.closedAt)));
+}
+
+/** The take-over in the audit trail: whose run it was, on which call. */
+async function recordTakeOver(tx: Tx, ctx: Ctx, run: typeof runs.$inferSelect) {
+  const [from] = await tx.select({ name: users.name }).from(users).where(eq(users.id, run.technicianId));
+  const [call] = run.callId ? await tx.select({ number: serviceCalls.number }).from(serviceCalls).where(eq(serviceCalls.id, run.callId)) : [];
+  await recordAudit(
+    {
+      ...byCaller(ctx),
+      action: "run.taken-over",
+      subjectType: "run",
+      subjectId: run.id,
+      summary: `Took over ${from?.name ?? "a technician"}'s run${call ? ` on call ${call.number}` : ""}`,
+      details: { fromUserId: run.technicianId, callId: run.callId, wasStatus: run.status },
+    },
+    tx,
+  );
 }
 
 /** Pause, resume, abandon (with a reason), escalate to a lead (with a reason), or take over (leads). */
@@ -89,6 +107,7 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
         await set({ technicianId: ctx.userId, status: "active", pausedAt: null });
         await closeEscalations(tx, runId, ctx.userId);
         await setCallStatus(tx, run.callId, "in_progress", ["open", "escalated"]);
+        await recordTakeOver(tx, ctx, run);
         return { status: "active" };
     }
   });
@@ -98,13 +117,14 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
 
 export const outcomeInput = z.object({
   action: z.string().trim().min(3, "Say what you did about it.").max(4000, "Keep it under 4000 characters."),
-  minutes: z.coerce.number({ message: "Enter the time on the job in minutes." }).int("Whole minutes, please.").min(1, "At least 1 minute.").max(1440, "At most 24 hours (1440 minutes)."),
+  // Numbers must be JSON numbers: `true` or "30" is refused, never coerced (issue 9 item 9).
+  minutes: z.number({ message: "Send the time on the job as a number of minutes." }).int("Whole minutes, please.").min(1, "At least 1 minute.").max(1440, "At most 24 hours (1440 minutes)."),
   parts: z
     .array(
       z.object({
         partNumber: z.string().trim().max(60, "Keep the part number under 60 characters.").default(""),
         description: z.string().trim().min(1, "Describe the part.").max(300, "Keep it under 300 characters."),
-        quantity: z.coerce.number({ message: "Enter a quantity." }).int("A whole number.").min(1, "At least 1.").max(999, "At most 999."),
+        quantity: z.number({ message: "Send each part's quantity as a number." }).int("A whole number.").min(1, "At least 1.").max(999, "At most 999."),
       }),
     )
     .max(30, "At most 30 parts on one run."),
