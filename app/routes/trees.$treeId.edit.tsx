@@ -1,6 +1,8 @@
 import { redirect } from "react-router";
 import { z } from "zod";
 import { Editor } from "~/components/editor/Editor";
+import { EditorError } from "~/components/editor/EditorError";
+import { errorWords } from "~/components/errorWords";
 import type { Finding } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { fromClient } from "~/lib/http.server";
@@ -38,4 +40,10 @@ export const action = form(async ({ request, params, context }: Route.ActionArgs
 export default function EditTree({ loaderData, actionData }: Route.ComponentProps) {
   const publishError = actionData ? { message: actionData.message, findings: actionData.details?.findings as Finding[] | undefined } : undefined;
   return <Editor {...loaderData} publishError={publishError} />;
+}
+
+// A failure here keeps the author's unsaved changes in the browser and says so.
+export function ErrorBoundary({ error, params }: Route.ErrorBoundaryProps) {
+  const { title, detail, again } = errorWords(error);
+  return <EditorError treeId={params.treeId} title={title} detail={detail} again={again} />;
 }

@@ -5,13 +5,13 @@
 // Servers with their own settings are started here from the same build (server.js); a TCP relay in
 // this process stands between one of them and MariaDB so the test can cut the database off and back.
 import { spawn } from "node:child_process";
-import { connect, createServer, type Server, type Socket } from "node:net";
+import { connect } from "node:net";
 import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { freePort } from "../support/e2e-setup";
-import { SERVER_TEST_SECRET as SECRET, signIn, startServer, type Started } from "../support/server";
+import { DatabaseRelay, SERVER_TEST_SECRET as SECRET, signIn, startServer, type Started } from "../support/server";
 
 const baseUrl = inject("baseUrl");
 const dbUrl = process.env.E2E_DATABASE_URL!;
@@ -44,36 +44,6 @@ function rawHttp(port: number, text: string): Promise<string> {
     s.on("error", () => resolve(got));
     s.setTimeout(5000, () => s.destroy());
   });
-}
-
-/** A TCP relay to MariaDB that the test can cut (refusing and dropping connections) and restore. */
-class DatabaseRelay {
-  private server: Server | undefined;
-  private sockets = new Set<Socket>();
-  constructor(
-    readonly port: number,
-    private target: { host: string; port: number },
-  ) {}
-  async up() {
-    if (this.server) return;
-    this.server = createServer((client) => {
-      const upstream = connect(this.target.port, this.target.host);
-      for (const s of [client, upstream]) {
-        this.sockets.add(s);
-        s.on("close", () => this.sockets.delete(s));
-        s.on("error", () => {});
-      }
-      client.pipe(upstream).pipe(client);
-      client.on("close", () => upstream.destroy());
-      upstream.on("close", () => client.destroy());
-    });
-    await new Promise<void>((r) => this.server!.listen(this.port, "127.0.0.1", () => r()));
-  }
-  async down() {
-    for (const s of this.sockets) s.destroy();
-    await new Promise((r) => (this.server ? this.server.close(r) : r(null)));
-    this.server = undefined;
-  }
 }
 
 describe("no request stops the server (issue 9 item 1)", () => {

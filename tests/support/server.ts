@@ -1,6 +1,7 @@
 // `node server.js` from the production build, started by a test with its own settings on a free
 // port (browser tests and server tests), and a session signed in through /login as a browser would.
 import { spawn, type ChildProcess } from "node:child_process";
+import { connect, createServer, type Server, type Socket } from "node:net";
 import { expect } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { freePort } from "./e2e-setup";
@@ -46,4 +47,34 @@ export async function signIn(url: string, email: string): Promise<string> {
   const session = res.headers.getSetCookie().find((c) => c.includes("session-token="));
   expect(session).toBeDefined();
   return session!.split(";")[0]!;
+}
+
+/** A TCP relay to MariaDB that the test can cut (refusing and dropping connections) and restore. */
+export class DatabaseRelay {
+  private server: Server | undefined;
+  private sockets = new Set<Socket>();
+  constructor(
+    readonly port: number,
+    private target: { host: string; port: number },
+  ) {}
+  async up() {
+    if (this.server) return;
+    this.server = createServer((client) => {
+      const upstream = connect(this.target.port, this.target.host);
+      for (const s of [client, upstream]) {
+        this.sockets.add(s);
+        s.on("close", () => this.sockets.delete(s));
+        s.on("error", () => {});
+      }
+      client.pipe(upstream).pipe(client);
+      client.on("close", () => upstream.destroy());
+      upstream.on("close", () => client.destroy());
+    });
+    await new Promise<void>((r) => this.server!.listen(this.port, "127.0.0.1", () => r()));
+  }
+  async down() {
+    for (const s of this.sockets) s.destroy();
+    await new Promise((r) => (this.server ? this.server.close(r) : r(null)));
+    this.server = undefined;
+  }
 }
