@@ -164,7 +164,7 @@ describe("page security headers (issue 9 item 8)", () => {
       const problems: string[] = [];
       for (const [email, size, paths] of [
         ["tech@tinderbox.example", PHONE, ["/calls", "/calls/all", "/trees"]],
-        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox"]],
+        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox", "/audit"]],
       ] as const) {
         const context = await browser.newContext({ viewport: size });
         await context.addInitScript(() => {
