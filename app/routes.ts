@@ -75,6 +75,7 @@ export default [
     route("training/runs/:runId", "routes/training.runs.$runId.tsx"),
     route("practice", "routes/practice.tsx"),
     route("account", "routes/account.tsx"),
+    route("audit", "routes/audit.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

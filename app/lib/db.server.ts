@@ -103,12 +103,23 @@ const RETRYABLE = new Set([
   1205, // ER_LOCK_WAIT_TIMEOUT
 ]);
 
-function retryable(error: unknown): boolean {
+/** The MariaDB error number that makes `error` worth a retry, or null. */
+function retryable(error: unknown): number | null {
   for (let e: unknown = error, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
     const errno = (e as { errno?: unknown }).errno;
-    if (typeof errno === "number" && RETRYABLE.has(errno)) return true;
+    if (typeof errno === "number" && RETRYABLE.has(errno)) return errno;
   }
-  return false;
+  return null;
+}
+
+// Transactions this process ran again, by MariaDB error number. A deadlock between two of our own
+// transactions means two code paths take locks in different orders (docs/decisions/0240): the
+// tests race such paths and expect no retry at all.
+const retries = new Map<number, number>();
+
+/** How many times writeTx ran a transaction again, by MariaDB error number (1213 deadlock, 1205 lock wait). */
+export function writeTxRetries(): Record<number, number> {
+  return Object.fromEntries(retries);
 }
 
 /**
@@ -123,7 +134,9 @@ export async function writeTx<T>(fn: (tx: Tx) => Promise<T>, attempts = 4): Prom
     try {
       return await db().transaction(fn);
     } catch (error) {
-      if (attempt >= attempts || !retryable(error)) throw error;
+      const errno = retryable(error);
+      if (attempt >= attempts || errno === null) throw error;
+      retries.set(errno, (retries.get(errno) ?? 0) + 1);
       await new Promise((r) => setTimeout(r, 5 + Math.random() * 20 * attempt));
     }
   }

@@ -4,44 +4,17 @@
 // with 503 and recovered from without a restart, and configuration checked at boot.
 // Servers with their own settings are started here from the same build (server.js); a TCP relay in
 // this process stands between one of them and MariaDB so the test can cut the database off and back.
-import { spawn, type ChildProcess } from "node:child_process";
-import { connect, createServer, type Server, type Socket } from "node:net";
+import { spawn } from "node:child_process";
+import { connect } from "node:net";
 import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { freePort } from "../support/e2e-setup";
+import { DatabaseRelay, SERVER_TEST_SECRET as SECRET, signIn, startServer, type Started } from "../support/server";
 
 const baseUrl = inject("baseUrl");
 const dbUrl = process.env.E2E_DATABASE_URL!;
-const SECRET = "server-test-secret-server-test-secret-0";
-
-type Started = { url: string; port: number; output: () => string; stop: () => Promise<void>; child: ChildProcess };
-
-/** `node server.js` from the build with these settings; resolves once /healthz answers at all. */
-async function startServer(env: Record<string, string>): Promise<Started> {
-  const port = await freePort();
-  let output = "";
-  const child = spawn(process.execPath, ["server.js"], {
-    env: { ...process.env, HOST: "127.0.0.1", PORT: String(port), DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: SECRET, ...env },
-    stdio: ["ignore", "pipe", "pipe"],
-  });
-  child.stdout!.on("data", (d) => (output += d));
-  child.stderr!.on("data", (d) => (output += d));
-  const url = `http://127.0.0.1:${port}`;
-  for (let i = 0; i < 150; i++) {
-    if (child.exitCode !== null) throw new Error(`server exited early:\n${output}`);
-    if (await fetch(`${url}/healthz`).catch(() => null)) break;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  const stop = async () => {
-    if (child.exitCode === null) {
-      child.kill("SIGTERM");
-      await new Promise((r) => child.once("exit", r));
-    }
-  };
-  return { url, port, output: () => output, stop, child };
-}
 
 /** Runs `node server.js` with these settings and waits for it to exit (a refused configuration). */
 function bootFails(env: Record<string, string>): Promise<{ code: number | null; output: string }> {
@@ -61,20 +34,6 @@ function bootFails(env: Record<string, string>): Promise<{ code: number | null; 
   });
 }
 
-/** A session cookie for a demo user, signed in through the /login form as a browser would. */
-async function signIn(url: string, email: string): Promise<string> {
-  const res = await fetch(`${url}/login`, {
-    method: "POST",
-    headers: { origin: url, "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ email, password: DEMO_PASSWORD }),
-    redirect: "manual",
-  });
-  expect(res.status).toBe(302);
-  const session = res.headers.getSetCookie().find((c) => c.includes("session-token="));
-  expect(session).toBeDefined();
-  return session!.split(";")[0]!;
-}
-
 /** Sends raw bytes and returns what the server answered (or "" if it closed without a word). */
 function rawHttp(port: number, text: string): Promise<string> {
   return new Promise((resolve) => {
@@ -85,36 +44,6 @@ function rawHttp(port: number, text: string): Promise<string> {
     s.on("error", () => resolve(got));
     s.setTimeout(5000, () => s.destroy());
   });
-}
-
-/** A TCP relay to MariaDB that the test can cut (refusing and dropping connections) and restore. */
-class DatabaseRelay {
-  private server: Server | undefined;
-  private sockets = new Set<Socket>();
-  constructor(
-    readonly port: number,
-    private target: { host: string; port: number },
-  ) {}
-  async up() {
-    if (this.server) return;
-    this.server = createServer((client) => {
-      const upstream = connect(this.target.port, this.target.host);
-      for (const s of [client, upstream]) {
-        this.sockets.add(s);
-        s.on("close", () => this.sockets.delete(s));
-        s.on("error", () => {});
-      }
-      client.pipe(upstream).pipe(client);
-      client.on("close", () => upstream.destroy());
-      upstream.on("close", () => client.destroy());
-    });
-    await new Promise<void>((r) => this.server!.listen(this.port, "127.0.0.1", () => r()));
-  }
-  async down() {
-    for (const s of this.sockets) s.destroy();
-    await new Promise((r) => (this.server ? this.server.close(r) : r(null)));
-    this.server = undefined;
-  }
 }
 
 describe("no request stops the server (issue 9 item 1)", () => {
@@ -262,7 +191,7 @@ describe("page security headers (issue 9 item 8)", () => {
       const problems: string[] = [];
       for (const [email, size, paths] of [
         ["tech@tinderbox.example", PHONE, ["/calls", "/calls/all", "/trees"]],
-        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox"]],
+        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox", "/audit"]],
       ] as const) {
         const context = await browser.newContext({ viewport: size });
         await context.addInitScript(() => {

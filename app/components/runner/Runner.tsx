@@ -13,6 +13,7 @@ import { OutcomeScreen } from "./ends/OutcomeScreen";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
+import { KeptSteps } from "./KeptSteps";
 import { useFocusClearOfBar } from "./inView";
 import { Markdown } from "./Markdown";
 import { MorePanel } from "./MorePanel";
@@ -90,6 +91,7 @@ export function Runner({ initial }: { initial: RunView }) {
             </button>
           </div>
         )}
+        <KeptSteps run={run} />
         {panel === "history" && <History run={run} onClose={() => setPanel(null)} />}
         {panel === "note" && shownNode && <NotePanel run={run} node={shownNode} onClose={() => setPanel(null)} />}
         {(panel === "escalate" || panel === "abandon") && (

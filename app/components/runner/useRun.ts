@@ -2,16 +2,17 @@
 // replay of its log, and the mutations that write steps, notes, photos and status changes. Steps
 // are applied at once (optimistic) and sent one after another with their idempotency keys.
 import { useIsMutating, useMutation, useMutationState, useQuery, useQueryClient } from "@tanstack/react-query";
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { practiceReplay, practiceTryEntry, type PracticeEntry } from "~/engine/training/practice";
 import { replay, tryEntry, type LogEntry } from "~/engine/traversal";
 import type { TreeNode } from "~/engine/types";
+import { dropUnsent, keepUnsent, readUnsent, type Unsent } from "~/lib/kept";
 import { logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "~/lib/run-log";
 import { ApiError, backoff, getJson, postForm, postJson, retryable } from "./api";
 
 type StepResponse = { step: StepView; replayed: boolean; run: { status: RunView["run"]["status"]; currentNode: string | null; endKind: string | null; stepCount: number } };
 
-const uuid = () => crypto.randomUUID();
+const uuid = (): string => crypto.randomUUID();
 
 export function useRun(initial: RunView) {
   const id = initial.run.id;
@@ -47,8 +48,12 @@ export function useRun(initial: RunView) {
       postJson<StepResponse>(`/api/runs/${id}/steps`, { key: p.key, entry: stripMeter(p.entry), meterId: p.meterId, at: p.at }),
     // The server's row replaces the optimistic one, but keeps a "taken back" the phone already
     // applied: an undo sent while this step was on its way reaches the server after it.
-    onSuccess: (res, p) => set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? { ...res.step, undone: res.step.undone || s.undone } : s)), run: { ...v.run, ...res.run } })),
+    onSuccess: (res, p) => {
+      dropUnsent(id, [p.key]);
+      set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? { ...res.step, undone: res.step.undone || s.undone } : s)), run: { ...v.run, ...res.run } }));
+    },
     onError: (e, p) => {
+      dropUnsent(id, [p.key]);
       // Drop this step and anything queued after it; the server's version is the truth.
       set((v) => {
         const at = v.steps.findIndex((s) => s.key === p.key);
@@ -59,8 +64,11 @@ export function useRun(initial: RunView) {
     },
   });
 
-  /** Apply an entry now and send it. Returns the engine's refusal message, or null. */
-  function submit(entry: LogEntry | PracticeEntry, meterId: string | null = null): string | null {
+  /**
+   * Apply an entry now and send it, kept in this browser until the server has it (app/lib/kept.ts).
+   * Returns the engine's refusal message, or null. `key` is given when a kept step is sent again.
+   */
+  function submit(entry: LogEntry | PracticeEntry, meterId: string | null = null, key = uuid()): string | null {
     const v = qc.getQueryData<RunView>(queryKey) ?? view;
     let full = entry as LogEntry;
     if (entry.type === "reading") {
@@ -72,7 +80,6 @@ export function useRun(initial: RunView) {
     const tried = practice ? practiceTryEntry(v.tree, logOf(v.steps) as PracticeEntry[], full as PracticeEntry) : tryEntry(v.tree, logOf(v.steps), full);
     if (!tried.ok) return tried.rejection.message;
     setError(null);
-    const key = uuid();
     const s = tried.step;
     const verdict = s?.verdict;
     const undone = full.type === "undo" ? tried.state.undone[tried.state.undone.length - 1] : undefined;
@@ -105,16 +112,25 @@ export function useRun(initial: RunView) {
       ...old,
       steps: [...old.steps.map((x) => (undone !== undefined && x.seq === undone ? { ...x, undone: true } : x)), pending],
     }));
-    step.mutate({ key, entry: full, meterId: full.type === "reading" ? meterId : null, at: pending.recordedAt });
+    const node = full.type === "undo" ? undefined : byId.get(full.node);
+    keepUnsent(id, { kind: "step", key, entry: stripMeter(full), meterId: pending.meterId, at: pending.recordedAt, label: stepLabel(node?.title, pending) });
+    step.mutate({ key, entry: full, meterId: pending.meterId, at: pending.recordedAt });
     return null;
   }
 
   const note = useMutation({
     ...writes,
     mutationFn: (p: { key: string; node: string; text: string }) => postJson<{ note: NoteView }>(`/api/runs/${id}/notes`, p),
-    onMutate: (p) => set((v) => ({ ...v, notes: [...v.notes, { id: p.key, key: p.key, node: p.node, text: p.text, author: "", createdAt: new Date().toISOString(), pending: true }] })),
-    onSuccess: (res, p) => set((v) => ({ ...v, notes: v.notes.map((n) => (n.key === p.key ? res.note : n)) })),
+    onMutate: (p) => {
+      keepUnsent(id, { kind: "note", key: p.key, node: p.node, text: p.text, at: new Date().toISOString(), label: `Note on ${byId.get(p.node)?.title ?? p.node}: ${p.text.slice(0, 60)}` });
+      set((v) => ({ ...v, notes: [...v.notes, { id: p.key, key: p.key, node: p.node, text: p.text, author: "", createdAt: new Date().toISOString(), pending: true }] }));
+    },
+    onSuccess: (res, p) => {
+      dropUnsent(id, [p.key]);
+      set((v) => ({ ...v, notes: v.notes.map((n) => (n.key === p.key ? res.note : n)) }));
+    },
     onError: (e, p) => {
+      dropUnsent(id, [p.key]);
       set((v) => ({ ...v, notes: v.notes.filter((n) => n.key !== p.key) }));
       setError(e instanceof ApiError ? e.message : "The note was not saved.");
     },
@@ -156,6 +172,37 @@ export function useRun(initial: RunView) {
     onError: (e) => setError(e instanceof ApiError ? e.message : "The report was not sent."),
   });
 
+  // Steps and notes kept in this browser by an earlier visit (the screen failed, the page was
+  // reloaded, the server was away) that the server never acknowledged: offered back on opening.
+  const [kept, setKept] = useState<Unsent[]>([]);
+  useEffect(() => {
+    const known = new Set([...initial.steps.map((s) => s.key), ...initial.notes.map((n) => n.key)]);
+    dropUnsent(id, readUnsent(id).filter((u) => known.has(u.key)).map((u) => u.key));
+    setKept(readUnsent(id));
+  }, [id, initial]);
+  /** Sends the kept steps and notes again, in order, with their own keys (a step that did arrive replays). */
+  function sendKept() {
+    const items = kept;
+    setKept([]);
+    for (const [i, u] of items.entries()) {
+      if (u.kind === "note") {
+        note.mutate({ key: u.key, node: u.node, text: u.text });
+        continue;
+      }
+      const refused = submit(u.entry as LogEntry, u.meterId, u.key);
+      if (refused) {
+        const left = items.slice(i).filter((x) => x.kind === "step");
+        dropUnsent(id, left.map((x) => x.key));
+        setError(`${left.length} kept step${left.length === 1 ? " no longer fits" : "s no longer fit"} where the run stands, so ${left.length === 1 ? "it was" : "they were"} not sent: ${refused}`);
+        break;
+      }
+    }
+  }
+  function dropKept() {
+    dropUnsent(id, kept.map((u) => u.key));
+    setKept([]);
+  }
+
   const saving = useIsMutating({ mutationKey: ["run-write", id] });
   const waiting = useMutationState({ filters: { mutationKey: ["run-write", id], status: "pending" }, select: (m) => m.state.isPaused }).filter(Boolean).length;
 
@@ -177,7 +224,17 @@ export function useRun(initial: RunView) {
     waiting,
     error,
     setError,
+    kept,
+    sendKept,
+    dropKept,
   };
+}
+
+/** How a kept step reads in a list: "Supply voltage: 208 V", "Fans: one slow", "Lock out: done". */
+function stepLabel(title: string | undefined, s: StepView): string {
+  if (s.type === "undo") return "Undo of the step before";
+  const what = s.typed ?? s.answer ?? (s.type === "acknowledge" ? "acknowledged" : "done");
+  return `${title ?? s.node}: ${what}`;
 }
 
 export type RunHandle = ReturnType<typeof useRun>;
