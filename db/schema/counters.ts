@@ -9,6 +9,12 @@ import { shops } from "./platform";
 
 export const COUNTERS = ["call", "report"] as const;
 export type Counter = (typeof COUNTERS)[number];
+/**
+ * Rows that number nothing and serve as a shop's queue: "insights" is taken by every transaction
+ * that writes a shop's summary rows (app/models/insights/_facts.server.ts).
+ */
+export const QUEUES = ["insights"] as const;
+export type Queue = (typeof QUEUES)[number];
 
 export const shopCounters = mysqlTable(
   "shop_counters",
@@ -16,7 +22,7 @@ export const shopCounters = mysqlTable(
     shopId: uuidRef("shop_id")
       .notNull()
       .references(() => shops.id),
-    name: varchar("name", { length: 16 }).$type<Counter>().notNull(),
+    name: varchar("name", { length: 16 }).$type<Counter | Queue>().notNull(),
     /** The last number given out. */
     last: int("last").notNull(),
   },

@@ -141,6 +141,10 @@ const MODEL_COLUMNS: Record<string, string[]> = {
   "stepPayload.entry.reading": ["run_steps.typed"],
   "stepPayload.entry.value": ["run_steps.typed"],
   "photoFields.node": ["run_photos.node_key"],
+  "nameInput.name": ["users.name"],
+  "assignInput.dueOn": ["training_assignments.due_on:date"],
+  "commentInput.text": ["training_comments.text"],
+  "noteInput.note": ["training_reviews.note"],
 };
 
 describe("every text of the models' schemas fits its column", () => {

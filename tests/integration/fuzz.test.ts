@@ -91,6 +91,8 @@ beforeAll(async () => {
       params: { runId: outcomeRun },
       body: { kind: "json", template: { action: "Replaced the run capacitor.", minutes: 30, parts: [{ partNumber: "RC-15", description: "Motor-run capacitor 1.5 µF", quantity: 1 }] } },
     },
+    // A real run here: finishing one that is not practice is refused (404), never a 5xx, whatever is sent.
+    "api/runs/:runId/finish": { cookie: techCookie, params: { runId }, body: { kind: "none" } },
     "api/photos/:photoId": { cookie: techCookie, params: { photoId: photo.photo.id }, body: { kind: "none" } },
     "api/reports/:reportId/send": { cookie: techCookie, params: { reportId }, body: { kind: "json", template: {} } },
     "api/trees/:treeId/draft": { cookie: leadCookie, params: { treeId: draft.treeId }, body: { kind: "json", template: { versionId: draft.versionId, revision: 1, tree: everyField(), layout: { "cap-look": { x: 10, y: 20 } } } } },

@@ -168,9 +168,10 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
-    await recordRunFacts(tx, runId);
+    // The report's number before the summary rows: counter, then the shop's insights queue (_facts.server.ts).
     const id = crypto.randomUUID();
     const number = await nextNumber(tx, ctx.shopId, "report");
+    await recordRunFacts(tx, runId);
     await tx.insert(reports).values({ id, shopId: ctx.shopId, number, runId, callId: run.callId, createdBy: ctx.userId });
     return { reportId: id, number };
   });
