@@ -41,7 +41,8 @@ export async function unitWithPlace(ctx: Ctx, unitId: string) {
   return row ?? null;
 }
 
-function isDuplicate(e: unknown): boolean {
+/** A unique index refused the insert (MariaDB's ER_DUP_ENTRY). */
+export function isDuplicate(e: unknown): boolean {
   const err = e as { code?: string; cause?: { code?: string } };
   return err?.code === "ER_DUP_ENTRY" || err?.cause?.code === "ER_DUP_ENTRY";
 }

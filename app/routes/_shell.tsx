@@ -1,4 +1,5 @@
 import { Form, NavLink, Outlet, useMatches } from "react-router";
+import { signOutOfPhone } from "~/components/runner/offline/signout";
 import { requireUser } from "~/lib/auth.server";
 import { navFor, ROLE_LABEL } from "~/lib/roles";
 import type { Route } from "./+types/_shell";
@@ -34,7 +35,7 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
             <span className="block font-semibold">{loaderData.name}</span>
             <span className="text-ink-soft">{ROLE_LABEL[loaderData.role]}</span>
           </p>
-          <Form method="post" action="/logout">
+          <Form method="post" action="/logout" onSubmit={signOutOfPhone}>
             <button type="submit" className="btn-quiet min-h-11 px-3 text-base">
               Sign out
             </button>

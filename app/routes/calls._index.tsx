@@ -1,4 +1,5 @@
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
+import { KeptOnPhone } from "~/components/runner/offline/KeptOnPhone";
 import { requireUser } from "~/lib/auth.server";
 import { page } from "~/lib/route.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
@@ -10,7 +11,7 @@ export const meta: Route.MetaFunction = () => [{ title: "My calls · Cluepath" }
 export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const user = await requireUser(request);
   const [calls, done] = await Promise.all([myCalls(user.ctx), recentlyDone(user.ctx)]);
-  return { firstName: user.name.split(" ")[0], calls, done };
+  return { firstName: user.name.split(" ")[0], userId: user.ctx.userId, calls, done };
 });
 
 export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
@@ -23,6 +24,7 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
           Good to see you, {loaderData.firstName}. {calls.length === 0 ? "Nothing is assigned to you right now." : `${calls.length} call${calls.length === 1 ? "" : "s"} assigned to you, most urgent first.`}
         </p>
       </div>
+      <KeptOnPhone userId={loaderData.userId} />
       <ul className="space-y-3">
         {calls.map((c) => (
           <li key={c.id}>

@@ -11,12 +11,17 @@ import { photoUrl, type PhotoView } from "../../lib/run-log";
 import { checkImage, deleteObject, getObject, objectKey, putObject } from "../../lib/storage.server";
 import { OPEN } from "./_version.server";
 
-export const photoFields = z.object({ key: z.string().uuid("Each photo needs an idempotency key (a UUID)."), node: z.string().min(1).max(64) });
+export const photoFields = z.object({
+  key: z.string().uuid("Each photo needs an idempotency key (a UUID)."),
+  node: z.string().min(1).max(64),
+  /** The phone's clock when the photo was taken. */
+  at: z.iso.datetime({ offset: true }).nullish(),
+});
 
 const view = (p: typeof runPhotos.$inferSelect): PhotoView => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: photoUrl(p.id), bytes: p.bytes, createdAt: p.createdAt.toISOString() });
 
 /** Adds a photo to a step. The same key again answers with the stored photo (`replayed`). */
-export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array }): Promise<{ replayed: boolean; photo: PhotoView }> {
+export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array; at?: string | null }): Promise<{ replayed: boolean; photo: PhotoView }> {
   authorize(ctx, "runs.view");
   const [run] = await db()
     .select({ id: runs.id, technicianId: runs.technicianId, status: runs.status })
@@ -48,6 +53,7 @@ export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; no
     contentType: check.mime,
     bytes: input.bytes.byteLength,
     uploadedBy: ctx.userId,
+    clientAt: input.at ? new Date(input.at) : null,
     createdAt: new Date(),
     deletedAt: null,
   };

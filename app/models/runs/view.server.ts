@@ -29,6 +29,22 @@ async function runHead(ctx: Ctx, runId: string) {
   return row ?? null;
 }
 
+/** A unit as the runner shows it (with its site and customer). */
+export function unitView(u: NonNullable<Awaited<ReturnType<typeof unitWithPlace>>>): NonNullable<RunView["unit"]> {
+  return {
+    id: u.unit.id,
+    category: u.unit.category,
+    make: u.unit.make,
+    model: u.unit.model,
+    serial: u.unit.serial,
+    nameplate: u.unit.nameplate,
+    site: u.site.name,
+    customer: u.customer.name,
+    contactName: u.site.contactName,
+    contactEmail: u.site.contactEmail,
+  };
+}
+
 /** Everything the runner shows, for the run's own shop only. */
 export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
   authorize(ctx, "runs.view");
@@ -95,20 +111,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
       startedBy: { id: run.startedBy, name: head.starterName },
     },
     call: c ? { id: c.id, number: c.number, symptom: c.symptom, priority: c.priority } : null,
-    unit: u
-      ? {
-          id: u.unit.id,
-          category: u.unit.category,
-          make: u.unit.make,
-          model: u.unit.model,
-          serial: u.unit.serial,
-          nameplate: u.unit.nameplate,
-          site: u.site.name,
-          customer: u.customer.name,
-          contactName: u.site.contactName,
-          contactEmail: u.site.contactEmail,
-        }
-      : null,
+    unit: u ? unitView(u) : null,
     version: { id: content.versionId, treeId: content.treeId, number: content.number, title: content.title },
     tree: content.tree,
     bodies: content.bodies,
