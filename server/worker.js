@@ -1,4 +1,4 @@
-// @ts-nocheck — a service worker's globals (self, caches, clients) are not the page's.
+/* global __PRECACHE__ */
 // Cluepath's service worker (served as /sw.js by server/service-worker.ts, which fills in the
 // version and the files to keep). It keeps the app's code and two empty page shells on the phone,
 // nothing of any user's: no calls, runs or photos pass through its caches (they live in the page's

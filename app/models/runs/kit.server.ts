@@ -9,12 +9,12 @@ import { db } from "../../lib/db.server";
 import type { FieldKit, KitCall, KitVersion } from "../../lib/field-kit";
 import { authorize } from "../../lib/policy";
 import type { RunView } from "../../lib/run-log";
-import { unitWithPlace } from "../_query.server";
+import { unitView, unitWithPlace } from "../_query.server";
 import { myCalls, suggestTrees } from "../calls.server";
 import { listMeters } from "../meters.server";
 import { shopTimeZone } from "../shop.server";
 import { versionContent } from "./_version.server";
-import { getRunView, unitView } from "./view.server";
+import { getRunView } from "./view.server";
 
 export type { FieldKit };
 

@@ -8,7 +8,7 @@ import { db } from "../../lib/db.server";
 import { authorize, can } from "../../lib/policy";
 import { notFound } from "../../lib/refusal";
 import { photoUrl, type NoteView, type PhotoView, type RunView } from "../../lib/run-log";
-import { unitWithPlace } from "../_query.server";
+import { unitView, unitWithPlace } from "../_query.server";
 import { shopTimeZone } from "../shop.server";
 import { stepRows, stepView } from "./_log.server";
 import { OPEN, versionContent } from "./_version.server";
@@ -27,22 +27,6 @@ async function runHead(ctx: Ctx, runId: string) {
     .where(and(eq(runs.id, runId), eq(runs.shopId, ctx.shopId)))
     .limit(1);
   return row ?? null;
-}
-
-/** A unit as the runner shows it (with its site and customer). */
-export function unitView(u: NonNullable<Awaited<ReturnType<typeof unitWithPlace>>>): NonNullable<RunView["unit"]> {
-  return {
-    id: u.unit.id,
-    category: u.unit.category,
-    make: u.unit.make,
-    model: u.unit.model,
-    serial: u.unit.serial,
-    nameplate: u.unit.nameplate,
-    site: u.site.name,
-    customer: u.customer.name,
-    contactName: u.site.contactName,
-    contactEmail: u.site.contactEmail,
-  };
 }
 
 /** Everything the runner shows, for the run's own shop only. */

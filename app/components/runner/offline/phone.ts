@@ -48,7 +48,7 @@ export class Phone {
   private listeners = new Set<() => void>();
   private db: Promise<PhoneDb | null>;
   private lastN = 0;
-  private draining = false;
+  private current: Promise<void> | null = null;
   private again = false;
   private timer: ReturnType<typeof setTimeout> | null = null;
   private failures = 0;
@@ -281,26 +281,28 @@ export class Phone {
     return !this.snap.items.some((i) => i.runId === runId && i.state === "queued");
   }
 
-  private async drain(): Promise<void> {
-    if (this.draining) {
+  private drain(): Promise<void> {
+    if (this.current) {
       this.again = true;
-      return;
+      return this.current;
     }
-    if (!this.snap.items.some((i) => i.state === "queued") || !online() || this.snap.needsSignIn) return;
-    this.draining = true;
+    if (!this.snap.items.some((i) => i.state === "queued") || !online() || this.snap.needsSignIn) return Promise.resolve();
     this.set({ sending: true });
-    try {
-      const locks = typeof navigator !== "undefined" ? navigator.locks : undefined;
-      if (locks) await locks.request(`cluepath-send-${this.userId}`, () => this.sendAll());
-      else await this.sendAll();
-    } finally {
-      this.draining = false;
-      this.set({ sending: false });
+    this.current = (async () => {
+      try {
+        const locks = typeof navigator !== "undefined" ? navigator.locks : undefined;
+        if (locks) await locks.request(`cluepath-send-${this.userId}`, () => this.sendAll());
+        else await this.sendAll();
+      } finally {
+        this.current = null;
+        this.set({ sending: false });
+      }
       if (this.again) {
         this.again = false;
-        void this.drain();
+        await this.drain();
       }
-    }
+    })();
+    return this.current;
   }
 
   private async sendAll(): Promise<void> {
