@@ -26,7 +26,8 @@ export function precacheList(assets: ServerBuild["assets"], clientDir: string): 
   // Fonts and images the kept styles name (url(/assets/…)).
   for (const css of [...out].filter((u) => u.endsWith(".css"))) {
     const text = readFileSync(join(clientDir, css), "utf8");
-    for (const m of text.matchAll(/url\((\/assets\/[^)"']+)\)/g)) out.add(m[1]!);
+    // Every browser that runs service workers reads woff2; the woff fallbacks stay on the server.
+    for (const m of text.matchAll(/url\((\/assets\/[^)"']+)\)/g)) if (!m[1]!.endsWith(".woff")) out.add(m[1]!);
   }
   for (const p of PUBLIC) out.add(p);
   return [...out];
@@ -36,7 +37,10 @@ export function precacheList(assets: ServerBuild["assets"], clientDir: string): 
 export function workerSource(assets: ServerBuild["assets"], clientDir: string): string {
   const list = precacheList(assets, clientDir);
   const version = createHash("sha256").update(template).update(JSON.stringify(list)).digest("hex").slice(0, 16);
-  return template.replace("__VERSION__", version).replace("__PRECACHE__", JSON.stringify(list)).replace("__SHELL_HEADER__", SHELL_HEADER);
+  return template
+    .replace('"__VERSION__"', JSON.stringify(version))
+    .replace("= __PRECACHE__;", `= ${JSON.stringify(list)};`)
+    .replace('"__SHELL_HEADER__"', JSON.stringify(SHELL_HEADER));
 }
 
 /** Headers for /sw.js: always checked for a new version; allowed to fetch from this origin only. */

@@ -134,7 +134,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await expect(page.getByRole("status").filter({ hasText: "On this phone · 6" }).count()).resolves.toBe(1);
     await snap(page, "five-steps-one-photo-waiting");
     const kept = await outbox(page);
-    expect(kept.map((i) => i.kind)).toEqual(["step", "step", "step", "step", "photo", "step"]);
+    expect(kept.map((i) => i.kind)).toEqual(["step", "step", "step", "photo", "step", "step"]);
 
     // The tab closes; a new one opens the run with no signal: everything is still there.
     await page.close();
@@ -179,9 +179,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     const call = await newCall("unit:gilded-griddle", "middle section cold (offline start)");
     const { context, page } = await phone();
     // My calls keeps today's calls and their procedures on the phone.
-    await page.getByText(/^Ready for no signal: \d+ calls/).waitFor();
-    await page.reload();
-    await page.getByText(/^Ready for no signal: \d+ calls/).waitFor();
+    await page.getByText(/^Ready for no signal: \d+ calls/).waitFor({ timeout: 20_000 });
     await controlled(page);
     await snap(page, "my-calls-ready");
 
@@ -250,7 +248,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     const refused = page.getByRole("alert").filter({ hasText: "Not accepted by the server" });
     await refused.waitFor({ timeout: 20_000 });
     await expect(refused.textContent()).resolves.toContain("Only the technician holding this run can add steps. A lead can take it over first.");
-    await expect(refused.textContent()).resolves.toContain("This run is now held by");
+    await refused.getByText(/^This run is now held by \S+/).waitFor();
     const rows = refused.getByRole("listitem");
     await expect(rows.count()).resolves.toBe(3);
     await expect(rows.nth(0).textContent()).resolves.toMatch(/Caution acknowledged.*Discharge the fan-motor run capacitors with a rated tool/);

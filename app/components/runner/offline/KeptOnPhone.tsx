@@ -1,14 +1,15 @@
 // On My calls: keeps today's calls, their runs and procedures on the phone (and the app itself, by
 // registering the service worker), and says so in one line with a way to what is kept.
-import { useEffect } from "react";
+import { useEffect, useState } from "react";
 import { usePhone } from "./usePhone";
 import { registerWorker } from "./worker-client";
 
 export function KeptOnPhone({ userId }: { userId: string }) {
   const { phone, snap } = usePhone(userId);
+  const [fresh, setFresh] = useState(false);
   useEffect(() => {
     registerWorker();
-    void phone?.refreshKit();
+    void phone?.refreshKit().then(() => setFresh(true));
   }, [phone]);
   const queued = snap.items.filter((i) => i.state === "queued").length;
   const refused = snap.items.some((i) => i.state !== "queued");
@@ -22,8 +23,14 @@ export function KeptOnPhone({ userId }: { userId: string }) {
         ) : queued ? (
           <span className="font-bold text-marginal">{queued} {queued === 1 ? "entry waits" : "entries wait"} on this phone for signal. </span>
         ) : null}
-        Ready for no signal: {snap.calls.length} {snap.calls.length === 1 ? "call" : "calls"}
-        {runs ? ` and ${runs} ${runs === 1 ? "run" : "runs"}` : ""} kept on this phone.
+        {fresh ? (
+          <>
+            Ready for no signal: {snap.calls.length} {snap.calls.length === 1 ? "call" : "calls"}
+            {runs ? ` and ${runs} ${runs === 1 ? "run" : "runs"}` : ""} kept on this phone.
+          </>
+        ) : (
+          "Keeping today's calls on this phone for when there is no signal…"
+        )}
       </span>
       <span className="shrink-0 font-semibold text-copper-dark">Open →</span>
     </a>

@@ -6,7 +6,7 @@ import { clock } from "../clock";
 import type { StoredRun } from "./db";
 import { UpdateReady, waitingSentence } from "./PhoneStatus";
 import type { Phone, PhoneSnapshot } from "./phone";
-import { usePhone } from "./usePhone";
+import { useBrowserOnline, usePhone } from "./usePhone";
 import { phoneUser, setPhoneUser } from "./who";
 import { registerWorker } from "./worker-client";
 
@@ -95,6 +95,7 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
     else setUser((u) => u ?? (phoneUser() ? { ...phoneUser()!, role: "technician" } : null));
   }, [signedIn]);
   const { phone, snap } = usePhone(user?.id ?? null);
+  const online = useBrowserOnline() && snap.online;
   useEffect(() => {
     if (phone && signedIn?.role === "technician") void phone.refreshKit();
   }, [phone, signedIn]);
@@ -113,8 +114,8 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
           <a href="/" className="flex min-h-12 items-center text-base font-semibold">
             ← My home
           </a>
-          <span role="status" className={`rounded-full px-3 py-1 text-base font-bold ${snap.online ? "bg-within-soft text-within" : "bg-marginal-soft text-marginal"}`}>
-            {snap.online ? "Signal" : "No signal"}
+          <span role="status" className={`rounded-full px-3 py-1 text-base font-bold ${online ? "bg-within-soft text-within" : "bg-marginal-soft text-marginal"}`}>
+            {online ? "Signal" : "No signal"}
           </span>
         </div>
       </header>
@@ -138,7 +139,7 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
         )}
         {queued.length > 0 && (
           <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft p-3 text-lg font-semibold">
-            {snap.online ? `Sending what is on this phone…` : waitingSentence(queued)}
+            {online ? `Sending what is on this phone…` : waitingSentence(queued)}
           </p>
         )}
         {user && (

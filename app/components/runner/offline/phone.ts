@@ -66,10 +66,10 @@ export class Phone {
     void this.load();
     if (typeof window !== "undefined") {
       window.addEventListener("online", () => {
-        this.set({ online: true });
+        this.reach(true);
         this.kick();
       });
-      window.addEventListener("offline", () => this.set({ online: false }));
+      window.addEventListener("offline", () => this.reach(this.reachable));
       document.addEventListener("visibilitychange", () => {
         if (document.visibilityState === "visible") this.kick();
       });
@@ -87,6 +87,14 @@ export class Phone {
     return () => this.listeners.delete(fn);
   };
   getSnapshot = () => this.snap;
+
+  /** Whether the last request reached the server (the browser may say online with no real signal). */
+  private reachable = true;
+  private reach(v: boolean) {
+    this.reachable = v;
+    const now = online() && v;
+    if (now !== this.snap.online) this.set({ online: now });
+  }
 
   private set(patch: Partial<PhoneSnapshot>) {
     this.snap = { ...this.snap, ...patch };
@@ -159,10 +167,10 @@ export class Phone {
     if (this.snap.runs[runId]?.local) return;
     try {
       const view = await getJson<RunView>(`/api/runs/${runId}`);
-      this.set({ online: true });
+      this.reach(true);
       this.putRun(view, { keep: view.viewer.holds && Boolean(this.snap.runs[runId]) });
     } catch (e) {
-      if (e instanceof ApiError && e.status === 0) this.set({ online: false });
+      if (e instanceof ApiError && e.status === 0) this.reach(false);
     }
   }
 
@@ -329,7 +337,7 @@ export class Phone {
         }
         if (err.retryable) {
           this.failures++;
-          this.set({ online: err.status !== 0 ? this.snap.online : false });
+          if (err.status === 0) this.reach(false);
           const delay = Math.min(1000 * 2 ** Math.min(this.failures, 5), MAX_BACKOFF_MS);
           this.timer = setTimeout(this.kick, delay);
           return;
@@ -339,7 +347,7 @@ export class Phone {
         continue;
       }
       this.failures = 0;
-      if (!this.snap.online) this.set({ online: true });
+      this.reach(true);
       await this.accept(next, answer);
       touched.add(next.runId);
     }
@@ -422,7 +430,7 @@ export class Phone {
     try {
       kit = await getJson<FieldKit>(`/api/field-kit?have=${encodeURIComponent(have.join(","))}`);
     } catch (e) {
-      if (e instanceof ApiError && e.status === 0) this.set({ online: false });
+      if (e instanceof ApiError && e.status === 0) this.reach(false);
       return;
     }
     setPhoneUser(kit.user);
@@ -454,7 +462,8 @@ export class Phone {
       }
     }
     await tx.done;
-    this.set({ calls: kit.calls.sort((a, b) => a.number - b.number), kit: meta, runs, online: true });
+    this.set({ calls: kit.calls.sort((a, b) => a.number - b.number), kit: meta, runs });
+    this.reach(true);
     this.changed();
   }
 }

@@ -12,3 +12,17 @@ export function usePhone(userId: string | null): { phone: Phone | null; snap: Ph
   const snap = useSyncExternalStore(phone?.subscribe ?? nothing, phone?.getSnapshot ?? empty, empty);
   return { phone, snap };
 }
+
+function onOffline(fn: () => void) {
+  window.addEventListener("online", fn);
+  window.addEventListener("offline", fn);
+  return () => {
+    window.removeEventListener("online", fn);
+    window.removeEventListener("offline", fn);
+  };
+}
+
+/** The browser's own word on the network (true on the server and until hydrated). */
+export function useBrowserOnline(): boolean {
+  return useSyncExternalStore(onOffline, () => navigator.onLine, () => true);
+}
