@@ -6,7 +6,8 @@ import { describe, expect, it } from "vitest";
 import type { LogEntry } from "../../../app/engine/traversal";
 import type { RunView } from "../../../app/lib/run-log";
 import type { OutboxItem } from "../../../app/components/runner/offline/db";
-import { describeItems, overlay, stepFor, withAcceptedStep, withMeter } from "../../../app/components/runner/offline/overlay";
+import { describeItems, withAcceptedStep } from "../../../app/components/runner/offline/fold";
+import { overlay, stepFor, withMeter } from "../../../app/components/runner/offline/overlay";
 import { smallTree } from "../../support/trees";
 
 const tree = smallTree();

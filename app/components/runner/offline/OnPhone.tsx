@@ -16,7 +16,7 @@ function RunCard({ r, snap }: { r: StoredRun; snap: PhoneSnapshot }) {
   const v = r.view;
   const mine = snap.items.filter((i) => i.runId === r.id);
   const refused = mine.some((i) => i.state !== "queued");
-  const done = v.steps.filter((s) => s.type !== "undo").length + mine.filter((i) => i.kind === "step" && i.state === "queued").length;
+  const done = v.steps.length + mine.filter((i) => i.kind === "step" && i.state === "queued").length;
   return (
     <li>
       <a href={`/runs/${r.id}`} className="card block text-ink no-underline hover:border-copper" aria-label={`Open the run: ${v.version.title}${v.call ? `, call ${v.call.number}` : ""}`}>
@@ -27,7 +27,7 @@ function RunCard({ r, snap }: { r: StoredRun; snap: PhoneSnapshot }) {
           </p>
         )}
         <p className="text-ink-soft">
-          {done} {done === 1 ? "entry" : "entries"}
+          {done === 0 ? "Not begun" : `${done} ${done === 1 ? "step" : "steps"} so far`}
           {r.local ? " · started on this phone" : ""}
           {v.run.status === "paused" ? " · paused" : ""}
         </p>

@@ -6,7 +6,7 @@ import type { RunView } from "~/lib/run-log";
 import { clock } from "../clock";
 import type { RunHandle } from "../useRun";
 import type { OutboxItem } from "./db";
-import { describeItems } from "./overlay";
+import { describeItems } from "./fold";
 import { applyUpdate, useUpdateReady } from "./worker-client";
 
 /** "3 steps and 1 photo saved on this phone — they will be sent when there is signal." */
@@ -137,7 +137,7 @@ export function PhoneStatus({ run }: { run: RunHandle }) {
         </p>
       )}
       {offline && queued.length > 0 && (
-        <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft p-3 text-lg font-semibold">
+        <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft px-3 py-2 font-semibold">
           No signal. {waitingSentence(queued)}
         </p>
       )}

@@ -10,7 +10,7 @@ import type { LogEntry } from "~/engine/traversal";
 import type { FieldKit, KitCall, KitVersion } from "~/lib/field-kit";
 import type { NoteView, PhotoView, RunView } from "~/lib/run-log";
 import { openPhoneDb, type KitMeta, type OutboxItem, type PhoneDb, type StoredRun } from "./db";
-import { localRunView, withAcceptedNote, withAcceptedPhoto, withAcceptedStep, type StepResponse } from "./overlay";
+import { localRunView, withAcceptedNote, withAcceptedPhoto, withAcceptedStep, type StepResponse } from "./fold";
 import { setPhoneUser } from "./who";
 
 export type PhoneSnapshot = {

@@ -11,7 +11,7 @@ export function signOutOfPhone(event: FormEvent<HTMLFormElement>): void {
   const form = event.currentTarget;
   void (async () => {
     const { openPhoneDb } = await import("./db");
-    const { describeItems } = await import("./overlay");
+    const { describeItems } = await import("./fold");
     let unsent = "";
     try {
       const db = await openPhoneDb(user.id);
