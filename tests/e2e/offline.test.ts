@@ -56,6 +56,13 @@ async function controlled(page: Page) {
   await page.waitForFunction(() => navigator.serviceWorker?.controller !== null, undefined, { timeout: 30_000 });
 }
 
+/** Starts the rotisserie procedure from the call's page, with signal (the usual way). */
+async function startOnCall(page: Page, callId: string) {
+  await page.goto(`${baseUrl}/calls/${callId}`);
+  await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
+  await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
+}
+
 async function atStep(page: Page, title: string) {
   await page.getByRole("heading", { level: 1, name: title }).waitFor({ timeout: 15_000 });
 }
@@ -96,9 +103,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
   it("a run opened online works through a reload and a closed tab with no signal, then reaches the server once, in order, with the phone's times", async () => {
     const call = await newCall("unit:larkspur-rotisserie", "left spits pale (offline check)");
     const { context, page } = await phone();
-    await page.goto(`${baseUrl}/calls/${call.id}`);
-    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
-    await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
+    await startOnCall(page, call.id);
     const runUrl = page.url();
     const runId = runUrl.split("/").pop()!;
     await atStep(page, "Disconnect and lock out power before opening the panel");
@@ -218,9 +223,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
   it("a lead takes the run over while the phone has no signal: on reconnect the technician sees what was not accepted and what they typed, kept until they decide", async () => {
     const call = await newCall("unit:larkspur-rotisserie", "right spits pale (offline conflict)");
     const { context, page } = await phone();
-    await page.goto(`${baseUrl}/calls/${call.id}`);
-    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
-    await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
+    await startOnCall(page, call.id);
     const runId = page.url().split("/").pop()!;
     await acknowledge(page, "Disconnect and lock out power before opening the panel");
     await atStep(page, "Discharge the fan-motor run capacitors with a rated tool");

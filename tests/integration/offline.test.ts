@@ -145,16 +145,20 @@ describe("the field kit", () => {
     const w = kit.calls.find((c) => c.id === waiting)!;
     expect(w.openRun).toBeNull();
     expect(w.unit).toMatchObject({ id: rotisserie, category: "rotisserie" });
-    expect(w.procedures[0]).toMatchObject({ treeId: rotisserieTree, versionId: rotisserieV1, title: "Two-fan convection rotisserie heats unevenly" });
-    expect(kit.versions[rotisserieV1]!.tree.start).toBe("lockout");
-    expect(Object.keys(kit.versions[rotisserieV1]!.bodies)).toContain("supply-voltage");
+    // The best match for "heats unevenly" (other tests may have published copies under the same title).
+    const best = w.procedures[0]!;
+    expect(best.title).toBe("Two-fan convection rotisserie heats unevenly");
+    expect(w.procedures.length).toBeLessThanOrEqual(3);
+    expect(kit.versions[best.versionId]!.tree.start).toBe("lockout");
+    expect(Object.keys(kit.versions[best.versionId]!.bodies)).toContain("supply-voltage");
     expect(kit.calls.find((c) => c.id === running)!.openRun).toEqual({ id: runId, status: "active" });
     expect(kit.runs.map((r) => r.run.id)).toContain(runId);
     expect(kit.calls.some((c) => c.id === notMine)).toBe(false);
     expect(kit.meters.length).toBeGreaterThan(0);
     // Already on the phone: not sent again.
-    const again = await fieldKit(tech, [rotisserieV1]);
-    expect(again.versions[rotisserieV1]).toBeUndefined();
+    const again = await fieldKit(tech, [best.versionId]);
+    expect(again.versions[best.versionId]).toBeUndefined();
+    expect(Object.keys(again.versions).length).toBe(Object.keys(kit.versions).length - 1);
     // Another shop's technician sees none of it.
     const other = await fieldKit(otherTech);
     expect(other.calls.some((c) => c.id === waiting || c.id === running)).toBe(false);
