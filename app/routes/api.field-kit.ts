@@ -10,7 +10,7 @@ import type { Route } from "./+types/api.field-kit";
 const versionId = z.string().uuid();
 
 export const loader = api(async ({ request }: Route.LoaderArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "calls.mine");
   // Ids the phone says it has; anything that is not one is ignored (it only makes the answer longer).
   const ids = (new URL(request.url).searchParams.get("have") ?? "")
     .split(",")

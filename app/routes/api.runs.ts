@@ -10,7 +10,7 @@ import type { Route } from "./+types/api.runs";
 export const action = api(async ({ request }: Route.ActionArgs) => {
   requireMethod(request, "POST");
   requireSameOrigin(request);
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "runs.start");
   const p = await readJson(request, startPayload);
   const result = await startRun(ctx, { runId: p.id, treeId: p.treeId, versionId: p.versionId, callId: p.callId ?? undefined, startedAt: p.at ? new Date(p.at) : undefined });
   return Response.json({ ok: true, ...result }, { status: result.replayed ? 200 : 201 });

@@ -5,6 +5,7 @@
 // server and are sent after what the phone still holds for the run.
 import { useMutation } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
+import { practiceReplay, type PracticeEntry } from "~/engine/training/practice";
 import { replay, type LogEntry } from "~/engine/traversal";
 import type { TreeNode } from "~/engine/types";
 import { logOf, type RunView } from "~/lib/run-log";
@@ -46,16 +47,18 @@ export function useRun(initial: RunView, fromPhone = false) {
     };
   }, [phone, initial, id, fromPhone]);
 
-  const state = useMemo(() => replay(view.tree, logOf(view.steps)), [view.tree, view.steps]);
+  // A practice run follows the trainee's call on each reading (app/engine/training/practice.ts).
+  const practice = view.run.practice;
+  const state = useMemo(() => (practice ? practiceReplay(view.tree, logOf(view.steps) as PracticeEntry[]) : replay(view.tree, logOf(view.steps))), [practice, view.tree, view.steps]);
   const current: TreeNode | undefined = useMemo(() => view.tree.nodes.find((n) => n.id === state.current), [view.tree, state.current]);
   const byId = useMemo(() => new Map(view.tree.nodes.map((n) => [n.id, n])), [view.tree]);
 
   /** Apply an entry now and keep it for sending. Returns the engine's refusal message, or null. */
-  function submit(entry: LogEntry, meterId: string | null = null): string | null {
-    const full = withMeter(view.tree, view.meters, entry, meterId);
+  function submit(entry: LogEntry | PracticeEntry, meterId: string | null = null): string | null {
+    const full = withMeter(view.tree, view.meters, entry as LogEntry, meterId);
     const key = uuid();
     const at = new Date().toISOString();
-    const tried = stepFor(view.tree, view.steps, full, { key, meterId, at, enteredBy: view.viewer.id });
+    const tried = stepFor(view.tree, view.steps, full, { key, meterId, at, enteredBy: view.viewer.id, practice });
     if (!tried.ok) return tried.message;
     if (!phone) return "Cluepath is still starting; try again in a moment.";
     setError(null);
@@ -86,6 +89,14 @@ export function useRun(initial: RunView, fromPhone = false) {
     onError: (e) => setError(e instanceof ApiError ? e.message : "The outcome was not saved."),
   });
 
+  // A practice run's finish (app/routes/api.runs.$runId.finish.ts), after its steps.
+  const finish = useMutation({
+    mutationKey: ["run-finish", id],
+    mutationFn: () => afterQueue(() => postJson<{ status: "done" }>(`/api/runs/${id}/finish`, {})),
+    onSuccess: refresh,
+    onError: (e) => setError(e instanceof ApiError ? e.message : "The practice was not finished."),
+  });
+
   const sendReport = useMutation({
     mutationKey: ["report-send", id],
     mutationFn: (reportId: string) => postJson<{ to: string }>(`/api/reports/${reportId}/send`, {}),
@@ -109,6 +120,7 @@ export function useRun(initial: RunView, fromPhone = false) {
     statusPending: status.isPending,
     recordOutcome: outcome.mutateAsync,
     outcomePending: outcome.isPending,
+    finish,
     sendReport,
     /** Entries on their way to the server (with signal). */
     saving: offline ? 0 : queued.length,

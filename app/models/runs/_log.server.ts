@@ -20,6 +20,7 @@ export function stepView(row: StepRow): StepView {
     si: row.siValue,
     siUnit: row.siUnit,
     verdict: row.verdict,
+    call: row.call,
     message: row.message,
     limitsText: row.limits?.text ?? null,
     meterId: row.meterId,

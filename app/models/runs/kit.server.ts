@@ -37,8 +37,9 @@ export async function fieldKit(ctx: Ctx, have: readonly string[] = []): Promise<
   for (const c of calls) {
     const place = await unitWithPlace(ctx, c.unitId);
     if (!place) continue;
-    const procedures = (await suggestTrees(ctx, c.category, c.symptom))
-      .filter((t) => t.sameCategory)
+    // The procedures the call page would offer for this unit (its category, no kind against it).
+    const procedures = (await suggestTrees(ctx, { category: c.category, make: c.make, model: c.model }, c.symptom))
+      .filter((t) => t.fits)
       .slice(0, PROCEDURES_PER_CALL)
       .map((t) => ({ treeId: t.treeId, versionId: t.versionId, title: t.title, number: t.number, symptom: t.symptom }));
     for (const p of procedures) {

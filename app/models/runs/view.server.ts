@@ -10,6 +10,7 @@ import { notFound } from "../../lib/refusal";
 import { photoUrl, type NoteView, type PhotoView, type RunView } from "../../lib/run-log";
 import { unitView, unitWithPlace } from "../_query.server";
 import { shopTimeZone } from "../shop.server";
+import { practiceViewOf } from "../training/_scenario.server";
 import { stepRows, stepView } from "./_log.server";
 import { OPEN, versionContent } from "./_version.server";
 
@@ -38,7 +39,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
   const author = alias(users, "author");
   const raiser = alias(users, "raiser");
   const taker = alias(users, "taker");
-  const [steps, notes, photos, parts, meterRows, escalation, report, call, unit, timeZone] = await Promise.all([
+  const [steps, notes, photos, parts, meterRows, escalation, report, call, unit, timeZone, practice] = await Promise.all([
     stepRows(runId),
     db()
       .select({ note: runNotes, author: author.name })
@@ -69,6 +70,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
     run.callId ? db().select().from(serviceCalls).where(eq(serviceCalls.id, run.callId)).limit(1) : Promise.resolve([]),
     run.unitId ? unitWithPlace(ctx, run.unitId) : Promise.resolve(null),
     shopTimeZone(ctx),
+    run.practice ? practiceViewOf(ctx, run) : Promise.resolve(null),
   ]);
   const c = call[0];
   const u = unit;
@@ -108,6 +110,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
     escalation: e
       ? { id: e.e.id, reason: e.e.reason, raisedBy: e.raisedBy, raisedAt: e.e.raisedAt.toISOString(), takenBy: e.takenBy, fromTree: e.e.fromTree }
       : null,
+    practice,
     report: r ? { id: r.id, number: r.number, sentTo: r.sentTo, sentAt: iso(r.sentAt) } : null,
     viewer: { id: ctx.userId, holds, canTakeOver: open && !holds && can(ctx, "runs.take-over") },
     timeZone,

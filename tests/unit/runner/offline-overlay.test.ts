@@ -29,6 +29,7 @@ function serverRun(): RunView {
     meters: [{ id: "m1", name: "Van meter — capacitance", quantity: "capacitance", unit: "µF", rangeMax: 100, resolution: 0.01, percent: 1.9, counts: 2 }],
     escalation: null,
     report: null,
+    practice: null,
     viewer: { id: me.id, holds: true, canTakeOver: false },
     timeZone: "UTC",
   };
@@ -66,24 +67,37 @@ describe("the view with entries still on the phone", () => {
 
   it("leaves out a queued step the engine no longer takes after the server's steps (the run moved on elsewhere)", () => {
     const server = serverRun();
-    const moved = stepFor(tree, [], { type: "answer", node: "cap-look", answer: "yes" }, { key: "s0", meterId: null, at: "x", enteredBy: "u2" });
+    const moved = stepFor(tree, [], { type: "answer", node: "cap-look", answer: "yes" }, { key: "s0", meterId: null, at: "x", enteredBy: "u2", practice: false });
     if (!moved.ok) throw new Error(moved.message);
     const v = overlay({ ...server, steps: [{ ...moved.step, pending: false }] }, [step({ type: "answer", node: "cap-look", answer: "no" })], url);
     expect(v.steps).toHaveLength(1);
   });
 
   it("folds the server's accepted step into the stored run (replacing the phone's by key, marking what an undo took back)", () => {
-    const first = stepFor(tree, [], { type: "answer", node: "cap-look", answer: "no" }, { key: "a", meterId: null, at: "t", enteredBy: "u1" });
+    const first = stepFor(tree, [], { type: "answer", node: "cap-look", answer: "no" }, { key: "a", meterId: null, at: "t", enteredBy: "u1", practice: false });
     if (!first.ok) throw new Error(first.message);
     const stored = withAcceptedStep(serverRun(), { step: { ...first.step, pending: false }, replayed: false, run: { status: "active", currentNode: "cap-measure", endKind: null, stepCount: 1 } });
     expect(stored.steps).toHaveLength(1);
     expect(stored.run.stepCount).toBe(1);
     const replayed = withAcceptedStep(stored, { step: { ...first.step, pending: false }, replayed: true, run: { status: "active", currentNode: "cap-measure", endKind: null, stepCount: 1 } });
     expect(replayed.steps).toHaveLength(1);
-    const undo = stepFor(tree, stored.steps, { type: "undo" }, { key: "b", meterId: null, at: "t", enteredBy: "u1" });
+    const undo = stepFor(tree, stored.steps, { type: "undo" }, { key: "b", meterId: null, at: "t", enteredBy: "u1", practice: false });
     if (!undo.ok) throw new Error(undo.message);
     const after = withAcceptedStep(stored, { step: undo.step, replayed: false, run: { status: "active", currentNode: "cap-look", endKind: null, stepCount: 2 } });
     expect(after.steps.map((s) => s.undone)).toEqual([true, false]);
+  });
+
+  it("a practice run on the phone follows the trainee's call, not the verdict (app/engine/training/practice.ts)", () => {
+    const practice = { ...serverRun(), run: { ...serverRun().run, practice: true } };
+    // 1.47 µF is inside 1.41–1.59 µF, but the trainee calls it low: the run follows "low" to the capacitor.
+    const reading = { type: "reading", node: "cap-measure", reading: "1.47 µF", call: "low" } as LogEntry;
+    const v = overlay(practice, [step({ type: "answer", node: "cap-look", answer: "no" }), step(reading)], url);
+    expect(v.steps.map((s) => [s.type, s.verdict, s.call, s.to])).toEqual([
+      ["answer", null, null, "cap-measure"],
+      ["reading", "within", "low", "cap-failed"],
+    ]);
+    // The same reading without a call is refused on a practice run, and the overlay leaves it out.
+    expect(overlay(practice, [step({ type: "answer", node: "cap-look", answer: "no" }), step({ type: "reading", node: "cap-measure", reading: "1.47 µF" })], url).steps).toHaveLength(1);
   });
 
   it("says what waits in words", () => {

@@ -2,7 +2,7 @@
 // the procedures to start one here, and what waits to be sent or was refused. With no signal the
 // service worker opens this page for any address it cannot reach.
 import { useEffect, useState } from "react";
-import { clock } from "../clock";
+import { atShop } from "~/lib/display";
 import type { StoredRun } from "./db";
 import { UpdateReady, waitingSentence } from "./PhoneStatus";
 import type { Phone, PhoneSnapshot } from "./phone";
@@ -125,7 +125,7 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
           {user ? (
             <p className="text-ink-soft">
               Kept for {user.name} to work without signal
-              {snap.kit ? ` · calls as of ${clock(new Date(snap.kit.savedAt), snap.kit.timeZone)}` : ""}.
+              {snap.kit ? ` · calls as of ${atShop(snap.kit.savedAt, snap.kit.timeZone, "time")}` : ""}.
             </p>
           ) : (
             <p className="text-lg">Nothing is kept on this phone. Sign in when there is signal: your calls and the runs you open are then kept here for working without it.</p>

@@ -3,7 +3,7 @@
 // version of the app ready to load.
 import { useState } from "react";
 import type { RunView } from "~/lib/run-log";
-import { clock } from "../clock";
+import { atShop } from "~/lib/display";
 import type { RunHandle } from "../useRun";
 import type { OutboxItem } from "./db";
 import { describeItems } from "./fold";
@@ -79,7 +79,7 @@ function Refused({ run, items }: { run: RunHandle; items: OutboxItem[] }) {
                 {i.state === "held" && <span className="font-normal text-ink-soft"> — not sent, it came after the one refused</span>}
               </p>
               <p className="text-ink-soft">
-                {clock(new Date(i.at), view.timeZone)}
+                {atShop(i.at, view.timeZone, "time")}
                 {t.where && ` · ${t.where}`}
               </p>
               {i.kind === "photo" && <PhotoCopy item={i} />}

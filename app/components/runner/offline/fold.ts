@@ -60,6 +60,7 @@ export function localRunView(p: { runId: string; at: string; call: KitCall; vers
     photos: [],
     parts: [],
     meters: p.kit.meters,
+    practice: null,
     escalation: null,
     report: null,
     viewer: { id: me.id, holds: true, canTakeOver: false },

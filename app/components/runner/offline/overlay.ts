@@ -1,5 +1,6 @@
 // Pure: what the runner shows is the run as the server last sent it with what is still only on
 // the phone laid over it, judged by the same engine, in order (fold.ts has the rest, engine-free).
+import { practiceTryEntry, type PracticeEntry } from "~/engine/training/practice";
 import { tryEntry, type LogEntry } from "~/engine/traversal";
 import type { Tree } from "~/engine/types";
 import { logOf, meterAccuracy, type MeterView, type NoteView, type PhotoView, type RunView, type StepView } from "~/lib/run-log";
@@ -20,9 +21,10 @@ export function stepFor(
   tree: Tree,
   steps: StepView[],
   entry: LogEntry,
-  p: { key: string; meterId: string | null; at: string; enteredBy: string },
+  p: { key: string; meterId: string | null; at: string; enteredBy: string; practice: boolean },
 ): { ok: true; step: StepView } | { ok: false; message: string } {
-  const tried = tryEntry(tree, logOf(steps), entry);
+  // A practice run follows the trainee's call on each reading (app/engine/training/practice.ts).
+  const tried = p.practice ? practiceTryEntry(tree, logOf(steps) as PracticeEntry[], entry as PracticeEntry) : tryEntry(tree, logOf(steps), entry);
   if (!tried.ok) return { ok: false, message: tried.rejection.message };
   const s = tried.step;
   const verdict = s?.verdict;
@@ -42,6 +44,7 @@ export function stepFor(
       si: verdict?.reading.si ?? s?.nameplate?.si ?? null,
       siUnit: verdict?.reading.siUnit ?? s?.nameplate?.siUnit ?? null,
       verdict: verdict?.verdict ?? null,
+      call: entry.type === "reading" ? ((entry as PracticeEntry & { type: "reading" }).call ?? null) : null,
       message: verdict?.message ?? (s?.nameplate ? `${s.nameplate.display} ${s.nameplate.unit}` : null),
       limitsText: verdict?.limits.text ?? null,
       meterId: entry.type === "reading" ? p.meterId : null,
@@ -69,7 +72,7 @@ export function overlay(server: RunView, items: OutboxItem[], photoUrl: (item: O
   const photos: PhotoView[] = [...server.photos];
   for (const i of queued) {
     if (i.kind === "step") {
-      const r = stepFor(server.tree, steps, i.entry, { key: i.key, meterId: i.meterId, at: i.at, enteredBy: server.viewer.id });
+      const r = stepFor(server.tree, steps, i.entry, { key: i.key, meterId: i.meterId, at: i.at, enteredBy: server.viewer.id, practice: server.run.practice });
       if (r.ok) steps = [...takeBack(steps, r.step.undoesSeq), r.step];
     } else if (i.kind === "note") {
       notes.push({ id: i.key, key: i.key, node: i.node, text: i.text, author: "", createdAt: i.at, pending: true });
