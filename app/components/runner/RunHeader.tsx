@@ -17,6 +17,12 @@ function SaveState({ run }: { run: RunHandle }) {
         On this phone · {run.waiting}
       </span>
     );
+  if (run.phone.offline)
+    return (
+      <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">
+        No signal
+      </span>
+    );
   if (run.saving > 0)
     return (
       <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">

@@ -2,7 +2,8 @@
 // the procedures to start one here, and what waits to be sent or was refused. With no signal the
 // service worker opens this page for any address it cannot reach.
 import { useEffect, useState } from "react";
-import { atShop } from "~/lib/display";
+import { atShop, placeName } from "~/lib/display";
+import { stepsDone } from "~/lib/run-log";
 import type { StoredRun } from "./db";
 import { UpdateReady, waitingSentence } from "./PhoneStatus";
 import type { Phone, PhoneSnapshot } from "./phone";
@@ -16,7 +17,10 @@ function RunCard({ r, snap }: { r: StoredRun; snap: PhoneSnapshot }) {
   const v = r.view;
   const mine = snap.items.filter((i) => i.runId === r.id);
   const refused = mine.some((i) => i.state !== "queued");
-  const done = v.steps.length + mine.filter((i) => i.kind === "step" && i.state === "queued").length;
+  // The runner's count ("5 done"): the server's steps less those taken back, then each step waiting
+  // on the phone adds one and each undo waiting takes one back.
+  const waiting = mine.filter((i) => i.kind === "step" && i.state === "queued");
+  const done = stepsDone(v.steps) + waiting.reduce((n, i) => n + (i.kind === "step" && i.entry.type === "undo" ? -1 : 1), 0);
   return (
     <li>
       <a href={`/runs/${r.id}`} className="card block text-ink no-underline hover:border-copper" aria-label={`Open the run: ${v.version.title}${v.call ? `, call ${v.call.number}` : ""}`}>
@@ -27,7 +31,7 @@ function RunCard({ r, snap }: { r: StoredRun; snap: PhoneSnapshot }) {
           </p>
         )}
         <p className="text-ink-soft">
-          {done === 0 ? "Not begun" : `${done} ${done === 1 ? "step" : "steps"} so far`}
+          {done === 0 ? "Not begun" : `${done} ${done === 1 ? "step" : "steps"} done`}
           {r.local ? " · started on this phone" : ""}
           {v.run.status === "paused" ? " · paused" : ""}
         </p>
@@ -46,7 +50,7 @@ function CallCard({ c, phone, running }: { c: PhoneSnapshot["calls"][number]; ph
       <p className="text-lg font-bold">Call {c.number}</p>
       <p className="text-xl font-semibold">“{c.symptom}”</p>
       <p className="text-ink-soft">
-        {c.make} {c.model} · {c.customerName}, {c.siteName}
+        {c.make} {c.model} · {placeName(c.customerName, c.siteName)}
       </p>
       {c.openRun ? (
         <a className="btn-primary min-h-14 w-full" href={`/runs/${c.openRun.id}`}>

@@ -66,9 +66,18 @@ function Refused({ run, items }: { run: RunHandle; items: OutboxItem[] }) {
       <h2 id="refused-title" className="text-xl font-bold text-out">
         Not accepted by the server
       </h2>
-      {first?.refusal && <p className="text-lg font-semibold">“{first.refusal.message}”</p>}
-      {!view.viewer.holds && <p>This run is now held by {view.run.technician.name}.</p>}
-      <p>What you entered is kept on this phone until you decide:</p>
+      {view.viewer.holds ? (
+        first?.refusal && <p className="text-lg font-semibold">“{first.refusal.message}”</p>
+      ) : (
+        // Taken over while the phone had no signal: say who holds the run now before the server's words.
+        <>
+          <p className="text-lg font-semibold">
+            {view.run.technician.name} took this run over while this phone had no signal, so these were not added to it.
+          </p>
+          {first?.refusal && <p className="text-ink-soft">The server said: “{first.refusal.message}”</p>}
+        </>
+      )}
+      <p>{view.viewer.holds ? "What you entered is kept on this phone until you decide:" : `What you entered is kept on this phone until you decide. Tell ${view.run.technician.name} what you found, or save the photos, before you remove them:`}</p>
       <ol className="space-y-2">
         {items.map((i) => {
           const t = itemText(i, view);
@@ -101,9 +110,12 @@ function Refused({ run, items }: { run: RunHandle; items: OutboxItem[] }) {
         </div>
       ) : (
         <div className="flex gap-2">
-          <button type="button" className="btn-primary min-h-12 flex-1" onClick={() => void run.phone.retry()}>
-            Send again
-          </button>
+          {/* Sending again only helps once the run is this technician's again. */}
+          {view.viewer.holds && (
+            <button type="button" className="btn-primary min-h-12 flex-1" onClick={() => void run.phone.retry()}>
+              Send again
+            </button>
+          )}
           <button type="button" className="btn-quiet min-h-12 flex-1" onClick={() => setAsking(true)}>
             Remove from this phone…
           </button>
@@ -134,6 +146,11 @@ export function PhoneStatus({ run }: { run: RunHandle }) {
       {needsSignIn && (
         <p role="alert" className="rounded-xl border-2 border-marginal bg-marginal-soft p-3 text-lg font-semibold">
           Your sign-in has ended. <a href={`/login?next=${encodeURIComponent(`/runs/${run.view.run.id}`)}`}>Sign in again</a> to send what is on this phone; nothing is lost.
+        </p>
+      )}
+      {offline && queued.length === 0 && refused.length === 0 && (
+        <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft px-3 py-2 font-semibold">
+          No signal. This run is on this phone: what you enter is kept here and sent when there is signal.
         </p>
       )}
       {offline && queued.length > 0 && (
