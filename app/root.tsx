@@ -12,6 +12,7 @@ import { useNonce } from "./lib/nonce";
 export const links: Route.LinksFunction = () => [
   { rel: "icon", href: "/icon.svg", type: "image/svg+xml" },
   { rel: "manifest", href: "/manifest.webmanifest" },
+  { rel: "apple-touch-icon", href: "/icons/apple-touch-icon.png" },
 ];
 
 export function Layout({ children }: { children: ReactNode }) {

@@ -1,7 +1,8 @@
 // The request handler of Cluepath's server, the same under `npm run dev` (loaded through Vite in
 // middleware mode by server.js) and in production (built into build/server/index.js). In order,
 // every request gets: a request id (X-Request-Id) and one log line; the build's static files
-// (production only); a 400 for an address that cannot be read; the same-origin check for every
+// (production only) and the service worker (/sw.js, server/service-worker.ts); a 400 for an address
+// that cannot be read; the same-origin check for every
 // state-changing method; React Router with the client's address in the load context; security
 // headers; every Set-Cookie of the answer; and a 500 answer (never a stopped process) for an error.
 import { createReadableStreamFromReadable } from "@react-router/node";
@@ -18,6 +19,7 @@ import { answeringOutages } from "../app/lib/errors.server";
 import { CROSS_SITE_MESSAGE, SAFE_METHODS, crossSiteReason } from "../app/lib/http.server";
 import { log, safeError } from "../app/lib/log.server";
 import { baseSecurityHeaders } from "../app/lib/security-headers.server";
+import { WORKER_HEADERS, workerSource } from "./service-worker";
 import { staticFiles } from "./static";
 
 export { loadConfig, log, safeError, type Env };
@@ -39,7 +41,10 @@ export function createApp({ dev }: AppOptions): NodeHandler {
   const build = answeringOutagesIn(serverBuild as unknown as ServerBuild);
   const handle = createRequestHandler(build, dev ? "development" : "production");
   const routes = routeTree(build);
-  const serveStatic = dev ? null : staticFiles(fileURLToPath(new URL("../client/", import.meta.url)));
+  const clientDir = fileURLToPath(new URL("../client/", import.meta.url));
+  const serveStatic = dev ? null : staticFiles(clientDir);
+  // The service worker, made from this build's manifest on first request (production only).
+  let worker: string | null = null;
 
   return async function app(req, res) {
     const started = performance.now();
@@ -59,6 +64,13 @@ export function createApp({ dev }: AppOptions): NodeHandler {
         const outcome = await serveStatic(req, res, pathname, { ...headers, "x-content-type-options": "nosniff" });
         if (outcome === "served") return;
         if (outcome === "bad-request") return fail(res, 400, "This address is not valid.", headers, pathname);
+        if (pathname === "/sw.js" && (req.method === "GET" || req.method === "HEAD")) {
+          route = "/sw.js";
+          worker ??= workerSource(build.assets, clientDir);
+          res.writeHead(200, { ...headers, ...WORKER_HEADERS });
+          res.end(req.method === "HEAD" ? undefined : worker);
+          return;
+        }
       }
       route = routePattern(routes, pathname);
       Object.assign(headers, baseSecurityHeaders({ tls, pathname }));

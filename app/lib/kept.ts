@@ -1,6 +1,7 @@
 // What the user typed, kept in this browser's local storage until the server has it, so a screen
-// that fails (a route error boundary), a reload or an outage loses nothing: the runner's steps and
-// notes not yet acknowledged, the editor's changes not yet saved. Browser only; every call is safe
+// that fails (a route error boundary), a reload or an outage loses nothing: the editor's changes
+// not yet saved. (The runner's steps, notes and photos wait in the phone's outbox in IndexedDB,
+// app/components/runner/offline/phone.ts, one way for all of them.) Browser only; every call is safe
 // where storage is missing or full (it then keeps nothing and says so by returning null/false).
 
 const PREFIX = "cluepath:";
@@ -41,31 +42,6 @@ export function forgetKept(key: string): void {
   } catch {
     /* nothing kept, nothing to forget */
   }
-}
-
-// --- the runner ------------------------------------------------------------------------------------
-
-/** A step or note the runner sent and the server has not acknowledged yet. */
-export type UnsentStep = { kind: "step"; key: string; entry: unknown; meterId: string | null; at: string; label: string };
-export type UnsentNote = { kind: "note"; key: string; node: string; text: string; at: string; label: string };
-export type Unsent = UnsentStep | UnsentNote;
-
-export const unsentKey = (runId: string) => `run:${runId}:unsent`;
-
-export function readUnsent(runId: string): Unsent[] {
-  return readKept<Unsent[]>(unsentKey(runId)) ?? [];
-}
-
-export function keepUnsent(runId: string, item: Unsent): void {
-  writeKept(unsentKey(runId), [...readUnsent(runId).filter((u) => u.key !== item.key), item]);
-}
-
-/** The server has these (or refused them for good): no longer kept. */
-export function dropUnsent(runId: string, keys: Iterable<string>): void {
-  const gone = new Set(keys);
-  const left = readUnsent(runId).filter((u) => !gone.has(u.key));
-  if (left.length) writeKept(unsentKey(runId), left);
-  else forgetKept(unsentKey(runId));
 }
 
 // --- the editor ------------------------------------------------------------------------------------

@@ -5,6 +5,7 @@ import type { MySqlSelect } from "drizzle-orm/mysql-core";
 import type { ResultSetHeader } from "mysql2";
 import { customers, equipmentUnits, reports, runs, serviceCalls, shopCounters, sites, trees, treeVersions, type Counter } from "../../db/schema";
 import type { Ctx } from "../lib/context";
+import type { RunView } from "../lib/run-log";
 import { db, type Tx } from "../lib/db.server";
 
 /** Tables whose rows belong to one shop and are locked by id. */
@@ -55,6 +56,24 @@ export async function unitWithPlace(ctx: Ctx, unitId: string) {
     .where(and(eq(equipmentUnits.id, unitId), eq(equipmentUnits.shopId, ctx.shopId)))
     .limit(1);
   return row ?? null;
+}
+
+type UnitWithPlace = NonNullable<Awaited<ReturnType<typeof unitWithPlace>>>;
+
+/** A unit as the runner shows it (with its site and customer). */
+export function unitView(u: UnitWithPlace): NonNullable<RunView["unit"]> {
+  return {
+    id: u.unit.id,
+    category: u.unit.category,
+    make: u.unit.make,
+    model: u.unit.model,
+    serial: u.unit.serial,
+    nameplate: u.unit.nameplate,
+    site: u.site.name,
+    customer: u.customer.name,
+    contactName: u.site.contactName,
+    contactEmail: u.site.contactEmail,
+  };
 }
 
 /** True when MariaDB refused a write for a unique index (ER_DUP_ENTRY), also when wrapped by Drizzle. */

@@ -46,6 +46,7 @@ const TRAINERS: readonly Role[] = ["trainer", "lead", "owner"];
 
 /** Who may read (GET) and who may change (POST, PUT, PATCH, DELETE) through each route. */
 const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }> = {
+  "/api/runs": { write: WORKERS },
   "/api/runs/:runId": { read: ALL },
   "/api/runs/:runId/steps": { write: WORKERS },
   "/api/runs/:runId/notes": { write: WORKERS },
@@ -55,6 +56,10 @@ const ACCESS: Record<string, { read?: readonly Role[]; write?: readonly Role[] }
   "/api/photos/:photoId": { read: ALL, write: WORKERS },
   "/api/reports/:reportId/send": { write: WORKERS },
   "/runs/:runId": { read: ALL },
+  // Offline field mode: the technician's field kit, and the page of what this phone keeps (its
+  // data is the phone's own IndexedDB; the server sends only who is signed in).
+  "/api/field-kit": { read: ["technician"] },
+  "/phone": { read: ALL },
   "/reports/:reportId": { read: ALL, write: WORKERS },
   "/api/trees": { read: ALL },
   "/api/trees/:treeId": { read: ALL },

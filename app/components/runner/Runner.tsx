@@ -13,7 +13,6 @@ import { OutcomeScreen } from "./ends/OutcomeScreen";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
-import { KeptSteps } from "./KeptSteps";
 import { useFocusClearOfBar } from "./inView";
 import { Markdown } from "./Markdown";
 import { MorePanel } from "./MorePanel";
@@ -24,6 +23,8 @@ import { StepScreen } from "./Screens";
 import { StepExtras } from "./StepExtras";
 import { LastReading, StepHeading } from "./StepHeading";
 import { Toolbar, type Panel } from "./Toolbar";
+import { PhoneStatus } from "./offline/PhoneStatus";
+import { registerWorker } from "./offline/worker-client";
 import { useRun, type RunHandle } from "./useRun";
 import { PracticeDoneScreen, PracticeEndScreen } from "./practice/PracticeEnd";
 import { PracticeBrief } from "./practice/Scripted";
@@ -47,8 +48,8 @@ function screenFor(run: RunHandle, setPanel: (p: Panel) => void): ReactNode {
   return <Closed title="This procedure cannot run" detail={state.error ?? "The tree has no step to start from."} />;
 }
 
-export function Runner({ initial }: { initial: RunView }) {
-  const run = useRun(initial);
+export function Runner({ initial, fromPhone = false }: { initial: RunView; fromPhone?: boolean }) {
+  const run = useRun(initial, fromPhone);
   const { view, state, current } = run;
   const [panel, setPanel] = useState<Panel>(null);
   const status = view.run.status;
@@ -74,6 +75,9 @@ export function Runner({ initial }: { initial: RunView }) {
   // Keyboard focus never lands under the bottom bar.
   useFocusClearOfBar();
 
+  // The service worker keeps this page and its code on the phone for working without signal.
+  useEffect(registerWorker, []);
+
   // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
   useEffect(() => {
     if (panel && panel !== "more") window.scrollTo({ top: 0 });
@@ -83,6 +87,7 @@ export function Runner({ initial }: { initial: RunView }) {
     <div className="flex min-h-dvh flex-col bg-paper">
       <RunHeader run={run} walking={walking && Boolean(current)} historyOpen={panel === "history"} onHistory={() => setPanel(panel === "history" ? null : "history")} />
       <main className="mx-auto w-full max-w-xl flex-1 space-y-4 px-4 pb-44 pt-3">
+        <PhoneStatus run={run} />
         {run.error && (
           <div role="alert" className="flex items-start justify-between gap-3 rounded-xl border-2 border-out bg-out-soft p-3 text-out">
             <p className="text-lg font-semibold">{run.error}</p>
@@ -91,7 +96,6 @@ export function Runner({ initial }: { initial: RunView }) {
             </button>
           </div>
         )}
-        <KeptSteps run={run} />
         {panel === "history" && <History run={run} onClose={() => setPanel(null)} />}
         {panel === "note" && shownNode && <NotePanel run={run} node={shownNode} onClose={() => setPanel(null)} />}
         {(panel === "escalate" || panel === "abandon") && (

@@ -12,7 +12,12 @@ import { checkImage, deleteObject, getObject, objectKey, putObject } from "../..
 import { isDuplicate } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
 
-export const photoFields = z.object({ key: z.string().uuid("Each photo needs an idempotency key (a UUID)."), node: z.string().min(1).max(64) });
+export const photoFields = z.object({
+  key: z.string().uuid("Each photo needs an idempotency key (a UUID)."),
+  node: z.string().min(1).max(64),
+  /** The phone's clock when the photo was taken. */
+  at: z.iso.datetime({ offset: true }).nullish(),
+});
 
 const view = (p: typeof runPhotos.$inferSelect): PhotoView => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: photoUrl(p.id), bytes: p.bytes, createdAt: p.createdAt.toISOString() });
 
@@ -36,7 +41,7 @@ async function photoByKey(runId: string, key: string) {
  * (`replayed`), also when both uploads arrive at once: the unique key decides which one is stored,
  * and the other's object is removed before it answers with the winner's photo.
  */
-export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array }): Promise<{ replayed: boolean; photo: PhotoView }> {
+export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array; at?: string | null }): Promise<{ replayed: boolean; photo: PhotoView }> {
   authorize(ctx, "runs.view");
   const [run] = await db()
     .select({ id: runs.id, technicianId: runs.technicianId, status: runs.status, versionId: runs.versionId })
@@ -62,6 +67,7 @@ export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; no
     contentType: check.mime,
     bytes: input.bytes.byteLength,
     uploadedBy: ctx.userId,
+    clientAt: input.at ? new Date(input.at) : null,
     createdAt: new Date(),
     deletedAt: null,
   };

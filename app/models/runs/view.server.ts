@@ -8,7 +8,7 @@ import { db } from "../../lib/db.server";
 import { authorize, can } from "../../lib/policy";
 import { notFound } from "../../lib/refusal";
 import { photoUrl, type NoteView, type PhotoView, type RunView } from "../../lib/run-log";
-import { unitWithPlace } from "../_query.server";
+import { unitView, unitWithPlace } from "../_query.server";
 import { shopTimeZone } from "../shop.server";
 import { practiceViewOf } from "../training/_scenario.server";
 import { stepRows, stepView } from "./_log.server";
@@ -97,20 +97,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
       startedBy: { id: run.startedBy, name: head.starterName },
     },
     call: c ? { id: c.id, number: c.number, symptom: c.symptom, priority: c.priority } : null,
-    unit: u
-      ? {
-          id: u.unit.id,
-          category: u.unit.category,
-          make: u.unit.make,
-          model: u.unit.model,
-          serial: u.unit.serial,
-          nameplate: u.unit.nameplate,
-          site: u.site.name,
-          customer: u.customer.name,
-          contactName: u.site.contactName,
-          contactEmail: u.site.contactEmail,
-        }
-      : null,
+    unit: u ? unitView(u) : null,
     version: { id: content.versionId, treeId: content.treeId, number: content.number, title: content.title },
     tree: content.tree,
     bodies: content.bodies,
