@@ -4,7 +4,9 @@
 // the app server's CPU per request. Starts its own stack on loopback and prints one Markdown table.
 // A benchmark, not a test: it reports figures and targets, it does not fail on them.
 //
-//   npm run bench:app            (BENCH_ROUNDS=3, BENCH_SECONDS=4, STACK_PORT_BASE=… to pin ports)
+//   npm run bench:app            (BENCH_ROUNDS=3, BENCH_SECONDS=4, STACK_PORT_BASE=… to pin ports,
+//                                 BENCH_ONLY=json,step6,step60,api,bare,runner,db for a subset,
+//                                 STACK_CPU_PROF=DIR for the server's CPU profile)
 //
 // The two floors are not app routes: the benchmark builds a copy of the app with two routes of its
 // own — /__bench/json (a resource route returning JSON, no database) and /__bench/hello (a page with
@@ -165,7 +167,7 @@ async function bench(stack: Stack, load0: number) {
     },
   });
 
-  const scenarios: Scenario[] = [
+  const all: Scenario[] = [
     {
       key: "json",
       label: "framework floor: a resource route returning JSON, no database (/__bench/json)",
@@ -215,6 +217,9 @@ async function bench(stack: Stack, load0: number) {
     },
   ];
 
+  // BENCH_ONLY=step6,json measures only those (a quicker look while working; the ratios need both sides).
+  const only = process.env.BENCH_ONLY?.split(",").map((k) => k.trim());
+  const scenarios = only ? all.filter((s) => only.includes(s.key)) : all;
   log("warm-up round");
   for (const s of scenarios) {
     const r = await s.round(Math.min(1.5, SECONDS));
@@ -294,7 +299,7 @@ function report(
   sql: Record<"json" | "step6" | "undo" | "api" | "bare" | "runner", Statements>,
   extra: { load0: number; runnerEncoding: string | null },
 ) {
-  const m = (key: string, f: keyof Round) => median(rounds.get(key)!.map((r) => r[f]));
+  const m = (key: string, f: keyof Round) => median((rounds.get(key) ?? []).map((r) => r[f]));
   const rps = (key: string) => m(key, "rps");
   const p50 = (key: string) => m(key, "p50");
   const x = (v: number) => `${v.toFixed(v < 1 ? 3 : 2)}×`;
@@ -357,7 +362,7 @@ function report(
   target("SQL statements per reading step ≤ 6", String(sql.step6.total), "—", sql.step6.total <= 6);
   target("runner HTML compressed (Accept-Encoding: gzip, deflate, br)", extra.runnerEncoding ?? "none", "—", extra.runnerEncoding !== null);
   const failed = scenarios.map((s) => [s.key, rounds.get(s.key)!.reduce((a, r) => a + r.failed, 0)] as const).filter(([, n]) => n > 0);
-  const recycled = ["step6", "step60"].map((k) => [k, rounds.get(k)!.reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
+  const recycled = ["step6", "step60"].map((k) => [k, (rounds.get(k) ?? []).reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
   if (failed.length) lines.push("", `Failed requests (not counted above): ${failed.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
   if (recycled.length) lines.push("", `Runs reused after their cycle (log 4 entries longer): ${recycled.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
   console.log(lines.join("\n"));
