@@ -33,7 +33,8 @@ export function createPool(url: string, options: PoolOptions = {}): mysql.Pool {
     charset: "utf8mb4_unicode_ci",
   });
   pool.on("connection", (conn) => {
-    conn.query("SET time_zone = '+00:00'");
+    // UTC; and room for a long run's log read as one JSON_ARRAYAGG (MariaDB cuts at 1 MB by default).
+    conn.query("SET time_zone = '+00:00', group_concat_max_len = 67108864");
   });
   withAcquireTimeout(pool, acquireTimeoutMs);
   return pool;

@@ -232,6 +232,30 @@ describe("idempotent step POST", () => {
     expect([a, b].find((r) => r.status === "rejected")).toMatchObject({ reason: { kind: "rejected", status: 422 } });
     expect(await stepCount(runId)).toBe(1);
   });
+
+  it("ten undos posted at once each judge the log as the previous one left it: four take back four different steps, six are refused", async () => {
+    // Each step reads the run's log in the statement that locks the run; a log read from before the
+    // lock was granted would let two undos take back the same step. The engine's own replay of the
+    // stored log (traversal.ts) is the reference for what each row must say.
+    const { runId } = await newRun();
+    await ok(tech, runId, step({ type: "acknowledge", node: "lockout" }));
+    await ok(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }));
+    await ok(tech, runId, step({ type: "acknowledge", node: "live-test" }));
+    await ok(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 V" }, { meterId: voltMeter }));
+    const results = await Promise.allSettled(Array.from({ length: 10 }, () => postStep(tech, runId, step({ type: "undo" }))));
+    expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(4);
+    for (const r of results) if (r.status === "rejected") expect(r.reason).toMatchObject({ status: 422, code: "nothing-to-undo" });
+
+    const view = await getRunView(tech, runId);
+    expect(view.steps.map((s) => s.seq)).toEqual([0, 1, 2, 3, 4, 5, 6, 7]);
+    const undos = view.steps.filter((s) => s.type === "undo");
+    expect(undos.map((s) => s.undoesSeq)).toEqual([3, 2, 1, 0]);
+    expect(view.steps.filter((s) => s.undone).map((s) => s.seq)).toEqual([0, 1, 2, 3]);
+    const state = replay(view.tree, logOf(view.steps));
+    expect(state.undone.sort()).toEqual([0, 1, 2, 3]);
+    expect(view.run.currentNode).toBe(state.current);
+    expect(view.run.stepCount).toBe(8);
+  });
 });
 
 describe("version pinning", () => {

@@ -1,12 +1,40 @@
-// A run's step rows, read in order and shown as the wire's StepView. Used by the run models only.
-import { asc, eq } from "drizzle-orm";
-import { runSteps } from "../../../db/schema";
+// A run's step rows, read in order and shown as the wire's StepView, and the one statement a step
+// starts with (the run locked, with its log and the meter chosen). Used by the run models only.
+import { and, asc, eq, sql } from "drizzle-orm";
+import { meters, runs, runSteps } from "../../../db/schema";
+import type { Ctx } from "../../lib/context";
 import { db, type Db, type Tx } from "../../lib/db.server";
-import type { StepView } from "../../lib/run-log";
+import type { MeterView, StepView } from "../../lib/run-log";
 
 export type StepRow = typeof runSteps.$inferSelect;
 
-export function stepView(row: StepRow): StepView {
+/** The columns a StepView is made of: a stored row, or the row a step has just inserted. */
+export type StepViewSource = Pick<
+  StepRow,
+  | "seq"
+  | "idempotencyKey"
+  | "type"
+  | "nodeKey"
+  | "kind"
+  | "answer"
+  | "typed"
+  | "value"
+  | "unit"
+  | "siValue"
+  | "siUnit"
+  | "verdict"
+  | "message"
+  | "limits"
+  | "meterId"
+  | "meter"
+  | "toNode"
+  | "undone"
+  | "undoesSeq"
+  | "enteredBy"
+  | "recordedAt"
+>;
+
+export function stepView(row: StepViewSource): StepView {
   return {
     seq: row.seq,
     key: row.idempotencyKey,
@@ -35,4 +63,75 @@ export function stepView(row: StepRow): StepView {
 /** The run's step rows in log order. */
 export async function stepRows(runId: string, tx: Tx | Db = db()): Promise<StepRow[]> {
   return tx.select().from(runSteps).where(eq(runSteps.runId, runId)).orderBy(asc(runSteps.seq));
+}
+
+/** One stored step by its idempotency key (a retry's answer). */
+export async function stepByKey(tx: Tx, runId: string, key: string): Promise<StepRow | undefined> {
+  const [row] = await tx
+    .select()
+    .from(runSteps)
+    .where(and(eq(runSteps.runId, runId), eq(runSteps.idempotencyKey, key)))
+    .limit(1);
+  return row;
+}
+
+/** A log entry as the replay needs it: what the engine reads, and the key and hash a retry is told by. */
+export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter"> & { hash: string };
+
+export type MeterChoice = Omit<MeterView, "rangeMax">;
+
+export type LockedRun = {
+  run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind">;
+  /** The log so far, in order. */
+  log: LoggedEntry[];
+  /** The shop meter asked for, or null when none was asked for or it is not the shop's. */
+  meter: MeterChoice | null;
+};
+
+/** A JSON function's result: mysql2 parses it when MariaDB marks it as JSON, else it is text. */
+function fromJson<T>(value: T | string | null): T | null {
+  return typeof value === "string" ? (JSON.parse(value) as T) : value;
+}
+
+/**
+ * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
+ * its log (only the columns the replay needs) and the shop meter asked for. Both are correlated
+ * subqueries of the locked row, so MariaDB evaluates them after the lock is granted: they see every
+ * step committed before it, and they take no locks of their own (a meter shared by many runs is not
+ * serialised). Null when the run is not in the shop. (Drizzle leaves columns unqualified in a
+ * one-table select, so the outer row is named in plain SQL: runs.id.)
+ */
+export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null): Promise<LockedRun | null> {
+  const log = sql<LoggedEntry[] | string | null>`(SELECT JSON_ARRAYAGG(JSON_OBJECT(
+      'seq', ${runSteps.seq}, 'key', ${runSteps.idempotencyKey}, 'hash', ${runSteps.payloadHash}, 'type', ${runSteps.type},
+      'node', ${runSteps.nodeKey}, 'answer', ${runSteps.answer}, 'typed', ${runSteps.typed}, 'meter', ${runSteps.meter}
+    ) ORDER BY ${runSteps.seq}) FROM ${runSteps} WHERE ${runSteps.runId} = runs.id)`;
+  const meter = meterId
+    ? sql<MeterChoice | string | null>`(SELECT JSON_OBJECT(
+        'id', ${meters.id}, 'name', ${meters.name}, 'quantity', ${meters.quantity}, 'unit', ${meters.unit},
+        'resolution', ${meters.resolution}, 'percent', ${meters.percent}, 'counts', ${meters.counts}
+      ) FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = runs.shop_id)`
+    : sql<null>`NULL`;
+  const [row] = await tx
+    .select({
+      id: runs.id,
+      versionId: runs.versionId,
+      technicianId: runs.technicianId,
+      status: runs.status,
+      stepCount: runs.stepCount,
+      currentNode: runs.currentNode,
+      endKind: runs.endKind,
+      log,
+      meter,
+    })
+    .from(runs)
+    .where(and(eq(runs.id, runId), eq(runs.shopId, ctx.shopId)))
+    .for("update");
+  if (!row) return null;
+  const { log: logJson, meter: meterJson, ...run } = row;
+  return {
+    run,
+    log: fromJson(logJson) ?? [],
+    meter: fromJson(meterJson),
+  };
 }
