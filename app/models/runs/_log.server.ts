@@ -5,6 +5,7 @@ import { meters, runs, runSteps } from "../../../db/schema";
 import type { Ctx } from "../../lib/context";
 import { db, type Db, type Tx } from "../../lib/db.server";
 import type { MeterView, StepView } from "../../lib/run-log";
+import { fromJson, jsonIso, jsonRow, jsonRows, type JsonOf } from "../_query.server";
 
 export type StepRow = typeof runSteps.$inferSelect;
 
@@ -65,6 +66,35 @@ export async function stepRows(runId: string, tx: Tx | Db = db()): Promise<StepR
   return tx.select().from(runSteps).where(eq(runSteps.runId, runId)).orderBy(asc(runSteps.seq));
 }
 
+/** A step row as a JSON object with the StepView's names, for reading a run's steps inside its own statement. */
+export const STEP_JSON = {
+  seq: runSteps.seq,
+  key: runSteps.idempotencyKey,
+  type: runSteps.type,
+  node: runSteps.nodeKey,
+  kind: runSteps.kind,
+  answer: runSteps.answer,
+  typed: runSteps.typed,
+  value: runSteps.value,
+  unit: runSteps.unit,
+  si: runSteps.siValue,
+  siUnit: runSteps.siUnit,
+  verdict: runSteps.verdict,
+  message: runSteps.message,
+  limitsText: sql<string | null>`JSON_VALUE(${runSteps.limits}, '$.text')`,
+  meterId: runSteps.meterId,
+  meter: runSteps.meter,
+  to: runSteps.toNode,
+  undone: runSteps.undone,
+  undoesSeq: runSteps.undoesSeq,
+  enteredBy: runSteps.enteredBy,
+  recordedAt: runSteps.recordedAt,
+};
+
+export function stepViewFromJson(j: JsonOf<typeof STEP_JSON>): StepView {
+  return { ...j, undone: Boolean(j.undone), recordedAt: jsonIso(j.recordedAt) };
+}
+
 /** One stored step by its idempotency key (a retry's answer). */
 export async function stepByKey(tx: Tx, runId: string, key: string): Promise<StepRow | undefined> {
   const [row] = await tx
@@ -88,11 +118,6 @@ export type LockedRun = {
   meter: MeterChoice | null;
 };
 
-/** A JSON function's result: mysql2 parses it when MariaDB marks it as JSON, else it is text. */
-function fromJson<T>(value: T | string | null): T | null {
-  return typeof value === "string" ? (JSON.parse(value) as T) : value;
-}
-
 /**
  * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
  * its log (only the columns the replay needs) and the shop meter asked for. Both are correlated
@@ -102,15 +127,25 @@ function fromJson<T>(value: T | string | null): T | null {
  * one-table select, so the outer row is named in plain SQL: runs.id.)
  */
 export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null): Promise<LockedRun | null> {
-  const log = sql<LoggedEntry[] | string | null>`(SELECT JSON_ARRAYAGG(JSON_OBJECT(
-      'seq', ${runSteps.seq}, 'key', ${runSteps.idempotencyKey}, 'hash', ${runSteps.payloadHash}, 'type', ${runSteps.type},
-      'node', ${runSteps.nodeKey}, 'answer', ${runSteps.answer}, 'typed', ${runSteps.typed}, 'meter', ${runSteps.meter}
-    ) ORDER BY ${runSteps.seq}) FROM ${runSteps} WHERE ${runSteps.runId} = runs.id)`;
+  const log = jsonRows(
+    {
+      seq: runSteps.seq,
+      key: runSteps.idempotencyKey,
+      hash: runSteps.payloadHash,
+      type: runSteps.type,
+      node: runSteps.nodeKey,
+      answer: runSteps.answer,
+      typed: runSteps.typed,
+      meter: runSteps.meter,
+    },
+    sql`FROM ${runSteps} WHERE ${runSteps.runId} = runs.id`,
+    sql`${runSteps.seq}`,
+  );
   const meter = meterId
-    ? sql<MeterChoice | string | null>`(SELECT JSON_OBJECT(
-        'id', ${meters.id}, 'name', ${meters.name}, 'quantity', ${meters.quantity}, 'unit', ${meters.unit},
-        'resolution', ${meters.resolution}, 'percent', ${meters.percent}, 'counts', ${meters.counts}
-      ) FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = runs.shop_id)`
+    ? jsonRow(
+        { id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts },
+        sql`FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = runs.shop_id`,
+      )
     : sql<null>`NULL`;
   const [row] = await tx
     .select({
