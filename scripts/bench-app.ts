@@ -15,7 +15,10 @@
 // App code imported: none here; scripts/lib/field.ts takes DEMO_PASSWORD from db/demo.ts.
 import autocannon from "autocannon";
 import mysql from "mysql2/promise";
+import { readdirSync, readFileSync } from "node:fs";
 import { cpus, loadavg } from "node:os";
+import { join } from "node:path";
+import { gzipSync } from "node:zlib";
 import { cloneRun, extendTo, nextKind, startField, stepBody, stepHeaders, techSessions, type Field } from "./lib/field";
 import { cpuSeconds, log, Stack } from "./lib/stack";
 
@@ -234,7 +237,31 @@ async function bench(stack: Stack, load0: number) {
 
   const sql = await statementsPerRequest(stack, field, queues[6], views[0]!, cookies[0]!);
   const runnerEncoding = (await fetch(`${stack.baseUrl}/runs/${views[0]}`, { headers: { cookie: cookies[0]!, ...BROWSER } })).headers.get("content-encoding");
-  report(scenarios, rounds, sql, { load0, runnerEncoding });
+  report(scenarios, rounds, sql, { load0, runnerEncoding, weight: runnerWeight(stack.clientDir) });
+}
+
+type RunnerWeight = { sharedKb: number; ownKb: number; fontFiles: number };
+
+/**
+ * The runner's download from the build's client manifest, gzip, kB = 1000 bytes: the part every
+ * page loads (the entry, the root route and their imports), the runner route's own modules beyond
+ * that, and the font files the root stylesheet names.
+ */
+function runnerWeight(clientDir: string): RunnerWeight {
+  const assets = join(clientDir, "assets");
+  const file = readdirSync(assets).find((f) => /^manifest-\w+\.js$/.test(f));
+  if (!file) throw new Error(`no client manifest in ${assets}`);
+  const text = readFileSync(join(assets, file), "utf8");
+  type Entry = { module: string; imports?: string[]; css?: string[] };
+  const manifest = JSON.parse(text.slice(text.indexOf("{"), text.lastIndexOf("}") + 1)) as { entry: Entry; routes: Record<string, Entry> };
+  const files = (e: Entry) => [e.module, ...(e.imports ?? [])];
+  const gz = (url: string) => gzipSync(readFileSync(join(clientDir, url))).length / 1000;
+  const root = manifest.routes.root!;
+  const shared = new Set([...files(manifest.entry), ...files(root)]);
+  const own = files(manifest.routes["routes/runs.$runId"]!).filter((f) => !shared.has(f));
+  const fonts = new Set((root.css ?? []).flatMap((css) => readFileSync(join(clientDir, css), "utf8").match(/[\w./-]+\.woff2?/g) ?? []));
+  const sum = (xs: Iterable<string>) => [...xs].reduce((a, f) => a + gz(f), 0);
+  return { sharedKb: sum(shared), ownKb: sum(own), fontFiles: fonts.size };
 }
 
 type Statements = { total: number; detail: string };
@@ -297,7 +324,7 @@ function report(
   scenarios: Scenario[],
   rounds: Map<string, Round[]>,
   sql: Record<"json" | "step6" | "undo" | "api" | "bare" | "runner", Statements>,
-  extra: { load0: number; runnerEncoding: string | null },
+  extra: { load0: number; runnerEncoding: string | null; weight: RunnerWeight },
 ) {
   const m = (key: string, f: keyof Round) => median((rounds.get(key) ?? []).map((r) => r[f]));
   const rps = (key: string) => m(key, "rps");
@@ -361,6 +388,9 @@ function report(
   target("runner page ≥ 0.40× the bare SSR page", x(ratios.runner.rps), x(ratios.runner.cpu), ratios.runner.rps >= 0.4);
   target("SQL statements per reading step ≤ 6", String(sql.step6.total), "—", sql.step6.total <= 6);
   target("runner HTML compressed (Accept-Encoding: gzip, deflate, br)", extra.runnerEncoding ?? "none", "—", extra.runnerEncoding !== null);
+  const w = extra.weight;
+  target(`runner route's own JavaScript beyond the shared part (${w.sharedKb.toFixed(1)} kB) ≤ 40 kB gzip`, `${w.ownKb.toFixed(1)} kB`, "—", w.ownKb <= 40);
+  target("font files every page loads (the root stylesheet's) ≤ 1", String(w.fontFiles), "—", w.fontFiles <= 1);
   const failed = scenarios.map((s) => [s.key, rounds.get(s.key)!.reduce((a, r) => a + r.failed, 0)] as const).filter(([, n]) => n > 0);
   const recycled = ["step6", "step60"].map((k) => [k, (rounds.get(k) ?? []).reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
   if (failed.length) lines.push("", `Failed requests (not counted above): ${failed.map(([k, n]) => `${k} ${n}`).join(", ")}.`);

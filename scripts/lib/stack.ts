@@ -136,6 +136,12 @@ export class Stack {
 
   // --- build ---------------------------------------------------------------------------------
 
+  /** The production build's client folder (build/client), for harnesses that weigh it. */
+  get clientDir(): string {
+    if (!this.buildDir) throw new Error("no build yet");
+    return join(this.buildDir, "client");
+  }
+
   /**
    * A production build in the temporary folder. With extra routes it builds a copy of app/ (and
    * db/, public/) whose routes.ts is the app's own list plus those routes; the app itself is not
