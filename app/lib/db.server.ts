@@ -76,6 +76,21 @@ export function db(): Db {
   return (holder.db ??= drizzle(pool(), { schema, mode: "default" }));
 }
 
+/**
+ * A query whose SQL text is built once per pool (drizzle's `prepare()`, values as
+ * `sql.placeholder("name")`), not on every call: building a select with its joins and subqueries
+ * costs more CPU than MariaDB takes to answer it. For queries on the pool, not inside a transaction.
+ */
+export function prepared<T>(build: (db: Db) => T): () => T {
+  const built = new WeakMap<Db, T>();
+  return () => {
+    const d = db();
+    let query = built.get(d);
+    if (!query) built.set(d, (query = build(d)));
+    return query;
+  };
+}
+
 export async function closeDb(): Promise<void> {
   const p = holder.pool;
   holder.pool = undefined;
