@@ -19,7 +19,7 @@ import { answeringOutages } from "../app/lib/errors.server";
 import { CROSS_SITE_MESSAGE, SAFE_METHODS, crossSiteReason } from "../app/lib/http.server";
 import { log, safeError } from "../app/lib/log.server";
 import { baseSecurityHeaders } from "../app/lib/security-headers.server";
-import { compressible, compressorFor, compressWhole, MIN_BYTES, negotiateEncoding, streamsAsRendered, varyOnEncoding } from "./compression";
+import { compressible, compressionStages, compressWhole, MIN_BYTES, negotiateEncoding, streamsAsRendered, varyOnEncoding } from "./compression";
 import { staticFiles } from "./static";
 
 export { loadConfig, log, safeError, type Env };
@@ -220,7 +220,7 @@ async function send(req: IncomingMessage, res: ServerResponse, response: Respons
   }
   try {
     const body = Readable.fromWeb(response.body as import("node:stream/web").ReadableStream);
-    await (encoding ? pipeline(body, compressorFor(body, encoding), res) : pipeline(body, res));
+    await (encoding ? pipeline(body, ...compressionStages(encoding), res) : pipeline(body, res));
   } catch (error) {
     // The client went away mid-answer: nothing to send it; anything else is worth a line.
     if (!res.destroyed || !(error as { code?: string }).code?.startsWith("ERR_STREAM_PREMATURE_CLOSE")) {

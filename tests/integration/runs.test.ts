@@ -335,6 +335,14 @@ describe("the run view", () => {
       { partNumber: "WN-12", description: "Wire nuts", quantity: 3 },
     ]);
     expect(after.report).toEqual({ id: done.reportId, number: done.number, sentTo: null, sentAt: null });
+
+    // Over HTTP the same view arrives, the second time with the version's part from its cache.
+    const { cookie } = await cookieFor("lead@tinderbox.example");
+    for (let i = 0; i < 2; i++) {
+      const res = (await runApiLoader(routeArgs(requestWith(cookie, `/api/runs/${runId}`), { runId }))) as Response;
+      expect(res.headers.get("content-type")).toMatch(/^application\/json/);
+      expect(await res.json()).toEqual(JSON.parse(JSON.stringify(after)));
+    }
   });
 });
 

@@ -149,3 +149,21 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
     timeZone: row.timeZone || "UTC",
   };
 }
+
+/** The pinned version's part of the view, as JSON text without its braces, by the version's tree object. */
+const versionJson = new WeakMap<object, string>();
+
+/**
+ * The view as JSON text for GET /api/runs/:id. The version's tree, step bodies and description (most
+ * of the answer) never change for a published version and come from its cached content
+ * (_version.server.ts), so they are serialised once per version, not on every request.
+ */
+export function runViewJson(view: RunView): string {
+  const { tree, bodies, description, ...rest } = view;
+  let fixed = versionJson.get(tree);
+  if (fixed === undefined) {
+    fixed = JSON.stringify({ tree, bodies, description }).slice(1, -1);
+    versionJson.set(tree, fixed);
+  }
+  return `{${fixed},${JSON.stringify(rest).slice(1)}`;
+}

@@ -1,9 +1,9 @@
 // Compressed answers (server/compression.ts): Accept-Encoding as RFC 9110 §12.5.3 reads it, which
 // answers are worth compressing, and that a streamed body reaches the client as it is written.
 import { PassThrough } from "node:stream";
-import { brotliDecompressSync, constants, gunzipSync } from "node:zlib";
+import { brotliCompressSync, brotliDecompressSync, constants, gunzipSync } from "node:zlib";
 import { describe, expect, it } from "vitest";
-import { compressible, compressorFor, negotiateEncoding, varyOnEncoding } from "../../../server/compression";
+import { compressible, compressionStages, negotiateEncoding, varyOnEncoding } from "../../../server/compression";
 
 describe("negotiateEncoding (RFC 9110 §12.5.3)", () => {
   it("reads the RFC's own examples", () => {
@@ -51,7 +51,7 @@ describe("compressible", () => {
   });
 });
 
-describe("compressorFor", () => {
+describe("compressionStages", () => {
   /** Waits (up to 2 s; zlib works on the thread pool) until `f` holds. */
   async function until(f: () => boolean): Promise<boolean> {
     for (let i = 0; i < 200 && !f(); i++) await new Promise((r) => setTimeout(r, 10));
@@ -63,8 +63,8 @@ describe("compressorFor", () => {
   ] as const) {
     it(`${encoding}: what was written reaches the client before the body ends (streamed HTML keeps streaming)`, async () => {
       const source = new PassThrough();
-      const zip = compressorFor(source, encoding);
-      source.pipe(zip);
+      const [bursts, zip] = compressionStages(encoding);
+      source.pipe(bursts).pipe(zip);
       const out: Buffer[] = [];
       zip.on("data", (d: Buffer) => out.push(d));
       source.write("<!DOCTYPE html><html><body><main>shell</main>");
@@ -76,4 +76,21 @@ describe("compressorFor", () => {
       expect(inflate(Buffer.concat(out)).toString()).toBe("<!DOCTYPE html><html><body><main>shell</main><script>late data</script></body></html>");
     });
   }
+
+  it("a page written in many small chunks within one turn is compressed as one (as small as compressing it whole)", async () => {
+    const page = Buffer.from(`<!DOCTYPE html><html><body>${Array.from({ length: 400 }, (_, i) => `<li class="step">Step ${i}: 208 V — within 191–218 V</li>`).join("")}</body></html>`);
+    const source = new PassThrough();
+    const [bursts, zip] = compressionStages("br");
+    source.pipe(bursts).pipe(zip);
+    const out: Buffer[] = [];
+    zip.on("data", (d: Buffer) => out.push(d));
+    const ended = new Promise((r) => zip.once("end", r));
+    for (let i = 0; i < page.length; i += 500) source.write(page.subarray(i, i + 500));
+    source.end();
+    await ended;
+    const streamed = Buffer.concat(out);
+    expect(brotliDecompressSync(streamed).equals(page)).toBe(true);
+    const whole = brotliCompressSync(page, { params: { [constants.BROTLI_PARAM_QUALITY]: 1 } });
+    expect(streamed.length).toBeLessThanOrEqual(whole.length * 1.05);
+  });
 });
