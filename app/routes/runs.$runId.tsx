@@ -1,18 +1,39 @@
 // /runs/:runId — the phone runner. The loader gives the first render; the runner then talks to the
 // JSON routes under /api/runs/:runId through TanStack Query.
+import { useMemo } from "react";
 import { Runner } from "~/components/runner/Runner";
 import { requireUser } from "~/lib/auth.server";
+import type { RunView } from "~/lib/run-log";
 import { page } from "~/lib/route.server";
-import { getRunView } from "~/models/runs/view.server";
+import { getRunView, versionPartJson } from "~/models/runs/view.server";
 import type { Route } from "./+types/runs.$runId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.view.version.title ?? "Run"} · Cluepath` }];
 
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
-  return { view: await getRunView(ctx, params.runId) };
+  const full = await getRunView(ctx, params.runId);
+  // The version's tree and step bodies, most of the page's data, travel as JSON text serialised
+  // once per version: the page's data encoder then copies one string instead of walking the tree.
+  const { tree: _t, bodies: _b, description: _d, ...view } = full;
+  return { view, version: versionPartJson(full) };
 });
 
+type VersionPart = Pick<RunView, "tree" | "bodies" | "description">;
+const parsed = new Map<string, { json: string; part: VersionPart }>();
+
+/** The version's part parsed once per version, on the server and in the browser alike. */
+function versionPart(versionId: string, json: string): VersionPart {
+  const hit = parsed.get(versionId);
+  if (hit && hit.json === json) return hit.part;
+  const part = JSON.parse(json) as VersionPart;
+  if (parsed.size >= 20) parsed.clear();
+  parsed.set(versionId, { json, part });
+  return part;
+}
+
 export default function RunnerRoute({ loaderData }: Route.ComponentProps) {
-  return <Runner key={loaderData.view.run.id} initial={loaderData.view} />;
+  const { view, version } = loaderData;
+  const initial = useMemo((): RunView => ({ ...view, ...versionPart(view.version.id, version) }), [view, version]);
+  return <Runner key={view.run.id} initial={initial} />;
 }

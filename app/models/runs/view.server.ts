@@ -150,20 +150,27 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
   };
 }
 
-/** The pinned version's part of the view, as JSON text without its braces, by the version's tree object. */
+/** The pinned version's part of the view (tree, step bodies, description) as JSON text, by its tree object. */
 const versionJson = new WeakMap<object, string>();
 
+export type VersionPart = Pick<RunView, "tree" | "bodies" | "description">;
+
 /**
- * The view as JSON text for GET /api/runs/:id. The version's tree, step bodies and description (most
- * of the answer) never change for a published version and come from its cached content
- * (_version.server.ts), so they are serialised once per version, not on every request.
+ * The version's part of a view as JSON text: most of what a run's page and API answer carry, and
+ * the same for every run on a published version, so it is serialised once per version (its content
+ * is cached by _version.server.ts and keeps its identity), not on every request.
  */
-export function runViewJson(view: RunView): string {
-  const { tree, bodies, description, ...rest } = view;
-  let fixed = versionJson.get(tree);
-  if (fixed === undefined) {
-    fixed = JSON.stringify({ tree, bodies, description }).slice(1, -1);
-    versionJson.set(tree, fixed);
+export function versionPartJson(view: VersionPart): string {
+  let json = versionJson.get(view.tree);
+  if (json === undefined) {
+    json = JSON.stringify({ tree: view.tree, bodies: view.bodies, description: view.description });
+    versionJson.set(view.tree, json);
   }
-  return `{${fixed},${JSON.stringify(rest).slice(1)}`;
+  return json;
+}
+
+/** The view as JSON text for GET /api/runs/:id, with the version's part serialised once (versionPartJson). */
+export function runViewJson(view: RunView): string {
+  const { tree: _t, bodies: _b, description: _d, ...rest } = view;
+  return `${versionPartJson(view).slice(0, -1)},${JSON.stringify(rest).slice(1)}`;
 }
