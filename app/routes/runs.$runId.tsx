@@ -19,21 +19,8 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   return { view, version: versionPartJson(full) };
 });
 
-type VersionPart = Pick<RunView, "tree" | "bodies" | "description">;
-const parsed = new Map<string, { json: string; part: VersionPart }>();
-
-/** The version's part parsed once per version, on the server and in the browser alike. */
-function versionPart(versionId: string, json: string): VersionPart {
-  const hit = parsed.get(versionId);
-  if (hit && hit.json === json) return hit.part;
-  const part = JSON.parse(json) as VersionPart;
-  if (parsed.size >= 20) parsed.clear();
-  parsed.set(versionId, { json, part });
-  return part;
-}
-
 export default function RunnerRoute({ loaderData }: Route.ComponentProps) {
   const { view, version } = loaderData;
-  const initial = useMemo((): RunView => ({ ...view, ...versionPart(view.version.id, version) }), [view, version]);
+  const initial = useMemo((): RunView => ({ ...view, ...(JSON.parse(version) as Pick<RunView, "tree" | "bodies" | "description">) }), [view, version]);
   return <Runner key={view.run.id} initial={initial} />;
 }

@@ -1,15 +1,14 @@
 // The phone runner: one step per screen, the position in the procedure, a visible saving state,
 // and a bottom bar (back, note, photo, more) sized for gloved hands. This file picks the screen
 // for where the run stands and lays it out; each screen, panel and bar has its own file.
-import { useEffect, useRef, useState, type ReactNode } from "react";
+import { Suspense, useEffect, useRef, useState, type ReactNode } from "react";
 import { Announcer } from "~/components/Announcer";
 import type { OutcomeNode } from "~/engine/types";
 import type { RunView } from "~/lib/run-log";
 import { Closed } from "./ends/Closed";
-import { DoneScreen } from "./ends/DoneScreen";
 import { EscalatedScreen } from "./ends/EscalatedScreen";
 import { HandOverScreen } from "./ends/HandOverScreen";
-import { OutcomeScreen } from "./ends/OutcomeScreen";
+import { DoneScreen, loadEndScreens, OutcomeScreen } from "./ends/later";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
@@ -69,6 +68,11 @@ export function Runner({ initial }: { initial: RunView }) {
   // Keyboard focus never lands under the bottom bar.
   useFocusClearOfBar();
 
+  // The end-of-run screens come in their own chunk: fetched now, used at the run's end.
+  useEffect(() => {
+    void loadEndScreens();
+  }, []);
+
   // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
   useEffect(() => {
     if (panel && panel !== "more") window.scrollTo({ top: 0 });
@@ -104,7 +108,7 @@ export function Runner({ initial }: { initial: RunView }) {
             <Markdown blocks={view.description} className="mt-2" />
           </details>
         )}
-        {screenFor(run, setPanel)}
+        <Suspense fallback={null}>{screenFor(run, setPanel)}</Suspense>
         {shownNode && <StepExtras run={run} node={shownNode} />}
       </main>
       {holds && open && panel === "more" && <MorePanel run={run} onPick={setPanel} />}
