@@ -5,7 +5,8 @@ import { Runner } from "~/components/runner/Runner";
 import { requireUser } from "~/lib/auth.server";
 import type { RunView } from "~/lib/run-log";
 import { page } from "~/lib/route.server";
-import { getRunView, versionPartJson } from "~/models/runs/view.server";
+import { versionPartJson } from "~/lib/run-json.server";
+import { getRunView } from "~/models/runs/view.server";
 import type { Route } from "./+types/runs.$runId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.view.version.title ?? "Run"} · Cluepath` }];

@@ -112,22 +112,15 @@ export type MeterChoice = Omit<MeterView, "rangeMax">;
 
 export type LockedRun = {
   run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind">;
-  /** The log so far, in order. */
-  log: LoggedEntry[];
+  /** The log so far, in order; null when it was not asked for. */
+  log: LoggedEntry[] | null;
   /** The shop meter asked for, or null when none was asked for or it is not the shop's. */
   meter: MeterChoice | null;
 };
 
-/**
- * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
- * its log (only the columns the replay needs) and the shop meter asked for. Both are correlated
- * subqueries of the locked row, so MariaDB evaluates them after the lock is granted: they see every
- * step committed before it, and they take no locks of their own (a meter shared by many runs is not
- * serialised). Null when the run is not in the shop. (Drizzle leaves columns unqualified in a
- * one-table select, so the outer row is named in plain SQL: runs.id.)
- */
-export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null): Promise<LockedRun | null> {
-  const log = jsonRows(
+/** The log of a run in order, only the columns the replay needs. */
+function logSubquery() {
+  return jsonRows(
     {
       seq: runSteps.seq,
       key: runSteps.idempotencyKey,
@@ -141,6 +134,17 @@ export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: s
     sql`FROM ${runSteps} WHERE ${runSteps.runId} = runs.id`,
     sql`${runSteps.seq}`,
   );
+}
+
+/**
+ * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
+ * the shop meter asked for and (unless `withLog` is false) the run's log. Both are correlated
+ * subqueries of the locked row, so MariaDB evaluates them after the lock is granted: they see every
+ * step committed before it, and they take no locks of their own (a meter shared by many runs is not
+ * serialised). Null when the run is not in the shop. (Drizzle leaves columns unqualified in a
+ * one-table select, so the outer row is named in plain SQL: runs.id.)
+ */
+export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null, withLog: boolean): Promise<LockedRun | null> {
   const meter = meterId
     ? jsonRow(
         { id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts },
@@ -156,7 +160,7 @@ export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: s
       stepCount: runs.stepCount,
       currentNode: runs.currentNode,
       endKind: runs.endKind,
-      log,
+      log: withLog ? logSubquery() : sql<null>`NULL`,
       meter,
     })
     .from(runs)
@@ -164,9 +168,11 @@ export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: s
     .for("update");
   if (!row) return null;
   const { log: logJson, meter: meterJson, ...run } = row;
-  return {
-    run,
-    log: fromJson(logJson) ?? [],
-    meter: fromJson(meterJson),
-  };
+  return { run, log: withLog ? (fromJson(logJson) ?? []) : null, meter: fromJson(meterJson) };
+}
+
+/** A locked run's log, read after the lock (lockRunForStep without it). */
+export async function readLog(tx: Tx, runId: string): Promise<LoggedEntry[]> {
+  const [row] = await tx.select({ log: logSubquery() }).from(runs).where(eq(runs.id, runId));
+  return fromJson(row?.log ?? null) ?? [];
 }

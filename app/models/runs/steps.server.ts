@@ -2,6 +2,7 @@
 // judge each new entry, on the server as on the phone. Retries carry the same idempotency key.
 import { createHash } from "node:crypto";
 import { and, eq } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { z } from "zod";
 import { runs, runSteps, type RunStatus } from "../../../db/schema";
 import { tryEntry, type LogEntry, type RunState } from "../../engine/traversal";
@@ -11,7 +12,7 @@ import { writeTx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { canonicalPayload, entryOf, meterAccuracy, type StepView } from "../../lib/run-log";
-import { lockRunForStep, stepByKey, stepView, type StepViewSource } from "./_log.server";
+import { lockRunForStep, readLog, stepByKey, stepView, type LoggedEntry, type StepViewSource } from "./_log.server";
 import { nodeOf, versionContent } from "./_version.server";
 
 export const nodeKey = z.string().min(1).max(64);
@@ -43,29 +44,39 @@ function endOf(state: RunState): { endKind: string | null; endNode: string | nul
 }
 
 /**
+ * Each run's log as this process last stored it, with the step count it had then. A log only ever
+ * grows by one step row per step count (postStep is its only writer), so when the locked run still
+ * has that step count, this is its log and the step need not read it again; when another server
+ * (or an earlier failure) moved the count on, the log is read after the lock as usual.
+ */
+const knownLogs = new LRUCache<string, { stepCount: number; log: LoggedEntry[] }>({ max: 1000 });
+
+/**
  * Records one step. The same idempotency key again answers with the stored step (no second row);
  * the same key with another payload is refused (422). The engine judges the entry against the
  * stored log; the verdict stored is the server's.
  *
  * A reading costs six statements with the session's: BEGIN, the run locked with its log and meter
- * (lockRunForStep), INSERT, UPDATE of the run, COMMIT. The key is checked against the log the lock
- * read, and the answer is the row as inserted, not read back.
+ * (lockRunForStep; the log left out while knownLogs has it), INSERT, UPDATE of the run, COMMIT. The
+ * key is checked against that log, and the answer is the row as inserted, not read back.
  */
 export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promise<StepResult> {
   authorize(ctx, "runs.view");
   const meterId = input.entry.type === "reading" ? (input.meterId ?? null) : null;
   const hash = sha256(canonicalPayload(input.entry as LogEntry, meterId));
-  return writeTx(async (tx) => {
-    const { run, log, meter } = (await lockRunForStep(tx, ctx, runId, meterId)) ?? notFound("That run");
+  const known = knownLogs.get(runId);
+  const { result, log } = await writeTx(async (tx) => {
+    const locked = (await lockRunForStep(tx, ctx, runId, meterId, !known)) ?? notFound("That run");
+    const { run, meter } = locked;
+    const log = locked.log ?? (known?.stepCount === run.stepCount ? known.log : await readLog(tx, runId));
 
     // A retry: the stored answer, looked up before the holder and status checks.
     const logged = log.find((e) => e.key === input.key);
     if (logged) {
       if (logged.hash !== hash) throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
       const stored = (await stepByKey(tx, runId, input.key))!;
-      return { replayed: true, step: stepView(stored), run: runSummary(run) };
+      return { result: { replayed: true, step: stepView(stored), run: runSummary(run) }, log };
     }
-
     authorize(ctx, "runs.step", { holder: run.technicianId === ctx.userId });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", `This run is ${run.status === "done" ? "finished" : run.status}; it takes no more steps.`, { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
@@ -131,6 +142,9 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       .update(runs)
       .set({ ...next, pausedAt: null, updatedAt: new Date() })
       .where(eq(runs.id, runId));
-    return { replayed: false, step: stepView(row), run: runSummary(next) };
+    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter };
+    return { result: { replayed: false, step: stepView(row), run: runSummary(next) }, log: [...log, stored] };
   });
+  knownLogs.set(runId, { stepCount: result.run.stepCount, log });
+  return result;
 }
