@@ -5,7 +5,7 @@ import { meters, runs, runSteps } from "../../../db/schema";
 import type { Ctx } from "../../lib/context";
 import { db, type Db, type Tx } from "../../lib/db.server";
 import type { MeterView, StepView } from "../../lib/run-log";
-import { fromJson, jsonIso, jsonRow, jsonRows, type JsonOf } from "../_query.server";
+import { fromJson, jsonIso, jsonObject, jsonRows, type JsonOf } from "../_query.server";
 
 export type StepRow = typeof runSteps.$inferSelect;
 
@@ -118,61 +118,48 @@ export type LockedRun = {
   meter: MeterChoice | null;
 };
 
-/** The log of a run in order, only the columns the replay needs. */
-function logSubquery() {
-  return jsonRows(
-    {
-      seq: runSteps.seq,
-      key: runSteps.idempotencyKey,
-      hash: runSteps.payloadHash,
-      type: runSteps.type,
-      node: runSteps.nodeKey,
-      answer: runSteps.answer,
-      typed: runSteps.typed,
-      meter: runSteps.meter,
-    },
-    sql`FROM ${runSteps} WHERE ${runSteps.runId} = runs.id`,
-    sql`${runSteps.seq}`,
-  );
-}
+// The pieces of the step's first statement, built once: a step is the hottest write, and building
+// the statement with the select builder cost more CPU than MariaDB took to run it.
+const LOG = jsonRows(
+  {
+    seq: runSteps.seq,
+    key: runSteps.idempotencyKey,
+    hash: runSteps.payloadHash,
+    type: runSteps.type,
+    node: runSteps.nodeKey,
+    answer: runSteps.answer,
+    typed: runSteps.typed,
+    meter: runSteps.meter,
+  },
+  sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`,
+  sql`${runSteps.seq}`,
+);
+const METER = jsonObject({ id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts });
+const RUN = sql`${runs.id} AS id, ${runs.versionId} AS versionId, ${runs.technicianId} AS technicianId, ${runs.status} AS status,
+  ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind`;
+
+type LockedRow = LockedRun["run"] & { log: LoggedEntry[] | string | null; meter: MeterChoice | string | null };
 
 /**
  * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
  * the shop meter asked for and (unless `withLog` is false) the run's log. Both are correlated
  * subqueries of the locked row, so MariaDB evaluates them after the lock is granted: they see every
  * step committed before it, and they take no locks of their own (a meter shared by many runs is not
- * serialised). Null when the run is not in the shop. (Drizzle leaves columns unqualified in a
- * one-table select, so the outer row is named in plain SQL: runs.id.)
+ * serialised). Null when the run is not in the shop.
  */
 export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null, withLog: boolean): Promise<LockedRun | null> {
-  const meter = meterId
-    ? jsonRow(
-        { id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts },
-        sql`FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = runs.shop_id`,
-      )
-    : sql<null>`NULL`;
-  const [row] = await tx
-    .select({
-      id: runs.id,
-      versionId: runs.versionId,
-      technicianId: runs.technicianId,
-      status: runs.status,
-      stepCount: runs.stepCount,
-      currentNode: runs.currentNode,
-      endKind: runs.endKind,
-      log: withLog ? logSubquery() : sql<null>`NULL`,
-      meter,
-    })
-    .from(runs)
-    .where(and(eq(runs.id, runId), eq(runs.shopId, ctx.shopId)))
-    .for("update");
+  const meter = meterId ? sql`(SELECT ${METER} FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = ${runs.shopId})` : sql`NULL`;
+  const [rows] = (await tx.execute(
+    sql`SELECT ${RUN}, ${withLog ? LOG : sql`NULL`} AS log, ${meter} AS meter FROM ${runs} WHERE ${runs.id} = ${runId} AND ${runs.shopId} = ${ctx.shopId} FOR UPDATE`,
+  )) as unknown as [LockedRow[]];
+  const row = rows[0];
   if (!row) return null;
-  const { log: logJson, meter: meterJson, ...run } = row;
-  return { run, log: withLog ? (fromJson(logJson) ?? []) : null, meter: fromJson(meterJson) };
+  const { log, meter: meterJson, ...run } = row;
+  return { run, log: withLog ? (fromJson(log) ?? []) : null, meter: fromJson(meterJson) };
 }
 
 /** A locked run's log, read after the lock (lockRunForStep without it). */
 export async function readLog(tx: Tx, runId: string): Promise<LoggedEntry[]> {
-  const [row] = await tx.select({ log: logSubquery() }).from(runs).where(eq(runs.id, runId));
-  return fromJson(row?.log ?? null) ?? [];
+  const [rows] = (await tx.execute(sql`SELECT ${LOG} AS log FROM ${runs} WHERE ${runs.id} = ${runId}`)) as unknown as [{ log: LoggedEntry[] | string | null }[]];
+  return fromJson(rows[0]?.log ?? null) ?? [];
 }
