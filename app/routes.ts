@@ -10,6 +10,8 @@ export default [
   route("login", "routes/login.tsx"),
   route("logout", "routes/logout.ts"),
   route("invite/:token", "routes/invite.$token.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password/:token", "routes/reset-password.$token.tsx"),
   route("auth/*", "routes/auth.$.ts"),
   route("healthz", "routes/healthz.ts"),
   // Field runs: JSON resource routes used by the runner.
@@ -19,8 +21,12 @@ export default [
   route("api/runs/:runId/photos", "routes/api.runs.$runId.photos.ts"),
   route("api/runs/:runId/status", "routes/api.runs.$runId.status.ts"),
   route("api/runs/:runId/outcome", "routes/api.runs.$runId.outcome.ts"),
+  route("api/runs/:runId/finish", "routes/api.runs.$runId.finish.ts"),
   route("api/photos/:photoId", "routes/api.photos.$photoId.ts"),
   route("api/reports/:reportId/send", "routes/api.reports.$reportId.send.ts"),
+  // Owner insights: CSV of one overview table, and "found here before" for the runner.
+  route("api/insights/csv/:table", "routes/api.insights.csv.ts"),
+  route("api/insights/found-here", "routes/api.insights.found-here.ts"),
   // Field runs: the phone runner and the printable report, full screen (outside the shell).
   route("runs/:runId", "routes/runs.$runId.tsx"),
   route("reports/:reportId", "routes/reports.$reportId.tsx"),
@@ -62,6 +68,13 @@ export default [
     route("escalations", "routes/escalations.tsx"),
     route("outbox", "routes/outbox.tsx"),
     route("people", "routes/people.tsx"),
+    // Training: the trainer's scenarios and reviews, the technician's practice list.
+    route("training/scenarios/new", "routes/training.scenarios.new.tsx"),
+    route("training/scenarios/:scenarioId", "routes/training.scenarios.$scenarioId.tsx"),
+    route("training/scenarios/:scenarioId/edit", "routes/training.scenarios.new.tsx", { id: "routes/training.scenarios.$scenarioId.edit" }),
+    route("training/runs/:runId", "routes/training.runs.$runId.tsx"),
+    route("practice", "routes/practice.tsx"),
+    route("account", "routes/account.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

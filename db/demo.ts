@@ -43,7 +43,7 @@ export const DEMO_CUSTOMERS: DemoCustomer[] = [
             model: "RCF-2208 two-fan convection rotisserie",
             serial: "VR22-004417",
             installedOn: "2021-03-09",
-            nameplate: { supply: { value: 208, unit: "V" }, power: { value: 5600, unit: "W" }, fanCapacitor: { value: 1.5, unit: "µF" } },
+            nameplate: { supply: { value: 208, unit: "V" }, power: { value: 5600, unit: "W" }, rated_uf: { value: 1.5, unit: "µF" } },
           },
           {
             key: "unit:larkspur-hotcase",
@@ -78,7 +78,7 @@ export const DEMO_CUSTOMERS: DemoCustomer[] = [
             model: "GF-40N gas fryer",
             serial: "QM40-1120-77",
             installedOn: "2018-08-14",
-            nameplate: { manifold: { value: 3.5, unit: "inWC" } },
+            nameplate: { rated_manifold: { value: 3.5, unit: "inWC" } },
           },
           {
             key: "unit:hollin-oven",
@@ -139,7 +139,7 @@ export const DEMO_CUSTOMERS: DemoCustomer[] = [
             model: "GF-30L gas fryer (LP)",
             serial: "QM30-0021-02",
             installedOn: "2017-05-11",
-            nameplate: { manifold: { value: 10, unit: "inWC" } },
+            nameplate: { rated_manifold: { value: 10, unit: "inWC" } },
           },
         ],
       },

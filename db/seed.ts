@@ -3,7 +3,7 @@ import { eq } from "drizzle-orm";
 import { createHash } from "node:crypto";
 import { readdirSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { customers, equipmentUnits, memberships, meters, serviceCalls, shops, sites, trees, users } from "./schema";
+import { customers, equipmentUnits, memberships, meters, runs, serviceCalls, shops, sites, trees, users } from "./schema";
 import { DEMO_CALLS, DEMO_CUSTOMERS, DEMO_METERS, DEMO_PASSWORD, DEMO_SHOP, DEMO_USERS, OTHER_SHOP } from "./demo";
 import { closeDb, db } from "../app/lib/db.server";
 import { hashPassword } from "../app/lib/password.server";
@@ -12,6 +12,7 @@ import { errorsOf, validateTree } from "../app/engine/validate";
 import { createPublishedTree } from "../app/models/trees/drafts.server";
 import type { EquipmentCategory } from "./schema";
 import type { Quantity } from "../app/engine/types";
+import { generateHistory } from "./history";
 
 /** A UUID-shaped id derived from a stable key, so the seed can upsert. */
 export function stableId(key: string): string {
@@ -41,7 +42,7 @@ export async function seedStarterTrees(shopId: string, authorId: string): Promis
   return added;
 }
 
-export async function seed(): Promise<void> {
+export async function seed(opts: { history?: boolean } = {}): Promise<void> {
   const d = db();
   const shopIds = { demo: stableId(DEMO_SHOP.key), other: stableId(OTHER_SHOP.key) };
   for (const [which, shop] of [["demo", DEMO_SHOP], ["other", OTHER_SHOP]] as const) {
@@ -91,6 +92,37 @@ export async function seed(): Promise<void> {
   }
   await seedStarterTrees(shopIds.demo, stableId("user:lead@tinderbox.example"));
   await seedFieldWork(shopIds);
+  if (opts.history !== false) await seedDemoHistory(shopIds.demo);
+}
+
+/**
+ * Four months of invented completed runs in the demo shop, so a new owner's overview has
+ * something to show (added once). Invented customers and units join the demo's own.
+ */
+export async function seedDemoHistory(shopId: string): Promise<void> {
+  const [done] = await db().select({ id: runs.id }).from(runs).where(eq(runs.id, stableId("history:run:1"))).limit(1);
+  if (done) return;
+  const units = await db()
+    .select({ id: equipmentUnits.id, category: equipmentUnits.category, make: equipmentUnits.make, model: equipmentUnits.model })
+    .from(equipmentUnits)
+    .where(eq(equipmentUnits.shopId, shopId))
+    .orderBy(equipmentUnits.serial);
+  const lead = stableId("user:lead@tinderbox.example");
+  await generateHistory({
+    shopId,
+    runs: 140,
+    days: 120,
+    end: new Date(Date.now() - 86_400_000),
+    seed: 4821,
+    idOf: (kind, n) => stableId(`history:${kind}:${n}`),
+    technicians: [stableId("user:tech@tinderbox.example"), stableId("user:tech@tinderbox.example"), lead],
+    leads: [lead],
+    units,
+    meanGapDays: 15,
+    callNumberFrom: 801,
+    reportNumberFrom: 1,
+    town: DEMO_SHOP.town,
+  });
 }
 
 /** The demo shop's meters and the open service calls of both shops (added once, then left alone). */

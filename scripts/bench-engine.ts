@@ -45,9 +45,9 @@ export function generateTree(size: number): Tree {
         ],
       },
       { id: id("s"), kind: "step", title: `Open the rear panel of section ${k}`, next: { to: id("wc") }, body },
-      { id: id("wa"), kind: "nameplate", title: "Watts (a)", variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
-      { id: id("wb"), kind: "nameplate", title: "Watts (b)", variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
-      { id: id("wc"), kind: "nameplate", title: "Watts (c)", variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
+      { id: id("wa"), kind: "nameplate", title: `Watts (a), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
+      { id: id("wb"), kind: "nameplate", title: `Watts (b), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
+      { id: id("wc"), kind: "nameplate", title: `Watts (c), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
       {
         id: id("m"),
         kind: "measurement",
@@ -61,10 +61,10 @@ export function generateTree(size: number): Tree {
         branches: { low: { to: id("low") }, within: { to: first(k + 1) }, high: { to: id("high") }, marginal: { to: id("again") } },
         body,
       },
-      { id: id("again"), kind: "step", title: "Re-measure", next: { to: id("m"), recheck: { max: 2, onExceed: id("esc") } } },
-      { id: id("low"), kind: "outcome", title: "Capacitor low", remedy: "Replace the capacitor", parts: ["Run capacitor"] },
-      { id: id("high"), kind: "outcome", title: "Capacitor high", remedy: "Replace the capacitor", parts: ["Run capacitor"] },
-      { id: id("esc"), kind: "escalate", title: "Can't settle it", reason: "Readings keep landing on the limit" },
+      { id: id("again"), kind: "step", title: `Re-measure section ${k}`, next: { to: id("m"), recheck: { max: 2, onExceed: id("esc") } } },
+      { id: id("low"), kind: "outcome", title: `Capacitor low, section ${k}`, remedy: "Replace the capacitor", parts: ["Run capacitor"] },
+      { id: id("high"), kind: "outcome", title: `Capacitor high, section ${k}`, remedy: "Replace the capacitor", parts: ["Run capacitor"] },
+      { id: id("esc"), kind: "escalate", title: `Can't settle section ${k}`, reason: "Readings keep landing on the limit" },
     );
   }
   for (let p = 0; p < pad; p++) nodes.push({ id: `pad-${p}`, kind: "step", title: `Tidy up ${p}`, next: { to: p + 1 < pad ? `pad-${p + 1}` : "end" } });

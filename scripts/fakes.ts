@@ -33,6 +33,7 @@ const smtp = new SMTPServer({
           id,
           receivedAt: new Date().toISOString(),
           shopId: (mail.headers.get("x-cluepath-shop") as string | undefined) ?? null,
+          reportId: (mail.headers.get("x-cluepath-report") as string | undefined) ?? null,
           from: mail.from?.text ?? "",
           to: addresses(mail.to),
           subject: mail.subject ?? "",

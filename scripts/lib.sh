@@ -58,3 +58,25 @@ start_fakes() {
   echo "the local S3 fake and mail catcher did not start" >&2
   return 1
 }
+
+# A throwaway MariaDB on a free port in a temporary folder, with the S3 fake and SMTP catcher,
+# stopped and removed when the calling script exits. Exports DATABASE_URL (the integration tests'
+# template), E2E_DATABASE_URL (the browser tests' database) and what start_fakes exports; sets $work.
+start_throwaway_services() {
+  work="$(mktemp -d "${TMPDIR:-/tmp}/cluepath-test.XXXXXX")"
+  export DB_DIR="$work/db"
+  export DB_PORT="$(free_port)"
+  trap stop_throwaway_services INT TERM EXIT
+  DB_NAME=cluepath_test scripts/db start >/dev/null
+  export DATABASE_URL="mysql://root@127.0.0.1:$DB_PORT/cluepath_test"
+  export E2E_DATABASE_URL="mysql://root@127.0.0.1:$DB_PORT/cluepath_e2e"
+  S3_PORT="$(free_port)" SMTP_PORT="$(free_port)" S3_DIR="$work/s3" MAIL_CAPTURE_DIR="$work/mail"
+  start_fakes >/dev/null
+}
+
+stop_throwaway_services() {
+  trap - INT TERM EXIT
+  [ -n "${fakes_pid:-}" ] && kill "$fakes_pid" 2>/dev/null && wait "$fakes_pid" 2>/dev/null || true
+  scripts/db stop || true
+  rm -rf "$work"
+}

@@ -100,7 +100,37 @@ export function createApp({ dev }: AppOptions): NodeHandler {
   };
 }
 
-/** Every loader and action of the build answers a database outage with 503 (errors.server.ts). */
+/** Routes whose actions are pages' forms: not the JSON API and not Auth.js's own endpoints. */
+function isPage(path: string | undefined): boolean {
+  return !path?.startsWith("api/") && !path?.startsWith("auth/");
+}
+
+function isFormBody(contentType: string | null): boolean {
+  return contentType !== null && /^\s*(application\/x-www-form-urlencoded|multipart\/form-data)\b/i.test(contentType);
+}
+
+/** A GET to a JSON route that only takes POST: 405 with Allow, in JSON like every API answer. */
+const postOnly = () => Response.json({ error: "Use POST." }, { status: 405, headers: { allow: "POST" } });
+
+/**
+ * A page's action reads a form (React Router posts <Form> as one): a body of another type is
+ * refused with 415 before the action runs, and a request with no body type reads as an empty form,
+ * so no body makes an action fail while reading it. JSON routes (/api/) check their own bodies.
+ */
+function formOnly<A extends { request: Request }>(args: A): A {
+  const type = args.request.headers.get("content-type");
+  if (isFormBody(type)) return args;
+  if (type !== null) throw Response.json({ error: "Send this as a form: Cluepath's pages post forms." }, { status: 415 });
+  const headers = new Headers(args.request.headers);
+  headers.set("content-type", "application/x-www-form-urlencoded");
+  return { ...args, request: new Request(args.request.url, { method: args.request.method, headers, body: "", signal: args.request.signal }) };
+}
+
+/**
+ * Every loader and action of the build answers a database outage with 503 (errors.server.ts); a
+ * page's action takes forms only (formOnly); an API route with an action but no loader answers GET
+ * with 405.
+ */
 function answeringOutagesIn(build: ServerBuild): ServerBuild {
   const routes: ServerBuild["routes"] = {};
   for (const [id, route] of Object.entries(build.routes)) {
@@ -111,7 +141,8 @@ function answeringOutagesIn(build: ServerBuild): ServerBuild {
       module: {
         ...route.module,
         ...(loader ? { loader: (args: Parameters<typeof loader>[0]) => answeringOutages(() => loader(args)) } : {}),
-        ...(action ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(args)) } : {}),
+        ...(!loader && action && route.path?.startsWith("api/") ? { loader: postOnly } : {}),
+        ...(action ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(isPage(route.path) ? formOnly(args) : args)) } : {}),
       },
     };
   }

@@ -45,12 +45,6 @@ export function formatCompact(x: number, maxSig = 4): string {
   return s.replace(/0+$/, "").replace(/\.$/, "");
 }
 
-/** Round to `maxSig` significant figures as a number (used so displayed limits are the limits applied). */
-export function roundSig(x: number, maxSig = 4): number {
-  if (x === 0 || !Number.isFinite(x)) return x;
-  return Number(x.toPrecision(maxSig));
-}
-
 /** A number as written in the canonical tree file: shortest exact form. */
 export function formatExact(x: number): string {
   return Object.is(x, -0) ? "0" : String(x);

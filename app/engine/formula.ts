@@ -210,9 +210,16 @@ export function compileFormula(source: string): CompileResult {
   return result;
 }
 
-/** Evaluate a formula text directly. Throws FormulaError. */
-export function evaluateFormula(source: string, vars: Readonly<Record<string, number>>): number {
+export type EvaluateResult = { ok: true; value: number } | { ok: false; code: FormulaError["code"]; message: string };
+
+/** Evaluate a formula text directly. Never throws: a refused formula or a missing or non-finite value comes back as an error. */
+export function evaluateFormula(source: string, vars: Readonly<Record<string, number>>): EvaluateResult {
   const c = compileFormula(source);
-  if (!c.ok) throw new FormulaError(c.message, c.code);
-  return c.formula.evaluate(vars);
+  if (!c.ok) return c;
+  try {
+    return { ok: true, value: c.formula.evaluate(vars) };
+  } catch (e) {
+    if (e instanceof FormulaError) return { ok: false, code: e.code, message: e.message };
+    return { ok: false, code: "not-finite", message: e instanceof Error ? e.message : String(e) };
+  }
 }

@@ -27,4 +27,5 @@ export type { ValidationResult } from "./validate";
 export { parseTree, formatParseError } from "./markdown/parse";
 export type { ParseResult, ParseError, SourceMap, NodeLines } from "./markdown/parse";
 export { serializeTree } from "./markdown/serialize";
-export { formatLimits, parseLimits, formatMeter, parseMeter } from "./markdown/syntax";
+// (parseLimits and parseMeter stay inside the parser: they throw a SyntaxError_ that parseTree turns into a located error.)
+export { formatLimits, formatMeter } from "./markdown/syntax";

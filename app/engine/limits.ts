@@ -3,8 +3,8 @@
 // variables. Everything comes out in the node's display unit.
 import type { Limits, LimitValue, Quantity, Tolerance, ToleranceLetter } from "./types";
 import { compileFormula } from "./formula";
-import { convertQty, resolveUnit } from "./units";
-import { formatCompact, formatExact, roundSig } from "./format";
+import { belowAbsoluteZero, convertQty, resolveUnit } from "./units";
+import { formatCompact, formatExact } from "./format";
 
 /** IEC 60062:2016 clause 5 tolerance letters, in percent of the nominal value. */
 export const LETTER_PERCENT: Readonly<Record<ToleranceLetter, { plus: number; minus: number }>> = {
@@ -35,9 +35,9 @@ export interface FormulaUse {
 }
 
 export interface ComputedLimits {
-  /** Lower limit in the display unit (absent for "at most"). */
+  /** Lower limit in the display unit (absent for "at most"), exact: verdicts are judged against it. */
   lo?: number;
-  /** Upper limit in the display unit (absent for "at least"). */
+  /** Upper limit in the display unit (absent for "at least"), exact. */
   hi?: number;
   /** The nominal in the display unit, when the limits have one (unrounded). */
   nominal?: number;
@@ -53,6 +53,8 @@ export interface ComputedLimits {
   /** True when the limits are plain numbers in the display unit (then the derivation adds nothing). */
   fixed: boolean;
   formulas: FormulaUse[];
+  /** Decimal places of the limits as shown in `text` (lo and hi are exact; only the text is rounded). */
+  decimals: number;
 }
 
 export type LimitsResult =
@@ -171,10 +173,26 @@ function joinFrom(base: string, parts: { bare?: string | undefined }[]): string 
   return from ? `${base}, from ${from}` : base;
 }
 
-/** How a limit is shown: exact (up to 6 significant figures), to fixed decimals, or to 4 significant figures. */
-function showLimit(x: number, decimals: number): string {
-  if (decimals >= 0) return trimZeros(x.toFixed(decimals));
-  return formatCompact(x, decimals === -1 ? 6 : 4);
+/** A limit to `decimals` places, trailing zeros dropped: 1.41, 1102.83, 191. */
+export function showAt(x: number, decimals: number): string {
+  return trimZeros(x.toFixed(Math.min(20, Math.max(0, decimals))));
+}
+
+/** The decimals a plain number needs to be shown exactly (at most 12): 191 → 0, 1.41 → 2. */
+function exactDecimals(x: number): number {
+  for (let d = 0; d < 12; d++) if (Number(x.toFixed(d)) === x) return d;
+  return 12;
+}
+
+/** The text of limits at `decimals` places: "1.41–1.59 µF", "at least 135 °F". */
+export function showLimits(lo: number | undefined, hi: number | undefined, unit: string, decimals: number): { text: string; loText?: string; hiText?: string } {
+  const loText = lo !== undefined ? `${showAt(lo, decimals)} ${unit}` : undefined;
+  const hiText = hi !== undefined ? `${showAt(hi, decimals)} ${unit}` : undefined;
+  const text = lo !== undefined && hi !== undefined ? `${showAt(lo, decimals)}–${hiText}` : loText !== undefined ? `at least ${loText}` : `at most ${hiText}`;
+  const out: { text: string; loText?: string; hiText?: string } = { text };
+  if (loText !== undefined) out.loText = loText;
+  if (hiText !== undefined) out.hiText = hiText;
+  return out;
 }
 
 /** Limits for a node given the run's variables (name → value in the recording node's unit). */
@@ -223,41 +241,35 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
     if (lo !== undefined && hi !== undefined && lo > hi) {
       throw new LimitsError("inverted", `the lower limit ${fmt(lo)} ${node.unit} is above the upper limit ${fmt(hi)} ${node.unit}`);
     }
-    // Computed limits are rounded so that what the screen shows is what is applied: to a step
-    // of at most 1 % of the span between them (1.41–1.59 µF, 4695.3–4704.7 Ω), or to 4
-    // significant figures for a lone computed limit.
-    let decimals = -1;
-    if (!ctx.exact) {
+    for (const x of [lo, hi]) {
+      if (x === undefined) continue;
+      if (!Number.isFinite(x)) throw new LimitsError("impossible", "a limit comes out as no finite number");
+      if (belowAbsoluteZero(x, display)) throw new LimitsError("impossible", `the limit ${fmt(x)} ${node.unit} is below absolute zero`);
+    }
+    // Verdicts are judged against these exact limits; only the text is rounded: to a step of
+    // at most 1 % of the span between them (1.41–1.59 µF, 4695.3–4704.7 Ω), or to 4
+    // significant figures for a lone computed limit. Limits given as plain numbers in the
+    // display unit show as written. A verdict may show more digits (see showLimits).
+    let decimals: number;
+    if (ctx.exact) decimals = Math.max(lo === undefined ? 0 : exactDecimals(lo), hi === undefined ? 0 : exactDecimals(hi));
+    else {
       const span = lo !== undefined && hi !== undefined ? hi - lo : 0;
-      if (span > 0) {
-        decimals = Math.min(12, Math.max(0, -Math.floor(Math.log10(span / 100))));
-        const step = 10 ** -decimals;
-        lo = Number((Math.round(lo! / step) * step).toFixed(decimals));
-        hi = Number((Math.round(hi! / step) * step).toFixed(decimals));
-      } else {
-        decimals = -2;
-        if (lo !== undefined) lo = roundSig(lo);
-        if (hi !== undefined) hi = roundSig(hi);
+      if (span > 0) decimals = Math.min(12, Math.max(0, -Math.floor(Math.log10(span / 100))));
+      else {
+        const x = Math.abs(lo ?? hi ?? 0);
+        decimals = x === 0 ? 0 : Math.min(12, Math.max(0, 3 - Math.floor(Math.log10(x))));
       }
     }
-    const loText = lo !== undefined ? `${showLimit(lo, decimals)} ${node.unit}` : undefined;
-    const hiText = hi !== undefined ? `${showLimit(hi, decimals)} ${node.unit}` : undefined;
-    const text =
-      lo !== undefined && hi !== undefined
-        ? `${showLimit(lo, decimals)}–${hiText}`
-        : loText !== undefined
-          ? `at least ${loText}`
-          : `at most ${hiText}`;
-    const limits: ComputedLimits = { unit: node.unit, text, derivation, fixed: ctx.exact && ctx.formulas.length === 0, formulas: ctx.formulas };
+    const shown = showLimits(lo, hi, node.unit, decimals);
+    const limits: ComputedLimits = { unit: node.unit, text: shown.text, derivation, fixed: ctx.exact && ctx.formulas.length === 0, formulas: ctx.formulas, decimals };
     if (lo !== undefined) limits.lo = lo;
     if (hi !== undefined) limits.hi = hi;
-    if (loText !== undefined) limits.loText = loText;
-    if (hiText !== undefined) limits.hiText = hiText;
+    if (shown.loText !== undefined) limits.loText = shown.loText;
+    if (shown.hiText !== undefined) limits.hiText = shown.hiText;
     if (nominal !== undefined) limits.nominal = nominal;
     return { ok: true, limits };
   } catch (e) {
     if (e instanceof LimitsError) return { ok: false, code: e.code, message: e.message };
-    // js-quantities refuses temperatures below absolute zero.
     return { ok: false, code: "impossible", message: e instanceof Error ? e.message.toLowerCase() : String(e) };
   }
 }

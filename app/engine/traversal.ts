@@ -3,14 +3,19 @@
 // state. Entries that can't apply (wrong node, unreadable reading…) are reported in
 // `rejected` and change nothing.
 import type { Meter, NodeKind, Tree, TreeNode } from "./types";
-import { evaluateReading, type Verdict } from "./verdict";
-import { parseReading } from "./units";
+import { evaluateReading, type Confirmation, type Verdict } from "./verdict";
+import { parseRating } from "./units";
 import { branchName, describeNode, nodeBranches } from "./graph";
 import type { Branch } from "./types";
 
 export type LogEntry =
   | { type: "answer"; node: string; answer: string }
-  | { type: "reading"; node: string; reading: string; meter?: Meter }
+  /**
+   * `confirmed`: the technician confirmed an implausible reading (the verdict's `confirm`); without
+   * it a new entry with such a reading is refused with code "needs-confirmation". Replaying a
+   * stored log doesn't ask again, so the flag is a record (keep it with the step), not a key.
+   */
+  | { type: "reading"; node: string; reading: string; meter?: Meter; confirmed?: boolean }
   | { type: "nameplate"; node: string; value: string }
   | { type: "acknowledge"; node: string }
   | { type: "continue"; node: string }
@@ -41,6 +46,8 @@ export interface RunStep {
   nameplate?: RecordedValue;
   /** Set when the branch taken is a bounded re-check loop. */
   recheck?: { count: number; max: number; exceeded: boolean };
+  /** Set when the technician confirmed an implausible reading (verdict.confirm says what was asked). */
+  confirmed?: true;
 }
 
 export interface RunVariable extends RecordedValue {
@@ -64,8 +71,14 @@ export interface Rejection {
     | "reading"
     | "no-branch"
     | "broken-tree"
-    | "nothing-to-undo";
+    | "nothing-to-undo"
+    /** An implausible reading: ask the technician, then send the entry again with `confirmed: true`. */
+    | "needs-confirmation";
   message: string;
+  /** For "needs-confirmation": what to ask, and what they probably meant. */
+  confirm?: Confirmation;
+  /** For "reading": what the technician probably meant, ready to put back in the field. */
+  suggestions?: string[];
 }
 
 export interface RunState {
@@ -163,14 +176,19 @@ export class Run {
     }
   }
 
-  private reject(entry: LogEntry, index: number, code: Rejection["code"], message: string): ApplyResult {
-    const rejection = { index, entry, code, message };
+  private reject(entry: LogEntry, index: number, code: Rejection["code"], message: string, extra?: Pick<Rejection, "confirm" | "suggestions">): ApplyResult {
+    const rejection: Rejection = { index, entry, code, message, ...extra };
     this.rejected.push(rejection);
     return { ok: false, rejection };
   }
 
-  /** Apply the next log entry. */
-  apply(entry: LogEntry): ApplyResult {
+  /**
+   * Apply the next log entry. A new entry (the default) must carry `confirmed: true` when its
+   * reading is implausible; with `replaying`, the entry comes from a log that was accepted entry by
+   * entry, so that gate was passed when it was stored and isn't asked again (older logs, stored
+   * before the rule, replay as they were accepted).
+   */
+  apply(entry: LogEntry, how: { replaying?: boolean } = {}): ApplyResult {
     const index = this.count++;
     if (entry.type === "undo") return this.undo(entry, index);
     if (this.error) return this.reject(entry, index, "broken-tree", this.error);
@@ -207,11 +225,16 @@ export class Run {
         const e = entry as Extract<LogEntry, { type: "reading" }>;
         const opts = e.meter ? { variables: this.values, meter: e.meter } : { variables: this.values };
         const r = evaluateReading(node, e.reading, opts);
-        if (!r.ok) return this.reject(entry, index, "reading", r.message);
+        if (!r.ok) return this.reject(entry, index, "reading", r.message, r.suggestions ? { suggestions: r.suggestions } : undefined);
+        if (r.verdict.confirm) {
+          if (e.confirmed !== true && !how.replaying) return this.reject(entry, index, "needs-confirmation", r.verdict.confirm.message, { confirm: r.verdict.confirm });
+          if (e.confirmed === true) step.confirmed = true;
+        }
         branchKey = r.verdict.verdict;
         branch = node.branches[r.verdict.verdict];
         step.verdict = r.verdict;
-        if (node.variable) {
+        // An overload has no value to record for later formulas.
+        if (node.variable && !r.verdict.reading.overload) {
           const rd = r.verdict.reading;
           variable = {
             name: node.variable,
@@ -222,8 +245,8 @@ export class Run {
       }
       case "nameplate": {
         const e = entry as Extract<LogEntry, { type: "nameplate" }>;
-        const p = parseReading(e.value, node.quantity, node.unit);
-        if (!p.ok) return this.reject(entry, index, "reading", p.message);
+        const p = parseRating(e.value, node.quantity, node.unit);
+        if (!p.ok) return this.reject(entry, index, "reading", p.message, p.suggestions ? { suggestions: p.suggestions } : undefined);
         const rec: RecordedValue = { value: p.value, unit: node.unit, display: p.display, si: p.si, siUnit: p.siUnit };
         step.nameplate = rec;
         variable = { name: node.variable, value: { ...rec, node: node.id } };
@@ -347,6 +370,8 @@ const NEEDS_WORD: Record<LogEntry["type"], string> = {
   undo: "an undo",
 };
 
+const REPLAYING = { replaying: true } as const;
+
 /** Start a run at the tree's first node. */
 export function startRun(tree: Tree): Run {
   return new Run(tree);
@@ -355,7 +380,7 @@ export function startRun(tree: Tree): Run {
 /** Replay a whole log. Deterministic: the same tree and log always give the same state. */
 export function replay(tree: Tree, log: readonly LogEntry[]): RunState {
   const run = new Run(tree);
-  for (const e of log) run.apply(e);
+  for (const e of log) run.apply(e, REPLAYING);
   return run.snapshot();
 }
 
@@ -369,7 +394,7 @@ export function tryEntry(
   entry: LogEntry,
 ): { ok: true; step?: RunStep; state: RunState } | { ok: false; rejection: Rejection; state: RunState } {
   const run = new Run(tree);
-  for (const e of log) run.apply(e);
+  for (const e of log) run.apply(e, REPLAYING);
   const r = run.apply(entry);
   const state = run.snapshot();
   if (r.ok) return r.step ? { ok: true, step: r.step, state } : { ok: true, state };

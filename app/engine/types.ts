@@ -101,6 +101,12 @@ export interface Meter {
   resolution: number;
   /** Unit of the resolution (and the scale the percentage applies to); default the node's unit. */
   unit?: string;
+  /**
+   * Top of the meter's range in `unit`, when the shop lists it: a reading above it is refused
+   * (the meter can't show it), and an overload ("OL") counts as high when it is at or above the
+   * step's upper limit. Trees don't carry it; the runner passes the chosen shop meter's.
+   */
+  range?: number;
 }
 
 export type Acceptance = "simple" | "guarded";
@@ -197,4 +203,6 @@ export interface Finding {
   nodeIndex?: number;
   /** Which part of the node: "limits", "unit", "meter", "variable", "next", "branch:low", "answer:<label>"… */
   field?: string;
+  /** Ids of other nodes this finding accounts for: what a missing branch target or an unreachable step cuts off. */
+  covers?: string[];
 }

@@ -1,13 +1,14 @@
 // Sign-in through @auth/core (Credentials provider, JWT strategy) and the guards every route uses.
 import { Auth, setEnvDefaults, type AuthConfig } from "@auth/core";
 import { CredentialsSignin } from "@auth/core/errors";
-import { decode } from "@auth/core/jwt";
+import { decode, encode } from "@auth/core/jwt";
 import Credentials from "@auth/core/providers/credentials";
 import { LRUCache } from "lru-cache";
 import { redirect } from "react-router";
 import { z } from "zod";
 import { loadSession, revokeSession, SESSION_HOURS, signIn, type SessionUser } from "./sign-in.server";
 import type { Ctx } from "./context";
+import { authorize, type Action } from "./policy";
 import { env } from "./env.server";
 import { HOME_PATH } from "./roles";
 
@@ -16,6 +17,9 @@ class WrongCredentials extends CredentialsSignin {
 }
 class TooManyAttempts extends CredentialsSignin {
   override code = "too_many";
+}
+class AccessOff extends CredentialsSignin {
+  override code = "access_off";
 }
 
 const credentials = z.object({ email: z.string().trim().min(1).max(254), password: z.string().min(1).max(1024) });
@@ -37,11 +41,12 @@ export function authConfig(address: string): AuthConfig {
     providers: [
       Credentials({
         credentials: { email: { label: "Email", type: "email" }, password: { label: "Password", type: "password" } },
-        async authorize(raw) {
+        async authorize(raw, request) {
           const parsed = credentials.safeParse(raw);
           if (!parsed.success) throw new WrongCredentials();
-          const result = await signIn(parsed.data.email, parsed.data.password, address);
+          const result = await signIn(parsed.data.email, parsed.data.password, address, request.headers.get("user-agent"));
           if (result.kind === "rate-limited") throw new TooManyAttempts();
+          if (result.kind === "access-off") throw new AccessOff();
           if (result.kind !== "ok") throw new WrongCredentials();
           return { id: result.userId, name: result.name, email: result.email, sessionId: result.sessionId } as never;
         },
@@ -113,7 +118,12 @@ function isApi(request: Request): boolean {
   return new URL(request.url).pathname.startsWith("/api/");
 }
 
-export async function requireUser(request: Request): Promise<SessionUser & { ctx: Ctx }> {
+/**
+ * The signed-in caller (else sign-in, or 401 for an API). With `may`, a caller whose role can never
+ * do that action is refused (403) before the request is read, so a role that may not write gets
+ * the same answer whatever it sends; the model still decides for the record itself.
+ */
+export async function requireUser(request: Request, may?: Action): Promise<SessionUser & { ctx: Ctx }> {
   const user = await getUser(request);
   if (!user) {
     if (isApi(request)) throw Response.json({ error: "Sign in first." }, { status: 401 });
@@ -121,7 +131,9 @@ export async function requireUser(request: Request): Promise<SessionUser & { ctx
     const next = url.pathname + url.search;
     throw redirect(next && next !== "/" ? `/login?next=${encodeURIComponent(next)}` : "/login");
   }
-  return { ...user, ctx: { shopId: user.shopId, userId: user.userId, role: user.role } };
+  const ctx: Ctx = { shopId: user.shopId, userId: user.userId, role: user.role };
+  if (may) authorize(ctx, may);
+  return { ...user, ctx };
 }
 
 function setCookies(response: Response): string[] {
@@ -132,7 +144,7 @@ function cookiePairs(setCookie: string[]): string {
   return setCookie.map((c) => c.split(";")[0]).join("; ");
 }
 
-export type PasswordSignIn = { ok: true; headers: Headers; home: string } | { ok: false; reason: "credentials" | "too_many" };
+export type PasswordSignIn = { ok: true; headers: Headers; home: string } | { ok: false; reason: "credentials" | "too_many" | "access_off" };
 
 /**
  * The /login form's action: runs the Credentials sign-in through Auth.js on the server, so the
@@ -148,7 +160,7 @@ export async function signInWithPassword(request: Request, address: string, emai
   const response = await Auth(
     new Request(`${origin}/auth/callback/credentials`, {
       method: "POST",
-      headers: { "content-type": "application/x-www-form-urlencoded", cookie: cookiePairs(csrfCookies) },
+      headers: { "content-type": "application/x-www-form-urlencoded", cookie: cookiePairs(csrfCookies), "user-agent": request.headers.get("user-agent") ?? "" },
       body,
     }),
     config,
@@ -157,7 +169,7 @@ export async function signInWithPassword(request: Request, address: string, emai
   const sessionCookie = setCookies(response).find((c) => c.startsWith(`${sessionCookieName()}=`));
   if (location.includes("error=") || !sessionCookie) {
     const code = new URL(location || "/", origin).searchParams.get("code");
-    return { ok: false, reason: code === "too_many" ? "too_many" : "credentials" };
+    return { ok: false, reason: code === "too_many" || code === "access_off" ? code : "credentials" };
   }
   const headers = new Headers();
   for (const c of [...csrfCookies, ...setCookies(response)]) headers.append("set-cookie", c);
@@ -169,6 +181,19 @@ export async function signInWithPassword(request: Request, address: string, emai
 async function sessionIdFromCookie(setCookie: string): Promise<string | null> {
   const pair = setCookie.split(";")[0] ?? "";
   return sessionIdFrom(new Request("http://local/", { headers: { cookie: pair } }));
+}
+
+/**
+ * The cookie for a session opened without the password form (a password reset, an accepted
+ * invitation): the same Auth.js JWT, naming only the session row, with the same attributes.
+ */
+export async function sessionCookie(sessionId: string, userId: string): Promise<Headers> {
+  const maxAge = SESSION_HOURS * 3600;
+  const token = await encode({ token: { sid: sessionId, sub: userId }, secret: env().AUTH_SECRET, salt: sessionCookieName(), maxAge });
+  const secure = env().secureCookies ? "; Secure" : "";
+  const headers = new Headers();
+  headers.append("set-cookie", `${sessionCookieName()}=${token}; Path=/; HttpOnly; SameSite=Lax; Max-Age=${maxAge}${secure}`);
+  return headers;
 }
 
 /** Ends the session for real: the row is revoked (a copied cookie stops working) and the cookie cleared. */

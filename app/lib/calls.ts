@@ -1,4 +1,5 @@
 // Service-call priorities and statuses, and how they read. Shared by the schema, server and client.
+import type { RunStatus } from "./run-log";
 export const CALL_PRIORITIES = ["low", "normal", "high", "urgent"] as const;
 export type CallPriority = (typeof CALL_PRIORITIES)[number];
 
@@ -14,3 +15,15 @@ export const STATUS_LABEL: Record<CallStatus, string> = {
   done: "Done",
   cancelled: "Cancelled",
 };
+
+/** How a run's status reads in lists. */
+export const RUN_STATUS_LABEL: Record<RunStatus, string> = { active: "In progress", paused: "Paused", escalated: "With a lead", abandoned: "Abandoned", done: "Finished" };
+
+export type OpenRunState = { status: RunStatus; heldByMe: boolean; holder: string };
+
+/** What the way into a call's open run says to the technician: carry on, resume, or that a lead has it now. */
+export function openRunLine(run: OpenRunState): string {
+  if (run.status === "escalated") return "Waiting for a lead — open the run";
+  if (!run.heldByMe) return `${run.holder} has taken over the run — read it`;
+  return run.status === "paused" ? "Resume the paused run" : "Carry on with the run";
+}

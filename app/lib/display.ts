@@ -6,9 +6,30 @@ export function placeName(customer: string, site: string): string {
   return site.toLowerCase().startsWith(customer.toLowerCase()) ? site : `${customer} — ${site}`;
 }
 
-/** "Dec 1, 2026, 5:11 PM" (or the date alone) in the shop's time zone. */
-export function atShop(d: Date | string | null | undefined, timeZone: string, style: "date" | "date-time" = "date-time"): string {
+const STYLES = {
+  date: { dateStyle: "medium" },
+  "date-time": { dateStyle: "medium", timeStyle: "short" },
+  time: { timeStyle: "short" },
+} as const satisfies Record<string, Intl.DateTimeFormatOptions>;
+
+/**
+ * Every time Cluepath shows, in the shop's time zone and one format: "Dec 1, 2026, 5:11 PM", the
+ * date alone ("Dec 1, 2026") or the time alone ("5:11 PM"). The same text on the server and the
+ * phone, whatever zone the phone is set to.
+ */
+export function atShop(d: Date | string | null | undefined, timeZone: string, style: keyof typeof STYLES = "date-time"): string {
   if (!d) return "—";
   const date = typeof d === "string" ? new Date(d) : d;
-  return new Intl.DateTimeFormat("en-US", style === "date" ? { timeZone, dateStyle: "medium" } : { timeZone, dateStyle: "medium", timeStyle: "short" }).format(date);
+  return new Intl.DateTimeFormat("en-US", { timeZone, ...STYLES[style] }).format(date);
+}
+
+/** A nameplate rating's label: the tree's title for it when there is one, else its key in words ("fanCapacitor", "fan_capacitor" → "Fan capacitor"). */
+export function ratingLabel(key: string, treeTitle?: string | null): string {
+  if (treeTitle) return treeTitle;
+  const words = key
+    .replace(/([a-z0-9])([A-Z])/g, "$1 $2")
+    .replace(/[_-]+/g, " ")
+    .trim()
+    .toLowerCase();
+  return words.charAt(0).toUpperCase() + words.slice(1);
 }

@@ -34,6 +34,11 @@ const schema = z.object({
   /** Connections per app process, and how long a request waits for one before it answers 503. */
   DB_POOL_SIZE: whole(1, 500).default(20),
   DB_ACQUIRE_TIMEOUT_MS: whole(100, 120_000).default(5000),
+  /**
+   * The address people open Cluepath at (https://cluepath.example.com). Links in e-mails (password
+   * resets, invitations) are made from it; unset, from the request's own address (development).
+   */
+  PUBLIC_URL: z.string().url("a URL such as https://cluepath.example.com").optional(),
   AUTH_SECRET: z.string({ message: "required in production (32 or more random characters)" }).min(32, "must be at least 32 characters"),
   /** Secure cookies (HTTPS). On in production unless explicitly turned off for a loopback demo. */
   SECURE_COOKIES: flag.optional(),

@@ -27,3 +27,6 @@ export function formStrings(form: FormData): Record<string, string> {
   for (const [k, v] of form) if (typeof v === "string") out[k] = v;
   return out;
 }
+
+/** The hint under every "choose a password" field (the rules are password.server.ts's passwordProblem). */
+export const PASSWORD_HINT = "At least 8 characters; 15 or more is better. A few unrelated words work well.";

@@ -1,3 +1,13 @@
+import { env } from "./env.server";
+
+/**
+ * An absolute link to one of Cluepath's pages, for an e-mail: from PUBLIC_URL when it is set, so a
+ * forged Host header cannot point a password-reset link at another site; else the request's origin.
+ */
+export function publicLink(request: Request, path: string): string {
+  return new URL(path, env().PUBLIC_URL ?? new URL(request.url).origin).toString();
+}
+
 /** The client's address as the server entry saw it (server/app.ts puts it in the load context). */
 export function clientAddress(context: { clientAddress?: string } | undefined): string {
   return context?.clientAddress ?? "unknown";

@@ -13,6 +13,8 @@ function transporter(): Transporter {
 export type OutgoingMail = {
   /** The shop the mail is sent for; carried in a header so the outbox can be scoped. */
   shopId: string;
+  /** The service report the mail carries, if any; in a header so the outbox can link to it. */
+  reportId?: string;
   to: string;
   subject: string;
   text: string;
@@ -27,7 +29,7 @@ export async function sendMail(mail: OutgoingMail): Promise<{ messageId: string 
     subject: mail.subject,
     text: mail.text,
     html: mail.html,
-    headers: { "X-Cluepath-Shop": mail.shopId },
+    headers: { "X-Cluepath-Shop": mail.shopId, ...(mail.reportId ? { "X-Cluepath-Report": mail.reportId } : {}) },
     attachments: mail.attachments?.map((a) => ({ filename: a.filename, content: Buffer.from(a.content), contentType: a.contentType, cid: a.cid })),
   });
   return { messageId: String(info.messageId) };
@@ -37,6 +39,8 @@ export type CapturedMail = {
   id: string;
   receivedAt: string;
   shopId: string | null;
+  /** From the X-Cluepath-Report header (absent in mail caught before it existed). */
+  reportId?: string | null;
   from: string;
   to: string[];
   subject: string;

@@ -19,6 +19,7 @@ const EVERYONE = ROLES;
 const FIELD: readonly Role[] = ["technician", "lead", "owner"];
 // Owners may do what leads do: the owner is written out on every lead row (a unit test holds it).
 const LEADS: readonly Role[] = ["lead", "owner"];
+const TRAINERS: readonly Role[] = ["trainer", ...LEADS];
 
 export const POLICY = {
   // Calls, customers, sites and units.
@@ -49,10 +50,17 @@ export const POLICY = {
   // The shop.
   "shop.view": { roles: EVERYONE, refusal: "Your role cannot see the shop's settings." },
   "outbox.view": { roles: LEADS, refusal: "The outbox is for leads and owners." },
-  "people.manage": { roles: ["owner"], refusal: "Only the shop's owner invites people and withdraws invitations." },
+  "people.manage": { roles: ["owner"], refusal: "Only the shop's owner manages people: invitations, roles, access and sign-in resets." },
+  // Everyone's own account: name, password, sessions.
+  "account.self": { roles: EVERYONE, refusal: "Sign in to see your account." },
   "audit.view": { roles: ["owner"], refusal: "The audit trail is for the shop's owner." },
-  "shop.overview": { roles: ["owner"], refusal: "The overview is for the shop's owner." },
-  "training.view": { roles: ["trainer"], refusal: "Training is the trainer's page." },
+  "shop.overview": { roles: LEADS, refusal: "The overview is for the shop's owner and its leads." },
+  // Training: trainers and leads (and so the owner) write scenarios, assign and review them; the
+  // technician takes the practice assigned to them.
+  "training.summary": { roles: TRAINERS, refusal: "Training summaries are for trainers, leads and the owner." },
+  "training.write": { roles: TRAINERS, refusal: "Your role cannot write or assign practice scenarios: trainers and leads do." },
+  "training.review": { roles: TRAINERS, refusal: "Your role cannot review practice runs: trainers and leads do." },
+  "training.practice": { roles: ["technician"], refusal: "Practice is for technicians; a trainer assigns it." },
 } as const satisfies Record<string, Rule>;
 
 export type Action = keyof typeof POLICY;

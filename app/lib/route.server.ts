@@ -108,13 +108,14 @@ export async function readJson<S extends z.ZodType>(request: Request, schema: S)
 
 /**
  * The submitted form checked against `schema` (or the schema picked for what was sent, when one
- * page posts several forms). What was typed is kept for the request, so any
+ * page posts several forms). What was typed (less any field named like a password) is kept for the request, so any
  * refusal of it (here, or later from a model) goes back to the form with the values; a field the
  * schema refuses is an `invalid` refusal (400) with its message beside the field.
  */
 export async function readForm<S extends z.ZodType>(request: Request, schema: S | ((values: Record<string, string>) => S)): Promise<z.infer<S>> {
   const values = formStrings(await request.formData());
-  typed.set(request, values);
+  // Passwords are never sent back to the page: the person types them again.
+  typed.set(request, Object.fromEntries(Object.entries(values).filter(([k]) => !/password/i.test(k))));
   const parsed = (typeof schema === "function" ? schema(values) : schema).safeParse(values);
   if (!parsed.success) {
     const fields = fieldErrors(parsed.error);

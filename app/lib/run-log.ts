@@ -3,6 +3,7 @@
 import type { LogEntry } from "../engine/traversal";
 import type { EquipmentCategory, Meter, NodeKind, Quantity, Tree, VerdictKind } from "../engine/types";
 import type { MdBlock } from "./md";
+import type { PracticeView } from "./training";
 
 export type StepType = LogEntry["type"];
 export type RunStatus = "active" | "paused" | "escalated" | "abandoned" | "done";
@@ -20,6 +21,8 @@ export interface StepView {
   si: number | null;
   siUnit: string | null;
   verdict: VerdictKind | null;
+  /** On a practice reading: the trainee's own call (the branch the run followed). */
+  call?: VerdictKind | null;
   message: string | null;
   limitsText: string | null;
   meterId: string | null;
@@ -111,6 +114,8 @@ export interface RunView {
   photos: PhotoView[];
   parts: PartView[];
   meters: MeterView[];
+  /** A practice run's scenario, as the trainee may see it; null for a real run. */
+  practice: PracticeView | null;
   escalation: { id: string; reason: string; raisedBy: string; raisedAt: string; takenBy: string | null; fromTree: boolean } | null;
   report: { id: string; number: number; sentTo: string | null; sentAt: string | null } | null;
   viewer: { id: string; holds: boolean; canTakeOver: boolean };
@@ -126,16 +131,31 @@ export interface StepPayload {
   at?: string;
 }
 
+/**
+ * How many steps a run has done: the entries it stands on, leaving out undos and the steps they
+ * took back (a step taken back and done again counts once). The one count Cluepath shows — the
+ * runner's "Step 7 · 6 done", the hand-over list's "after 6 steps" — equal to the length of the
+ * engine's replayed path.
+ */
+export function stepsDone(steps: readonly Pick<StepView, "type" | "undone">[]): number {
+  let n = 0;
+  for (const s of steps) if (s.type !== "undo" && !s.undone) n++;
+  return n;
+}
+
 /** The engine's log entry a stored step stands for (the meter is the accuracy kept with it). */
-export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" | "meter">): LogEntry {
+export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" | "meter" | "call">): LogEntry {
   const node = s.node ?? "";
   switch (s.type) {
     case "undo":
       return { type: "undo" };
     case "answer":
       return { type: "answer", node, answer: s.answer ?? "" };
-    case "reading":
-      return s.meter ? { type: "reading", node, reading: s.typed ?? "", meter: s.meter } : { type: "reading", node, reading: s.typed ?? "" };
+    case "reading": {
+      const e: Extract<LogEntry, { type: "reading" }> = s.meter ? { type: "reading", node, reading: s.typed ?? "", meter: s.meter } : { type: "reading", node, reading: s.typed ?? "" };
+      // A practice reading carries the trainee's call (app/engine/training/practice.ts).
+      return s.call ? Object.assign(e, { call: s.call }) : e;
+    }
     case "nameplate":
       return { type: "nameplate", node, value: s.typed ?? "" };
     case "acknowledge":

@@ -15,14 +15,15 @@ import {
   type CallPriority,
   type CallStatus,
 } from "../../db/schema";
-import type { EquipmentCategory } from "../engine/types";
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
 import { optionalText } from "../lib/forms";
+import { rankTrees, type TreeFit, type UnitKind } from "../lib/tree-match";
 import { authorize } from "../lib/policy";
 import { fieldRefusal, notFound } from "../lib/refusal";
 import { withNextNumber, withPlace } from "./_query.server";
 import { searchUnits } from "./equipment.server";
+import { recordNewCall } from "./insights/_facts.server";
 import { listPublished, type PublishedTreeSummary } from "./trees/library.server";
 
 
@@ -113,19 +114,24 @@ export async function listCalls(ctx: Ctx, filter: CallFilter = {}) {
     .limit(200);
 }
 
-/** The caller's open calls, with the run in progress on each (if any). */
+/** The caller's open calls, with the run in progress on each (if any) and who holds it (a lead may have taken it over). */
 export async function myCalls(ctx: Ctx) {
   authorize(ctx, "calls.mine");
   const calls = await callsQuery()
     .where(and(eq(serviceCalls.shopId, ctx.shopId), eq(serviceCalls.assignedTo, ctx.userId), inArray(serviceCalls.status, ACTIVE)))
     .orderBy(PRIORITY_ORDER, asc(serviceCalls.openedAt));
+  const holder = alias(users, "holder");
   const open = calls.length
     ? await db()
-        .select({ id: runs.id, callId: runs.callId, status: runs.status })
+        .select({ id: runs.id, callId: runs.callId, status: runs.status, holderId: runs.technicianId, holder: holder.name })
         .from(runs)
+        .innerJoin(holder, eq(holder.id, runs.technicianId))
         .where(and(eq(runs.shopId, ctx.shopId), inArray(runs.callId, calls.map((c) => c.id)), inArray(runs.status, ["active", "paused", "escalated"])))
     : [];
-  return calls.map((c) => ({ ...c, openRun: open.find((r) => r.callId === c.id) ?? null }));
+  return calls.map((c) => {
+    const run = open.find((r) => r.callId === c.id);
+    return { ...c, openRun: run ? { id: run.id, status: run.status, holder: run.holder, heldByMe: run.holderId === ctx.userId } : null };
+  });
 }
 
 /** Calls the caller closed in the last `days` days. */
@@ -164,14 +170,14 @@ export async function getCall(ctx: Ctx, id: string) {
   return callRow(ctx, id);
 }
 
-/** The shop's technicians and leads, who can be sent on a call. */
+/** The shop's technicians and leads whose access is on: who can be sent on a call. */
 export async function assignablePeople(ctx: Ctx) {
   authorize(ctx, "calls.view");
   return db()
     .select({ id: users.id, name: users.name, role: memberships.role })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
-    .where(and(eq(memberships.shopId, ctx.shopId), inArray(memberships.role, ["technician", "lead"])))
+    .where(and(eq(memberships.shopId, ctx.shopId), inArray(memberships.role, ["technician", "lead"]), isNull(memberships.deactivatedAt)))
     .orderBy(asc(users.name));
 }
 
@@ -211,6 +217,7 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ id: stri
       return n;
     },
   );
+  await recordNewCall(db(), ctx.shopId, input.unitId, now);
   return { id, number };
 }
 
@@ -227,35 +234,16 @@ export async function updateCall(ctx: Ctx, id: string, input: CallEditInput): Pr
     .where(and(eq(serviceCalls.id, id), eq(serviceCalls.shopId, ctx.shopId)));
 }
 
-/** Words that carry meaning in a symptom ("heats unevenly" → heat, uneven). */
-function words(text: string): Set<string> {
-  const out = new Set<string>();
-  for (const raw of text.toLowerCase().match(/[a-z]+/g) ?? []) {
-    if (raw.length < 3 || STOP.has(raw)) continue;
-    out.add(raw.replace(/(?:ly|ing|ed|es|s)$/, "") || raw);
-  }
-  return out;
-}
-const STOP = new Set(["the", "and", "not", "one", "than", "other", "side", "unit", "with", "for", "does", "doesn", "won", "from", "but"]);
-
-export type TreeSuggestion = PublishedTreeSummary & { score: number; sameCategory: boolean };
+export type TreeSuggestion = PublishedTreeSummary & TreeFit;
 
 /**
- * Published trees for a call: those of the unit's category first, ranked by how many words of the
- * reported symptom they share with the tree's title and symptom; then the rest of the library.
+ * Published trees for a call on a unit, best first (`rankTrees`): those that fit the unit's
+ * category and kind ranked by the words of the reported symptom, then the same category's trees
+ * for another kind (a convection oven's tree for a deck oven), then the rest of the library.
  */
-export async function suggestTrees(ctx: Ctx, category: EquipmentCategory, symptom: string): Promise<TreeSuggestion[]> {
+export async function suggestTrees(ctx: Ctx, unit: UnitKind, symptom: string): Promise<TreeSuggestion[]> {
   authorize(ctx, "trees.view");
-  const reported = words(symptom);
-  const all = await listPublished(ctx);
-  return all
-    .map((t) => {
-      const own = words(`${t.title} ${t.symptom}`);
-      let score = 0;
-      for (const w of reported) if (own.has(w)) score++;
-      return { ...t, score, sameCategory: t.category === category };
-    })
-    .sort((a, b) => Number(b.sameCategory) - Number(a.sameCategory) || b.score - a.score || a.title.localeCompare(b.title));
+  return rankTrees(unit, symptom, await listPublished(ctx));
 }
 
 /** Calls on one unit, newest first (the unit's history). */

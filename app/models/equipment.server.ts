@@ -1,9 +1,10 @@
 // Customers, their sites and the equipment units at them. Always scoped to the caller's shop.
-import { and, asc, count, eq, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, or, sql } from "drizzle-orm";
 import { z } from "zod";
-import { customers, EQUIPMENT_CATEGORIES, equipmentUnits, memberships, sites, type EquipmentCategory } from "../../db/schema";
+import { customers, EQUIPMENT_CATEGORIES, equipmentUnits, memberships, sites, treeNodes, treeVersions, type EquipmentCategory } from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
+import { ratingLabel } from "../lib/display";
 import { optionalText } from "../lib/forms";
 import { authorize } from "../lib/policy";
 import { notFound } from "../lib/refusal";
@@ -33,6 +34,27 @@ export async function getSite(ctx: Ctx, id: string) {
 export async function getUnit(ctx: Ctx, id: string) {
   authorize(ctx, "equipment.view");
   return (await unitWithPlace(ctx, id)) ?? notFound("That equipment unit");
+}
+
+/**
+ * A unit's nameplate ratings as people read them: each key's label is the title the shop's
+ * published trees for the unit's category give the nameplate step that records that variable
+ * (newest version first), or else the key in words ("fanCapacitor" → "Fan capacitor").
+ */
+export async function unitRatings(ctx: Ctx, unit: { category: EquipmentCategory; nameplate: Record<string, { value: number; unit: string }> }) {
+  authorize(ctx, "equipment.view");
+  const keys = Object.keys(unit.nameplate);
+  const steps = keys.length
+    ? await db()
+        .select({ title: treeNodes.title, data: treeNodes.data })
+        .from(treeNodes)
+        .innerJoin(treeVersions, eq(treeVersions.id, treeNodes.versionId))
+        .where(and(eq(treeVersions.shopId, ctx.shopId), eq(treeVersions.state, "published"), eq(treeVersions.category, unit.category), eq(treeNodes.kind, "nameplate")))
+        .orderBy(desc(treeVersions.number))
+    : [];
+  const titles = new Map<string, string>();
+  for (const s of steps) if (typeof s.data.variable === "string" && !titles.has(s.data.variable)) titles.set(s.data.variable, s.title);
+  return keys.map((key) => ({ key, label: ratingLabel(key, titles.get(key)), value: unit.nameplate[key]!.value, unit: unit.nameplate[key]!.unit }));
 }
 
 export async function listUnits(ctx: Ctx) {

@@ -1,6 +1,5 @@
 // Shop members and invitations.
 import { and, asc, eq, gt, isNull } from "drizzle-orm";
-import { createHash } from "node:crypto";
 import { invitations, memberships, shops, users } from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import { db, writeTx } from "../lib/db.server";
@@ -9,14 +8,15 @@ import { hashPassword, passwordProblem, verifyPassword } from "../lib/password.s
 import { authorize } from "../lib/policy";
 import { fieldRefusal, notFound, Refusal } from "../lib/refusal";
 import { ROLE_LABEL, type Role } from "../lib/roles";
-import { normaliseEmail } from "../lib/sign-in.server";
+import { normaliseEmail, openSession, type SessionOrigin } from "../lib/sign-in.server";
+import { newToken, tokenHash } from "../lib/tokens.server";
 
 export const INVITATION_DAYS = 7;
 
 export async function listMembers(ctx: Ctx) {
   authorize(ctx, "people.manage");
   return db()
-    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, since: memberships.createdAt })
+    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, since: memberships.createdAt, deactivatedAt: memberships.deactivatedAt })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(eq(memberships.shopId, ctx.shopId))
@@ -32,19 +32,17 @@ export async function listOpenInvitations(ctx: Ctx, now = new Date()) {
     .orderBy(asc(invitations.createdAt));
 }
 
-const sha256 = (s: string) => createHash("sha256").update(s).digest("hex");
-
 /** Creates an invitation and returns the token for the link (only its hash is stored). */
 export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ id: string; token: string }> {
   authorize(ctx, "people.manage");
-  const token = Buffer.from(crypto.getRandomValues(new Uint8Array(24))).toString("base64url");
+  const token = newToken();
   const id = crypto.randomUUID();
   await db().insert(invitations).values({
     id,
     shopId: ctx.shopId,
     email: normaliseEmail(emailRaw),
     role,
-    tokenHash: sha256(token),
+    tokenHash: tokenHash(token),
     invitedBy: ctx.userId,
     expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
   });
@@ -94,7 +92,7 @@ export async function findInvitation(token: string, now = new Date()): Promise<O
     .select({ id: invitations.id, email: invitations.email, role: invitations.role, shopId: shops.id, shopName: shops.name })
     .from(invitations)
     .innerJoin(shops, eq(shops.id, invitations.shopId))
-    .where(and(eq(invitations.tokenHash, sha256(token)), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
+    .where(and(eq(invitations.tokenHash, tokenHash(token)), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
     .limit(1);
   if (!row) return null;
   const [user] = await db().select({ id: users.id }).from(users).where(eq(users.email, row.email)).limit(1);
@@ -103,9 +101,15 @@ export async function findInvitation(token: string, now = new Date()): Promise<O
 
 /**
  * Accepts an invitation: a new person sets their name and password; someone who already has an
- * account confirms with their password. Either way they become a member with the invited role.
+ * account confirms with their password. Either way they become a member with the invited role
+ * (access on, if an owner had turned it off) and are signed in to the shop: the new session is
+ * returned for the cookie.
  */
-export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<{ shopName: string }> {
+export async function acceptInvitation(
+  token: string,
+  input: { name?: string; password: string },
+  origin: SessionOrigin = {},
+): Promise<{ shopName: string; role: Role; userId: string; sessionId: string }> {
   const inv = await findInvitation(token);
   if (!inv) throw new Refusal("gone", "This invitation has expired, was withdrawn, or was already used.");
   if (!inv.hasAccount) {
@@ -116,20 +120,32 @@ export async function acceptInvitation(token: string, input: { name?: string; pa
     if (problem) fields.password = problem;
     if (Object.keys(fields).length) throw new Refusal("invalid", Object.values(fields)[0]!, { fields });
   }
-  await writeTx(async (tx) => {
+  return writeTx(async (tx) => {
     const [existing] = await tx.select().from(users).where(eq(users.email, inv.email)).limit(1);
     let userId: string;
+    let sessionVersion = 1;
     if (existing) {
       if (!(await verifyPassword(existing.passwordHash, input.password))) throw fieldRefusal("password", "That password doesn't match your existing account.");
       userId = existing.id;
+      sessionVersion = existing.sessionVersion;
     } else {
       userId = crypto.randomUUID();
-      await tx.insert(users).values({ id: userId, email: inv.email, name: input.name?.trim() || inv.email, passwordHash: await hashPassword(input.password) });
+      await tx.insert(users).values({ id: userId, email: inv.email, name: input.name?.trim() || inv.email, passwordHash: await hashPassword(input.password), sessionVersion });
     }
     const [member] = await tx.select().from(memberships).where(and(eq(memberships.shopId, inv.shopId), eq(memberships.userId, userId))).limit(1);
-    if (member) await tx.update(memberships).set({ role: inv.role }).where(eq(memberships.id, member.id));
+    if (member && member.role === "owner" && inv.role !== "owner") {
+      // An invitation never demotes the shop's last owner (members.server.ts keeps the same rule).
+      const owners = await tx
+        .select({ id: memberships.id })
+        .from(memberships)
+        .where(and(eq(memberships.shopId, inv.shopId), eq(memberships.role, "owner"), isNull(memberships.deactivatedAt)))
+        .for("update");
+      if (owners.length <= 1) throw new Refusal("conflict", "You are this shop's only owner; this invitation would take that away. Ask for an owner's invitation instead.", { code: "last-owner" });
+    }
+    if (member) await tx.update(memberships).set({ role: inv.role, deactivatedAt: null }).where(eq(memberships.id, member.id));
     else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });
     await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));
+    const sessionId = await openSession(userId, inv.shopId, sessionVersion, origin, tx);
+    return { shopName: inv.shopName, role: inv.role, userId, sessionId };
   });
-  return { shopName: inv.shopName };
 }

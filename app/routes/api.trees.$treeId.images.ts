@@ -12,7 +12,7 @@ import type { Route } from "./+types/api.trees.$treeId.images";
 export const action = api(async ({ request, params }: Route.ActionArgs) => {
   requireMethod(request, "POST");
   requireSameOrigin(request);
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const treeId = treeIdOf(params);
   const form = await readUploadForm(request);
   const file = form.get("photo");

@@ -5,8 +5,11 @@ import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
 import { requireUser } from "~/lib/auth.server";
 import { atShop, placeName } from "~/lib/display";
 import { can } from "~/lib/policy";
+import { openRunLine, RUN_STATUS_LABEL } from "~/lib/calls";
 import { isRefusal } from "~/lib/refusal";
 import { reportNumber } from "~/lib/report-data";
+import { isBestMatch } from "~/lib/tree-match";
+import { categoryLabel } from "~/components/editor/kinds";
 import { form, page, readForm } from "~/lib/route.server";
 import { getCall, suggestTrees } from "~/models/calls.server";
 import { runsOfCall } from "~/models/runs/queries.server";
@@ -19,8 +22,9 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${d
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const call = await getCall(ctx, params.callId);
-  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit.category, call.call.symptom), shopTimeZone(ctx)]);
-  const openRun = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated") ?? null;
+  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit, call.call.symptom), shopTimeZone(ctx)]);
+  const open = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated");
+  const openRun = open ? { id: open.id, status: open.status, holder: open.technician, heldByMe: open.technicianId === ctx.userId } : null;
   const canRun = can(ctx, "runs.start") && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
   return { call, runs, trees, openRun, canRun, tz, canEdit: can(ctx, "calls.write") };
 });
@@ -28,7 +32,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 const startForm = z.object({ treeId: z.string({ message: "Choose a procedure to run." }).uuid("Choose a procedure to run.") });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "runs.start");
   const { treeId } = await readForm(request, startForm);
   try {
     const { runId } = await startRun(ctx, { treeId, callId: params.callId });
@@ -40,17 +44,18 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   }
 });
 
-const RUN_STATUS: Record<string, string> = { active: "In progress", paused: "Paused", escalated: "With a lead", abandoned: "Abandoned", done: "Finished" };
-
 export default function Call({ loaderData, actionData }: Route.ComponentProps) {
   const { call: c, runs, trees, openRun } = loaderData;
   const busy = useNavigation().state !== "idle";
-  const matching = trees.filter((t) => t.sameCategory);
-  const others = trees.filter((t) => !t.sameCategory);
+  const matching = trees.filter((t) => t.fits);
+  const others = trees.filter((t) => !t.fits);
+  const best = isBestMatch(matching[0]);
   return (
     <div className="space-y-5">
       <p>
-        <a href="/calls">← My calls</a>
+        <a href="/calls" className="tap">
+          ← My calls
+        </a>
       </p>
       <div>
         <div className="flex flex-wrap items-center gap-2">
@@ -61,21 +66,23 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
         <p className="mt-1 text-xl font-semibold">“{c.call.symptom}”</p>
         {loaderData.canEdit && (
           <p>
-            <a href={`/calls/${c.call.id}/edit`}>Edit the call</a>
+            <a href={`/calls/${c.call.id}/edit`} className="tap">
+              Edit the call
+            </a>
           </p>
         )}
       </div>
 
       {openRun && (
-        <a href={`/runs/${openRun.id}`} className="btn-primary min-h-16 w-full text-xl">
-          {openRun.status === "paused" ? "Resume the run" : "Carry on with the run"} →
+        <a href={`/runs/${openRun.id}`} className={`${openRun.heldByMe ? "btn-primary" : "btn-quiet"} min-h-16 w-full text-xl`}>
+          {openRunLine(openRun)} →
         </a>
       )}
 
       <dl className="card grid grid-cols-[7.5rem_1fr] gap-x-3 gap-y-2">
         <dt className="text-ink-soft">Unit</dt>
         <dd>
-          <a href={`/equipment/${c.unit.id}`}>
+          <a href={`/equipment/${c.unit.id}`} className="tap">
             {c.unit.make} {c.unit.model}
           </a>
           <br />
@@ -83,7 +90,9 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
         </dd>
         <dt className="text-ink-soft">Site</dt>
         <dd>
-          {placeName(c.customer.name, c.site.name)}
+          <a href={`/sites/${c.site.id}`} className="tap">
+            {placeName(c.customer.name, c.site.name)}
+          </a>
           <br />
           <span className="text-ink-soft">{c.site.address}</span>
         </dd>
@@ -120,15 +129,15 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
           )}
           <ul className="space-y-3">
             {matching.map((t, i) => (
-              <li key={t.treeId} className={`card space-y-2 ${i === 0 && t.score > 0 ? "border-2 border-copper" : ""}`}>
-                {i === 0 && t.score > 0 && <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>}
+              <li key={t.treeId} className={`card space-y-2 ${i === 0 && best ? "border-2 border-copper" : ""}`}>
+                {i === 0 && best && <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>}
                 <p className="text-lg font-bold">{t.title}</p>
                 <p className="text-ink-soft">
                   {t.symptom} · version {t.number}
                 </p>
                 <Form method="post">
                   <input type="hidden" name="treeId" value={t.treeId} />
-                  <button className="btn-primary min-h-14 w-full" disabled={busy} aria-label={`Start: ${t.title}`}>
+                  <button className="btn-primary min-h-14 w-full" disabled={busy} aria-label={`Start this procedure: ${t.title}`}>
                     Start this procedure
                   </button>
                 </Form>
@@ -142,7 +151,8 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
                 {others.map((t) => (
                   <li key={t.treeId} className="flex flex-wrap items-center justify-between gap-2 border-t border-rule pt-2">
                     <span>
-                      {t.title} <span className="text-ink-soft">· {t.category}</span>
+                      {t.title} <span className="text-ink-soft">· {categoryLabel(t.category)}
+                        {t.otherKind && ` — written for ${t.otherKind}`}</span>
                     </span>
                     <Form method="post">
                       <input type="hidden" name="treeId" value={t.treeId} />
@@ -166,15 +176,19 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
           <ul className="space-y-2">
             {runs.map((r) => (
               <li key={r.id} className="card">
-                <a href={`/runs/${r.id}`} className="font-semibold">
+                <a href={`/runs/${r.id}`} className="tap font-semibold">
                   {r.treeTitle} (v{r.versionNumber})
-                </a>{" "}
-                · {RUN_STATUS[r.status]} · {r.technician}
+                </a>
+                <p>
+                  {RUN_STATUS_LABEL[r.status]} · {r.technician}
+                </p>
                 {r.rootCause && <p>Root cause: {r.rootCause}</p>}
                 {r.abandonReason && <p className="text-ink-soft">Abandoned: {r.abandonReason}</p>}
                 {r.reportId && (
                   <p>
-                    <a href={`/reports/${r.reportId}`}>Service report {reportNumber(r.reportNumber!)}</a>
+                    <a href={`/reports/${r.reportId}`} className="tap">
+                      Service report {reportNumber(r.reportNumber!)}
+                    </a>
                   </p>
                 )}
               </li>

@@ -102,7 +102,7 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
         {calls.map((c) => (
           <li key={c.id} className="card">
             <div className="flex flex-wrap items-center gap-2">
-              <a href={`/calls/${c.id}`} className="text-lg font-bold">
+              <a href={`/calls/${c.id}`} className="tap text-lg font-bold">
                 Call {c.number}
               </a>
               <PriorityBadge priority={c.priority} />

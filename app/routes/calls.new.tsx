@@ -30,7 +30,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "calls.write");
   if (params.callId) {
     await updateCall(ctx, params.callId, await readForm(request, callEditInput));
     return redirect(`/calls/${params.callId}`);
@@ -47,7 +47,7 @@ export default function CallForm({ loaderData, actionData }: Route.ComponentProp
   return (
     <div className="space-y-4">
       <p>
-        <a href={editing ? `/calls/${editing.id}` : "/calls/all"}>← {editing ? `Call ${editing.number}` : "Service calls"}</a>
+        <a href={editing ? `/calls/${editing.id}` : "/calls/all"} className="tap">← {editing ? `Call ${editing.number}` : "Service calls"}</a>
       </p>
       <h1 className="text-2xl font-bold">{editing ? `Edit call ${editing.number}` : "New service call"}</h1>
       <Form method="post" className="card space-y-4" noValidate>

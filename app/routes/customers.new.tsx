@@ -20,7 +20,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "equipment.write");
   const input = await readForm(request, customerInput);
   if (params.customerId) {
     await updateCustomer(ctx, params.customerId, input);

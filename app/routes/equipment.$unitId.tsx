@@ -1,11 +1,13 @@
 import { StatusBadge } from "~/components/CallBadges";
+import { categoryLabel } from "~/components/editor/kinds";
+import { RUN_STATUS_LABEL } from "~/lib/calls";
 import { atShop } from "~/lib/display";
 import { requireUser } from "~/lib/auth.server";
 import { can } from "~/lib/policy";
 import { reportNumber } from "~/lib/report-data";
 import { page } from "~/lib/route.server";
 import { callsOfUnit } from "~/models/calls.server";
-import { getUnit } from "~/models/equipment.server";
+import { getUnit, unitRatings } from "~/models/equipment.server";
 import { historyOfUnit } from "~/models/runs/queries.server";
 import { shopTimeZone } from "~/models/shop.server";
 import type { Route } from "./+types/equipment.$unitId";
@@ -15,19 +17,21 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.unit.mo
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const found = await getUnit(ctx, params.unitId);
-  const [calls, history, tz] = await Promise.all([callsOfUnit(ctx, found.unit.id), historyOfUnit(ctx, found.unit.id), shopTimeZone(ctx)]);
-  return { ...found, calls, history, tz, canEdit: can(ctx, "equipment.write") };
+  const [calls, history, ratings, tz] = await Promise.all([callsOfUnit(ctx, found.unit.id), historyOfUnit(ctx, found.unit.id), unitRatings(ctx, found.unit), shopTimeZone(ctx)]);
+  return { ...found, calls, history, ratings, tz, canEdit: can(ctx, "equipment.write") };
 });
 
 
 export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
-  const { unit, site, customer, calls, history } = loaderData;
+  const { unit, site, customer, calls, history, ratings } = loaderData;
   const day = (d: Date | null) => atShop(d, loaderData.tz, "date");
   const causes = history.runs.filter((r) => r.status === "done" && r.rootCause);
   return (
     <div className="space-y-4">
       <p>
-        <a href="/equipment">← All equipment</a>
+        <a href="/equipment" className="tap">
+          ← All equipment
+        </a>
       </p>
       <h1 className="text-2xl font-bold">
         {unit.make} {unit.model}
@@ -44,18 +48,22 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
       )}
       <dl className="card grid grid-cols-[8rem_1fr] gap-x-3 gap-y-2">
         <dt className="text-ink-soft">Category</dt>
-        <dd>{unit.category}</dd>
+        <dd>{categoryLabel(unit.category)}</dd>
         <dt className="text-ink-soft">Serial</dt>
         <dd>{unit.serial}</dd>
         <dt className="text-ink-soft">Installed</dt>
         <dd>{unit.installedOn ?? "not recorded"}</dd>
         <dt className="text-ink-soft">Customer</dt>
         <dd>
-          <a href={`/customers/${customer.id}`}>{customer.name}</a>
+          <a href={`/customers/${customer.id}`} className="tap">
+            {customer.name}
+          </a>
         </dd>
         <dt className="text-ink-soft">Site</dt>
         <dd>
-          <a href={`/sites/${site.id}`}>{site.name}</a>
+          <a href={`/sites/${site.id}`} className="tap">
+            {site.name}
+          </a>
           <br />
           <span className="text-ink-soft">{site.address}</span>
         </dd>
@@ -64,18 +72,23 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
           {site.contactName} · {site.contactEmail}
         </dd>
       </dl>
-      <section className="card">
-        <h2 className="mb-2 text-lg font-bold">Nameplate</h2>
-        {Object.keys(unit.nameplate).length === 0 ? (
+      <section className="card" aria-labelledby="nameplate-heading">
+        <h2 id="nameplate-heading" className="mb-2 text-lg font-bold">
+          Nameplate
+        </h2>
+        {ratings.length === 0 ? (
           <p className="text-ink-soft">No ratings recorded.</p>
         ) : (
-          <ul>
-            {Object.entries(unit.nameplate).map(([k, v]) => (
-              <li key={k}>
-                <span className="text-ink-soft">{k}:</span> {v.value} {v.unit}
-              </li>
+          <dl className="grid grid-cols-[1fr_auto] gap-x-3 gap-y-1">
+            {ratings.map((r) => (
+              <div key={r.key} className="contents">
+                <dt className="text-ink-soft">{r.label}</dt>
+                <dd className="text-right font-semibold whitespace-nowrap">
+                  {r.value} {r.unit}
+                </dd>
+              </div>
             ))}
-          </ul>
+          </dl>
         )}
       </section>
 
@@ -91,8 +104,10 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
                 {day(r.completedAt)} — <strong>{r.rootCause}</strong>
                 {r.reportId && (
                   <>
-                    {" "}
-                    (<a href={`/reports/${r.reportId}`}>report {reportNumber(r.reportNumber!)}</a>)
+                    <br />
+                    <a href={`/reports/${r.reportId}`} className="tap">
+                      Service report {reportNumber(r.reportNumber!)}
+                    </a>
                   </>
                 )}
               </li>
@@ -119,11 +134,10 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
         ) : (
           <ul className="mb-3 space-y-2">
             {calls.map((c) => (
-              <li key={c.id} className="card">
-                <a href={`/calls/${c.id}`} className="font-semibold">
-                  Call {c.number}
-                </a>{" "}
-                <StatusBadge status={c.status} /> · {day(c.openedAt)} · “{c.symptom}”
+              <li key={c.id}>
+                <a href={`/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper">
+                  <span className="font-semibold text-copper-dark underline">Call {c.number}</span> <StatusBadge status={c.status} /> · {day(c.openedAt)} · “{c.symptom}”
+                </a>
               </li>
             ))}
           </ul>
@@ -132,10 +146,12 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
         {history.runs.length === 0 ? (
           <p className="text-ink-soft">No runs yet.</p>
         ) : (
-          <ul className="space-y-1">
+          <ul className="space-y-2">
             {history.runs.map((r) => (
               <li key={r.id}>
-                <a href={`/runs/${r.id}`}>{r.treeTitle}</a> (v{r.versionNumber}) · {r.technician} · {day(r.startedAt)} · {r.status}
+                <a href={`/runs/${r.id}`} className="card block text-ink no-underline hover:border-copper">
+                  <span className="font-semibold text-copper-dark underline">{r.treeTitle}</span> (v{r.versionNumber}) · {r.technician} · {day(r.startedAt)} · {RUN_STATUS_LABEL[r.status]}
+                </a>
               </li>
             ))}
           </ul>

@@ -20,7 +20,7 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
 const TakeOver = z.object({ runId: z.string({ message: "Choose a run to take over." }).uuid("Choose a run to take over.") });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "runs.take-over");
   const { runId } = await readForm(request, TakeOver);
   await changeRunStatus(ctx, runId, { action: "take-over" });
   return redirect(`/runs/${runId}`);

@@ -1,4 +1,4 @@
-import { data, Form, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { getUser, safeNext, signInWithPassword } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/http.server";
@@ -12,7 +12,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUser(request);
   const url = new URL(request.url);
   if (user) throw redirect(safeNext(url.searchParams.get("next"), HOME_PATH[user.role]));
-  return { signedOut: url.searchParams.has("signedOut"), joined: url.searchParams.get("joined"), next: url.searchParams.get("next") };
+  return { signedOut: url.searchParams.has("signedOut"), next: url.searchParams.get("next") };
 }
 
 const form = z.object({
@@ -34,8 +34,10 @@ export async function action({ request, context }: Route.ActionArgs) {
     const formError =
       result.reason === "too_many"
         ? "Too many sign-in attempts. Wait 15 minutes and try again, or ask your shop owner for help."
-        : "That e-mail and password don't match an account. Check both and try again.";
-    return data({ email, fieldErrors: {}, formError }, { status: result.reason === "too_many" ? 429 : 401 });
+        : result.reason === "access_off"
+          ? "Your shop's owner has turned off your access to Cluepath. Ask them to turn it back on."
+          : "That e-mail and password don't match an account. Check both and try again.";
+    return data({ email, fieldErrors: {}, formError }, { status: result.reason === "too_many" ? 429 : result.reason === "access_off" ? 403 : 401 });
   }
   throw redirect(safeNext(parsed.data.next, result.home), { headers: result.headers });
 }
@@ -59,11 +61,6 @@ export default function Login({ loaderData, actionData }: Route.ComponentProps) 
           You are signed out.
         </p>
       )}
-      {loaderData.joined && (
-        <p role="status" className="mb-4 rounded-lg bg-within-soft p-3 text-within">
-          You have joined {loaderData.joined}. Sign in to start.
-        </p>
-      )}
       {actionData?.formError && (
         <p role="alert" className="mb-4 rounded-lg bg-out-soft p-3 font-semibold text-out">
           {actionData.formError}
@@ -77,6 +74,11 @@ export default function Login({ loaderData, actionData }: Route.ComponentProps) 
           {busy ? "Signing in…" : "Sign in"}
         </button>
       </Form>
+      <p className="mt-6">
+        <Link to="/forgot-password" className="inline-flex min-h-11 items-center font-semibold">
+          Forgot your password?
+        </Link>
+      </p>
     </main>
   );
 }

@@ -20,7 +20,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "meters.manage");
   await updateMeter(ctx, params.meterId, await readForm(request, meterInput));
   return redirect("/meters");
 });

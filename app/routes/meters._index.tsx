@@ -22,7 +22,7 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
 const retireForm = z.object({ intent: z.enum(["retire", "restore"]), id: z.string().uuid("Choose a meter.") });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "meters.manage");
   const input = await readForm(request, (values) => (values.intent ? retireForm : meterInput));
   if ("intent" in input) {
     await setMeterRetired(ctx, input.id, input.intent === "retire");

@@ -1,5 +1,5 @@
 // /outbox — what the shop has e-mailed (service reports, invitations), as the local mail catcher
-// received it. Owners and leads.
+// received it (demo and test setups), each report linked to its page. Owners and leads.
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
 import { page } from "~/lib/route.server";
@@ -21,9 +21,9 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Outbox</h1>
       {!enabled ? (
-        <p className="card">This server sends mail straight to your mail server, which keeps the copies. The outbox lists messages only where Cluepath runs with its local mail catcher (demo and test setups).</p>
+        <p className="card">Cluepath hands the shop's mail to your mail server, which keeps the sent copies: look for them there. This list is kept only on demo and test setups.</p>
       ) : (
-        <p className="text-ink-soft">Messages sent for your shop, newest first, as the local mail catcher received them.</p>
+        <p className="text-ink-soft">What Cluepath has e-mailed for your shop, newest first.</p>
       )}
       {enabled && messages.length === 0 && <p className="card">Nothing sent yet.</p>}
       <ul className="space-y-3">
@@ -36,7 +36,7 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
                   To {m.to.join(", ")} · {atShop(m.receivedAt, loaderData.tz)}
                   {m.attachments.length > 0 ? ` · ${m.attachments.length} attachment${m.attachments.length === 1 ? "" : "s"}` : ""}
                 </p>
-                <p className="mt-1 text-base font-semibold text-copper-dark underline">Show the message</p>
+                <p className="mt-1 flex min-h-11 items-center text-base font-semibold text-copper-dark underline">Show the message</p>
               </summary>
               <pre className="mt-3 overflow-x-auto whitespace-pre-wrap rounded-lg bg-paper p-3 font-sans text-base">{m.text}</pre>
               {m.attachments.length > 0 && (
@@ -49,6 +49,11 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
                 </ul>
               )}
             </details>
+            {m.reportId && (
+              <a href={`/reports/${m.reportId}`} className="tap font-semibold">
+                Open the report
+              </a>
+            )}
           </li>
         ))}
       </ul>

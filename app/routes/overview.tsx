@@ -1,40 +1,23 @@
-import { NotYet } from "~/components/Placeholder";
+import { Overview } from "~/components/insights/Overview";
 import { requireUser } from "~/lib/auth.server";
+import { atShop } from "~/lib/display";
+import { filtersQuery, parseFilters } from "~/lib/insights/filters";
 import { page } from "~/lib/route.server";
-import { shopCounts } from "~/models/equipment.server";
+import { overview } from "~/models/insights/overview.server";
 import type { Route } from "./+types/overview";
 
 export const meta: Route.MetaFunction = () => [{ title: "Overview · Cluepath" }];
+export const handle = { wide: true };
 
 export const loader = page(async ({ request }: Route.LoaderArgs) => {
-  const user = await requireUser(request);
-  return { counts: await shopCounts(user.ctx), shopName: user.shopName };
+  const { ctx } = await requireUser(request, "shop.overview");
+  const { filters, errors } = parseFilters(new URL(request.url).searchParams);
+  const data = await overview(ctx, filters);
+  const { start, end, timeZone } = data.period;
+  const last = new Date(Date.parse(end) - 1);
+  return { ...data, filters, errors, query: filtersQuery(filters), periodText: `from ${atShop(new Date(start), timeZone, "date")} to ${atShop(last, timeZone, "date")}` };
 });
 
-export default function OwnerHome({ loaderData }: Route.ComponentProps) {
-  const { counts } = loaderData;
-  const tiles = [
-    { label: "People", value: counts.people },
-    { label: "Customers", value: counts.customers },
-    { label: "Sites", value: counts.sites },
-    { label: "Equipment units", value: counts.units },
-  ];
-  return (
-    <div className="space-y-4">
-      <h1 className="text-2xl font-bold">Overview</h1>
-      <p className="text-ink-soft">{loaderData.shopName} at a glance.</p>
-      <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4">
-        {tiles.map((t) => (
-          <div key={t.label} className="card">
-            <dt className="text-sm text-ink-soft">{t.label}</dt>
-            <dd className="text-3xl font-bold">{t.value}</dd>
-          </div>
-        ))}
-      </dl>
-      <NotYet title="Root causes and first-time fixes">
-        The most common root causes by equipment and symptom, first-time-fix rate, time to diagnose and parts used
-        will appear once technicians record runs.
-      </NotYet>
-    </div>
-  );
+export default function OverviewRoute({ loaderData }: Route.ComponentProps) {
+  return <Overview data={loaderData} />;
 }

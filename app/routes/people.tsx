@@ -2,9 +2,13 @@ import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
+import { MemberCard } from "~/components/MemberCard";
+import { Notice } from "~/components/PublicPage";
 import { requireUser } from "~/lib/auth.server";
+import { clientAddress, publicLink } from "~/lib/http.server";
 import { form, page, readForm } from "~/lib/route.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
+import { resetMemberSignIn, setMemberActive, setMemberRole } from "~/models/members.server";
 import { invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "~/models/people.server";
 import type { Route } from "./+types/people";
 
@@ -13,7 +17,10 @@ export const meta: Route.MetaFunction = () => [{ title: "People · Cluepath" }];
 export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const [members, invitations] = await Promise.all([listMembers(ctx), listOpenInvitations(ctx)]);
-  return { members, invitations };
+  return {
+    members: members.map(({ deactivatedAt, ...m }) => ({ ...m, active: deactivatedAt === null, you: m.userId === ctx.userId })),
+    invitations,
+  };
 });
 
 const inviteForm = z.object({
@@ -22,16 +29,52 @@ const inviteForm = z.object({
   role: z.enum(ROLES, { message: "Choose a role." }),
 });
 const revokeForm = z.object({ intent: z.literal("revoke"), id: z.string().uuid("That invitation was not found.") });
+const person = z.string().uuid("That person was not found.");
+const memberForms = {
+  role: z.object({ intent: z.literal("role"), userId: person, role: z.enum(ROLES, { message: "Choose a role." }) }),
+  deactivate: z.object({ intent: z.literal("deactivate"), userId: person }),
+  reactivate: z.object({ intent: z.literal("reactivate"), userId: person }),
+  reset: z.object({ intent: z.literal("reset"), userId: person }),
+};
+const pick = (values: Record<string, string>) =>
+  values.intent === "revoke" ? revokeForm : Object.hasOwn(memberForms, values.intent ?? "") ? memberForms[values.intent as keyof typeof memberForms] : inviteForm;
 
-export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
-  const input = await readForm(request, (values) => (values.intent === "revoke" ? revokeForm : inviteForm));
-  if (input.intent === "revoke") {
-    await revokeInvitation(ctx, input.id);
-    return { ok: true as const, kind: "revoked" as const };
+export const action = form(async ({ request, context }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request, "people.manage");
+  const address = clientAddress(context);
+  const input = await readForm(request, pick);
+  switch (input.intent) {
+    case "revoke":
+      await revokeInvitation(ctx, input.id);
+      return { ok: true as const, kind: "revoked" as const };
+    case "role": {
+      const { changed, name } = await setMemberRole(ctx, input.userId, input.role, address);
+      return { ok: true as const, kind: "member" as const, done: changed ? `${name} is now ${ROLE_LABEL[input.role]}.` : `${name} already is ${ROLE_LABEL[input.role]}.` };
+    }
+    case "deactivate":
+    case "reactivate": {
+      const on = input.intent === "reactivate";
+      const { sessionsEnded, name } = await setMemberActive(ctx, input.userId, on, address);
+      const ended = sessionsEnded ? ` and was signed out (${sessionsEnded} session${sessionsEnded === 1 ? "" : "s"})` : "";
+      return {
+        ok: true as const,
+        kind: "member" as const,
+        done: on ? `${name}'s access is back on: they can sign in again.` : `${name}'s access is off${ended}. Their runs and reports stay.`,
+      };
+    }
+    case "reset": {
+      const r = await resetMemberSignIn(ctx, input.userId, (token) => publicLink(request, `/reset-password/${token}`), address);
+      return {
+        ok: true as const,
+        kind: "member" as const,
+        done: `${r.sessionsEnded ? `${r.name} is signed out (${r.sessionsEnded} session${r.sessionsEnded === 1 ? "" : "s"}). ` : ""}${
+          r.mailed ? `We e-mailed ${r.email} a link to set a new password (valid 30 minutes).` : `The mail server did not take the message to ${r.email}; try Reset sign-in again in a moment.`
+        }`,
+      };
+    }
   }
   const { token } = await invite(ctx, input.email, input.role);
-  const link = new URL(`/invite/${token}`, request.url).toString();
+  const link = publicLink(request, `/invite/${token}`);
   const mailed = await sendInvitationMail(ctx, input.email, input.role, link);
   return { ok: true as const, kind: "invited" as const, email: input.email, link, mailed };
 });
@@ -76,16 +119,15 @@ export default function People({ loaderData, actionData }: Route.ComponentProps)
           </button>
         </Form>
       </section>
-      <section>
-        <h2 className="mb-2 text-lg font-bold">Members</h2>
+      <section aria-labelledby="members">
+        <h2 id="members" className="mb-2 text-lg font-bold">
+          Members
+        </h2>
+        {actionData?.ok && actionData.kind === "member" && <Notice kind="done">{actionData.done}</Notice>}
+        {invalid && invalid.values.intent !== "invite" && <Notice kind="problem">{invalid.message}</Notice>}
         <ul className="space-y-2">
           {loaderData.members.map((m) => (
-            <li key={m.userId} className="card flex flex-wrap justify-between gap-2">
-              <span>
-                <span className="font-semibold">{m.name}</span> <span className="text-ink-soft">{m.email}</span>
-              </span>
-              <span className="font-semibold">{ROLE_LABEL[m.role]}</span>
-            </li>
+            <MemberCard key={m.userId} m={m} busy={busy} />
           ))}
         </ul>
       </section>

@@ -1,5 +1,6 @@
 // /reports/:reportId — the service report: printable (print stylesheet), e-mailed to the site contact.
-import { Form, useNavigation } from "react-router";
+import { useFetcher } from "react-router";
+import { SendAgain } from "~/components/report/SendAgain";
 import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
 import { reportMailHtml } from "~/components/report/reportMail";
 import { requireUser } from "~/lib/auth.server";
@@ -22,51 +23,54 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   return { ok: true as const, to };
 });
 
-export default function Report({ loaderData, actionData }: Route.ComponentProps) {
+export default function Report({ loaderData }: Route.ComponentProps) {
   const { report } = loaderData;
-  const busy = useNavigation().state !== "idle";
+  const fetcher = useFetcher<typeof action>();
+  const pending = fetcher.state !== "idle";
+  const result = fetcher.data;
+  const send = () => fetcher.submit(null, { method: "post" });
+  const contact = report.site ? `${report.site.contactName} (${report.site.contactEmail})` : "";
   return (
-    <div className="min-h-dvh bg-paper print:bg-white">
+    <main className="min-h-dvh bg-paper print:bg-white">
       <style>{REPORT_CSS}</style>
-      <div className="mx-auto flex max-w-3xl flex-wrap items-center justify-between gap-2 px-4 py-3 print:hidden">
-        <a href={`/runs/${report.runId}`} className="flex min-h-12 items-center font-semibold">
-          ← Back to the run
-        </a>
-        <div className="flex flex-wrap gap-2">
-          <button type="button" className="btn-quiet" onClick={() => window.print()}>
-            Print
-          </button>
-          {report.site && (
-            <Form method="post">
-              <button className="btn-primary" disabled={busy}>
-                {report.sentAt ? "E-mail again" : "E-mail"} to {report.site.contactName}
+      <div className="mx-auto max-w-3xl space-y-3 px-4 py-3 print:hidden">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <a href={`/runs/${report.runId}`} className="flex min-h-12 items-center font-semibold">
+            ← Back to the run
+          </a>
+          <div className="flex flex-wrap gap-2">
+            <button type="button" className="btn-quiet" onClick={() => window.print()}>
+              Print
+            </button>
+            {report.site && !report.sentAt && (
+              <button type="button" className="btn-primary" disabled={pending} onClick={send}>
+                {pending ? "Sending…" : `E-mail to ${report.site.contactName}`}
               </button>
-            </Form>
-          )}
+            )}
+          </div>
         </div>
-      </div>
-      <div className="mx-auto max-w-3xl px-4 print:hidden">
-        {actionData?.ok === true && (
-          <p role="status" className="mb-3 rounded-lg bg-within-soft p-3 font-semibold text-within">
-            Sent to {actionData.to}.
+        {result?.ok === true && (
+          <p role="status" className="rounded-lg bg-within-soft p-3 font-semibold text-within">
+            Sent to {result.to}.
           </p>
         )}
-        {actionData?.ok === false && (
-          <p role="alert" className="mb-3 rounded-lg bg-out-soft p-3 font-semibold text-out">
-            {actionData.message}
+        {result?.ok === false && (
+          <p role="alert" className="rounded-lg bg-out-soft p-3 font-semibold text-out">
+            {result.message}
           </p>
         )}
-        {report.sentAt && !actionData && (
-          <p className="mb-3 text-ink-soft">
+        {report.sentAt && !result && (
+          <p className="text-ink-soft">
             Last e-mailed to {report.sentTo} on {atShop(report.sentAt, report.shop.timeZone)}.
           </p>
         )}
+        {report.site && report.sentAt && <SendAgain contact={contact} pending={pending} send={send} />}
       </div>
       <div className="mx-auto max-w-3xl px-4 pb-8 print:px-0">
         <div className="rounded-xl border border-rule bg-card print:border-0">
           <ReportDocument report={report} photoSrc={(id) => `/api/photos/${id}`} />
         </div>
       </div>
-    </div>
+    </main>
   );
 }

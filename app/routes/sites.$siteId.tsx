@@ -1,4 +1,5 @@
 // /sites/:siteId — a site (address, the contact who gets service reports) and its units.
+import { categoryLabel } from "~/components/editor/kinds";
 import { requireUser } from "~/lib/auth.server";
 import { can } from "~/lib/policy";
 import { page } from "~/lib/route.server";
@@ -18,7 +19,9 @@ export default function Site({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-4">
       <p>
-        <a href={`/customers/${customer.id}`}>← {customer.name}</a>
+        <a href={`/customers/${customer.id}`} className="tap">
+          ← {customer.name}
+        </a>
       </p>
       <h1 className="text-2xl font-bold">{site.name}</h1>
       <dl className="card grid grid-cols-[7rem_1fr] gap-x-3 gap-y-2">
@@ -31,7 +34,9 @@ export default function Site({ loaderData }: Route.ComponentProps) {
       </dl>
       {loaderData.canEdit && (
         <p>
-          <a href={`/sites/${site.id}/edit`}>Edit the site</a>
+          <a href={`/sites/${site.id}/edit`} className="tap">
+            Edit the site
+          </a>
         </p>
       )}
       <div className="flex items-center justify-between">
@@ -47,13 +52,15 @@ export default function Site({ loaderData }: Route.ComponentProps) {
       ) : (
         <ul className="space-y-2">
           {units.map((u) => (
-            <li key={u.id} className="card">
-              <a href={`/equipment/${u.id}`} className="font-semibold">
-                {u.make} {u.model}
+            <li key={u.id}>
+              <a href={`/equipment/${u.id}`} className="card block text-ink no-underline hover:border-copper">
+                <span className="font-semibold text-copper-dark underline">
+                  {u.make} {u.model}
+                </span>
+                <span className="block text-ink-soft">
+                  {categoryLabel(u.category)} · serial {u.serial}
+                </span>
               </a>
-              <p className="text-ink-soft">
-                {u.category} · serial {u.serial}
-              </p>
             </li>
           ))}
         </ul>

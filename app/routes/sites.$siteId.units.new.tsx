@@ -25,7 +25,7 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "equipment.write");
   const input = await readForm(request, unitInput);
   if (params.unitId) {
     await updateUnit(ctx, params.unitId, input);

@@ -5,6 +5,7 @@ import type { Finding } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { form, page, readForm } from "~/lib/route.server";
 import { treeIdOf } from "~/lib/tree-params.server";
+import { shopTimeZone } from "~/models/shop.server";
 import { openEditor } from "~/models/trees/editor.server";
 import { publishDraft } from "~/models/trees/publish.server";
 import type { Route } from "./+types/trees.$treeId.edit";
@@ -14,10 +15,10 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Editing ${data?
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
-  const editor = await openEditor(ctx, treeId);
+  const [editor, timeZone] = await Promise.all([openEditor(ctx, treeId), shopTimeZone(ctx)]);
   // No open draft (published meanwhile, or never started): the tree page offers to start one.
   if (!editor) throw redirect(`/trees/${treeId}`);
-  return { treeId, ...editor };
+  return { treeId, ...editor, timeZone };
 });
 
 const Publish = z.object({
@@ -27,7 +28,7 @@ const Publish = z.object({
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const treeId = treeIdOf(params);
   const input = await readForm(request, Publish);
   const { number } = await publishDraft(ctx, treeId, input.revision, input.changeNote);

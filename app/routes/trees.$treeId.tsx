@@ -51,7 +51,7 @@ const Intent = z.discriminatedUnion(
 );
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const treeId = treeIdOf(params);
   const input = await readForm(request, Intent);
   if (input.intent === "start-draft") {

@@ -106,7 +106,7 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
                 {COLUMNS.map((c) => (
                   <th key={c.label} scope="col" className="px-3 py-2 font-semibold" aria-sort={c.key && c.key === sort ? (dir === "asc" ? "ascending" : "descending") : undefined}>
                     {c.key ? (
-                      <Link to={sortHref(c.key)} className="font-semibold text-ink no-underline hover:underline">
+                      <Link to={sortHref(c.key)} className="tap font-semibold text-ink no-underline hover:underline">
                         {c.label}
                         {c.key === sort && <span aria-hidden="true">{dir === "asc" ? " ▲" : " ▼"}</span>}
                       </Link>
@@ -121,7 +121,9 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
               {rows.map((r) => (
                 <tr key={r.treeId} className="border-b border-rule align-top last:border-0">
                   <td className="px-3 py-2 font-semibold">
-                    <Link to={`/trees/${r.treeId}`}>{r.title}</Link>
+                    <Link to={`/trees/${r.treeId}`} className="tap">
+                      {r.title}
+                    </Link>
                   </td>
                   <td className="px-3 py-2">{categoryLabel(r.category)}</td>
                   <td className="px-3 py-2 text-base">{r.symptom}</td>
@@ -138,7 +140,7 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
           <ul className="space-y-2 md:hidden" aria-label="Trees">
             {rows.map((r) => (
               <li key={r.treeId} className="card space-y-1">
-                <Link to={`/trees/${r.treeId}`} className="text-lg font-semibold">
+                <Link to={`/trees/${r.treeId}`} className="tap text-lg font-semibold">
                   {r.title}
                 </Link>
                 <p className="text-base">{r.symptom}</p>

@@ -22,7 +22,7 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
 });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const upload = await readUploadForm(request, {
     maxBytes: MAX_TREE_FILE,
     tooLarge: "That file is larger than 1 MB; a tree file is a few kilobytes.",

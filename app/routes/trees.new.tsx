@@ -28,7 +28,7 @@ const NewTree = z.object({
 });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
+  const { ctx } = await requireUser(request, "trees.author");
   const { treeId } = await createDraftTree(ctx, emptyTree(await readForm(request, NewTree)));
   return redirect(`/trees/${treeId}/edit`);
 });

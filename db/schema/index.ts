@@ -3,3 +3,5 @@ export * from "./equipment";
 export * from "./trees";
 export * from "./runs";
 export * from "./audit";
+export * from "./insights";
+export * from "./training";

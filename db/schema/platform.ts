@@ -45,6 +45,8 @@ export const memberships = mysqlTable(
     userId: uuidRef("user_id").notNull().references(() => users.id),
     role: mysqlEnum("role", ROLES).notNull(),
     createdAt: createdAt(),
+    /** Set while the owner has turned this person's access to the shop off; their work stays. */
+    deactivatedAt: timestamp("deactivated_at"),
   },
   (t) => [uniqueIndex("memberships_shop_user_uq").on(t.shopId, t.userId)],
 );
@@ -78,9 +80,36 @@ export const sessions = mysqlTable(
     createdAt: createdAt(),
     expiresAt: timestamp("expires_at").notNull(),
     revokedAt: timestamp("revoked_at"),
+    /** For the person's list of sessions: last request, at most every few minutes (LAST_SEEN_MINUTES). */
+    lastSeenAt: timestamp("last_seen_at"),
+    /** The browser's User-Agent at sign-in, shortened; shown as "Chrome on Android". */
+    userAgent: varchar("user_agent", { length: 400 }),
+    /** The client's address at sign-in. */
+    address: varchar("address", { length: 64 }),
   },
   (t) => [index("sessions_user_idx").on(t.userId)],
 );
+
+/** Links to set a new password ("forgot your password?", or sent by an owner). Single use, short-lived. */
+export const passwordResets = mysqlTable(
+  "password_resets",
+  {
+    id: uuidPk(),
+    userId: uuidRef("user_id").notNull().references(() => users.id),
+    /** SHA-256 of the token in the link; the token itself is never stored. */
+    tokenHash: varchar("token_hash", { length: 64 }).notNull(),
+    /** The owner who sent it; null when the person asked for it themselves. */
+    requestedBy: uuidRef("requested_by").references(() => users.id),
+    createdAt: createdAt(),
+    expiresAt: timestamp("expires_at").notNull(),
+    /** Set when the link is used, or when another link or a password change makes it void. */
+    usedAt: timestamp("used_at"),
+  },
+  (t) => [uniqueIndex("password_resets_token_uq").on(t.tokenHash), index("password_resets_user_idx").on(t.userId)],
+);
+
+export const ATTEMPT_PURPOSES = ["sign-in", "password-reset"] as const;
+export type AttemptPurpose = (typeof ATTEMPT_PURPOSES)[number];
 
 /** Sign-in attempts, for the rate limit. Keyed by normalised e-mail and client address. */
 export const signInAttempts = mysqlTable(
@@ -91,6 +120,8 @@ export const signInAttempts = mysqlTable(
     address: varchar("address", { length: 64 }).notNull(),
     succeeded: boolean("succeeded").notNull(),
     at: timestamp("at").notNull(),
+    /** Which limit the attempt counts against: signing in, or asking for a password-reset link. */
+    purpose: mysqlEnum("purpose", ATTEMPT_PURPOSES).notNull().default("sign-in"),
   },
   (t) => [index("sign_in_attempts_email_at_idx").on(t.email, t.at), index("sign_in_attempts_address_at_idx").on(t.address, t.at)],
 );

@@ -56,6 +56,8 @@ export const serviceCalls = mysqlTable(
     index("service_calls_shop_status_idx").on(t.shopId, t.status),
     index("service_calls_assigned_idx").on(t.assignedTo, t.status),
     index("service_calls_unit_idx").on(t.unitId),
+    // Owner insights: "no new call on the same unit within 30 days" probes this per closed call.
+    index("service_calls_unit_opened_idx").on(t.shopId, t.unitId, t.openedAt),
   ],
 );
 
@@ -139,6 +141,8 @@ export const runSteps = mysqlTable(
     siValue: double("si_value"),
     siUnit: varchar("si_unit", { length: 16 }),
     verdict: mysqlEnum("verdict", STEP_VERDICTS),
+    /** On a practice reading: the trainee's own call, the branch the run followed (the verdict is the engine's). */
+    call: mysqlEnum("trainee_call", STEP_VERDICTS),
     limitsLo: double("limits_lo"),
     limitsHi: double("limits_hi"),
     /** The limits the engine applied, as computed (text, derivation, formulas). */

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { stableId } from "../../db/seed";
 import { launchBrowser, PHONE, signInAs } from "../support/browser";
+import { freePort } from "../support/e2e-setup";
 
 const baseUrl = inject("baseUrl");
 const secondBaseUrl = inject("secondBaseUrl");
@@ -22,7 +23,7 @@ describe("health", () => {
 
   it("answers 503 with db:'down' when MariaDB is unreachable", async () => {
     // A server pointed at a port where nothing listens.
-    const port = 40000 + (process.pid % 20000);
+    const port = await freePort();
     const child = spawn(process.execPath, ["server.js"], {
       env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: "mysql://root@127.0.0.1:9/nowhere", NODE_ENV: "production", AUTH_SECRET: "x".repeat(40) },
       stdio: "ignore",

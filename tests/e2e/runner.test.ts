@@ -1,19 +1,20 @@
 // A technician works the demo call on the two-fan rotisserie end to end on a phone-sized browser:
 // cautions, the supply reading, the fans, the run capacitor (1.47 µF, then 1470 nF after going
 // back), a photo, the root cause, parts, and the report e-mailed to the site contact.
-// Screenshots of every runner screen go to tests/screenshots/runner-*.png.
+// Screenshots of every runner screen go to tests/screenshots/runner-*.png. Each test makes its own
+// call or finished run (tests/support/fixtures.ts), so any one of them runs alone.
 import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { stableId } from "../../db/seed";
 import { LAPTOP, launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
+import { finishedRun, freshCall, startedRun } from "../support/fixtures";
+import { expectNoSeriousViolations, smallTargets } from "../support/a11y";
 import { TINY_PNG } from "../support/photo";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
-let runUrl = "";
-let reportUrl = "";
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -39,6 +40,7 @@ async function acknowledge(page: Page, title: string, name: string) {
   await expect(ack.textContent()).resolves.toMatch(/Acknowledges the caution ‘.+’ and goes on/);
   await expect(page.getByRole("checkbox").count()).resolves.toBe(0);
   await expect(smallTargets(page)).resolves.toEqual([]);
+  await expectNoSeriousViolations(page, `the caution “${title}”`);
   await ack.scrollIntoViewIfNeeded();
   await snap(page, name);
   // Tapped from wherever the page stands (the tap must not be lost to a scroll on focus).
@@ -48,26 +50,6 @@ async function acknowledge(page: Page, title: string, name: string) {
 
 async function saved(page: Page) {
   await page.getByRole("status").filter({ hasText: "✓ Saved" }).waitFor({ timeout: 10_000 });
-}
-
-/**
- * Controls smaller than 44×44 CSS px (WCAG 2.2 SC 2.5.5, target size, enhanced). Links inside a
- * sentence are exempt (the SC's "inline" exception); a control drawn by its label (radio cards,
- * the camera input) is measured by the label.
- */
-async function smallTargets(page: Page): Promise<string[]> {
-  return page.evaluate(() => {
-    const out: string[] = [];
-    for (const el of document.querySelectorAll<HTMLElement>("a[href], button, input, select, textarea, summary")) {
-      if (el.closest("p, li") && el.tagName === "A") continue;
-      const box = el.closest("label") ?? el;
-      const r = box.getBoundingClientRect();
-      const style = getComputedStyle(box);
-      if (r.width === 0 || r.height === 0 || style.visibility === "hidden") continue;
-      if (r.width < 44 || r.height < 44) out.push(`${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`);
-    }
-    return out;
-  });
 }
 
 /** Whether `selector`'s element lies wholly between the sticky header and the bottom bar (or the window's foot). */
@@ -116,6 +98,7 @@ function mailFor(subjectStart: string) {
 
 describe("the phone runner (390×844)", () => {
   it("a technician works the rotisserie call from My calls to the e-mailed service report", async () => {
+    const call = await freshCall("rotisserie", "heats unevenly");
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     const editorChunks: string[] = [];
@@ -128,13 +111,12 @@ describe("the phone runner (390×844)", () => {
     await page.waitForURL(`${baseUrl}/calls`);
     await snap(page, "my-calls", true);
 
-    await page.getByRole("link", { name: /Call 1041: heats unevenly/ }).click();
+    await page.getByRole("link", { name: new RegExp(`^Call ${call.number} .*“heats unevenly”`) }).click();
     await page.waitForURL(/\/calls\/[0-9a-f-]{36}$/);
     await page.getByText("Best match for “heats unevenly”").waitFor();
     await snap(page, "call", true);
-    await page.getByRole("button", { name: "Start: Two-fan convection rotisserie heats unevenly" }).click();
+    await page.getByRole("button", { name: "Start this procedure: Two-fan convection rotisserie heats unevenly" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
-    runUrl = page.url();
 
     // Three cautions, each with the safety wording and an explicit acknowledgement.
     await snap(page, "start");
@@ -154,6 +136,7 @@ describe("the phone runner (390×844)", () => {
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits").waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
+    await expectNoSeriousViolations(page, "the supply measurement with its verdict");
     // The verdict is a live region right under the field. With the phone's keyboard open (here the
     // window made 364 px shorter, as a keyboard that resizes the page does) it stays in view.
     await expect(page.getByRole("status").filter({ hasText: "Within limits" }).count()).resolves.toBe(1);
@@ -177,16 +160,16 @@ describe("the phone runner (390×844)", () => {
     await snap(page, "supply-reading");
     await page.keyboard.press("Enter");
 
-    // One fan slow, the other stopped: the question has that answer; the note says which is which.
+    // One fan slow: the single-fan walk (both fans' walk after "one slow, one stopped" is the engine's unit test).
     await atStep(page, "With the elements heating, do both convection fans run at full speed?");
     await expect(page.getByLabel("Last reading").getByText(/208 V — within 191–218 V/).isVisible()).resolves.toBe(true);
     await page.getByRole("button", { name: "Note", exact: true }).click();
-    await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan hums but is stopped.");
+    await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan at full speed.");
     await page.getByRole("button", { name: "Save note" }).click();
-    await page.getByText("Left fan runs slow; right fan hums but is stopped.").waitFor();
+    await page.getByText("Left fan runs slow; right fan at full speed.").waitFor();
     await saved(page);
     await snap(page, "fans-question");
-    await page.getByRole("button", { name: "One slow, one stopped", exact: true }).click();
+    await page.getByRole("button", { name: "One slow", exact: true }).click();
 
     await acknowledge(page, "Power down again and discharge the capacitor", "caution-cap");
 
@@ -260,6 +243,7 @@ describe("the phone runner (390×844)", () => {
 
     // The report, e-mailed to the site contact.
     await page.getByRole("heading", { level: 1, name: /^Job finished/ }).waitFor();
+    await expectNoSeriousViolations(page, "the job-finished screen");
     await snap(page, "finished", true);
     await page.getByRole("button", { name: "E-mail the report to Hal Brennick" }).click();
     await page.getByText("✓ E-mailed to deli@larkspur.example").waitFor();
@@ -273,7 +257,7 @@ describe("the phone runner (390×844)", () => {
     await expect(page.evaluate(() => document.activeElement?.textContent)).resolves.toBe("Send it again…");
     await expect(smallTargets(page)).resolves.toEqual([]);
     await snap(page, "report-sent");
-    reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
+    const reportUrl = (await page.getByRole("link", { name: "Open the report" }).getAttribute("href")) ?? "";
     expect(reportUrl).toMatch(/^\/reports\/[0-9a-f-]{36}$/);
 
     const number = (await page.getByRole("heading", { name: /Service report R-\d{4}/ }).textContent())!.replace("Service report ", "");
@@ -292,19 +276,30 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("the report page shows the readings table with verdicts and limits, the photo and the cautions; prints without the toolbar", async () => {
-    expect(reportUrl).not.toBe("");
+    const { reportPath } = await finishedRun({ send: true });
     for (const [size, viewport] of [["phone", PHONE], ["laptop", LAPTOP]] as const) {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();
       await signInAs(page, baseUrl, "tech@tinderbox.example");
       await page.waitForURL(`${baseUrl}/calls`);
-      await page.goto(`${baseUrl}${reportUrl}`);
+      await page.goto(`${baseUrl}${reportPath}`);
       const table = page.getByRole("table").filter({ hasText: "Meter accuracy" });
       await expect(table.getByRole("row").count()).resolves.toBe(3);
       await expect(table.getByRole("row", { name: /Run capacitor against its rating/ }).textContent()).resolves.toMatch(/1470 nF \(1\.47 µF\).*Within limits.*1\.41–1\.59 µF/);
       await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(true);
       const img = page.getByRole("img", { name: "Photo at: Run capacitor against its rating" });
       await expect(img.evaluate((el) => (el as HTMLImageElement).naturalWidth)).resolves.toBe(1);
+      // The report page is a page of its own (outside the shell): it has its own main landmark.
+      await expect(page.getByRole("main").count()).resolves.toBe(1);
+      await expectNoSeriousViolations(page, `the report page (${size})`);
+      await expect(smallTargets(page)).resolves.toEqual([]);
+      // Sent already: no primary e-mail button; sending again is the quiet button that asks first.
+      await expect(page.getByRole("button", { name: /^E-mail/ }).count()).resolves.toBe(0);
+      await page.getByRole("button", { name: "Send it again…" }).click();
+      await page.getByText("Send the report to Hal Brennick (deli@larkspur.example) again? They already have it.").waitFor();
+      await snap(page, `report-send-again-asks-${size}`);
+      await page.getByRole("button", { name: "No", exact: true }).click();
+      await page.getByRole("button", { name: "Send it again…" }).waitFor();
       await snap(page, `report-${size}`, true);
       if (size === "laptop") {
         await page.emulateMedia({ media: "print" });
@@ -316,11 +311,12 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("at laptop size: the lead reads the finished run, and the owner sees the report in the outbox", async () => {
+    const run = await finishedRun({ send: true });
     const lead = await browser.newContext({ viewport: LAPTOP });
     const page = await lead.newPage();
     await signInAs(page, baseUrl, "lead@tinderbox.example");
     await page.waitForURL(`${baseUrl}/authoring`);
-    await page.goto(runUrl);
+    await page.goto(`${baseUrl}${run.path}`);
     await page.getByText("Job finished").waitFor();
     await expect(page.getByRole("region", { name: "Steps so far" }).getByText("(taken back)").count()).resolves.toBe(1);
     await snap(page, "lead-reads-run-laptop", true);
@@ -342,17 +338,22 @@ describe("the phone runner (390×844)", () => {
     await op.waitForURL(`${baseUrl}/overview`);
     await op.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
     await op.waitForURL(`${baseUrl}/outbox`);
-    await op.getByText(/^Service report R-\d{4} — Vantor RCF-2208/).first().waitFor();
+    await op.getByText(`Service report ${run.reportNumber} — Vantor RCF-2208`, { exact: false }).first().waitFor();
+    // Each report mail links to its report; the page speaks of what was sent, not of the catcher.
+    const links = await op.getByRole("link", { name: "Open the report" }).evaluateAll((els) => els.map((e) => e.getAttribute("href")));
+    expect(links).toContain(run.reportPath);
+    await expect(op.getByText(/mail catcher/).count()).resolves.toBe(0);
     await snap(op, "outbox-laptop");
     await owner.close();
   });
 
   it("another shop cannot open the run, and the fryer call lists its own procedures first; the technician's phone never sees another shop's run", async () => {
+    const run = await startedRun();
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "tech@pellham.example");
     await page.waitForURL(`${baseUrl}/calls`);
-    const res = await page.goto(runUrl);
+    const res = await page.goto(`${baseUrl}${run.path}`);
     expect(res?.status()).toBe(404);
     await context.close();
 
@@ -367,13 +368,14 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("pause and resume keep the run; escalating hands it to a lead, who reads it on a phone and takes it over", async () => {
+    const call = await freshCall("griddle", "right-hand section stays cold");
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "tech@tinderbox.example");
     await page.waitForURL(`${baseUrl}/calls`);
-    await page.goto(`${baseUrl}/calls/all?q=1043`);
-    await page.getByRole("link", { name: "Call 1043" }).click();
-    await page.getByRole("button", { name: "Start: Electric griddle section does not heat" }).click();
+    await page.goto(`${baseUrl}/calls/all?q=${call.number}`);
+    await page.getByRole("link", { name: `Call ${call.number}` }).click();
+    await page.getByRole("button", { name: "Start this procedure: Electric griddle section does not heat" }).click();
     await page.waitForURL(/\/runs\//);
     const griddleRun = page.url();
     await acknowledge(page, "Hot plate and live terminals", "griddle-caution");
@@ -405,12 +407,14 @@ describe("the phone runner (390×844)", () => {
     await signInAs(lp, baseUrl, "lead@tinderbox.example");
     await lp.waitForURL(`${baseUrl}/authoring`);
     await lp.goto(`${baseUrl}/calls/all`);
-    await lp.getByText("1 run is waiting for a lead.").waitFor();
+    // Other tests' runs may be waiting too: this one is found by its link.
+    await lp.getByText(/^\d+ runs? (is|are) waiting for a lead\.$/).waitFor();
     await lp.getByRole("link", { name: "Escalations" }).click();
-    await lp.getByText("“Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.”").waitFor();
-    await expect(lp.getByText(/stopped at “Turn the cold section's thermostat to maximum/).isVisible()).resolves.toBe(true);
+    const escalation = lp.getByRole("listitem").filter({ has: lp.locator(`a[href="${new URL(griddleRun).pathname}"]`) });
+    await escalation.getByText("“Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.”").waitFor();
+    await expect(escalation.getByText(/stopped at “Turn the cold section's thermostat to maximum/).isVisible()).resolves.toBe(true);
     await snap(lp, "escalations-phone", true);
-    await lp.getByRole("link", { name: "Read the run" }).click();
+    await escalation.getByRole("link", { name: "Read the run" }).click();
     await lp.waitForURL(griddleRun);
     await expect(lp.getByRole("region", { name: "Steps so far" }).getByText("Hot plate and live terminals").isVisible()).resolves.toBe(true);
     await lp.getByRole("button", { name: "Take over this run" }).click();
@@ -421,6 +425,7 @@ describe("the phone runner (390×844)", () => {
   });
 
   it("at laptop size a lead finds a customer, opens its site and unit, sees field errors on the forms, and adds a meter", async () => {
+    const { partNumber } = await finishedRun();
     const context = await browser.newContext({ viewport: LAPTOP });
     const page = await context.newPage();
     await signInAs(page, baseUrl, "lead@tinderbox.example");
@@ -436,7 +441,7 @@ describe("the phone runner (390×844)", () => {
 
     await page.goto(`${baseUrl}/equipment/${stableId("unit:larkspur-rotisserie")}`);
     await page.getByText("Failed fan motor — seized or dragging shaft").first().waitFor();
-    await expect(page.getByText(/1 × Convection fan motor, 208 V, same frame and rotation as the original \(FM-208-R\)/).isVisible()).resolves.toBe(true);
+    await expect(page.getByText(`1 × Convection fan motor, 208 V, same frame and rotation as the original (${partNumber})`).isVisible()).resolves.toBe(true);
     await snap(page, "unit-history-laptop", true);
 
     await page.goto(`${baseUrl}/calls/new`);

@@ -194,6 +194,33 @@ describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prev
     expect(api.status).toBe(403);
     expect(await api.json()).toEqual({ error: "Cross-site requests are refused." });
   });
+
+  it("a page's action sent JSON or text is refused with 415 before it runs, and one with no body reads as an empty form (never a 500)", async () => {
+    const cookie = await signIn(baseUrl, "lead@tinderbox.example");
+    for (const [path, body, type] of [
+      ["/calls/new", JSON.stringify({ symptom: "sent as JSON" }), "application/json"],
+      ["/customers/new.data", JSON.stringify({ name: "x" }), "application/json"],
+      ["/meters", "name=plain", "text/plain"],
+    ] as const) {
+      const res = await fetch(`${baseUrl}${path}`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": type }, body, redirect: "manual" });
+      expect(res.status, path).toBe(415);
+    }
+    // No body type: an empty form, so the form's own field errors (a unit to choose, a symptom).
+    const empty = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl }, redirect: "manual" });
+    expect(empty.status).toBe(400);
+    const form = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" }, body: "symptom=x", redirect: "manual" });
+    expect(form.status).toBe(400);
+  });
+
+  it("a GET to an API route that only takes POST answers 405 JSON with Allow: POST (RFC 9110 §15.5.6)", async () => {
+    const cookie = await signIn(baseUrl, "tech@tinderbox.example");
+    for (const path of ["/api/runs/00000000-0000-4000-8000-000000000000/steps", "/api/reports/00000000-0000-4000-8000-000000000000/send", "/api/trees/00000000-0000-4000-8000-000000000000/draft"]) {
+      const res = await fetch(`${baseUrl}${path}`, { headers: { cookie } });
+      expect(res.status, path).toBe(405);
+      expect(res.headers.get("allow"), path).toBe("POST");
+      expect(await res.json(), path).toEqual({ error: "Use POST." });
+    }
+  });
 });
 
 describe("page security headers (issue 9 item 8)", () => {

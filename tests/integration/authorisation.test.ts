@@ -11,13 +11,20 @@ import { stableId } from "../../db/seed";
 import { serializeTree } from "../../app/engine/markdown/serialize";
 import { reportMailHtml } from "../../app/components/report/reportMail";
 import type { Ctx } from "../../app/lib/context";
+import { parseFilters } from "../../app/lib/insights/filters";
 import { closeDb, db } from "../../app/lib/db.server";
 import { can, POLICY, type Action } from "../../app/lib/policy";
+import { DEMO_PASSWORD } from "../../db/demo";
+import * as account from "../../app/models/account.server";
 import * as audit from "../../app/models/audit.server";
 import * as calls from "../../app/models/calls.server";
 import * as equipment from "../../app/models/equipment.server";
+import * as foundHere from "../../app/models/insights/found-here.server";
+import * as insights from "../../app/models/insights/overview.server";
+import * as members from "../../app/models/members.server";
 import * as meters from "../../app/models/meters.server";
 import * as outbox from "../../app/models/outbox.server";
+import * as passwordReset from "../../app/models/password-reset.server";
 import * as people from "../../app/models/people.server";
 import * as lifecycle from "../../app/models/runs/lifecycle.server";
 import * as notes from "../../app/models/runs/notes.server";
@@ -35,6 +42,12 @@ import * as library from "../../app/models/trees/library.server";
 import * as publish from "../../app/models/trees/publish.server";
 import * as transfer from "../../app/models/trees/transfer.server";
 import * as versions from "../../app/models/trees/versions.server";
+import * as practice from "../../app/models/training/practice.server";
+import * as reviews from "../../app/models/training/reviews.server";
+import * as scenarios from "../../app/models/training/scenarios.server";
+import * as summary from "../../app/models/training/summary.server";
+import { assigned, newScenario, scenarioFields, smallPracticeAtEnd, SMALL_WORLD } from "../support/training";
+import { address, newPerson } from "../support/accounts";
 import { TINY_PNG } from "../support/photo";
 import { smallTree } from "../support/trees";
 
@@ -84,6 +97,16 @@ const publishedWithDraft = async () => {
   const t = await publishedTree();
   return { ...t, draftId: (await drafts.startDraft(lead, t.treeId)).versionId };
 };
+// Practice on the small tree: a scenario (the trainer writes it), one assigned to the technician, a
+// practice run of theirs at its end, and one finished.
+const scenario = () => newScenario(trainer, publishedTreeId, "cap-failed", SMALL_WORLD);
+const assignment = async () => assigned(trainer, tech, await scenario());
+const practiceAtEnd = () => smallPracticeAtEnd(trainer, tech, publishedTreeId);
+const practiceDone = async () => {
+  const p = await practiceAtEnd();
+  await practice.finishPractice(tech, p.runId);
+  return p;
+};
 const meterInput = { name: `Bench meter ${tag()}`, quantity: "voltage" as const, unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 };
 const site = { name: "Back kitchen", address: "1 Mill Row", contactName: "A. Person", contactEmail: "a@bakery.example" };
 const unit = { category: "oven" as const, make: "Brenmoor", model: "EO-4", serial: "X1", installedOn: null };
@@ -121,12 +144,13 @@ const ROWS: Row[] = [
   row(calls.callFormChoices, "calls.write", nothing, (c) => calls.callFormChoices(c)),
   row(calls.createCall, "calls.write", nothing, (c) => calls.createCall(c, { unitId, symptom: "no heat", priority: "low", assignedTo: null, notes: null })),
   row(calls.updateCall, "calls.write", newCall, (c, id) => calls.updateCall(c, id, { unitId, symptom: "no heat at all", priority: "high", assignedTo: null, notes: null, status: "open" })),
-  row(calls.suggestTrees, "trees.view", nothing, (c) => calls.suggestTrees(c, "rotisserie", "fan hums")),
+  row(calls.suggestTrees, "trees.view", nothing, (c) => calls.suggestTrees(c, { category: "rotisserie", make: "Vantor", model: "RCF-2208" }, "fan hums")),
   row(calls.callsOfUnit, "calls.view", nothing, (c) => calls.callsOfUnit(c, unitId)),
   // customers, sites, units
   row(equipment.getCustomer, "equipment.view", nothing, (c) => equipment.getCustomer(c, customerId)),
   row(equipment.getSite, "equipment.view", nothing, (c) => equipment.getSite(c, siteId)),
   row(equipment.getUnit, "equipment.view", nothing, (c) => equipment.getUnit(c, unitId)),
+  row(equipment.unitRatings, "equipment.view", nothing, (c) => equipment.unitRatings(c, { category: "rotisserie", nameplate: { rated_uf: { value: 1.5, unit: "µF" } } })),
   row(equipment.listUnits, "equipment.view", nothing, (c) => equipment.listUnits(c)),
   row(equipment.searchUnits, "equipment.view", nothing, (c) => equipment.searchUnits(c, { q: "rotisserie" })),
   row(equipment.listCustomers, "equipment.view", nothing, (c) => equipment.listCustomers(c, "Larkspur")),
@@ -134,6 +158,12 @@ const ROWS: Row[] = [
   row(equipment.getSiteWithCustomer, "equipment.view", nothing, (c) => equipment.getSiteWithCustomer(c, siteId)),
   row(equipment.unitsAt, "equipment.view", nothing, (c) => equipment.unitsAt(c, siteId)),
   row(equipment.shopCounts, "shop.overview", nothing, (c) => equipment.shopCounts(c)),
+  // owner insights
+  row(insights.overview, "shop.overview", nothing, (c) => insights.overview(c, parseFilters(new URLSearchParams("period=30")).filters)),
+  row(insights.overviewTable, "shop.overview", nothing, (c) => insights.overviewTable(c, parseFilters(new URLSearchParams("period=30")).filters, "parts")),
+  row(insights.runQuery, "shop.overview", nothing, (c) => insights.runQuery(c, "rootCauses", parseFilters(new URLSearchParams("period=30")).filters)),
+  row(insights.filterOptions, "shop.overview", nothing, (c) => insights.filterOptions(c, {})),
+  row(foundHere.foundHereBefore, "runs.view", publishedTree, (c, t) => foundHere.foundHereBefore(c, { versionId: t.versionId })),
   row(equipment.createCustomer, "equipment.write", nothing, (c) => equipment.createCustomer(c, { name: `Quarry Bakery ${tag()}`, phone: null })),
   row(equipment.updateCustomer, "equipment.write", () => equipment.createCustomer(lead, { name: `Mill Cafe ${tag()}`, phone: null }), (c, id) => equipment.updateCustomer(c, id, { name: "Mill Cafe", phone: "555-0100" })),
   row(equipment.createSite, "equipment.write", () => equipment.createCustomer(lead, { name: `Ford Diner ${tag()}`, phone: null }), (c, id) => equipment.createSite(c, id, site)),
@@ -155,6 +185,18 @@ const ROWS: Row[] = [
   row(people.invite, "people.manage", nothing, (c) => people.invite(c, `new-${tag()}@tinderbox.example`, "technician")),
   row(people.sendInvitationMail, "people.manage", nothing, (c) => people.sendInvitationMail(c, `new-${tag()}@tinderbox.example`, "trainer", "http://localhost/invite/x")),
   row(people.revokeInvitation, "people.manage", () => people.invite(owner, `w-${tag()}@tinderbox.example`, "lead"), (c, inv) => people.revokeInvitation(c, inv.id)),
+  row(members.setMemberRole, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberRole(c, p.ctx.userId, "lead")),
+  row(members.setMemberActive, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberActive(c, p.ctx.userId, false)),
+  row(members.resetMemberSignIn, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.resetMemberSignIn(c, p.ctx.userId, (t) => `http://localhost/reset-password/${t}`)),
+  // everyone's own account (the demo people keep their names and passwords: each change is undone)
+  row(account.getAccount, "account.self", nothing, (c) => account.getAccount(c, { sessionId: "none" })),
+  row(account.renameSelf, "account.self", nothing, async (c) => account.renameSelf(c, { name: (await account.getAccount(c, { sessionId: "none" })).name })),
+  row(account.changePassword, "account.self", nothing, async (c) => {
+    const caller = { sessionId: "none", address: address() };
+    await account.changePassword(c, caller, { currentPassword: DEMO_PASSWORD, newPassword: "a passing pass phrase" });
+    await account.changePassword(c, caller, { currentPassword: "a passing pass phrase", newPassword: DEMO_PASSWORD });
+  }),
+  row(account.endMySessions, "account.self", nothing, (c) => account.endMySessions(c, { sessionId: "none", address: address() }, { allButThis: true })),
   // runs
   row(start.startRun, "runs.start", nothing, (c) => start.startRun(c, { treeId: publishedTreeId })),
   row(view.getRunView, "runs.view", () => newRun(), (c, runId) => view.getRunView(c, runId)),
@@ -180,6 +222,29 @@ const ROWS: Row[] = [
   row(queries.historyOfUnit, "runs.view", nothing, (c) => queries.historyOfUnit(c, unitId)),
   row(reports.getReport, "reports.view", report, (c, id) => reports.getReport(c, id)),
   row(reports.sendReport, "reports.send", report, (c, id) => reports.sendReport(c, id, reportMailHtml)),
+  // training
+  row(scenarios.scenarioFormChoices, "training.write", nothing, (c) => scenarios.scenarioFormChoices(c, publishedTreeId)),
+  row(scenarios.createScenario, "training.write", nothing, (c) => scenarios.createScenario(c, publishedTreeId, scenarioFields("Domed capacitor", "cap-failed", SMALL_WORLD))),
+  row(scenarios.updateScenario, "training.write", scenario, (c, id) => scenarios.updateScenario(c, id, scenarioFields("Domed capacitor, renamed", "cap-failed", SMALL_WORLD))),
+  row(scenarios.copyScenario, "training.write", async () => {
+    const id = await scenario();
+    const draft = await drafts.startDraft(lead, publishedTreeId);
+    const { revision } = await drafts.replaceDraftContent(lead, draft.versionId, smallTree(`Authorisation copy ${tag()}`), 1);
+    await publish.publishDraft(lead, publishedTreeId, revision, "A newer version to copy onto");
+    return id;
+  }, (c, id) => scenarios.copyScenario(c, id)),
+  row(scenarios.getScenario, "training.write", scenario, (c, id) => scenarios.getScenario(c, id)),
+  row(scenarios.listScenarios, "training.summary", nothing, (c) => scenarios.listScenarios(c)),
+  row(practice.assignScenario, "training.write", scenario, (c, id) => practice.assignScenario(c, id, { trainees: [tech.userId], dueOn: "2026-12-31" })),
+  row(practice.withdrawAssignment, "training.write", assignment, (c, id) => practice.withdrawAssignment(c, id)),
+  row(practice.myPractice, "training.practice", nothing, (c) => practice.myPractice(c)),
+  row(practice.startPractice, "training.practice", assignment, (c, id) => practice.startPractice(c, id)),
+  row(practice.finishPractice, "runs.outcome", practiceAtEnd, (c, p) => practice.finishPractice(c, p.runId), held),
+  row(reviews.getPracticeReview, "training.review", practiceDone, (c, p) => reviews.getPracticeReview(c, p.runId)),
+  row(reviews.addComment, "training.review", practiceDone, (c, p) => reviews.addComment(c, p.runId, { seq: 0, text: "Good: the domed top was enough to call it." })),
+  row(reviews.saveReview, "training.review", practiceDone, (c, p) => reviews.saveReview(c, p.runId, { note: "Quick and right." })),
+  row(summary.trainingBoard, "training.summary", nothing, (c) => summary.trainingBoard(c)),
+  row(summary.traineeProgress, "training.summary", nothing, (c) => summary.traineeProgress(c)),
   // trees
   row(library.listLibrary, "trees.view", nothing, (c) => library.listLibrary(c)),
   row(library.listPublished, "trees.view", nothing, (c) => library.listPublished(c)),
@@ -209,8 +274,14 @@ const ROWS: Row[] = [
   }, (c, t) => images.getTreeImage(c, t.treeId, t.imageId)),
 ];
 
-/** Model functions that take no caller: the token in an invitation link is the key. */
-const WITHOUT_CALLER = new Set<unknown>([people.findInvitation, people.acceptInvitation]);
+/** Model functions that take no caller: the token in an invitation or reset link is the key (or the e-mail asked for). */
+const WITHOUT_CALLER = new Set<unknown>([
+  people.findInvitation,
+  people.acceptInvitation,
+  passwordReset.requestPasswordReset,
+  passwordReset.findPasswordReset,
+  passwordReset.completePasswordReset,
+]);
 
 /** Rows in every table of the schema (one query), to see that a refusal wrote nothing. */
 async function rowCounts(): Promise<Record<string, number>> {
@@ -253,7 +324,6 @@ describe("every model function decides who may, from the caller's role", () => {
 
   it("every action of the policy is exercised by some row", () => {
     const used = new Set(ROWS.map((r) => r.action));
-    // training.view guards the trainer's page, which loads nothing from a model yet.
-    expect(Object.keys(POLICY).filter((a) => !used.has(a as Action))).toEqual(["training.view"]);
+    expect(Object.keys(POLICY).filter((a) => !used.has(a as Action))).toEqual([]);
   });
 });

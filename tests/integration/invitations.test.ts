@@ -4,7 +4,7 @@ import { closeDb } from "../../app/lib/db.server";
 import type { Ctx } from "../../app/lib/context";
 import { capturedMail } from "../../app/lib/mail.server";
 import { acceptInvitation, findInvitation, invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "../../app/models/people.server";
-import { signIn } from "../../app/lib/sign-in.server";
+import { loadSession, signIn } from "../../app/lib/sign-in.server";
 
 afterAll(() => closeDb());
 
@@ -20,7 +20,10 @@ describe("invitations", () => {
     expect((await listOpenInvitations(owner)).some((i) => i.email === email)).toBe(true);
     expect((await listOpenInvitations(otherOwner)).some((i) => i.email === email)).toBe(false);
 
-    expect(await acceptInvitation(token, { name: "New Person", password: "three short words" })).toEqual({ shopName: "Tinderbox Kitchen Repair" });
+    // Accepting signs the new member in: a session of the shop, in their role.
+    const joined = await acceptInvitation(token, { name: "New Person", password: "three short words" });
+    expect(joined).toMatchObject({ shopName: "Tinderbox Kitchen Repair", role: "technician" });
+    expect(await loadSession(joined.sessionId)).toMatchObject({ email, role: "technician", shopId: owner.shopId });
     expect((await listMembers(owner)).find((m) => m.email === email)?.role).toBe("technician");
     expect(await findInvitation(token)).toBeNull(); // used once only
     expect((await signIn(email, "three short words", "test-invite")).kind).toBe("ok");

@@ -1,10 +1,12 @@
-// Vitest global setup for browser tests: a seeded database and two app processes on it (to show
-// that app servers hold no state). Needs a production build (scripts/test runs it first).
+// Vitest global setup for browser tests: a freshly migrated and seeded database and two app
+// processes on it (to show that app servers hold no state). Needs a production build (`npm run
+// build`; scripts/test and `npm run test:e2e` make it first). Tests make their own records
+// (tests/support/fixtures.ts); the seed is only read.
 import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { createServer } from "node:net";
 import type { TestProject } from "vitest/node";
-import { migrateDatabase } from "../../db/migrate";
+import { freshSeededDatabase } from "./database";
 
 export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -15,6 +17,9 @@ export async function freePort(): Promise<number> {
     });
   });
 }
+
+/** Signs the app servers' session cookies; tests that mint a session cookie need the same. */
+const AUTH_SECRET = "e2e-secret-e2e-secret-e2e-secret-e2e";
 
 async function waitFor(url: string, child: ChildProcess, log: () => string) {
   for (let i = 0; i < 150; i++) {
@@ -31,15 +36,10 @@ async function waitFor(url: string, child: ChildProcess, log: () => string) {
 
 export default async function setup(project: TestProject) {
   const dbUrl = process.env.E2E_DATABASE_URL;
-  if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test sets it).");
+  if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test and `npm run test:e2e` set it; see DEVELOPERS.md).");
   const buildDir = process.env.BUILD_DIR ?? "build";
   if (!existsSync(`${buildDir}/server/index.js`)) throw new Error(`Browser tests need a build in ${buildDir}/: run \`npm run build\` first.`);
-  await migrateDatabase(dbUrl);
-  process.env.DATABASE_URL = dbUrl;
-  const { seed } = await import("../../db/seed");
-  const { closeDb } = await import("../../app/lib/db.server");
-  await seed();
-  await closeDb();
+  await freshSeededDatabase(dbUrl);
 
   const children: ChildProcess[] = [];
   const urls: string[] = [];
@@ -47,7 +47,7 @@ export default async function setup(project: TestProject) {
     const port = await freePort();
     let output = "";
     const child = spawn(process.execPath, ["server.js"], {
-      env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-e2e" },
+      env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET },
       stdio: ["ignore", "pipe", "pipe"],
     });
     child.stdout?.on("data", (d) => (output += d));
@@ -59,6 +59,8 @@ export default async function setup(project: TestProject) {
   }
   project.provide("baseUrl", urls[0]!);
   project.provide("secondBaseUrl", urls[1]!);
+  project.provide("e2eDatabaseUrl", dbUrl);
+  project.provide("e2eAuthSecret", AUTH_SECRET);
   return async () => {
     for (const c of children) c.kill("SIGTERM");
     await Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once("exit", r)))));

@@ -106,8 +106,9 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
         type: "box",
         position: placed[n.id] ?? { x: 0, y: 0 },
         selected: n.id === selected,
+        // No aria-label: the box's name is its visible text (kind, marks, title, branches), so what
+        // a screen reader says is what a sighted user reads (axe: label-content-name-mismatch).
         data: { node: n, slots: slotsOf(n), start: n.id === tree.start, errors: marks.get(n.id)?.errors ?? 0, warnings: marks.get(n.id)?.warnings ?? 0 },
-        ariaLabel: `${KIND_LABEL[n.kind]}: ${n.title}`,
       })),
     [tree, placed, selected, marks],
   );

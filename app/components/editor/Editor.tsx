@@ -32,6 +32,8 @@ export type EditorProps = {
   /** The number the draft gets when published. */
   nextNumber: number;
   basedOn: number | null;
+  /** The shop's time zone, for the times the editor shows (a second editor's save). */
+  timeZone: string;
   publishError?: PublishError;
 };
 
@@ -63,7 +65,7 @@ export function Editor(props: EditorProps) {
   return (
     <div className="flex min-h-dvh flex-col lg:h-dvh">
       <EditorHeader treeId={treeId} tree={state.tree} nextNumber={props.nextNumber} basedOn={props.basedOn} save={save} blocked={blocked} publishError={props.publishError} />
-      <SaveProblems save={save} conflict={conflict} tree={state.tree} />
+      <SaveProblems save={save} conflict={conflict} tree={state.tree} timeZone={props.timeZone} />
 
       <div role="tablist" aria-label="Editor panes" className="flex gap-1 border-b border-rule bg-card px-2 py-1 lg:hidden">
         {tab("outline", "Outline")}

@@ -1,16 +1,13 @@
 // What stands between the screen and the saved draft: a conflict with a second editor (with the
 // diff and the three ways out), a draft that is gone, or a save that is being retried.
 import { DiffView } from "~/components/DiffView";
+import { atShop } from "~/lib/display";
 import { diffTrees } from "~/lib/tree-diff";
 import type { Tree } from "~/engine/types";
 import type { Autosave } from "./useAutosave";
 import type { ConflictHandle } from "./useConflict";
 
-function time(iso: string) {
-  return new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" });
-}
-
-export function SaveProblems({ save, conflict: c, tree }: { save: Autosave; conflict: ConflictHandle; tree: Tree }) {
+export function SaveProblems({ save, conflict: c, tree, timeZone }: { save: Autosave; conflict: ConflictHandle; tree: Tree; timeZone: string }) {
   const { status, problem, conflict } = save;
   const download = (
     <button type="button" className="btn-quiet" onClick={c.downloadMine}>
@@ -21,7 +18,7 @@ export function SaveProblems({ save, conflict: c, tree }: { save: Autosave; conf
     return (
       <section role="alert" aria-labelledby="conflict-heading" className="space-y-2 border-b-2 border-out bg-out-soft px-4 py-3">
         <h2 id="conflict-heading" className="text-lg font-bold text-out">
-          {conflict.updatedByName ?? "Someone"} saved this draft at {time(conflict.updatedAt)}, while you were editing
+          {conflict.updatedByName ?? "Someone"} saved this draft at {atShop(conflict.updatedAt, timeZone, "time")}, while you were editing
         </h2>
         <p>
           Nothing of yours was saved, and nothing of theirs was overwritten. Your changes are still on this screen. Compare the two, then keep yours (replacing theirs) or

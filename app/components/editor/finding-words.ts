@@ -48,10 +48,12 @@ export function inEditorWords(f: Finding, tree: Tree): string {
       if (f.field) return `${cap(branchWords(f.field))} of the ${name} leads to a node that no longer exists: choose where it leads.`;
       break;
     case "cycle": {
-      const ids = /loop with no limit: (.+?)\. Mark/.exec(f.message)?.[1]?.split(" → ");
+      const ids = /loop with no limit: (.+?)\. /.exec(f.message)?.[1]?.split(" → ");
       if (!ids) break;
       const titles = ids.map((id) => `‘${byId.get(id)?.title ?? id}’`).join(" → ");
-      return `These nodes go round in a loop with no limit: ${titles}. On the branch that goes back, tick “Goes back to check again” and set how many times, or connect it elsewhere.`;
+      // The engine points at the branch that closes the loop (its node and field).
+      const closing = f.field ? `${cap(branchWords(f.field))} of the ${name}` : "the branch that goes back";
+      return `These nodes go round in a loop with no limit: ${titles}. On ${closing}, tick “Goes back to check again” and set how many times, or connect it elsewhere.`;
     }
     case "recheck-not-a-loop": {
       const back = /but ‘(.+)’ never leads back/.exec(f.message)?.[1];

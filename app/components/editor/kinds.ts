@@ -1,5 +1,6 @@
 // How the editor names each kind of node, and what a new one starts as. Shared by the palette,
 // the outline, the canvas and the node forms.
+import { DEFAULT_REASON, DEFAULT_REMEDY, DEFAULT_TITLE, DEFAULT_VARIABLE } from "~/engine/defaults";
 import { CATEGORIES, type NodeKind, type TreeNode } from "~/engine/types";
 
 export const KIND_LABEL: Record<NodeKind, string> = {
@@ -43,23 +44,13 @@ export function categoryLabel(c: string): string {
 /** Palette order: the usual flow of a tree. */
 export const PALETTE_KINDS: NodeKind[] = ["question", "measurement", "step", "caution", "nameplate", "outcome", "escalate"];
 
-const DEFAULT_TITLE: Record<NodeKind, string> = {
-  question: "New question",
-  measurement: "New measurement",
-  step: "New step",
-  caution: "New caution",
-  nameplate: "New nameplate value",
-  outcome: "New root cause",
-  escalate: "Needs a lead",
-};
-
 /** The title a new node of `kind` starts with (the draft numbers repeats: see newTitle). */
 export function defaultTitle(kind: NodeKind): string {
   return DEFAULT_TITLE[kind];
 }
 
 /** A node of `kind` that the engine's schema accepts, for the author to fill in. */
-export function newNode(kind: NodeKind, id: string, variable = "rated_value", title = DEFAULT_TITLE[kind]): TreeNode {
+export function newNode(kind: NodeKind, id: string, variable = DEFAULT_VARIABLE, title = DEFAULT_TITLE[kind]): TreeNode {
   switch (kind) {
     case "question":
       return { id, kind, title, answers: [] };
@@ -72,8 +63,8 @@ export function newNode(kind: NodeKind, id: string, variable = "rated_value", ti
     case "nameplate":
       return { id, kind, title, variable, quantity: "voltage", unit: "V" };
     case "outcome":
-      return { id, kind, title, remedy: "Say what to do about it.", parts: [] };
+      return { id, kind, title, remedy: DEFAULT_REMEDY, parts: [] };
     case "escalate":
-      return { id, kind, title, reason: "Say why a lead should take over." };
+      return { id, kind, title, reason: DEFAULT_REASON };
   }
 }

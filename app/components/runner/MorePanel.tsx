@@ -14,9 +14,11 @@ export function MorePanel({ run, onPick }: { run: RunHandle; onPick: (p: Panel) 
       >
         {paused ? "Resume the run" : "Pause — carry on later"}
       </button>
-      <button type="button" className="btn-quiet min-h-14 w-full" onClick={() => onPick("escalate")}>
-        Ask a lead to take over…
-      </button>
+      {!run.view.run.practice && (
+        <button type="button" className="btn-quiet min-h-14 w-full" onClick={() => onPick("escalate")}>
+          Ask a lead to take over…
+        </button>
+      )}
       <button type="button" className="btn-quiet min-h-14 w-full text-out" onClick={() => onPick("abandon")}>
         Abandon this run…
       </button>

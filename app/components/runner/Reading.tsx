@@ -43,7 +43,7 @@ export function VerdictBox({ verdict, message }: { verdict: VerdictKind; message
  * live region that is always there (so screen readers read each new verdict); a refusal on Save
  * is also said aloud at once. Kept in view while the field has focus.
  */
-function ValueField({ label, text, setText, unit, problem, children }: { label: string; text: string; setText: (v: string) => void; unit: string; problem: string | null; children: ReactNode }) {
+export function ValueField({ label, text, setText, unit, problem, children }: { label: string; text: string; setText: (v: string) => void; unit: string; problem: string | null; children: ReactNode }) {
   const group = useRef<HTMLDivElement>(null);
   const id = useId();
   useKeepInView(group);
@@ -75,7 +75,7 @@ function ValueField({ label, text, setText, unit, problem, children }: { label: 
 }
 
 /** One radio group (one Tab stop, arrow keys move) drawn as big buttons. */
-function UnitButtons({ units, value, onChange, label }: { units: readonly string[]; value: string; onChange: (u: string) => void; label: string }) {
+export function UnitButtons({ units, value, onChange, label }: { units: readonly string[]; value: string; onChange: (u: string) => void; label: string }) {
   const name = useId();
   return (
     <fieldset>
@@ -119,7 +119,7 @@ function MeterChoice({ node, offered, value, onChange }: { node: MeasurementNode
   );
 }
 
-function unitsFor(quantity: keyof typeof QUANTITY_INFO, own: string): string[] {
+export function unitsFor(quantity: keyof typeof QUANTITY_INFO, own: string): string[] {
   const list = [...QUANTITY_INFO[quantity].units];
   return list.includes(own) ? list : [own, ...list];
 }

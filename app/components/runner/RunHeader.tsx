@@ -1,4 +1,6 @@
 // The runner's top bar: back to the call, the step count (opens the history), the save state.
+import { PracticeBanner } from "./practice/Scripted";
+import { stepsDone } from "~/lib/run-log";
 import type { RunHandle } from "./useRun";
 
 function SaveState({ run }: { run: RunHandle }) {
@@ -22,14 +24,14 @@ function SaveState({ run }: { run: RunHandle }) {
 }
 
 export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
-  const { view, state } = run;
-  const done = state.steps.length;
-  const back = view.call ? `/calls/${view.call.id}` : "/";
+  const { view } = run;
+  const done = stepsDone(view.steps);
+  const back = view.run.practice ? "/practice" : view.call ? `/calls/${view.call.id}` : "/";
   return (
     <header className="sticky top-0 z-20 border-b border-rule bg-card">
       <div className="mx-auto flex max-w-xl items-center justify-between gap-2 px-3 py-1">
         <a href={back} className="flex min-h-12 items-center text-base font-semibold">
-          ← {view.call ? `Call ${view.call.number}` : "Back"}
+          ← {view.run.practice ? "Practice" : view.call ? `Call ${view.call.number}` : "Back"}
         </a>
         {walking && (
           <button type="button" onClick={onHistory} className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark" aria-expanded={historyOpen} title="Show the steps done">
@@ -38,6 +40,7 @@ export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHa
         )}
         <SaveState run={run} />
       </div>
+      {view.run.practice && <PracticeBanner run={run} />}
     </header>
   );
 }

@@ -8,7 +8,7 @@ import type { RunView } from "~/lib/run-log";
 import { Closed } from "./ends/Closed";
 import { EscalatedScreen } from "./ends/EscalatedScreen";
 import { HandOverScreen } from "./ends/HandOverScreen";
-import { DoneScreen, loadEndScreens, OutcomeScreen } from "./ends/later";
+import { DoneScreen, loadEndScreens, OutcomeScreen, PracticeDoneScreen, PracticeEndScreen } from "./ends/later";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
@@ -23,17 +23,20 @@ import { StepExtras } from "./StepExtras";
 import { LastReading, StepHeading } from "./StepHeading";
 import { Toolbar, type Panel } from "./Toolbar";
 import { useRun, type RunHandle } from "./useRun";
+import { PracticeBrief } from "./practice/Scripted";
 
 /** The screen for where the run stands. */
 function screenFor(run: RunHandle, setPanel: (p: Panel) => void): ReactNode {
   const { view, state, current } = run;
   const status = view.run.status;
   const endNode = state.finished ? run.byId.get(state.finished.node) : undefined;
+  if (view.run.practice && status === "done") return <PracticeDoneScreen run={run} />;
   if (status === "done") return <DoneScreen run={run} />;
   if (status === "abandoned") return <Closed title="Run abandoned" detail={view.run.abandonReason ?? ""} />;
   if (status === "escalated") return <EscalatedScreen run={run} />;
   if (!view.viewer.holds) return <ReadOnly run={run} />;
   if (status === "paused") return <PausedScreen run={run} />;
+  if (view.run.practice && state.finished) return <PracticeEndScreen run={run} />;
   if (state.finished?.kind === "outcome" && endNode?.kind === "outcome") return <OutcomeScreen node={endNode as OutcomeNode} run={run} />;
   if (state.finished)
     return <HandOverScreen run={run} reason={state.finished.kind === "escalate" || state.finished.kind === "recheck-limit" ? state.finished.reason : ""} onEscalate={() => setPanel("escalate")} />;
@@ -100,6 +103,7 @@ export function Runner({ initial }: { initial: RunView }) {
             onClose={() => setPanel(null)}
           />
         )}
+        {walking && view.run.practice && view.steps.length === 0 && <PracticeBrief run={run} />}
         {walking && current && <StepHeading run={run} node={current} />}
         {walking && <LastReading run={run} />}
         {walking && view.steps.length === 0 && view.description.length > 0 && (

@@ -4,6 +4,8 @@ import { announce } from "~/components/Announcer";
 import type { CautionNode, QuestionNode, StepNode, TreeNode } from "~/engine/types";
 import { Markdown } from "./Markdown";
 import { MeasurementInput, NameplateInput } from "./Reading";
+import { PracticeReading } from "./practice/PracticeReading";
+import { LabelSays, Observation } from "./practice/Scripted";
 import { DEFER_WORDING, HAZARD_TITLE, HAZARD_WORDING } from "./safety";
 import type { RunHandle } from "./useRun";
 
@@ -72,6 +74,7 @@ function QuestionScreen({ node, run }: { node: QuestionNode; run: RunHandle }) {
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
+      {run.view.run.practice && <Observation run={run} node={node.id} />}
       <div className="grid gap-3" role="group" aria-label="Answers">
         {node.answers.map((a) => (
           <button
@@ -114,13 +117,14 @@ export function StepScreen({ node, run }: { node: TreeNode; run: RunHandle }) {
       return (
         <div className="space-y-4">
           <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-          <MeasurementInput node={node} run={run} />
+          {run.view.run.practice ? <PracticeReading node={node} run={run} /> : <MeasurementInput node={node} run={run} />}
         </div>
       );
     case "nameplate":
       return (
         <div className="space-y-4">
           <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
+          {run.view.run.practice && <LabelSays run={run} node={node.id} />}
           <NameplateInput node={node} run={run} />
         </div>
       );

@@ -37,6 +37,18 @@ export function LastReading({ run }: { run: RunHandle }) {
   const steps = run.view.steps;
   const last = steps[steps.length - 1];
   if (!last || last.type !== "reading" || !last.verdict || !last.message) return null;
+  // Practice: the trainee's own call, not the verdict, until the practice is finished.
+  if (run.view.run.practice && last.call)
+    return (
+      <div aria-label="Last reading" className="rounded-lg border-l-8 border-practice bg-practice-soft px-3 py-2">
+        <p className="text-sm font-semibold text-ink-soft">
+          {last.pending ? "Saving" : "Saved"} · {run.byId.get(last.node ?? "")?.title}
+        </p>
+        <p className="text-base font-semibold text-ink">
+          {last.typed} — your call: <span className="font-bold">{last.call}</span>
+        </p>
+      </div>
+    );
   const s = VERDICT_STYLE[last.verdict];
   return (
     <div aria-label="Last reading" className={`rounded-lg border-l-8 px-3 py-2 ${s.box}`}>

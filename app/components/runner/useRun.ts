@@ -3,6 +3,7 @@
 // are applied at once (optimistic) and sent one after another with their idempotency keys.
 import { useIsMutating, useMutation, useMutationState, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useMemo, useState } from "react";
+import { practiceReplay, practiceTryEntry, type PracticeEntry } from "~/engine/training/practice";
 import { replay, tryEntry, type LogEntry } from "~/engine/traversal";
 import type { TreeNode } from "~/engine/types";
 import { logOf, meterAccuracy, type NoteView, type PhotoView, type RunView, type StepView } from "~/lib/run-log";
@@ -31,7 +32,9 @@ export function useRun(initial: RunView) {
   const [error, setError] = useState<string | null>(null);
   const set = (f: (v: RunView) => RunView) => qc.setQueryData<RunView>(queryKey, (v) => (v ? f(v) : v));
 
-  const state = useMemo(() => replay(view.tree, logOf(view.steps)), [view.tree, view.steps]);
+  // A practice run follows the trainee's call on each reading (app/engine/training/practice.ts).
+  const practice = view.run.practice;
+  const state = useMemo(() => (practice ? practiceReplay(view.tree, logOf(view.steps) as PracticeEntry[]) : replay(view.tree, logOf(view.steps))), [practice, view.tree, view.steps]);
   const current: TreeNode | undefined = useMemo(() => view.tree.nodes.find((n) => n.id === state.current), [view.tree, state.current]);
   const byId = useMemo(() => new Map(view.tree.nodes.map((n) => [n.id, n])), [view.tree]);
 
@@ -42,7 +45,9 @@ export function useRun(initial: RunView) {
     ...writes,
     mutationFn: (p: { key: string; entry: LogEntry; meterId: string | null; at: string }) =>
       postJson<StepResponse>(`/api/runs/${id}/steps`, { key: p.key, entry: stripMeter(p.entry), meterId: p.meterId, at: p.at }),
-    onSuccess: (res, p) => set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? res.step : s)), run: { ...v.run, ...res.run } })),
+    // The server's row replaces the optimistic one, but keeps a "taken back" the phone already
+    // applied: an undo sent while this step was on its way reaches the server after it.
+    onSuccess: (res, p) => set((v) => ({ ...v, steps: v.steps.map((s) => (s.key === p.key ? { ...res.step, undone: res.step.undone || s.undone } : s)), run: { ...v.run, ...res.run } })),
     onError: (e, p) => {
       // Drop this step and anything queued after it; the server's version is the truth.
       set((v) => {
@@ -55,16 +60,16 @@ export function useRun(initial: RunView) {
   });
 
   /** Apply an entry now and send it. Returns the engine's refusal message, or null. */
-  function submit(entry: LogEntry, meterId: string | null = null): string | null {
+  function submit(entry: LogEntry | PracticeEntry, meterId: string | null = null): string | null {
     const v = qc.getQueryData<RunView>(queryKey) ?? view;
-    let full = entry;
+    let full = entry as LogEntry;
     if (entry.type === "reading") {
       const node = byId.get(entry.node);
       const m = meterId ? v.meters.find((x) => x.id === meterId) : undefined;
       if (m) full = { ...entry, meter: meterAccuracy(m) };
       else if (node?.kind === "measurement" && node.meter) full = { ...entry, meter: node.meter };
     }
-    const tried = tryEntry(v.tree, logOf(v.steps), full);
+    const tried = practice ? practiceTryEntry(v.tree, logOf(v.steps) as PracticeEntry[], full as PracticeEntry) : tryEntry(v.tree, logOf(v.steps), full);
     if (!tried.ok) return tried.rejection.message;
     setError(null);
     const key = uuid();
@@ -84,6 +89,7 @@ export function useRun(initial: RunView) {
       si: verdict?.reading.si ?? s?.nameplate?.si ?? null,
       siUnit: verdict?.reading.siUnit ?? s?.nameplate?.siUnit ?? null,
       verdict: verdict?.verdict ?? null,
+      call: full.type === "reading" ? ((full as PracticeEntry & { type: "reading" }).call ?? null) : null,
       message: verdict?.message ?? (s?.nameplate ? `${s.nameplate.display} ${s.nameplate.unit}` : null),
       limitsText: verdict?.limits.text ?? null,
       meterId: full.type === "reading" ? meterId : null,

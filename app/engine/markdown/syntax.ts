@@ -59,7 +59,8 @@ function tokenize(text: string): Tok[] {
   let i = 0;
   while (i < text.length) {
     const c = text[i]!;
-    if (c === " " || c === "\t") {
+    // Any white space, not only " " and tab: a non-breaking space here used to loop for ever.
+    if (/\s/.test(c)) {
       i++;
       continue;
     }

@@ -24,6 +24,7 @@ export type StepViewSource = Pick<
   | "siValue"
   | "siUnit"
   | "verdict"
+  | "call"
   | "message"
   | "limits"
   | "meterId"
@@ -49,6 +50,7 @@ export function stepView(row: StepViewSource): StepView {
     si: row.siValue,
     siUnit: row.siUnit,
     verdict: row.verdict,
+    call: row.call,
     message: row.message,
     limitsText: row.limits?.text ?? null,
     meterId: row.meterId,
@@ -80,6 +82,7 @@ export const STEP_JSON = {
   si: runSteps.siValue,
   siUnit: runSteps.siUnit,
   verdict: runSteps.verdict,
+  call: runSteps.call,
   message: runSteps.message,
   limitsText: sql<string | null>`JSON_VALUE(${runSteps.limits}, '$.text')`,
   meterId: runSteps.meterId,
@@ -106,12 +109,12 @@ export async function stepByKey(tx: Tx, runId: string, key: string): Promise<Ste
 }
 
 /** A log entry as the replay needs it: what the engine reads, and the key and hash a retry is told by. */
-export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter"> & { hash: string };
+export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter" | "call"> & { hash: string };
 
 export type MeterChoice = Omit<MeterView, "rangeMax">;
 
 export type LockedRun = {
-  run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind">;
+  run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind" | "practice">;
   /** The log so far, in order; null when it was not asked for. */
   log: LoggedEntry[] | null;
   /** The shop meter asked for, or null when none was asked for or it is not the shop's. */
@@ -130,15 +133,16 @@ const LOG = jsonRows(
     answer: runSteps.answer,
     typed: runSteps.typed,
     meter: runSteps.meter,
+    call: runSteps.call,
   },
   sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`,
   sql`${runSteps.seq}`,
 );
 const METER = jsonObject({ id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts });
 const RUN = sql`${runs.id} AS id, ${runs.versionId} AS versionId, ${runs.technicianId} AS technicianId, ${runs.status} AS status,
-  ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind`;
+  ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind, ${runs.practice} AS practice`;
 
-type LockedRow = LockedRun["run"] & { log: LoggedEntry[] | string | null; meter: MeterChoice | string | null };
+type LockedRow = Omit<LockedRun["run"], "practice"> & { practice: number | boolean; log: LoggedEntry[] | string | null; meter: MeterChoice | string | null };
 
 /**
  * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
@@ -154,8 +158,8 @@ export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: s
   )) as unknown as [LockedRow[]];
   const row = rows[0];
   if (!row) return null;
-  const { log, meter: meterJson, ...run } = row;
-  return { run, log: withLog ? (fromJson(log) ?? []) : null, meter: fromJson(meterJson) };
+  const { log, meter: meterJson, practice, ...rest } = row;
+  return { run: { ...rest, practice: Boolean(practice) }, log: withLog ? (fromJson(log) ?? []) : null, meter: fromJson(meterJson) };
 }
 
 /** A locked run's log, read after the lock (lockRunForStep without it). */

@@ -10,6 +10,7 @@ import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { lockOwn, withNextNumber } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
+import { recordRunFacts } from "../insights/_facts.server";
 
 export const statusInput = z.discriminatedUnion("action", [
   z.object({ action: z.literal("pause") }),
@@ -48,6 +49,9 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
     const now = new Date();
     const set = (patch: Partial<typeof runs.$inferInsert>) => tx.update(runs).set({ ...patch, updatedAt: now }).where(eq(runs.id, runId));
     if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
+    // A practice run stays the trainee's: no lead is called to it (escalations are real work).
+    if (run.practice && (input.action === "escalate" || input.action === "take-over"))
+      throw new Refusal("conflict", "A practice run is not handed to a lead: finish it or abandon it.", { code: "practice" });
     switch (input.action) {
       case "pause":
         authorize(ctx, "runs.pause", facts);
@@ -66,6 +70,7 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
         await set({ status: "abandoned", abandonReason: input.reason, completedAt: now });
         await closeEscalations(tx, runId);
         await setCallStatus(tx, run.callId, "open", ["in_progress", "escalated"]);
+        await recordRunFacts(tx, runId);
         return { status: "abandoned" };
       case "escalate": {
         authorize(ctx, "runs.escalate", facts);
@@ -126,6 +131,8 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
     if (run.status === "done") return null;
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
+    // A practice run makes no report and closes no call: it is finished from the training model.
+    if (run.practice) throw new Refusal("conflict", "A practice run makes no service report: finish the practice instead.", { code: "practice" });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This run is not in progress.", { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
     const outcome = nodeOf(content.tree, run.endNode);
@@ -141,6 +148,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
+    await recordRunFacts(tx, runId);
     const id = crypto.randomUUID();
     const number = await withNextNumber(
       async () => {

@@ -1,11 +1,12 @@
 // Runs as lists: open escalations for the leads, the runs on a call, and a unit's history (its runs
 // with root causes, and the parts replaced on it).
-import { and, asc, desc, eq, isNull } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { alias } from "drizzle-orm/mysql-core";
-import { customers, equipmentUnits, escalations, reports, runParts, runs, serviceCalls, sites, treeVersions, users } from "../../../db/schema";
+import { customers, equipmentUnits, escalations, reports, runParts, runs, runSteps, serviceCalls, sites, treeVersions, users } from "../../../db/schema";
 import type { Ctx } from "../../lib/context";
 import { db } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
+import { stepsDone } from "../../lib/run-log";
 import { withOptionalPlace } from "../_query.server";
 import { nodeOf, versionContent } from "./_version.server";
 
@@ -25,7 +26,6 @@ export async function listOpenEscalations(ctx: Ctx) {
       raisedBy: raiser.name,
       runId: runs.id,
       versionId: runs.versionId,
-      stepCount: runs.stepCount,
       callNumber: serviceCalls.number,
       symptom: serviceCalls.symptom,
       model: equipmentUnits.model,
@@ -41,10 +41,17 @@ export async function listOpenEscalations(ctx: Ctx) {
   const rows = await withOptionalPlace(query)
     .where(and(eq(escalations.shopId, ctx.shopId), isNull(escalations.closedAt)))
     .orderBy(asc(escalations.raisedAt));
+  const steps = rows.length
+    ? await db()
+        .select({ runId: runSteps.runId, type: runSteps.type, undone: runSteps.undone })
+        .from(runSteps)
+        .where(and(eq(runSteps.shopId, ctx.shopId), inArray(runSteps.runId, rows.map((r) => r.runId))))
+    : [];
   return Promise.all(
     rows.map(async (r) => {
       const content = await versionContent(ctx, r.versionId);
-      return { ...r, treeTitle: content.title, nodeTitle: nodeOf(content.tree, r.nodeKey)?.title ?? null };
+      const stepCount = stepsDone(steps.filter((s) => s.runId === r.runId));
+      return { ...r, stepCount, treeTitle: content.title, nodeTitle: nodeOf(content.tree, r.nodeKey)?.title ?? null };
     }),
   );
 }
@@ -72,6 +79,7 @@ function runListQuery(ctx: Ctx) {
       treeTitle: treeVersions.title,
       versionNumber: treeVersions.number,
       technician: technician.name,
+      technicianId: runs.technicianId,
       reportId: reports.id,
       reportNumber: reports.number,
     })

@@ -18,7 +18,8 @@ const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
 /** "1470 nF (1.47 µF)" when typed in another unit than the step's, else the engine's "1.47 µF". */
 function readingText(typed: string | null, message: string | null): string {
-  const shown = message?.split(" — ")[0] ?? "";
+  // The engine's message starts with the reading, "57.2 °C = 134.96 °F" when converted: keep the step's unit.
+  const shown = (message?.split(" — ")[0] ?? "").split(" = ").pop()!;
   if (!typed) return shown;
   const squash = (x: string) => x.replace(/\s+/g, "").toLowerCase();
   return !shown || squash(typed) === squash(shown) ? shown || typed : `${typed} (${shown})`;
@@ -155,6 +156,7 @@ export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportM
   try {
     ({ messageId } = await sendMail({
       shopId: ctx.shopId,
+      reportId,
       to: r.site.contactEmail,
       subject,
       text: reportText(r),

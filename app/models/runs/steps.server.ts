@@ -5,8 +5,9 @@ import { and, eq } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import { z } from "zod";
 import { runs, runSteps, type RunStatus } from "../../../db/schema";
+import { practiceTryEntry, type PracticeEntry } from "../../engine/training/practice";
 import { tryEntry, type LogEntry, type RunState } from "../../engine/traversal";
-import type { Meter } from "../../engine/types";
+import { VERDICTS, type Meter } from "../../engine/types";
 import type { Ctx } from "../../lib/context";
 import { writeTx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
@@ -20,7 +21,13 @@ export const stepPayload = z.object({
   key: z.string().uuid("Each step needs an idempotency key (a UUID)."),
   entry: z.discriminatedUnion("type", [
     z.object({ type: z.literal("answer"), node: nodeKey, answer: z.string().min(1).max(220) }),
-    z.object({ type: z.literal("reading"), node: nodeKey, reading: z.string().trim().min(1, "Enter the reading.").max(120) }),
+    z.object({
+      type: z.literal("reading"),
+      node: nodeKey,
+      reading: z.string().trim().min(1, "Enter the reading.").max(120),
+      /** Practice runs only: the trainee's own call, which the run follows. */
+      call: z.enum(VERDICTS).optional(),
+    }),
     z.object({ type: z.literal("nameplate"), node: nodeKey, value: z.string().trim().min(1, "Enter the value.").max(120) }),
     z.object({ type: z.literal("acknowledge"), node: nodeKey }),
     z.object({ type: z.literal("continue"), node: nodeKey }),
@@ -95,7 +102,11 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       }
     }
 
-    const tried = tryEntry(content.tree, log.map(entryOf), entry);
+    // Practice runs follow the trainee's call on each reading; the engine's verdict is kept beside it.
+    const call = entry.type === "reading" ? (entry as PracticeEntry & { type: "reading" }).call : undefined;
+    if (call && !run.practice) throw new Refusal("rejected", "Only a practice run takes your own call on a reading.", { code: "not-practice" });
+    const past = log.map(entryOf);
+    const tried = run.practice ? practiceTryEntry(content.tree, past as PracticeEntry[], entry as PracticeEntry) : tryEntry(content.tree, past, entry);
     if (!tried.ok) throw new Refusal("rejected", tried.rejection.message, { code: tried.rejection.code });
 
     const seq = run.stepCount;
@@ -120,6 +131,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       siValue: v?.reading.si ?? s?.nameplate?.si ?? null,
       siUnit: v?.reading.siUnit ?? s?.nameplate?.siUnit ?? null,
       verdict: v?.verdict ?? null,
+      call: call ?? null,
       limitsLo: v?.limits.lo ?? null,
       limitsHi: v?.limits.hi ?? null,
       limits: v?.limits ?? null,
@@ -142,7 +154,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       .update(runs)
       .set({ ...next, pausedAt: null, updatedAt: new Date() })
       .where(eq(runs.id, runId));
-    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter };
+    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter, call: row.call };
     return { result: { replayed: false, step: stepView(row), run: runSummary(next) }, log: [...log, stored] };
   });
   knownLogs.set(runId, { stepCount: result.run.stepCount, log });

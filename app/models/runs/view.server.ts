@@ -10,6 +10,7 @@ import { notFound } from "../../lib/refusal";
 import { photoUrl, type NoteView, type PhotoView, type RunView } from "../../lib/run-log";
 import { fromJson, jsonIso, jsonRow, jsonRows } from "../_query.server";
 import { STEP_JSON, stepViewFromJson } from "./_log.server";
+import { practiceViewOf } from "../training/_scenario.server";
 import { OPEN, versionContent } from "./_version.server";
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
@@ -107,7 +108,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
   const [row] = await runViewQuery().execute({ runId, shopId: ctx.shopId });
   if (!row) notFound("That run");
   const { run } = row;
-  const content = await versionContent(ctx, run.versionId);
+  const [content, practice] = await Promise.all([versionContent(ctx, run.versionId), run.practice ? practiceViewOf(ctx, run) : null]);
   const c = fromJson(row.call);
   const u = fromJson(row.unit);
   const e = fromJson(row.escalation);
@@ -144,6 +145,7 @@ export async function getRunView(ctx: Ctx, runId: string): Promise<RunView> {
     parts: fromJson(row.parts) ?? [],
     meters: fromJson(row.meters) ?? [],
     escalation: e ? { ...e, raisedAt: jsonIso(e.raisedAt), fromTree: Boolean(e.fromTree) } : null,
+    practice,
     report: r ? { ...r, sentAt: jsonIso(r.sentAt) } : null,
     viewer: { id: ctx.userId, holds, canTakeOver: open && !holds && can(ctx, "runs.take-over") },
     timeZone: row.timeZone || "UTC",

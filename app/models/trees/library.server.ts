@@ -85,6 +85,8 @@ export type PublishedTreeSummary = {
   title: string;
   category: EquipmentCategory;
   symptom: string;
+  /** Which models or families the tree covers (free text). */
+  equipment: string | null;
   publishedAt: Date | null;
 };
 
@@ -105,6 +107,7 @@ export async function listPublished(ctx: Ctx, filter: { category?: EquipmentCate
       title: treeVersions.title,
       category: treeVersions.category,
       symptom: treeVersions.symptom,
+      equipment: treeVersions.equipment,
       publishedAt: treeVersions.publishedAt,
     })
     .from(treeVersions)

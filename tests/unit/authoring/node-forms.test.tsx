@@ -98,7 +98,8 @@ describe("measurement form", () => {
     fireEvent.change(screen.getByLabelText("Judging readings near a limit"), { target: { value: "guarded" } });
     expect(node(s, "cap-measure")).toMatchObject({ meter: { percent: 1, counts: 2, resolution: 0.01 }, acceptance: "guarded" });
     type("Sample reading", "1.42");
-    expect(screen.getByText(/1\.42 µF → marginal: within ±0\.03\d* µF of the low limit 1\.41 µF/)).toBeTruthy();
+    // ILAC-G8:09/2019 guarded acceptance, w = U: the preview states the acceptance limit used (engine, issue 10 item 5).
+    expect(screen.getByText(/1\.42 µF → marginal: below the acceptance limit 1\.444 µF \(the low limit 1\.41 µF \+ the meter's 0\.034 µF\)/)).toBeTruthy();
   });
 });
 

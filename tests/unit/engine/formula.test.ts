@@ -2,7 +2,12 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { compileFormula, evaluateFormula, FormulaError } from "../../../app/engine/formula";
 
-const ev = (src: string, vars: Record<string, number> = {}) => evaluateFormula(src, vars);
+// evaluateFormula never throws (issue 10 item 1); here a refusal is rethrown so checks can say which.
+const ev = (src: string, vars: Record<string, number> = {}) => {
+  const r = evaluateFormula(src, vars);
+  if (!r.ok) throw new FormulaError(r.message, r.code);
+  return r.value;
+};
 
 describe("plain maths syntax", () => {
   it("^ is power and right-associative: 2^3^2 = 2^(3^2) = 512", () => {

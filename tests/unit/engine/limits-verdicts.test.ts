@@ -321,7 +321,7 @@ describe("limits details", () => {
     expect(l.text).toBe("20–2000 Ω");
   });
   it("one-sided limits read as such", () => {
-    expect(verdictOf(node("voltage", "mV", { kind: "atLeast", min: { value: 300 } }), "0.45 V").message).toBe("450 mV — within: at least 300 mV");
+    expect(verdictOf(node("voltage", "mV", { kind: "atLeast", min: { value: 300 } }), "0.45 V").message).toBe("0.45 V = 450 mV — within: at least 300 mV") // what was typed, then its conversion (issue 10 item 3);
   });
   it("inverted formula limits are an error at run time", () => {
     const r = computeLimits(node("voltage", "V", { kind: "range", min: { formula: "a" }, max: { formula: "b" } }), { a: 5, b: 1 });

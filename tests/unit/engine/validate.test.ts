@@ -3,6 +3,8 @@ import fc from "fast-check";
 import { readFileSync, readdirSync } from "node:fs";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { validateTree, validateTreeData } from "../../../app/engine/validate";
+import { adjacency, components, reachFrom } from "../../../app/engine/validation/walk";
+import { DEFAULT_REASON, DEFAULT_REMEDY, DEFAULT_TITLE } from "../../../app/engine/defaults";
 import type { Branch, Finding, MeasurementNode, Tree, TreeNode } from "../../../app/engine/types";
 
 const TREES = new URL("../../../trees/", import.meta.url);
@@ -98,7 +100,9 @@ describe("findings a lead tech can act on", () => {
       step("c", "a"),
       outcome("end"),
     ]);
-    expect(codes(t)).toContain("error:cycle@a");
+    // Reported at the branch that closes the unbounded loop: c's next, back to a (issue 10 item 10).
+    expect(codes(t)).toContain("error:cycle@c");
+    expect(find(t, "cycle")).toMatchObject({ nodeId: "c", field: "next" });
   });
   it("a re-check mark on a branch that doesn't loop is a warning; a bound below 1 is an error", () => {
     expect(codes(tree([step("a", "end", { recheck: { max: 2 } }), outcome("end")]))).toEqual(["warning:recheck-not-a-loop@a"]);
@@ -277,5 +281,125 @@ describe("data of unknown shape", () => {
     expect(r.tree).toBeNull();
     expect(r.result.findings.map((f) => f.code)).toEqual(["shape", "shape"]);
     expect(r.result.findings[1]).toMatchObject({ nodeIndex: 0, nodeId: "A B" });
+  });
+});
+
+describe("graph walks (one depth-first search under reachability and Tarjan's components)", () => {
+  const graphs = fc.integer({ min: 1, max: 12 }).chain((n) => fc.tuple(fc.constant(n), fc.array(fc.tuple(fc.nat(n - 1), fc.nat(n - 1)), { maxLength: 30 })));
+  // Oracle: plain breadth-first reachability from each node.
+  function reaches(n: number, edges: [number, number][]): boolean[][] {
+    return Array.from({ length: n }, (_, s) => {
+      const seen = Array<boolean>(n).fill(false);
+      seen[s] = true;
+      const queue = [s];
+      for (let q = 0; q < queue.length; q++)
+        for (const [a, b] of edges)
+          if (a === queue[q] && !seen[b]) {
+            seen[b] = true;
+            queue.push(b);
+          }
+      return seen;
+    });
+  }
+  it("property: two nodes share a component exactly when each reaches the other; reverse post-order lists what the start reaches", () => {
+    fc.assert(
+      fc.property(graphs, ([n, edges]) => {
+        const g = adjacency(n, edges.map((e) => e[0]), edges.map((e) => e[1]), () => true);
+        const r = reaches(n, edges);
+        const c = components(g, n);
+        for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) expect(c.comp[a] === c.comp[b]).toBe(r[a]![b]! && r[b]![a]!);
+        const { reach, order } = reachFrom(g, n, 0);
+        expect([...reach].map(Boolean)).toEqual(r[0]);
+        expect([...order].sort((x, y) => x - y)).toEqual(r[0]!.flatMap((v, i) => (v ? [i] : [])));
+        // Reverse post-order: along an edge between different components, the tail comes first.
+        const pos = new Map(order.map((v, i) => [v, i]));
+        for (const [a, b] of edges) if (reach[a] && c.comp[a] !== c.comp[b]) expect(pos.get(a)!).toBeLessThan(pos.get(b)!);
+      }),
+      { numRuns: 500 },
+    );
+  });
+});
+
+describe("issue 10 items 9–11: findings told once, at their cause, and placeholders caught", () => {
+  it("item 9: one branch to a missing node reports the cause once and folds what it cuts off into it", () => {
+    // The capacitor branch has a typo: 'cap-mesure' for 'cap-measure'; everything behind it is cut off.
+    const t = tree([
+      { id: "fans", kind: "question", title: "Fans", answers: [{ label: "ok", to: "end" }, { label: "slow", to: "cap-mesure" }] },
+      measure("cap-measure", { branches: { low: { to: "failed" }, within: { to: "shaft" }, high: { to: "failed" } } }),
+      { id: "shaft", kind: "question", title: "Shaft", answers: [{ label: "free", to: "winding" }, { label: "stiff", to: "seized" }] },
+      outcome("failed"),
+      outcome("winding"),
+      outcome("seized"),
+      outcome("end"),
+    ]);
+    const r = validateTree(t);
+    expect(r.findings.map((f) => `${f.severity}:${f.code}@${f.nodeId}`)).toEqual(["error:unknown-target@fans"]);
+    expect(r.findings[0]!.message).toBe(
+      "Question ‘Fans’ sends ‘slow’ to ‘cap-mesure’, but no step has that id — did you mean ‘cap-measure’? Until it is fixed, ‘cap-measure’ and the 4 steps after it can't be reached.",
+    );
+    expect(r.findings[0]!.covers).toEqual(["cap-measure", "failed", "shaft", "winding", "seized"]);
+  });
+  it("item 9: on a 10,000-node tree one typo is one finding, not a thousand", async () => {
+    const { generateTree } = await import("../../../scripts/bench-engine");
+    const big = generateTree(10_000);
+    const k = 417;
+    const m = big.nodes.find((n) => n.id === `b${k - 1}-m`) as MeasurementNode;
+    m.branches.within = { to: `b${k}-cuation` }; // typo for b417-caution
+    const r = validateTree(big);
+    expect(r.findings).toHaveLength(1);
+    expect(r.findings[0]!.message).toMatch(/did you mean ‘b417-caution’\? Until it is fixed, ‘b417-caution’ and the 4,\d{3} steps after it can't be reached\.$/);
+  });
+  it("item 9: an unreachable part with no missing branch behind it is one warning at its first node", () => {
+    const t = tree([step("a", "end"), outcome("end"), step("lost", "lost2"), step("lost2", "lost3"), outcome("lost3")]);
+    expect(validateTree(t).findings).toEqual([
+      {
+        severity: "warning",
+        code: "unreachable",
+        nodeId: "lost",
+        nodeIndex: 2,
+        message: "Step ‘Step lost’ can't be reached from the start, nor can the 2 steps after it: link to it from another step or delete them.",
+        covers: ["lost2", "lost3"],
+      },
+    ]);
+  });
+  it("item 10: an unbounded loop is reported at the branch that closes it", () => {
+    const t = tree([step("a", "b"), step("b", "c"), measure("c", { branches: { low: { to: "b" }, within: { to: "end" }, high: { to: "end" } } }), outcome("end")]);
+    const f = find(t, "cycle")!;
+    expect(f).toMatchObject({ nodeId: "c", nodeIndex: 2, field: "low" });
+    expect(f.message).toBe(
+      "These steps loop with no limit: b → c → b. ‘low’ of Measurement ‘Measure c’ goes back to ‘b’: mark it as a re-check loop, like ‘(re-check up to 2 times, then escalate-id)’, or remove it.",
+    );
+  });
+  it("item 11: the editor's placeholder texts are errors until replaced", () => {
+    const t = tree([
+      { id: "a", kind: "step", title: DEFAULT_TITLE.step, next: { to: "b" } },
+      { id: "b", kind: "question", title: "Is it hot?", answers: [{ label: "yes", to: "c" }, { label: "no", to: "d" }] },
+      { id: "c", kind: "outcome", title: "Element failed", remedy: DEFAULT_REMEDY, parts: [] },
+      { id: "d", kind: "escalate", title: DEFAULT_TITLE.escalate, reason: DEFAULT_REASON },
+    ]);
+    const r = validateTree(t);
+    expect(r.findings.map((f) => `${f.code}@${f.nodeId}:${f.field}`)).toEqual(["default-text@a:title", "default-text@c:remedy", "default-text@d:title", "default-text@d:reason"]);
+    expect(r.findings[0]!.message).toBe("Step ‘New step’ still has the editor's placeholder title ‘New step’: say what this step is.");
+    expect(r.ok).toBe(false);
+  });
+  it("item 11: a placeholder the editor numbered (‘New root cause 2’) is still a placeholder; a real title with a number is not", () => {
+    const t = tree([
+      { id: "a", kind: "step", title: "Check fan 2", next: { to: "b" } },
+      { id: "b", kind: "outcome", title: `${DEFAULT_TITLE.outcome} 2`, remedy: "Replace the capacitor.", parts: [] },
+    ]);
+    expect(validateTree(t).findings.filter((f) => f.code === "default-text").map((f) => `${f.nodeId}:${f.field}`)).toEqual(["b:title"]);
+  });
+  it("item 11: two nodes with the same title are flagged, so they can be told apart", () => {
+    const t = tree([step("a", "b"), { id: "b", kind: "step", title: "Step a", next: { to: "end" } }, outcome("end")]);
+    expect(validateTree(t).findings).toEqual([
+      {
+        severity: "warning",
+        code: "duplicate-title",
+        nodeId: "b",
+        nodeIndex: 1,
+        field: "title",
+        message: "‘b’ and ‘a’ are both titled ‘Step a’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).",
+      },
+    ]);
   });
 });

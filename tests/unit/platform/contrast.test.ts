@@ -38,6 +38,8 @@ describe("theme contrast (WCAG 2.2 SC 1.4.3, AA ≥ 4.5:1)", () => {
     ["within", "within-soft"],
     ["marginal", "marginal-soft"],
     ["out", "card"],
+    ["practice", "practice-soft"],
+    ["practice", "card"],
   ];
   for (const [fg, bg] of pairs) {
     it(`${fg} text on ${bg} reaches 4.5:1`, () => {
@@ -46,5 +48,8 @@ describe("theme contrast (WCAG 2.2 SC 1.4.3, AA ≥ 4.5:1)", () => {
   }
   it("white text on the copper button reaches 4.5:1", () => {
     expect(ratio("#ffffff", colour("copper"))).toBeGreaterThanOrEqual(4.5);
+  });
+  it("white text on the practice banner reaches 4.5:1", () => {
+    expect(ratio("#ffffff", colour("practice"))).toBeGreaterThanOrEqual(4.5);
   });
 });

@@ -44,9 +44,10 @@ describe("the policy", () => {
     for (const action of ["calls.write", "equipment.write", "runs.start", "trees.author", "meters.manage"] as const) expect(can(who("trainer"), action), action).toBe(false);
   });
 
-  it("only the owner manages people and sees the overview", () => {
+  it("only the owner manages people and reads the audit trail; owners and leads read the overview", () => {
+    expect(allowed("audit.view")).toEqual(["owner"]);
     expect(allowed("people.manage")).toEqual(["owner"]);
-    expect(allowed("shop.overview")).toEqual(["owner"]);
+    expect(allowed("shop.overview")).toEqual(["lead", "owner"]);
   });
 
   it("steps, notes, photos, pausing and the outcome belong to whoever holds the run, whatever their role", () => {

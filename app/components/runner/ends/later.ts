@@ -7,3 +7,5 @@ import { lazy } from "react";
 export const loadEndScreens = () => import("./endScreens");
 export const OutcomeScreen = lazy(() => loadEndScreens().then((m) => ({ default: m.OutcomeScreen })));
 export const DoneScreen = lazy(() => loadEndScreens().then((m) => ({ default: m.DoneScreen })));
+export const PracticeEndScreen = lazy(() => loadEndScreens().then((m) => ({ default: m.PracticeEndScreen })));
+export const PracticeDoneScreen = lazy(() => loadEndScreens().then((m) => ({ default: m.PracticeDoneScreen })));
