@@ -290,6 +290,7 @@ describe("the run view", () => {
         si: r.siValue,
         siUnit: r.siUnit,
         verdict: r.verdict,
+        call: r.call,
         message: r.message,
         limitsText: r.limits?.text ?? null,
         meterId: r.meterId,
