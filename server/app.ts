@@ -4,7 +4,8 @@
 // (production only) and the service worker (/sw.js, server/service-worker.ts); a 400 for an address
 // that cannot be read; the same-origin check for every
 // state-changing method; React Router with the client's address in the load context; security
-// headers; every Set-Cookie of the answer; and a 500 answer (never a stopped process) for an error.
+// headers; every Set-Cookie of the answer; brotli or gzip where the client accepts it; and a 500
+// answer (never a stopped process) for an error.
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { randomUUID } from "node:crypto";
 import type { IncomingMessage, ServerResponse } from "node:http";
@@ -19,6 +20,7 @@ import { answeringOutages } from "../app/lib/errors.server";
 import { CROSS_SITE_MESSAGE, SAFE_METHODS, crossSiteReason } from "../app/lib/http.server";
 import { log, safeError } from "../app/lib/log.server";
 import { baseSecurityHeaders } from "../app/lib/security-headers.server";
+import { compressible, compressionStages, compressWhole, MIN_BYTES, negotiateEncoding, streamsAsRendered, varyOnEncoding } from "./compression";
 import { WORKER_HEADERS, workerSource } from "./service-worker";
 import { staticFiles } from "./static";
 
@@ -222,25 +224,46 @@ function toRequest(req: IncomingMessage, origin: string, method: string, signal:
   return new Request(`${origin}${req.url}`, init);
 }
 
-/** Writes a fetch Response: each Set-Cookie as its own header, the body streamed with back-pressure. */
+/**
+ * Writes a fetch Response: each Set-Cookie as its own header, the body streamed with back-pressure,
+ * compressed when the client accepts it and the body is worth it (compression.ts). Pages and data
+ * requests are compressed as they stream; other answers (JSON) are read whole, compressed in one
+ * go when they reach MIN_BYTES, and sent with their length.
+ */
 async function send(req: IncomingMessage, res: ServerResponse, response: Response, base: Record<string, string>): Promise<void> {
+  const textual = compressible(response.headers, response.status);
+  let encoding = textual && response.body && req.method !== "HEAD" ? negotiateEncoding(headerValue(req, "accept-encoding")) : null;
+  let whole: Buffer | null = null;
+  if (encoding && !streamsAsRendered(response.headers)) {
+    whole = Buffer.from(await response.arrayBuffer());
+    if (whole.length < MIN_BYTES) encoding = null;
+    else whole = await compressWhole(whole, encoding);
+  }
   const raw: string[] = [];
   const own = new Set<string>();
   response.headers.forEach((value, name) => {
-    if (name === "set-cookie") return;
+    if (name === "set-cookie" || (textual && name === "vary") || ((encoding || whole) && name === "content-length")) return;
     raw.push(name, value);
     own.add(name);
   });
   for (const cookie of response.headers.getSetCookie()) raw.push("set-cookie", cookie);
+  if (textual) raw.push("vary", varyOnEncoding(response.headers.get("vary")));
+  if (encoding) raw.push("content-encoding", encoding);
+  if (whole) raw.push("content-length", String(whole.length));
   for (const [name, value] of Object.entries(base)) if (!own.has(name)) raw.push(name, value);
   res.writeHead(response.status, response.statusText || undefined, raw);
+  if (whole) {
+    res.end(whole);
+    return;
+  }
   if (!response.body || req.method === "HEAD") {
     await response.body?.cancel().catch(() => {});
     res.end();
     return;
   }
   try {
-    await pipeline(Readable.fromWeb(response.body as import("node:stream/web").ReadableStream), res);
+    const body = Readable.fromWeb(response.body as import("node:stream/web").ReadableStream);
+    await (encoding ? pipeline(body, ...compressionStages(encoding), res) : pipeline(body, res));
   } catch (error) {
     // The client went away mid-answer: nothing to send it; anything else is worth a line.
     if (!res.destroyed || !(error as { code?: string }).code?.startsWith("ERR_STREAM_PREMATURE_CLOSE")) {

@@ -1,8 +1,8 @@
 // Sign-in: password check, the rate limit, and the session rows the cookie points at.
-import { and, count, desc, eq, gt, isNull, lt, max, ne, or } from "drizzle-orm";
+import { and, count, desc, eq, gt, isNull, lt, max, ne, or, sql } from "drizzle-orm";
 import { memberships, sessions, shops, signInAttempts, users, type AttemptPurpose } from "../../db/schema";
 import { recordAudit } from "./audit.server";
-import { db, writeTx, type Db, type Tx } from "./db.server";
+import { db, prepared, writeTx, type Db, type Tx } from "./db.server";
 import { burnVerify, verifyPassword } from "./password.server";
 import type { Role } from "./roles";
 
@@ -159,9 +159,9 @@ export type SessionUser = {
   role: Role;
 };
 
-/** The live session behind a session id, or null when it was revoked, expired or superseded. */
-export async function loadSession(sessionId: string, now = new Date()): Promise<SessionUser | null> {
-  const [row] = await db()
+/** The session row with its user, membership and shop: asked on every signed-in request, so built once. */
+const sessionQuery = prepared((db) =>
+  db
     .select({
       sessionId: sessions.id,
       userId: users.id,
@@ -180,8 +180,14 @@ export async function loadSession(sessionId: string, now = new Date()): Promise<
     .innerJoin(users, eq(users.id, sessions.userId))
     .innerJoin(memberships, and(eq(memberships.userId, sessions.userId), eq(memberships.shopId, sessions.shopId), isNull(memberships.deactivatedAt)))
     .innerJoin(shops, eq(shops.id, sessions.shopId))
-    .where(and(eq(sessions.id, sessionId), isNull(sessions.revokedAt)))
-    .limit(1);
+    .where(and(eq(sessions.id, sql.placeholder("sessionId")), isNull(sessions.revokedAt)))
+    .limit(1)
+    .prepare(),
+);
+
+/** The live session behind a session id, or null when it was revoked, expired or superseded. */
+export async function loadSession(sessionId: string, now = new Date()): Promise<SessionUser | null> {
+  const [row] = await sessionQuery().execute({ sessionId });
   if (!row || row.expiresAt <= now || row.sessionVersion !== row.userVersion) return null;
   const { expiresAt: _e, sessionVersion: _s, userVersion: _u, lastSeenAt, ...user } = row;
   const stale = new Date(now.getTime() - LAST_SEEN_MINUTES * 60_000);

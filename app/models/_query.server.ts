@@ -1,6 +1,7 @@
-// Query pieces the models share: a shop-scoped row lock, the unit → site → customer join, and
-// numbering per shop. Used by the models only (no authorisation here: the caller has decided).
-import { and, eq, max, sql, type SQL } from "drizzle-orm";
+// Query pieces the models share: a shop-scoped row lock, the unit → site → customer join, numbering
+// per shop, and related rows read as JSON inside one statement. Used by the models only (no
+// authorisation here: the caller has decided).
+import { and, eq, max, sql, type Column, type GetColumnData, type SQL } from "drizzle-orm";
 import type { MySqlSelect } from "drizzle-orm/mysql-core";
 import type { ResultSetHeader } from "mysql2";
 import { customers, equipmentUnits, reports, runs, serviceCalls, shopCounters, sites, trees, treeVersions, type Counter } from "../../db/schema";
@@ -107,4 +108,51 @@ export async function nextNumber(tx: Tx, shopId: string, counter: Counter): Prom
         ON DUPLICATE KEY UPDATE ${c.last} = LAST_INSERT_ID(GREATEST(${c.last} + 1, ${floor}))`,
   )) as unknown as [ResultSetHeader];
   return head.insertId;
+}
+
+// --- related rows as JSON, in the statement that reads their parent --------------------------------
+//
+// A page that shows a record with its lists (a run with its steps, notes, photos…) reads them all in
+// one statement: each list is a correlated subquery that MariaDB folds into one JSON value
+// (JSON_ARRAYAGG of JSON_OBJECT). One round trip instead of one per list; in Node, one JSON.parse
+// instead of a driver row and an ORM mapping per row. Dates arrive as "YYYY-MM-DD hh:mm:ss.fff"
+// (UTC, the connection's zone) and booleans as 0/1; JSON columns arrive as JSON.
+
+/** What a column reads as inside JSON_OBJECT. */
+type JsonValue<T> = T extends Date ? string : T extends boolean ? 0 | 1 : T;
+type JsonField = Column | SQL<unknown>;
+/** The object JSON_OBJECT(fields) reads as. */
+export type JsonOf<F extends Record<string, JsonField>> = {
+  [K in keyof F]: F[K] extends Column ? JsonValue<GetColumnData<F[K]>> : F[K] extends SQL<infer T> ? JsonValue<T> : never;
+};
+
+/** JSON_OBJECT('name', column, …). Names are written into the SQL, so they are plain words only. */
+export function jsonObject(fields: Record<string, JsonField>): SQL {
+  const pairs = Object.entries(fields).map(([name, value]) => {
+    if (!/^\w+$/.test(name)) throw new Error(`not a JSON field name: ${name}`);
+    return sql`${sql.raw(`'${name}'`)}, ${value}`;
+  });
+  return sql`JSON_OBJECT(${sql.join(pairs, sql`, `)})`;
+}
+
+/** `(SELECT JSON_OBJECT(fields) <from…>)`: one related row as an object, or null. */
+export function jsonRow<F extends Record<string, JsonField>>(fields: F, from: SQL): SQL<JsonOf<F> | string | null> {
+  return sql<JsonOf<F> | string | null>`(SELECT ${jsonObject(fields)} ${from} LIMIT 1)`;
+}
+
+/** `(SELECT JSON_ARRAYAGG(JSON_OBJECT(fields) ORDER BY …) <from…>)`: related rows as an array, or null when none. */
+export function jsonRows<F extends Record<string, JsonField>>(fields: F, from: SQL, orderBy: SQL): SQL<JsonOf<F>[] | string | null> {
+  return sql<JsonOf<F>[] | string | null>`(SELECT JSON_ARRAYAGG(${jsonObject(fields)} ORDER BY ${orderBy}) ${from})`;
+}
+
+/** A JSON function's result: mysql2 parses it when MariaDB marks it as JSON, else it is text. */
+export function fromJson<T>(value: T | string | null): T | null {
+  return typeof value === "string" ? (JSON.parse(value) as T) : value;
+}
+
+/** A DATETIME read inside JSON ("2026-12-03 09:47:02.319", UTC) as ISO 8601. */
+export function jsonIso(value: string): string;
+export function jsonIso(value: string | null): string | null;
+export function jsonIso(value: string | null): string | null {
+  return value === null ? null : `${value.replace(" ", "T")}Z`;
 }

@@ -5,7 +5,9 @@
 // Servers with their own settings are started here from the same build (server.js); a TCP relay in
 // this process stands between one of them and MariaDB so the test can cut the database off and back.
 import { spawn } from "node:child_process";
+import { get as httpGet, type IncomingHttpHeaders } from "node:http";
 import { connect } from "node:net";
+import { brotliDecompressSync, gunzipSync } from "node:zlib";
 import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
@@ -374,5 +376,52 @@ describe("configuration is checked at boot (issue 8 item 8)", () => {
     const { code, output } = await bootFails({ AUTH_SECRET: "" });
     expect(code).toBe(1);
     expect(output).toContain("AUTH_SECRET:");
+  });
+});
+
+describe("compressed answers where the client accepts them (issue 14)", () => {
+  /** GET with exactly these headers; the raw bytes and headers as sent (fetch would decode them). */
+  function rawGet(path: string, headers: Record<string, string>): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
+    return new Promise((resolve, reject) => {
+      const req = httpGet(`${baseUrl}${path}`, { headers }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c: Buffer) => chunks.push(c));
+        res.on("end", () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks) }));
+      });
+      req.on("error", reject);
+    });
+  }
+
+  it("pages and JSON in brotli or gzip as Accept-Encoding asks (RFC 9110 §12.5.3), the same content as uncompressed; tiny answers as they are", async () => {
+    const cookie = await signIn(baseUrl, "lead@tinderbox.example");
+    const plain = await rawGet("/api/trees", { cookie, "accept-encoding": "identity" });
+    expect(plain.status).toBe(200);
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    expect(plain.headers.vary).toMatch(/accept-encoding/i);
+    expect(plain.body.length).toBeGreaterThan(1024);
+
+    const br = await rawGet("/api/trees", { cookie, "accept-encoding": "gzip, deflate, br" });
+    expect(br.headers["content-encoding"]).toBe("br");
+    expect(Number(br.headers["content-length"])).toBe(br.body.length);
+    expect(br.headers.vary).toMatch(/accept-encoding/i);
+    expect(JSON.parse(brotliDecompressSync(br.body).toString())).toEqual(JSON.parse(plain.body.toString()));
+    expect(br.body.length).toBeLessThan(plain.body.length / 2);
+
+    const gz = await rawGet("/api/trees", { cookie, "accept-encoding": "gzip, deflate" });
+    expect(gz.headers["content-encoding"]).toBe("gzip");
+    expect(JSON.parse(gunzipSync(gz.body).toString())).toEqual(JSON.parse(plain.body.toString()));
+
+    // A streamed page: the whole document arrives, compressed.
+    const page = await rawGet("/calls/all", { cookie, "accept-encoding": "br;q=0, gzip" });
+    expect(page.status).toBe(200);
+    expect(page.headers["content-encoding"]).toBe("gzip");
+    const html = gunzipSync(page.body).toString();
+    expect(html).toMatch(/^<!DOCTYPE html>/i);
+    expect(html).toMatch(/<\/html>\s*$/);
+
+    // Under 1 KB it is not worth it; images and other binaries are never touched.
+    const health = await rawGet("/healthz", { "accept-encoding": "gzip, br" });
+    expect(health.headers["content-encoding"]).toBeUndefined();
+    expect(JSON.parse(health.body.toString())).toEqual({ ok: true, db: "up" });
   });
 });

@@ -1,15 +1,14 @@
 // The phone runner: one step per screen, the position in the procedure, a visible saving state,
 // and a bottom bar (back, note, photo, more) sized for gloved hands. This file picks the screen
 // for where the run stands and lays it out; each screen, panel and bar has its own file.
-import { useEffect, useRef, useState, type ReactNode } from "react";
+import { Suspense, useEffect, useRef, useState, type ReactNode } from "react";
 import { Announcer } from "~/components/Announcer";
 import type { OutcomeNode } from "~/engine/types";
 import type { RunView } from "~/lib/run-log";
 import { Closed } from "./ends/Closed";
-import { DoneScreen } from "./ends/DoneScreen";
 import { EscalatedScreen } from "./ends/EscalatedScreen";
 import { HandOverScreen } from "./ends/HandOverScreen";
-import { OutcomeScreen } from "./ends/OutcomeScreen";
+import { DoneScreen, loadEndScreens, OutcomeScreen, PracticeDoneScreen, PracticeEndScreen } from "./ends/later";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
@@ -26,7 +25,6 @@ import { Toolbar, type Panel } from "./Toolbar";
 import { PhoneStatus } from "./offline/PhoneStatus";
 import { registerWorker } from "./offline/worker-client";
 import { useRun, type RunHandle } from "./useRun";
-import { PracticeDoneScreen, PracticeEndScreen } from "./practice/PracticeEnd";
 import { PracticeBrief } from "./practice/Scripted";
 
 /** The screen for where the run stands. */
@@ -78,6 +76,11 @@ export function Runner({ initial, fromPhone = false }: { initial: RunView; fromP
   // The service worker keeps this page and its code on the phone for working without signal.
   useEffect(registerWorker, []);
 
+  // The end-of-run screens come in their own chunk: fetched now, used at the run's end.
+  useEffect(() => {
+    void loadEndScreens();
+  }, []);
+
   // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
   useEffect(() => {
     if (panel && panel !== "more") window.scrollTo({ top: 0 });
@@ -115,7 +118,7 @@ export function Runner({ initial, fromPhone = false }: { initial: RunView; fromP
             <Markdown blocks={view.description} className="mt-2" />
           </details>
         )}
-        {screenFor(run, setPanel)}
+        <Suspense fallback={null}>{screenFor(run, setPanel)}</Suspense>
         {shownNode && <StepExtras run={run} node={shownNode} />}
       </main>
       {holds && open && panel === "more" && <MorePanel run={run} onPick={setPanel} />}
