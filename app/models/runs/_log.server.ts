@@ -25,6 +25,7 @@ export function stepView(row: StepRow): StepView {
     limitsText: row.limits?.text ?? null,
     meterId: row.meterId,
     meter: row.meter,
+    confirmed: row.confirmed,
     to: row.toNode,
     undone: row.undone,
     undoesSeq: row.undoesSeq,
