@@ -125,6 +125,9 @@ export interface RunView {
   timeZone: string;
 }
 
+/** Beside a reading the technician confirmed when the engine asked whether it was right (run log, report). */
+export const CONFIRMED_NOTE = "(confirmed as read)";
+
 /** A step as the phone sends it: the log entry (without a meter) and the shop meter chosen. */
 export interface StepPayload {
   key: string;

@@ -178,7 +178,7 @@ describe("the phone runner (390×844)", () => {
     await expect.poll(() => page.locator("#announce-assertive").textContent()).toMatch(/Expected a capacitance, got a voltage/);
     await snap(page, "cap-rating-wrong-quantity");
     await page.getByRole("button", { name: "Use 1.5 µF" }).click();
-    await page.getByText("Recorded as").waitFor();
+    await page.getByText("Understood as").waitFor();
     await snap(page, "cap-rating");
     await page.getByRole("button", { name: "Save rating" }).click();
 

@@ -6,8 +6,8 @@ import { announce } from "~/components/Announcer";
 import { Labelled } from "~/components/Field";
 import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, NameplateNode, VerdictKind } from "~/engine/types";
-import { parseReading, QUANTITY_INFO, unitQuantity } from "~/engine/units";
-import { describeMeter, evaluateReading } from "~/engine/verdict";
+import { parseRating, QUANTITY_INFO, unitQuantity, type ParseReadingResult } from "~/engine/units";
+import { describeMeter, evaluateReading, type Confirmation, type Verdict } from "~/engine/verdict";
 import { meterAccuracy, type MeterView } from "~/lib/run-log";
 import { useKeepInView } from "./inView";
 import type { RunHandle } from "./useRun";
@@ -18,6 +18,20 @@ export function composeReading(text: string, unit: string): string {
   if (/^[+-]?\d+,\d+$/.test(t.split(/\s+/)[0] ?? "")) t = t.replace(",", ".");
   if (!t) return "";
   return /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t) ? `${t} ${unit}` : t;
+}
+
+/**
+ * What a suggestion ("208 V", "1.47 µF") puts back in the form: the number in the field and its
+ * unit among the step's unit buttons when it is one of them; otherwise the whole text in the field.
+ */
+export function fillFrom(suggestion: string, units: readonly string[]): { text: string; unit: string | null } {
+  const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s+(\S.*)$/.exec(suggestion.trim());
+  return m && units.includes(m[2]!) ? { text: m[1]!, unit: m[2]! } : { text: suggestion.trim(), unit: null };
+}
+
+/** What a nameplate value was understood as: "1.5 µF", or "1500 nF = 1.5 µF" when it was converted. */
+export function ratingEcho(p: Extract<ParseReadingResult, { ok: true }>, unit: string): string {
+  return p.converted ? `${p.typedNumber} ${p.typedUnit} = ${p.display} ${unit}` : `${p.display} ${unit}`;
 }
 
 export const VERDICT_STYLE: Record<VerdictKind, { word: string; box: string }> = {
@@ -43,7 +57,24 @@ export function VerdictBox({ verdict, message }: { verdict: VerdictKind; message
  * live region that is always there (so screen readers read each new verdict); a refusal on Save
  * is also said aloud at once. Kept in view while the field has focus.
  */
-export function ValueField({ label, text, setText, unit, problem, children }: { label: string; text: string; setText: (v: string) => void; unit: string; problem: string | null; children: ReactNode }) {
+export function ValueField({
+  label,
+  text,
+  setText,
+  unit,
+  problem,
+  fixes,
+  children,
+}: {
+  label: string;
+  text: string;
+  setText: (v: string) => void;
+  unit: string;
+  problem: string | null;
+  /** Buttons that put what was probably meant back in the field, shown with the problem. */
+  fixes?: ReactNode;
+  children: ReactNode;
+}) {
   const group = useRef<HTMLDivElement>(null);
   const id = useId();
   useKeepInView(group);
@@ -70,6 +101,42 @@ export function ValueField({ label, text, setText, unit, problem, children }: { 
       <div id={`${id}-said`} role="status" aria-live="polite" aria-atomic="true">
         {problem ? <p className="field-error">{problem}</p> : children}
       </div>
+      {problem && fixes}
+    </div>
+  );
+}
+
+/** What was probably meant, as buttons that fill the field ("Use 208 V"). */
+export function Suggestions({ list, onPick }: { list: readonly string[] | undefined; onPick: (s: string) => void }) {
+  if (!list?.length) return null;
+  return (
+    <div className="flex flex-wrap gap-2" role="group" aria-label="Did you mean">
+      {list.map((x) => (
+        <button key={x} type="button" className="btn-quiet min-h-14 text-lg" onClick={() => onPick(x)}>
+          Use {x}
+        </button>
+      ))}
+    </div>
+  );
+}
+
+/**
+ * An implausible reading (decision 0103): the engine's question beside the field, what was probably
+ * meant as a button that fills the field, and "Yes, … is right" to save it as typed, confirmed.
+ * What it would count as stays visible, so confirming is an informed choice.
+ */
+export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { confirm: Confirmation; verdict: Verdict; typed: string; onPick: (s: string) => void; onConfirm: () => void }) {
+  return (
+    <div className="space-y-3 rounded-xl border-2 border-marginal bg-marginal-soft p-3" role="group" aria-label="Check this reading">
+      <p className="text-xl font-bold text-marginal">Check this reading</p>
+      <p className="text-lg font-semibold text-ink">{confirm.message}</p>
+      <Suggestions list={confirm.suggestion ? [confirm.suggestion] : undefined} onPick={onPick} />
+      <button type="button" className="btn-primary min-h-14 w-full text-lg" onClick={onConfirm}>
+        Yes, {typed} is right
+      </button>
+      <p className="text-base text-ink">
+        Saved as typed, it counts as {VERDICT_STYLE[verdict.verdict].word.toLowerCase()}: {verdict.message}
+      </p>
     </div>
   );
 }
@@ -101,7 +168,7 @@ function MeterChoice({ node, offered, value, onChange }: { node: MeasurementNode
     node.meter
       ? { id: "", title: "As the procedure assumes", detail: `Accuracy ${describeMeter(node.meter, node.unit)}` }
       : { id: "", title: "Not listed", detail: "The reading is judged as read." },
-    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}` })),
+    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}, range up to ${m.rangeMax} ${m.unit}` })),
   ];
   return (
     <fieldset className="space-y-2">
@@ -151,14 +218,24 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   const variables = useMemo(() => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])), [run.state.variables]);
   const limits = computeLimits(node, variables);
   const reading = composeReading(text, unit);
+  // The meter's range goes with its accuracy: a reading above it is refused, "OL" judged against it.
   const preview = reading ? evaluateReading(node, reading, meter ? { variables, meter } : { variables }) : null;
-  const overRange = chosen && preview?.ok ? rangeWarning(preview.verdict.reading.si, chosen) : null;
+  const confirm = preview?.ok ? preview.verdict.confirm : undefined;
   // One message at a time: a refusal on Save, else what is wrong with what is typed.
   const problem = error ?? (preview && !preview.ok ? preview.message : null);
+  const units = unitsFor(node.quantity, node.unit);
+  const fill = (s: string) => {
+    const f = fillFrom(s, units);
+    setText(f.text);
+    if (f.unit) setUnit(f.unit);
+    setError(null);
+  };
 
-  function save() {
+  function save(confirmed = false) {
     if (!reading) return refuse(setError, "Type the reading first.");
-    refuse(setError, run.submit({ type: "reading", node: node.id, reading }, chosen?.id ?? null));
+    // Asked, not refused: the question is already beside the field; say it aloud again.
+    if (confirm && !confirmed) return announce(confirm.message, "assertive");
+    refuse(setError, run.submit(confirmed ? { type: "reading", node: node.id, reading, confirmed: true } : { type: "reading", node: node.id, reading }, chosen?.id ?? null));
   }
 
   return (
@@ -169,11 +246,22 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
         {limits.ok && !limits.limits.fixed && <p className="text-base text-ink-soft">{limits.limits.derivation}</p>}
         {!limits.ok && <p className="field-error">{limits.message}</p>}
       </div>
-      <ValueField label="Reading" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
-        {preview?.ok && <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} />}
-        {overRange && <p className="mt-2 font-semibold text-marginal">{overRange}</p>}
+      <ValueField
+        label="Reading"
+        text={text}
+        setText={(v) => (setText(v), setError(null))}
+        unit={unit}
+        problem={problem}
+        fixes={!error && preview && !preview.ok ? <Suggestions list={preview.suggestions} onPick={fill} /> : null}
+      >
+        {preview?.ok &&
+          (confirm ? (
+            <ConfirmBox confirm={confirm} verdict={preview.verdict} typed={reading} onPick={fill} onConfirm={() => save(true)} />
+          ) : (
+            <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} />
+          ))}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
+      <UnitButtons units={units} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
       <MeterChoice node={node} offered={offered} value={meterId} onChange={setMeterId} />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save reading
@@ -182,20 +270,22 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   );
 }
 
-function rangeWarning(si: number, m: MeterView): string | null {
-  const top = parseReading(`${m.rangeMax} ${m.unit}`, m.quantity, m.unit);
-  if (!top.ok) return null;
-  return Math.abs(si) > Math.abs(top.si) ? `That is above this meter's ${m.rangeMax} ${m.unit} range: check the range setting.` : null;
-}
-
 export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHandle }) {
   const [text, setText] = useState("");
   const [unit, setUnit] = useState(node.unit);
   const [error, setError] = useState<string | null>(null);
   const onFile = Object.entries(run.view.unit?.nameplate ?? {}).filter(([, v]) => unitQuantity(v.unit, node.quantity) === node.quantity);
   const value = composeReading(text, unit);
-  const parsed = value ? parseReading(value, node.quantity, node.unit) : null;
+  // Read as the server will (a rating is above zero), so what it understood shows before Save.
+  const parsed = value ? parseRating(value, node.quantity, node.unit) : null;
   const problem = error ?? (parsed && !parsed.ok ? parsed.message : null);
+  const units = unitsFor(node.quantity, node.unit);
+  const fill = (s: string) => {
+    const f = fillFrom(s, units);
+    setText(f.text);
+    if (f.unit) setUnit(f.unit);
+    setError(null);
+  };
 
   function save() {
     if (!value) return refuse(setError, "Type the value from the nameplate first.");
@@ -216,14 +306,21 @@ export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHan
           </div>
         </div>
       )}
-      <ValueField label="Rated value" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
+      <ValueField
+        label="Rated value"
+        text={text}
+        setText={(v) => (setText(v), setError(null))}
+        unit={unit}
+        problem={problem}
+        fixes={!error && parsed && !parsed.ok ? <Suggestions list={parsed.suggestions} onPick={fill} /> : null}
+      >
         {parsed?.ok && (
           <p className="text-lg">
-            Recorded as <strong>{parsed.display} {node.unit}</strong>
+            Understood as <strong>{ratingEcho(parsed, node.unit)}</strong>
           </p>
         )}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the rating" />
+      <UnitButtons units={units} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the rating" />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save rating
       </button>

@@ -94,6 +94,7 @@ export function useRun(initial: RunView) {
       limitsText: verdict?.limits.text ?? null,
       meterId: full.type === "reading" ? meterId : null,
       meter: full.type === "reading" ? (full.meter ?? null) : null,
+      confirmed: full.type === "reading" && full.confirmed === true,
       to: s?.to ?? null,
       undone: false,
       undoesSeq: undone ?? null,
