@@ -130,7 +130,7 @@ describe("the phone runner (390×844)", () => {
     await atStep(page, "Supply voltage across L1–L2");
     await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("208");
-    await page.getByText("Within limits").waitFor();
+    await page.getByText("Within limits", { exact: true }).waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
     await expectNoSeriousViolations(page, "the supply measurement with its verdict");
     // The verdict is a live region right under the field. With the phone's keyboard open (here the
@@ -187,7 +187,7 @@ describe("the phone runner (390×844)", () => {
     await expect(page.getByText("1.41–1.59 µF", { exact: true }).isVisible()).resolves.toBe(true);
     await page.getByRole("radio", { name: /^Van 1 multimeter — capacitance, 100 µF range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("1.47");
-    await page.getByText("Within limits").waitFor();
+    await page.getByText("Within limits", { exact: true }).waitFor();
     await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF \(1\.5 µF ± 6 %/).first().isVisible()).resolves.toBe(true);
     await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
     await snap(page, "cap-reading-uF");
@@ -202,7 +202,7 @@ describe("the phone runner (390×844)", () => {
     await atStep(page, "Run capacitor against its rating");
     await page.getByLabel("Reading", { exact: true }).fill("1470");
     await page.getByRole("group", { name: "Unit of the reading" }).getByRole("radio", { name: "nF" }).click();
-    await page.getByText("Within limits").waitFor();
+    await page.getByText("Within limits", { exact: true }).waitFor();
     await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF/).first().isVisible()).resolves.toBe(true);
 
     // A photo of the capacitor, from the camera input.

@@ -134,9 +134,7 @@ export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { con
       <button type="button" className="btn-primary min-h-14 w-full text-lg" onClick={onConfirm}>
         Yes, {typed} is right
       </button>
-      <p className="text-base text-ink">
-        Saved as typed, it counts as {VERDICT_STYLE[verdict.verdict].word.toLowerCase()}: {verdict.message}
-      </p>
+      <p className="text-base text-ink">If it is right, it counts as: {verdict.message}</p>
     </div>
   );
 }
