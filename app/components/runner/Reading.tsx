@@ -29,6 +29,16 @@ export function fillFrom(suggestion: string, units: readonly string[]): { text: 
   return m && units.includes(m[2]!) ? { text: m[1]!, unit: m[2]! } : { text: suggestion.trim(), unit: null };
 }
 
+/** Puts a suggestion back in the form (the field and the unit button) and clears the last refusal. */
+export function filler(units: readonly string[], setText: (t: string) => void, setUnit: (u: string) => void, clear: () => void) {
+  return (suggestion: string) => {
+    const f = fillFrom(suggestion, units);
+    setText(f.text);
+    if (f.unit) setUnit(f.unit);
+    clear();
+  };
+}
+
 /** What a nameplate value was understood as: "1.5 µF", or "1500 nF = 1.5 µF" when it was converted. */
 export function ratingEcho(p: Extract<ParseReadingResult, { ok: true }>, unit: string): string {
   return p.converted ? `${p.typedNumber} ${p.typedUnit} = ${p.display} ${unit}` : `${p.display} ${unit}`;
@@ -123,9 +133,10 @@ export function Suggestions({ list, onPick }: { list: readonly string[] | undefi
 /**
  * An implausible reading (decision 0103): the engine's question beside the field, what was probably
  * meant as a button that fills the field, and "Yes, … is right" to save it as typed, confirmed.
- * What it would count as stays visible, so confirming is an informed choice.
+ * What it would count as stays visible, so confirming is an informed choice (not in practice, where
+ * the trainee makes their own call first).
  */
-export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { confirm: Confirmation; verdict: Verdict; typed: string; onPick: (s: string) => void; onConfirm: () => void }) {
+export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { confirm: Confirmation; verdict?: Verdict; typed: string; onPick: (s: string) => void; onConfirm: () => void }) {
   return (
     <div className="space-y-3 rounded-xl border-2 border-marginal bg-marginal-soft p-3" role="group" aria-label="Check this reading">
       <p className="text-xl font-bold text-marginal">Check this reading</p>
@@ -134,7 +145,7 @@ export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { con
       <button type="button" className="btn-primary min-h-14 w-full text-lg" onClick={onConfirm}>
         Yes, {typed} is right
       </button>
-      <p className="text-base text-ink">If it is right, it counts as: {verdict.message}</p>
+      {verdict && <p className="text-base text-ink">If it is right, it counts as: {verdict.message}</p>}
     </div>
   );
 }
@@ -222,12 +233,7 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   // One message at a time: a refusal on Save, else what is wrong with what is typed.
   const problem = error ?? (preview && !preview.ok ? preview.message : null);
   const units = unitsFor(node.quantity, node.unit);
-  const fill = (s: string) => {
-    const f = fillFrom(s, units);
-    setText(f.text);
-    if (f.unit) setUnit(f.unit);
-    setError(null);
-  };
+  const fill = filler(units, setText, setUnit, () => setError(null));
 
   function save(confirmed = false) {
     if (!reading) return refuse(setError, "Type the reading first.");
@@ -278,12 +284,7 @@ export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHan
   const parsed = value ? parseRating(value, node.quantity, node.unit) : null;
   const problem = error ?? (parsed && !parsed.ok ? parsed.message : null);
   const units = unitsFor(node.quantity, node.unit);
-  const fill = (s: string) => {
-    const f = fillFrom(s, units);
-    setText(f.text);
-    if (f.unit) setUnit(f.unit);
-    setError(null);
-  };
+  const fill = filler(units, setText, setUnit, () => setError(null));
 
   function save() {
     if (!value) return refuse(setError, "Type the value from the nameplate first.");

@@ -6,6 +6,7 @@ import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { parseTree } from "../../../app/engine/markdown/parse";
 import { replay, tryEntry, type LogEntry } from "../../../app/engine/traversal";
+import { practiceReplay, practiceTryEntry, type PracticeEntry } from "../../../app/engine/training/practice";
 import type { MeasurementNode } from "../../../app/engine/types";
 import { parseRating } from "../../../app/engine/units";
 import { evaluateReading } from "../../../app/engine/verdict";
@@ -53,6 +54,19 @@ describe("confirming an implausible reading", () => {
     const state = replay(tree, [...toSupply, entryOf(row)]);
     expect(state.rejected).toEqual([]);
     expect(state.steps.at(-1)?.confirmed).toBe(true);
+  });
+
+  it("in practice too: asked about until confirmed, with the trainee's call, and a practice log replays with it", () => {
+    const withCall = { ...slip, call: "low" } as PracticeEntry;
+    const asked = practiceTryEntry(tree, toSupply as PracticeEntry[], withCall);
+    expect(!asked.ok && asked.rejection.code).toBe("needs-confirmation");
+    expect(!asked.ok && asked.rejection.confirm?.suggestion).toBe("208 V");
+    const confirmed = { ...withCall, confirmed: true } as PracticeEntry;
+    const ok = practiceTryEntry(tree, toSupply as PracticeEntry[], confirmed);
+    expect(ok.ok && ok.step?.confirmed).toBe(true);
+    const state = practiceReplay(tree, [...(toSupply as PracticeEntry[]), confirmed]);
+    expect(state.rejected).toEqual([]);
+    expect(state.current).toBeNull();
   });
 
   it("a confirmed reading is another payload under one idempotency key; confirmed:false is the same as none", () => {

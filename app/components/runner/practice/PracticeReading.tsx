@@ -7,7 +7,7 @@ import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, VerdictKind } from "~/engine/types";
 import { callsAt } from "~/engine/training/practice";
 import { describeMeter, evaluateReading } from "~/engine/verdict";
-import { composeReading, UnitButtons, unitsFor, ValueField } from "../Reading";
+import { composeReading, ConfirmBox, filler, Suggestions, UnitButtons, unitsFor, ValueField } from "../Reading";
 import type { RunHandle } from "../useRun";
 import { ScriptedBox } from "./Scripted";
 
@@ -32,15 +32,20 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
   // Only what is wrong with the typing is shown here (a unit of another quantity…), never a verdict.
   const parsed = reading ? evaluateReading(node, reading, { variables }) : null;
   const problem = error ?? (parsed && !parsed.ok && parsed.code !== "limits" ? parsed.message : null);
+  // An implausible reading is asked about as on a real run, without saying what it would count as.
+  const confirm = parsed?.ok ? parsed.verdict.confirm : undefined;
+  const units = unitsFor(node.quantity, node.unit);
+  const fill = filler(units, setText, setUnit, () => setError(null));
 
   function refuse(message: string | null) {
     setError(message);
     if (message) announce(message, "assertive");
   }
-  function save() {
+  function save(confirmed = false) {
     if (!reading) return refuse("Type the reading first.");
     if (!call) return refuse("Make your call on the reading: which way does it go?");
-    refuse(run.submit({ type: "reading", node: node.id, reading, call }));
+    if (confirm && !confirmed) return announce(confirm.message, "assertive");
+    refuse(run.submit(confirmed ? { type: "reading", node: node.id, reading, call, confirmed: true } : { type: "reading", node: node.id, reading, call }));
   }
 
   return (
@@ -58,10 +63,17 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
           </button>
         )}
       </ScriptedBox>
-      <ValueField label="Reading" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
-        {null}
+      <ValueField
+        label="Reading"
+        text={text}
+        setText={(v) => (setText(v), setError(null))}
+        unit={unit}
+        problem={problem}
+        fixes={!error && parsed && !parsed.ok ? <Suggestions list={parsed.suggestions} onPick={fill} /> : null}
+      >
+        {confirm ? <ConfirmBox confirm={confirm} typed={reading} onPick={fill} onConfirm={() => save(true)} /> : null}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
+      <UnitButtons units={units} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
       <fieldset className="space-y-2">
         <legend className="field-label text-lg">Your call on this reading</legend>
         {callsAt(node).map((c) => (
