@@ -1,16 +1,18 @@
-import "@fontsource/source-sans-3/latin-400.css";
-import "@fontsource/source-sans-3/latin-600.css";
-import "@fontsource/source-sans-3/latin-700.css";
+import fontUrl from "@fontsource-variable/source-sans-3/files/source-sans-3-latin-wght-normal.woff2?url";
 import "./app.css";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState, type ReactNode } from "react";
-import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { errorWords } from "./components/errorWords";
 import { useNonce } from "./lib/nonce";
 
 export const links: Route.LinksFunction = () => [
+  // The one font file (app.css), fetched alongside the stylesheet rather than after it.
+  { rel: "preload", href: fontUrl, as: "font", type: "font/woff2", crossOrigin: "anonymous" },
   { rel: "icon", href: "/icon.svg", type: "image/svg+xml" },
   { rel: "manifest", href: "/manifest.webmanifest" },
+  { rel: "apple-touch-icon", href: "/icons/apple-touch-icon.png" },
 ];
 
 export function Layout({ children }: { children: ReactNode }) {
@@ -45,27 +47,9 @@ export default function App() {
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  let title = "Something went wrong";
-  let detail = "Cluepath hit an unexpected error. Your earlier entries are saved; go back and try again.";
-  let again = false;
-  if (isRouteErrorResponse(error)) {
-    const message = typeof error.data === "object" && error.data && "error" in error.data ? String(error.data.error) : undefined;
-    if (error.status === 404) {
-      title = "Not found";
-      detail = message ?? "There is nothing at this address, or it belongs to another shop.";
-    } else if (error.status === 403) {
-      title = "Not for your role";
-      detail = message ?? "Your role cannot open this page.";
-    } else if (error.status === 503) {
-      // The server's database-outage answer (errors.server.ts) carries the words to show.
-      title = "Can't reach the database";
-      detail = message ?? "Cluepath can't reach its database; what you typed is kept — try again in a minute.";
-      again = true;
-    } else {
-      title = `Error ${error.status}`;
-      detail = message ?? error.statusText;
-    }
-  }
+  // Only a 503 offers "Try again" here: the root's error can be anything.
+  const { title, detail, status } = errorWords(error);
+  const again = status === 503;
   return (
     <main className="mx-auto max-w-xl p-6">
       <h1 className="text-2xl font-bold">{title}</h1>

@@ -15,6 +15,7 @@ export default [
   route("auth/*", "routes/auth.$.ts"),
   route("healthz", "routes/healthz.ts"),
   // Field runs: JSON resource routes used by the runner.
+  route("api/runs", "routes/api.runs.ts"),
   route("api/runs/:runId", "routes/api.runs.$runId.ts"),
   route("api/runs/:runId/steps", "routes/api.runs.$runId.steps.ts"),
   route("api/runs/:runId/notes", "routes/api.runs.$runId.notes.ts"),
@@ -23,12 +24,14 @@ export default [
   route("api/runs/:runId/outcome", "routes/api.runs.$runId.outcome.ts"),
   route("api/runs/:runId/finish", "routes/api.runs.$runId.finish.ts"),
   route("api/photos/:photoId", "routes/api.photos.$photoId.ts"),
+  route("api/field-kit", "routes/api.field-kit.ts"),
   route("api/reports/:reportId/send", "routes/api.reports.$reportId.send.ts"),
   // Owner insights: CSV of one overview table, and "found here before" for the runner.
   route("api/insights/csv/:table", "routes/api.insights.csv.ts"),
   route("api/insights/found-here", "routes/api.insights.found-here.ts"),
   // Field runs: the phone runner and the printable report, full screen (outside the shell).
   route("runs/:runId", "routes/runs.$runId.tsx"),
+  route("phone", "routes/phone.tsx"),
   route("reports/:reportId", "routes/reports.$reportId.tsx"),
   // Authoring: the trees API, the editor (full screen, outside the shell), downloads and images.
   route("api/trees", "routes/api.trees.ts"),
@@ -75,6 +78,7 @@ export default [
     route("training/runs/:runId", "routes/training.runs.$runId.tsx"),
     route("practice", "routes/practice.tsx"),
     route("account", "routes/account.tsx"),
+    route("audit", "routes/audit.tsx"),
     // Authoring: the library, a tree, its versions and diffs, new trees and imports.
     route("trees", "routes/trees._index.tsx"),
     route("trees/new", "routes/trees.new.tsx"),

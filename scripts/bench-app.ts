@@ -4,7 +4,9 @@
 // the app server's CPU per request. Starts its own stack on loopback and prints one Markdown table.
 // A benchmark, not a test: it reports figures and targets, it does not fail on them.
 //
-//   npm run bench:app            (BENCH_ROUNDS=3, BENCH_SECONDS=4, STACK_PORT_BASE=… to pin ports)
+//   npm run bench:app            (BENCH_ROUNDS=3, BENCH_SECONDS=4, STACK_PORT_BASE=… to pin ports,
+//                                 BENCH_ONLY=json,step6,step60,api,bare,runner,db for a subset,
+//                                 STACK_CPU_PROF=DIR for the server's CPU profile)
 //
 // The two floors are not app routes: the benchmark builds a copy of the app with two routes of its
 // own — /__bench/json (a resource route returning JSON, no database) and /__bench/hello (a page with
@@ -13,7 +15,10 @@
 // App code imported: none here; scripts/lib/field.ts takes DEMO_PASSWORD from db/demo.ts.
 import autocannon from "autocannon";
 import mysql from "mysql2/promise";
+import { readdirSync, readFileSync } from "node:fs";
 import { cpus, loadavg } from "node:os";
+import { join } from "node:path";
+import { gzipSync } from "node:zlib";
 import { cloneRun, extendTo, nextKind, startField, stepBody, stepHeaders, techSessions, type Field } from "./lib/field";
 import { cpuSeconds, log, Stack } from "./lib/stack";
 
@@ -165,7 +170,7 @@ async function bench(stack: Stack, load0: number) {
     },
   });
 
-  const scenarios: Scenario[] = [
+  const all: Scenario[] = [
     {
       key: "json",
       label: "framework floor: a resource route returning JSON, no database (/__bench/json)",
@@ -215,6 +220,9 @@ async function bench(stack: Stack, load0: number) {
     },
   ];
 
+  // BENCH_ONLY=step6,json measures only those (a quicker look while working; the ratios need both sides).
+  const only = process.env.BENCH_ONLY?.split(",").map((k) => k.trim());
+  const scenarios = only ? all.filter((s) => only.includes(s.key)) : all;
   log("warm-up round");
   for (const s of scenarios) {
     const r = await s.round(Math.min(1.5, SECONDS));
@@ -229,7 +237,31 @@ async function bench(stack: Stack, load0: number) {
 
   const sql = await statementsPerRequest(stack, field, queues[6], views[0]!, cookies[0]!);
   const runnerEncoding = (await fetch(`${stack.baseUrl}/runs/${views[0]}`, { headers: { cookie: cookies[0]!, ...BROWSER } })).headers.get("content-encoding");
-  report(scenarios, rounds, sql, { load0, runnerEncoding });
+  report(scenarios, rounds, sql, { load0, runnerEncoding, weight: runnerWeight(stack.clientDir) });
+}
+
+type RunnerWeight = { sharedKb: number; ownKb: number; fontFiles: number };
+
+/**
+ * The runner's download from the build's client manifest, gzip, kB = 1000 bytes: the part every
+ * page loads (the entry, the root route and their imports), the runner route's own modules beyond
+ * that, and the font files the root stylesheet names.
+ */
+function runnerWeight(clientDir: string): RunnerWeight {
+  const assets = join(clientDir, "assets");
+  const file = readdirSync(assets).find((f) => /^manifest-\w+\.js$/.test(f));
+  if (!file) throw new Error(`no client manifest in ${assets}`);
+  const text = readFileSync(join(assets, file), "utf8");
+  type Entry = { module: string; imports?: string[]; css?: string[] };
+  const manifest = JSON.parse(text.slice(text.indexOf("{"), text.lastIndexOf("}") + 1)) as { entry: Entry; routes: Record<string, Entry> };
+  const files = (e: Entry) => [e.module, ...(e.imports ?? [])];
+  const gz = (url: string) => gzipSync(readFileSync(join(clientDir, url))).length / 1000;
+  const root = manifest.routes.root!;
+  const shared = new Set([...files(manifest.entry), ...files(root)]);
+  const own = files(manifest.routes["routes/runs.$runId"]!).filter((f) => !shared.has(f));
+  const fonts = new Set((root.css ?? []).flatMap((css) => readFileSync(join(clientDir, css), "utf8").match(/[\w./-]+\.woff2?/g) ?? []));
+  const sum = (xs: Iterable<string>) => [...xs].reduce((a, f) => a + gz(f), 0);
+  return { sharedKb: sum(shared), ownKb: sum(own), fontFiles: fonts.size };
 }
 
 type Statements = { total: number; detail: string };
@@ -292,9 +324,9 @@ function report(
   scenarios: Scenario[],
   rounds: Map<string, Round[]>,
   sql: Record<"json" | "step6" | "undo" | "api" | "bare" | "runner", Statements>,
-  extra: { load0: number; runnerEncoding: string | null },
+  extra: { load0: number; runnerEncoding: string | null; weight: RunnerWeight },
 ) {
-  const m = (key: string, f: keyof Round) => median(rounds.get(key)!.map((r) => r[f]));
+  const m = (key: string, f: keyof Round) => median((rounds.get(key) ?? []).map((r) => r[f]));
   const rps = (key: string) => m(key, "rps");
   const p50 = (key: string) => m(key, "p50");
   const x = (v: number) => `${v.toFixed(v < 1 ? 3 : 2)}×`;
@@ -356,8 +388,11 @@ function report(
   target("runner page ≥ 0.40× the bare SSR page", x(ratios.runner.rps), x(ratios.runner.cpu), ratios.runner.rps >= 0.4);
   target("SQL statements per reading step ≤ 6", String(sql.step6.total), "—", sql.step6.total <= 6);
   target("runner HTML compressed (Accept-Encoding: gzip, deflate, br)", extra.runnerEncoding ?? "none", "—", extra.runnerEncoding !== null);
+  const w = extra.weight;
+  target(`runner route's own JavaScript beyond the shared part (${w.sharedKb.toFixed(1)} kB) ≤ 40 kB gzip`, `${w.ownKb.toFixed(1)} kB`, "—", w.ownKb <= 40);
+  target("font files every page loads (the root stylesheet's) ≤ 1", String(w.fontFiles), "—", w.fontFiles <= 1);
   const failed = scenarios.map((s) => [s.key, rounds.get(s.key)!.reduce((a, r) => a + r.failed, 0)] as const).filter(([, n]) => n > 0);
-  const recycled = ["step6", "step60"].map((k) => [k, rounds.get(k)!.reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
+  const recycled = ["step6", "step60"].map((k) => [k, (rounds.get(k) ?? []).reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
   if (failed.length) lines.push("", `Failed requests (not counted above): ${failed.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
   if (recycled.length) lines.push("", `Runs reused after their cycle (log 4 entries longer): ${recycled.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
   console.log(lines.join("\n"));

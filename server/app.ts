@@ -1,9 +1,11 @@
 // The request handler of Cluepath's server, the same under `npm run dev` (loaded through Vite in
 // middleware mode by server.js) and in production (built into build/server/index.js). In order,
 // every request gets: a request id (X-Request-Id) and one log line; the build's static files
-// (production only); a 400 for an address that cannot be read; the same-origin check for every
+// (production only) and the service worker (/sw.js, server/service-worker.ts); a 400 for an address
+// that cannot be read; the same-origin check for every
 // state-changing method; React Router with the client's address in the load context; security
-// headers; every Set-Cookie of the answer; and a 500 answer (never a stopped process) for an error.
+// headers; every Set-Cookie of the answer; brotli or gzip where the client accepts it; and a 500
+// answer (never a stopped process) for an error.
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { randomUUID } from "node:crypto";
 import type { IncomingMessage, ServerResponse } from "node:http";
@@ -18,6 +20,8 @@ import { answeringOutages } from "../app/lib/errors.server";
 import { CROSS_SITE_MESSAGE, SAFE_METHODS, crossSiteReason } from "../app/lib/http.server";
 import { log, safeError } from "../app/lib/log.server";
 import { baseSecurityHeaders } from "../app/lib/security-headers.server";
+import { compressible, compressionStages, compressWhole, MIN_BYTES, negotiateEncoding, streamsAsRendered, varyOnEncoding } from "./compression";
+import { WORKER_HEADERS, workerSource } from "./service-worker";
 import { staticFiles } from "./static";
 
 export { loadConfig, log, safeError, type Env };
@@ -39,7 +43,10 @@ export function createApp({ dev }: AppOptions): NodeHandler {
   const build = answeringOutagesIn(serverBuild as unknown as ServerBuild);
   const handle = createRequestHandler(build, dev ? "development" : "production");
   const routes = routeTree(build);
-  const serveStatic = dev ? null : staticFiles(fileURLToPath(new URL("../client/", import.meta.url)));
+  const clientDir = fileURLToPath(new URL("../client/", import.meta.url));
+  const serveStatic = dev ? null : staticFiles(clientDir);
+  // The service worker, made from this build's manifest on first request (production only).
+  let worker: string | null = null;
 
   return async function app(req, res) {
     const started = performance.now();
@@ -59,6 +66,13 @@ export function createApp({ dev }: AppOptions): NodeHandler {
         const outcome = await serveStatic(req, res, pathname, { ...headers, "x-content-type-options": "nosniff" });
         if (outcome === "served") return;
         if (outcome === "bad-request") return fail(res, 400, "This address is not valid.", headers, pathname);
+        if (pathname === "/sw.js" && (req.method === "GET" || req.method === "HEAD")) {
+          route = "/sw.js";
+          worker ??= workerSource(build.assets, clientDir);
+          res.writeHead(200, { ...headers, ...WORKER_HEADERS });
+          res.end(req.method === "HEAD" ? undefined : worker);
+          return;
+        }
       }
       route = routePattern(routes, pathname);
       Object.assign(headers, baseSecurityHeaders({ tls, pathname }));
@@ -98,7 +112,37 @@ export function createApp({ dev }: AppOptions): NodeHandler {
   };
 }
 
-/** Every loader and action of the build answers a database outage with 503 (errors.server.ts). */
+/** Routes whose actions are pages' forms: not the JSON API and not Auth.js's own endpoints. */
+function isPage(path: string | undefined): boolean {
+  return !path?.startsWith("api/") && !path?.startsWith("auth/");
+}
+
+function isFormBody(contentType: string | null): boolean {
+  return contentType !== null && /^\s*(application\/x-www-form-urlencoded|multipart\/form-data)\b/i.test(contentType);
+}
+
+/** A GET to a JSON route that only takes POST: 405 with Allow, in JSON like every API answer. */
+const postOnly = () => Response.json({ error: "Use POST." }, { status: 405, headers: { allow: "POST" } });
+
+/**
+ * A page's action reads a form (React Router posts <Form> as one): a body of another type is
+ * refused with 415 before the action runs, and a request with no body type reads as an empty form,
+ * so no body makes an action fail while reading it. JSON routes (/api/) check their own bodies.
+ */
+function formOnly<A extends { request: Request }>(args: A): A {
+  const type = args.request.headers.get("content-type");
+  if (isFormBody(type)) return args;
+  if (type !== null) throw Response.json({ error: "Send this as a form: Cluepath's pages post forms." }, { status: 415 });
+  const headers = new Headers(args.request.headers);
+  headers.set("content-type", "application/x-www-form-urlencoded");
+  return { ...args, request: new Request(args.request.url, { method: args.request.method, headers, body: "", signal: args.request.signal }) };
+}
+
+/**
+ * Every loader and action of the build answers a database outage with 503 (errors.server.ts); a
+ * page's action takes forms only (formOnly); an API route with an action but no loader answers GET
+ * with 405.
+ */
 function answeringOutagesIn(build: ServerBuild): ServerBuild {
   const routes: ServerBuild["routes"] = {};
   for (const [id, route] of Object.entries(build.routes)) {
@@ -109,7 +153,8 @@ function answeringOutagesIn(build: ServerBuild): ServerBuild {
       module: {
         ...route.module,
         ...(loader ? { loader: (args: Parameters<typeof loader>[0]) => answeringOutages(() => loader(args)) } : {}),
-        ...(action ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(args)) } : {}),
+        ...(!loader && action && route.path?.startsWith("api/") ? { loader: postOnly } : {}),
+        ...(action ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(isPage(route.path) ? formOnly(args) : args)) } : {}),
       },
     };
   }
@@ -179,25 +224,46 @@ function toRequest(req: IncomingMessage, origin: string, method: string, signal:
   return new Request(`${origin}${req.url}`, init);
 }
 
-/** Writes a fetch Response: each Set-Cookie as its own header, the body streamed with back-pressure. */
+/**
+ * Writes a fetch Response: each Set-Cookie as its own header, the body streamed with back-pressure,
+ * compressed when the client accepts it and the body is worth it (compression.ts). Pages and data
+ * requests are compressed as they stream; other answers (JSON) are read whole, compressed in one
+ * go when they reach MIN_BYTES, and sent with their length.
+ */
 async function send(req: IncomingMessage, res: ServerResponse, response: Response, base: Record<string, string>): Promise<void> {
+  const textual = compressible(response.headers, response.status);
+  let encoding = textual && response.body && req.method !== "HEAD" ? negotiateEncoding(headerValue(req, "accept-encoding")) : null;
+  let whole: Buffer | null = null;
+  if (encoding && !streamsAsRendered(response.headers)) {
+    whole = Buffer.from(await response.arrayBuffer());
+    if (whole.length < MIN_BYTES) encoding = null;
+    else whole = await compressWhole(whole, encoding);
+  }
   const raw: string[] = [];
   const own = new Set<string>();
   response.headers.forEach((value, name) => {
-    if (name === "set-cookie") return;
+    if (name === "set-cookie" || (textual && name === "vary") || ((encoding || whole) && name === "content-length")) return;
     raw.push(name, value);
     own.add(name);
   });
   for (const cookie of response.headers.getSetCookie()) raw.push("set-cookie", cookie);
+  if (textual) raw.push("vary", varyOnEncoding(response.headers.get("vary")));
+  if (encoding) raw.push("content-encoding", encoding);
+  if (whole) raw.push("content-length", String(whole.length));
   for (const [name, value] of Object.entries(base)) if (!own.has(name)) raw.push(name, value);
   res.writeHead(response.status, response.statusText || undefined, raw);
+  if (whole) {
+    res.end(whole);
+    return;
+  }
   if (!response.body || req.method === "HEAD") {
     await response.body?.cancel().catch(() => {});
     res.end();
     return;
   }
   try {
-    await pipeline(Readable.fromWeb(response.body as import("node:stream/web").ReadableStream), res);
+    const body = Readable.fromWeb(response.body as import("node:stream/web").ReadableStream);
+    await (encoding ? pipeline(body, ...compressionStages(encoding), res) : pipeline(body, res));
   } catch (error) {
     // The client went away mid-answer: nothing to send it; anything else is worth a line.
     if (!res.destroyed || !(error as { code?: string }).code?.startsWith("ERR_STREAM_PREMATURE_CLOSE")) {

@@ -25,10 +25,30 @@ export const VARIABLE_PATTERN = /^[A-Za-z][A-Za-z0-9_]*$/;
 /** A unit as written in a tree: one token, no spaces or backticks, not starting with a digit or sign. */
 export const UNIT_PATTERN = /^[^\s`0-9+\-−±.,()][^\s`()]*$/;
 
-const oneLine = (what: string) =>
+/**
+ * The longest text each field takes, in UTF-16 code units (JavaScript's string length). Each fits the
+ * database column that stores it: a varchar(N) holds N characters, a TEXT column 65,535 bytes, and
+ * one code unit is at most 3 bytes of UTF-8 (tests/integration/caps.test.ts compares them).
+ */
+export const TEXT_CAPS = {
+  treeTitle: 200,
+  symptom: 300,
+  equipment: 300,
+  nodeTitle: 300,
+  /** An answer's label; stored as the branch key "answer:<label>" in 220 characters. */
+  answer: 200,
+  remedy: 500,
+  part: 500,
+  reason: 500,
+  formula: 500,
+  /** A node's body or the tree's description (TEXT: 20,000 × 3 bytes fit in 65,535). */
+  body: 20_000,
+} as const;
+
+const oneLine = (what: string, max: number) =>
   z.string().check(
     z.minLength(1, `${what} is empty`),
-    z.maxLength(500, `${what} is longer than 500 characters`),
+    z.maxLength(max, `${what} is longer than ${max} characters`),
     z.refine((s) => !/[\r\n\u2028\u2029]/.test(s), `${what} must fit on one line`),
     z.refine((s) => s === s.trim(), `${what} has spaces at the start or end`),
   );
@@ -53,7 +73,7 @@ export const UnitSchema = z
 const finite = z.number();
 const body = z
   .string()
-  .check(z.minLength(1), z.refine((s) => s === normaliseBody(s), "body has blank lines or spaces at the start or end"));
+  .check(z.minLength(1), z.maxLength(TEXT_CAPS.body, `a body is longer than ${TEXT_CAPS.body} characters`), z.refine((s) => s === normaliseBody(s), "body has blank lines or spaces at the start or end"));
 
 /** Bodies are kept as written, minus leading blank lines and trailing whitespace. */
 export function normaliseBody(s: string): string {
@@ -66,7 +86,7 @@ export const RecheckSchema = z.strictObject({
 });
 export const BranchSchema = z.strictObject({ to: NodeIdSchema, recheck: z.optional(RecheckSchema) });
 export const AnswerSchema = z.strictObject({
-  label: oneLine("An answer"),
+  label: oneLine("An answer", TEXT_CAPS.answer),
   to: NodeIdSchema,
   recheck: z.optional(RecheckSchema),
 });
@@ -75,7 +95,7 @@ const formula = z
   .string()
   .check(
     z.minLength(1),
-    z.maxLength(500),
+    z.maxLength(TEXT_CAPS.formula),
     z.refine((s) => !/[`\r\n\u2028\u2029]/.test(s) && s === s.trim(), "a formula is one line without backticks"),
   );
 
@@ -106,7 +126,7 @@ export const MeterSchema = z.strictObject({
 
 const base = {
   id: NodeIdSchema,
-  title: oneLine("A title"),
+  title: oneLine("A title", TEXT_CAPS.nodeTitle),
   body: z.optional(body),
 };
 
@@ -149,10 +169,10 @@ export const NameplateSchema = z.strictObject({
 export const OutcomeSchema = z.strictObject({
   ...base,
   kind: z.literal("outcome"),
-  remedy: oneLine("The remedy"),
-  parts: z.array(oneLine("A part")),
+  remedy: oneLine("The remedy", TEXT_CAPS.remedy),
+  parts: z.array(oneLine("A part", TEXT_CAPS.part)),
 });
-export const EscalateSchema = z.strictObject({ ...base, kind: z.literal("escalate"), reason: oneLine("The reason") });
+export const EscalateSchema = z.strictObject({ ...base, kind: z.literal("escalate"), reason: oneLine("The reason", TEXT_CAPS.reason) });
 
 export const NodeSchema = z.discriminatedUnion("kind", [
   QuestionSchema,
@@ -165,10 +185,10 @@ export const NodeSchema = z.discriminatedUnion("kind", [
 ]);
 
 export const TreeSchema = z.strictObject({
-  title: oneLine("The tree's title"),
+  title: oneLine("The tree's title", TEXT_CAPS.treeTitle),
   category: z.enum(CATEGORIES),
-  symptom: oneLine("The symptom"),
-  equipment: z.optional(oneLine("The equipment")),
+  symptom: oneLine("The symptom", TEXT_CAPS.symptom),
+  equipment: z.optional(oneLine("The equipment", TEXT_CAPS.equipment)),
   start: NodeIdSchema,
   description: z.optional(body),
   nodes: z.array(NodeSchema),

@@ -33,3 +33,21 @@ export function ratingLabel(key: string, treeTitle?: string | null): string {
     .toLowerCase();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
+
+/** How far the wall clock in `timeZone` is ahead of UTC at that instant, in milliseconds. */
+function zoneOffset(at: number, timeZone: string): number {
+  const parts: Record<string, number> = {};
+  const format = new Intl.DateTimeFormat("en-US", { timeZone, hourCycle: "h23", year: "numeric", month: "numeric", day: "numeric", hour: "numeric", minute: "numeric", second: "numeric" });
+  for (const p of format.formatToParts(new Date(at))) if (p.type !== "literal") parts[p.type] = Number(p.value);
+  const wall = Date.UTC(parts.year!, parts.month! - 1, parts.day!, parts.hour!, parts.minute!, parts.second!);
+  return wall - Math.floor(at / 1000) * 1000;
+}
+
+/** The instant a calendar day ("2026-12-01") begins in the shop's time zone, for filters by period. */
+export function dayStartsAt(day: string, timeZone: string): Date {
+  const [y, m, d] = day.split("-").map(Number) as [number, number, number];
+  const wall = Date.UTC(y, m - 1, d);
+  // Twice: the offset at the first guess may differ from the offset at midnight (a DST change).
+  const first = wall - zoneOffset(wall, timeZone);
+  return new Date(wall - zoneOffset(first, timeZone));
+}

@@ -11,6 +11,18 @@ export function optionalText(max: number, message: string) {
   return z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? null : v), z.string().trim().max(max, message).nullable());
 }
 
+// A UTF-16 surrogate without its partner: no character, and not storable as UTF-8.
+const LONE_SURROGATE = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g;
+
+/**
+ * The text with every lone surrogate replaced by U+FFFD, as MariaDB would store it. Every request's
+ * text is normalised so before it is checked, hashed or stored, so a retry of the same text
+ * compares equal to what was stored (String.prototype.toWellFormed, ES2024).
+ */
+export function wellFormed(text: string): string {
+  return text.replace(LONE_SURROGATE, "\uFFFD");
+}
+
 /** The first error of each field, for showing beside it. */
 export function fieldErrors(error: z.ZodError): Record<string, string> {
   const out: Record<string, string> = {};
@@ -24,7 +36,7 @@ export function fieldErrors(error: z.ZodError): Record<string, string> {
 /** Form fields as strings (what was typed goes back to the form). */
 export function formStrings(form: FormData): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const [k, v] of form) if (typeof v === "string") out[k] = v;
+  for (const [k, v] of form) if (typeof v === "string") out[k] = wellFormed(v);
   return out;
 }
 

@@ -13,6 +13,11 @@ export function clientAddress(context: { clientAddress?: string } | undefined): 
   return context?.clientAddress ?? "unknown";
 }
 
+/** The caller with the address their request came from, for the actions the audit trail records. */
+export function fromClient<C extends object>(ctx: C, context: { clientAddress?: string } | undefined): C & { address: string } {
+  return { ...ctx, address: clientAddress(context) };
+}
+
 /** Methods that change nothing; every other method must come from our own pages. */
 export const SAFE_METHODS: ReadonlySet<string> = new Set(["GET", "HEAD", "OPTIONS"]);
 

@@ -46,7 +46,7 @@ export const POLICY = {
   "runs.take-over": { roles: LEADS, refusal: "Only a lead or the owner can take over a run." },
   "escalations.view": { roles: LEADS, refusal: "Escalations are for leads and owners." },
   "reports.view": { roles: EVERYONE, refusal: "Your role cannot see service reports." },
-  "reports.send": { roles: EVERYONE, refusal: "Your role cannot send service reports." },
+  "reports.send": { roles: FIELD, refusal: "Only technicians, leads and owners e-mail service reports to customers." },
   // The shop.
   "shop.view": { roles: EVERYONE, refusal: "Your role cannot see the shop's settings." },
   "outbox.view": { roles: LEADS, refusal: "The outbox is for leads and owners." },

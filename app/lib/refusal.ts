@@ -22,6 +22,8 @@ export const REFUSAL_STATUS = {
   "wrong-type": 415,
   /** Well-formed, but the rules refuse it (a reused idempotency key, a step the tree doesn't allow). */
   rejected: 422,
+  /** The same thing again too soon (a report e-mailed again within minutes). */
+  "too-many": 429,
   /** A service behind Cluepath (the mail server) did not take it. */
   unavailable: 502,
 } as const;

@@ -38,6 +38,7 @@ export const NAV: readonly NavItem[] = [
   { to: "/training", label: "Training", roles: ["lead", "owner"] },
   { to: "/people", label: "People", roles: ["owner"] },
   { to: "/account", label: "Account", roles: ["technician", "lead", "trainer", "owner"] },
+  { to: "/audit", label: "Audit", roles: ["owner"] },
 ];
 
 export function navFor(role: Role): NavItem[] {

@@ -13,9 +13,10 @@
 // Anything else thrown (a redirect, a Response, a bug) passes through untouched.
 import { data } from "react-router";
 import type { z } from "zod";
-import { fieldErrors, formStrings } from "./forms";
+import { fieldErrors, formStrings, wellFormed } from "./forms";
 import { apiError } from "./http.server";
 import { isRefusal, Refusal } from "./refusal";
+import { readBody } from "./upload.server";
 
 /** How a refusal reads as JSON: the message as `error`, with its code, fields and details. */
 function errorBody(r: Refusal): Record<string, unknown> {
@@ -89,19 +90,36 @@ export function form<A extends { request: Request }, R>(handler: (args: A) => Pr
   };
 }
 
-/** The request's JSON body checked against `schema`; an `invalid` refusal (400) names each field otherwise. */
+/** The largest JSON body an API route reads (a tree's autosave is the largest there is). */
+export const MAX_JSON_BYTES = 4 * 1024 * 1024;
+
+/** A field's path as the API's caller wrote it: `tree.nodes[3].body`. */
+function fieldPath(path: readonly PropertyKey[]): string {
+  return path.reduce<string>((out, p) => (typeof p === "number" ? `${out}[${p}]` : out ? `${out}.${String(p)}` : String(p)), "");
+}
+
+/**
+ * The request's JSON body checked against `schema`. Read up to MAX_JSON_BYTES (413 beyond); text
+ * made well-formed (lone surrogates → U+FFFD) before anything checks, hashes or stores it. Refusals
+ * name each field: a text longer than its cap (so longer than its column) is `rejected` (422), any
+ * other problem of shape `invalid` (400).
+ */
 export async function readJson<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
+  const bytes = await readBody(request, MAX_JSON_BYTES, { tooLarge: `Send at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`, empty: "Send a JSON body." });
   let raw: unknown;
   try {
-    raw = await request.json();
+    raw = JSON.parse(new TextDecoder().decode(bytes), (_key, value: unknown) => (typeof value === "string" ? wellFormed(value) : value));
   } catch {
     throw new Refusal("invalid", "Send a JSON body.");
   }
   const parsed = schema.safeParse(raw);
   if (!parsed.success) {
     const fields: Record<string, string> = {};
-    for (const issue of parsed.error.issues) fields[issue.path.join(".") || "body"] ??= issue.message;
-    throw new Refusal("invalid", parsed.error.issues[0]?.message ?? "The request is not valid.", { fields });
+    for (const issue of parsed.error.issues) fields[fieldPath(issue.path) || "body"] ??= issue.message;
+    const first = parsed.error.issues[0];
+    const tooLong = parsed.error.issues.every((i) => i.code === "too_big" && i.origin === "string");
+    if (first && tooLong) throw new Refusal("rejected", `${fieldPath(first.path)}: ${first.message}`, { code: "too-long", fields });
+    throw new Refusal("invalid", first?.message ?? "The request is not valid.", { fields });
   }
   return parsed.data;
 }

@@ -56,6 +56,8 @@ export interface PhotoView {
   url: string;
   bytes: number;
   createdAt: string;
+  /** Client only: kept on the phone, not yet accepted by the server (url is the phone's copy). */
+  pending?: boolean;
 }
 
 export interface PartView {

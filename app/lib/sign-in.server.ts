@@ -1,7 +1,8 @@
 // Sign-in: password check, the rate limit, and the session rows the cookie points at.
-import { and, count, desc, eq, gt, isNull, lt, max, ne, or } from "drizzle-orm";
+import { and, count, desc, eq, gt, isNull, lt, max, ne, or, sql } from "drizzle-orm";
 import { memberships, sessions, shops, signInAttempts, users, type AttemptPurpose } from "../../db/schema";
-import { db, type Db, type Tx } from "./db.server";
+import { recordAudit } from "./audit.server";
+import { db, prepared, writeTx, type Db, type Tx } from "./db.server";
 import { burnVerify, verifyPassword } from "./password.server";
 import type { Role } from "./roles";
 
@@ -61,8 +62,8 @@ export async function signInAllowed(emailRaw: string, address: string, now = new
   return true;
 }
 
-export async function recordSignInAttempt(emailRaw: string, address: string, succeeded: boolean, at = new Date(), purpose: AttemptPurpose = "sign-in") {
-  await db().insert(signInAttempts).values({ email: normaliseEmail(emailRaw).slice(0, 254), address: address.slice(0, 64), succeeded, at, purpose });
+export async function recordSignInAttempt(emailRaw: string, address: string, succeeded: boolean, at = new Date(), purpose: AttemptPurpose = "sign-in", tx: Tx | Db = db()) {
+  await tx.insert(signInAttempts).values({ email: normaliseEmail(emailRaw).slice(0, 254), address: address.slice(0, 64), succeeded, at, purpose });
 }
 
 export type SignInResult =
@@ -91,11 +92,38 @@ export async function signIn(emailRaw: string, password: string, address: string
     ? await db().select().from(memberships).where(and(eq(memberships.userId, user.id), isNull(memberships.deactivatedAt))).orderBy(memberships.createdAt).limit(1)
     : [];
   if (!user || !ok || !membership) {
-    await recordSignInAttempt(email, address, false);
-    return { kind: user && ok ? "access-off" : "bad-credentials" };
+    // Audited in the same transaction as the attempt: in every shop of the account typed, or in
+    // no shop when nobody has that e-mail (docs/decisions/0244).
+    const shopIds = user ? (await db().select({ shopId: memberships.shopId }).from(memberships).where(eq(memberships.userId, user.id))).map((m) => m.shopId) : [];
+    const kind = user && ok ? "access-off" : "bad-credentials";
+    await writeTx(async (tx) => {
+      await recordSignInAttempt(email, address, false, new Date(), "sign-in", tx);
+      for (const shopId of shopIds.length ? shopIds : [null]) {
+        await recordAudit(
+          {
+            shopId,
+            actorEmail: email,
+            address,
+            action: "sign-in.refused",
+            ...(user ? { subjectType: "user", subjectId: user.id } : {}),
+            summary: `Refused sign-in as ${email}`,
+            details: { reason: !user ? "unknown e-mail" : !ok ? "wrong password" : "access off" },
+          },
+          tx,
+        );
+      }
+    });
+    return { kind };
   }
-  await recordSignInAttempt(email, address, true);
-  const sessionId = await openSession(user.id, membership.shopId, user.sessionVersion, { address, userAgent });
+  const sessionId = await writeTx(async (tx) => {
+    await recordSignInAttempt(email, address, true, new Date(), "sign-in", tx);
+    const id = await openSession(user.id, membership.shopId, user.sessionVersion, { address, userAgent }, tx);
+    await recordAudit(
+      { shopId: membership.shopId, actorId: user.id, actorEmail: user.email, address, action: "sign-in.succeeded", subjectType: "user", subjectId: user.id, summary: `${user.email} signed in` },
+      tx,
+    );
+    return id;
+  });
   return { kind: "ok", sessionId, userId: user.id, name: user.name, email: user.email };
 }
 
@@ -131,9 +159,9 @@ export type SessionUser = {
   role: Role;
 };
 
-/** The live session behind a session id, or null when it was revoked, expired or superseded. */
-export async function loadSession(sessionId: string, now = new Date()): Promise<SessionUser | null> {
-  const [row] = await db()
+/** The session row with its user, membership and shop: asked on every signed-in request, so built once. */
+const sessionQuery = prepared((db) =>
+  db
     .select({
       sessionId: sessions.id,
       userId: users.id,
@@ -152,8 +180,14 @@ export async function loadSession(sessionId: string, now = new Date()): Promise<
     .innerJoin(users, eq(users.id, sessions.userId))
     .innerJoin(memberships, and(eq(memberships.userId, sessions.userId), eq(memberships.shopId, sessions.shopId), isNull(memberships.deactivatedAt)))
     .innerJoin(shops, eq(shops.id, sessions.shopId))
-    .where(and(eq(sessions.id, sessionId), isNull(sessions.revokedAt)))
-    .limit(1);
+    .where(and(eq(sessions.id, sql.placeholder("sessionId")), isNull(sessions.revokedAt)))
+    .limit(1)
+    .prepare(),
+);
+
+/** The live session behind a session id, or null when it was revoked, expired or superseded. */
+export async function loadSession(sessionId: string, now = new Date()): Promise<SessionUser | null> {
+  const [row] = await sessionQuery().execute({ sessionId });
   if (!row || row.expiresAt <= now || row.sessionVersion !== row.userVersion) return null;
   const { expiresAt: _e, sessionVersion: _s, userVersion: _u, lastSeenAt, ...user } = row;
   const stale = new Date(now.getTime() - LAST_SEEN_MINUTES * 60_000);

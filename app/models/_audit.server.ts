@@ -1,42 +1,13 @@
-// The audit trail's writer, for the models that do the actions: append-only. `recordAudit` adds a
-// row inside the caller's write transaction when there is one, so the record and the action commit
-// together. There is deliberately no function that changes or removes a row; the owner's read is
-// listAudit in audit.server.ts.
-import { auditEvents, type AuditAction } from "../../db/schema";
+// The audit trail's writer, for the models that do the actions: append-only. `recordAudit` (in
+// app/lib/audit.server.ts, shared with sign-in) adds a row inside the caller's write transaction, so
+// the record and the action commit together. There is deliberately no function that changes or
+// removes a row; the owner's read is listAudit in audit.server.ts.
 import type { Ctx } from "../lib/context";
-import { db, type Db, type Tx } from "../lib/db.server";
+import type { AuditEntry } from "../lib/audit.server";
 
-export type AuditEntry = {
-  /** The shop the action belongs to; null only for a refused sign-in no shop can be told of. */
-  shopId: string | null;
-  actorId?: string | null;
-  actorEmail?: string | null;
-  action: AuditAction;
-  subjectType?: string;
-  subjectId?: string;
-  summary: string;
-  details?: Record<string, unknown>;
-  address?: string | null;
-};
+export { recordAudit, type AuditEntry } from "../lib/audit.server";
 
-/** Appends one entry. Pass the transaction that does the action, so both commit or neither. */
-export async function recordAudit(entry: AuditEntry, tx: Tx | Db = db()): Promise<void> {
-  await tx.insert(auditEvents).values({
-    shopId: entry.shopId,
-    actorId: entry.actorId ?? null,
-    actorEmail: entry.actorEmail?.slice(0, 254) ?? null,
-    action: entry.action,
-    subjectType: entry.subjectType ?? null,
-    subjectId: entry.subjectId ?? null,
-    summary: entry.summary.slice(0, 500),
-    details: entry.details ?? null,
-    address: entry.address?.slice(0, 64) ?? null,
-    at: new Date(),
-  });
-}
-
-/** The shop's own actor and address, for entries made by a signed-in caller. */
+/** The shop, the actor and where the request came from, for entries made by a signed-in caller. */
 export function byCaller(ctx: Ctx, address?: string | null): Pick<AuditEntry, "shopId" | "actorId" | "address"> {
-  return { shopId: ctx.shopId, actorId: ctx.userId, address: address ?? null };
+  return { shopId: ctx.shopId, actorId: ctx.userId, address: address ?? ctx.address ?? null };
 }
-

@@ -1,5 +1,5 @@
 // Service calls: a unit, what the customer reported, who goes. Always scoped to the caller's shop.
-import { and, asc, desc, eq, inArray, isNull, max, or, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, or, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/mysql-core";
 import { z } from "zod";
 import {
@@ -16,12 +16,12 @@ import {
   type CallStatus,
 } from "../../db/schema";
 import type { Ctx } from "../lib/context";
-import { db } from "../lib/db.server";
+import { db, writeTx } from "../lib/db.server";
 import { optionalText } from "../lib/forms";
 import { rankTrees, type TreeFit, type UnitKind } from "../lib/tree-match";
 import { authorize } from "../lib/policy";
 import { fieldRefusal, notFound } from "../lib/refusal";
-import { withNextNumber, withPlace } from "./_query.server";
+import { nextNumber, withPlace } from "./_query.server";
 import { searchUnits } from "./equipment.server";
 import { recordNewCall } from "./insights/_facts.server";
 import { listPublished, type PublishedTreeSummary } from "./trees/library.server";
@@ -205,20 +205,12 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ id: stri
   await checkRefs(ctx, input);
   const id = crypto.randomUUID();
   const now = new Date();
-  const number = await withNextNumber(
-    async () => {
-      const [row] = await db().select({ n: max(serviceCalls.number) }).from(serviceCalls).where(eq(serviceCalls.shopId, ctx.shopId));
-      return (row?.n ?? 1000) + 1;
-    },
-    async (n) => {
-      await db()
-        .insert(serviceCalls)
-        .values({ id, shopId: ctx.shopId, number: n, ...input, status: "open", openedBy: ctx.userId, openedAt: now, updatedAt: now });
-      return n;
-    },
-  );
-  await recordNewCall(db(), ctx.shopId, input.unitId, now);
-  return { id, number };
+  return writeTx(async (tx) => {
+    const number = await nextNumber(tx, ctx.shopId, "call");
+    await tx.insert(serviceCalls).values({ id, shopId: ctx.shopId, number, ...input, status: "open", openedBy: ctx.userId, openedAt: now, updatedAt: now });
+    await recordNewCall(tx, ctx.shopId, input.unitId, now);
+    return { id, number };
+  });
 }
 
 /** Changes a call; closing it stamps when, reopening it clears that. */

@@ -10,6 +10,7 @@ import { fieldRefusal, notFound, Refusal } from "../lib/refusal";
 import { ROLE_LABEL, type Role } from "../lib/roles";
 import { normaliseEmail, openSession, type SessionOrigin } from "../lib/sign-in.server";
 import { newToken, tokenHash } from "../lib/tokens.server";
+import { byCaller, recordAudit } from "./_audit.server";
 
 export const INVITATION_DAYS = 7;
 
@@ -37,14 +38,18 @@ export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ 
   authorize(ctx, "people.manage");
   const token = newToken();
   const id = crypto.randomUUID();
-  await db().insert(invitations).values({
-    id,
-    shopId: ctx.shopId,
-    email: normaliseEmail(emailRaw),
-    role,
-    tokenHash: tokenHash(token),
-    invitedBy: ctx.userId,
-    expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
+  const email = normaliseEmail(emailRaw);
+  await writeTx(async (tx) => {
+    await tx.insert(invitations).values({
+      id,
+      shopId: ctx.shopId,
+      email,
+      role,
+      tokenHash: tokenHash(token),
+      invitedBy: ctx.userId,
+      expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
+    });
+    await recordAudit({ ...byCaller(ctx), action: "invitation.sent", subjectType: "invitation", subjectId: id, summary: `Invited ${email} as ${ROLE_LABEL[role]}`, details: { email, role } }, tx);
   });
   return { id, token };
 }
@@ -77,11 +82,16 @@ export async function sendInvitationMail(ctx: Ctx, to: string, role: Role, link:
 
 export async function revokeInvitation(ctx: Ctx, id: string): Promise<void> {
   authorize(ctx, "people.manage");
-  const [res] = await db()
-    .update(invitations)
-    .set({ revokedAt: new Date() })
-    .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt)));
-  if (res.affectedRows === 0) notFound("That invitation");
+  await writeTx(async (tx) => {
+    const [inv] = await tx
+      .select({ email: invitations.email, role: invitations.role })
+      .from(invitations)
+      .where(and(eq(invitations.id, id), eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)))
+      .for("update");
+    if (!inv) notFound("That invitation");
+    await tx.update(invitations).set({ revokedAt: new Date() }).where(eq(invitations.id, id));
+    await recordAudit({ ...byCaller(ctx), action: "invitation.withdrawn", subjectType: "invitation", subjectId: id, summary: `Withdrew the invitation of ${inv.email}`, details: { email: inv.email, role: inv.role } }, tx);
+  });
 }
 
 export type OpenInvitation = { id: string; email: string; role: Role; shopId: string; shopName: string; hasAccount: boolean };
@@ -145,6 +155,20 @@ export async function acceptInvitation(
     if (member) await tx.update(memberships).set({ role: inv.role, deactivatedAt: null }).where(eq(memberships.id, member.id));
     else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });
     await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));
+    await recordAudit(
+      {
+        shopId: inv.shopId,
+        actorId: userId,
+        actorEmail: inv.email,
+        address: origin.address ?? null,
+        action: "invitation.accepted",
+        subjectType: "invitation",
+        subjectId: inv.id,
+        summary: `${inv.email} accepted the invitation and joined as ${ROLE_LABEL[inv.role]}`,
+        details: { role: inv.role, newAccount: !existing },
+      },
+      tx,
+    );
     const sessionId = await openSession(userId, inv.shopId, sessionVersion, origin, tx);
     return { shopName: inv.shopName, role: inv.role, userId, sessionId };
   });

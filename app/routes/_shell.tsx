@@ -1,5 +1,6 @@
 import { useEffect, useRef } from "react";
 import { Form, NavLink, Outlet, useLocation, useMatches } from "react-router";
+import { signOutOfPhone } from "~/components/runner/offline/signout";
 import { requireUser } from "~/lib/auth.server";
 import { isCurrent, navFor, ROLE_LABEL, splitNav, type NavItem } from "~/lib/roles";
 import type { Route } from "./+types/_shell";
@@ -104,7 +105,7 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
             <span className="block font-semibold">{loaderData.name}</span>
             <span className="text-ink-soft">{ROLE_LABEL[loaderData.role]}</span>
           </p>
-          <Form method="post" action="/logout">
+          <Form method="post" action="/logout" onSubmit={signOutOfPhone}>
             <button type="submit" className="btn-quiet min-h-11 px-3 text-base">
               Sign out
             </button>

@@ -1,4 +1,5 @@
-// POST /api/runs/:runId/photos — multipart: photo (the file), key (idempotency UUID), node (the step).
+// POST /api/runs/:runId/photos — multipart: photo (the file), key (idempotency UUID), node (the step),
+// at (the phone's clock when it was taken, optional).
 // Refused with a clear message when the content is not an image or is over the cap; nothing is stored then.
 import { requireUser } from "~/lib/auth.server";
 import { requireSameOrigin } from "~/lib/http.server";
@@ -13,7 +14,7 @@ export const action = api(async ({ request, params }: Route.ActionArgs) => {
   requireSameOrigin(request);
   const { ctx } = await requireUser(request);
   const form = await readUploadForm(request);
-  const fields = photoFields.safeParse({ key: form.get("key"), node: form.get("node") });
+  const fields = photoFields.safeParse({ key: form.get("key"), node: form.get("node"), at: form.get("at") });
   if (!fields.success) throw new Refusal("invalid", fields.error.issues[0]?.message ?? "Say which step the photo is for.");
   const file = form.get("photo");
   if (!(file instanceof Blob)) throw new Refusal("invalid", "Attach the photo as a file field named “photo”.");

@@ -1,4 +1,5 @@
 import { PriorityBadge, StatusBadge } from "~/components/CallBadges";
+import { KeptOnPhone } from "~/components/runner/offline/KeptOnPhone";
 import { requireUser } from "~/lib/auth.server";
 import { page } from "~/lib/route.server";
 import { myCalls, recentlyDone } from "~/models/calls.server";
@@ -15,7 +16,7 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   // Practice stays apart from real calls: a count and a link to the practice list.
   const toDo = practice.items.filter((i) => i.state === "to do" || i.state === "in progress" || i.state === "abandoned");
   const newNotes = practice.items.filter((i) => i.state === "reviewed").length;
-  return { firstName: user.name.split(" ")[0], calls, done, practice: { toDo: toDo.map((i) => i.name), reviewed: newNotes } };
+  return { firstName: user.name.split(" ")[0], userId: user.ctx.userId, calls, done, practice: { toDo: toDo.map((i) => i.name), reviewed: newNotes } };
 });
 
 export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
@@ -28,6 +29,7 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
           Good to see you, {loaderData.firstName}. {calls.length === 0 ? "Nothing is assigned to you right now." : `${calls.length} call${calls.length === 1 ? "" : "s"} assigned to you, most urgent first.`}
         </p>
       </div>
+      <KeptOnPhone userId={loaderData.userId} />
       <ul className="space-y-3">
         {calls.map((c) => (
           <li key={c.id}>

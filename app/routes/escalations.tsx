@@ -2,6 +2,7 @@
 import { Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireUser } from "~/lib/auth.server";
+import { fromClient } from "~/lib/http.server";
 import { atShop, placeName } from "~/lib/display";
 import { form, page, readForm } from "~/lib/route.server";
 import { changeRunStatus } from "~/models/runs/lifecycle.server";
@@ -19,10 +20,10 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
 
 const TakeOver = z.object({ runId: z.string({ message: "Choose a run to take over." }).uuid("Choose a run to take over.") });
 
-export const action = form(async ({ request }: Route.ActionArgs) => {
+export const action = form(async ({ request, context }: Route.ActionArgs) => {
   const { ctx } = await requireUser(request, "runs.take-over");
   const { runId } = await readForm(request, TakeOver);
-  await changeRunStatus(ctx, runId, { action: "take-over" });
+  await changeRunStatus(fromClient(ctx, context), runId, { action: "take-over" });
   return redirect(`/runs/${runId}`);
 });
 

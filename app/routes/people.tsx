@@ -5,7 +5,7 @@ import { SelectField } from "~/components/FormFields";
 import { MemberCard } from "~/components/MemberCard";
 import { Notice } from "~/components/PublicPage";
 import { requireUser } from "~/lib/auth.server";
-import { clientAddress, publicLink } from "~/lib/http.server";
+import { clientAddress, fromClient, publicLink } from "~/lib/http.server";
 import { form, page, readForm } from "~/lib/route.server";
 import { ROLE_LABEL, ROLES } from "~/lib/roles";
 import { resetMemberSignIn, setMemberActive, setMemberRole } from "~/models/members.server";
@@ -40,7 +40,7 @@ const pick = (values: Record<string, string>) =>
   values.intent === "revoke" ? revokeForm : Object.hasOwn(memberForms, values.intent ?? "") ? memberForms[values.intent as keyof typeof memberForms] : inviteForm;
 
 export const action = form(async ({ request, context }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request, "people.manage");
+  const ctx = fromClient((await requireUser(request, "people.manage")).ctx, context);
   const address = clientAddress(context);
   const input = await readForm(request, pick);
   switch (input.intent) {

@@ -5,6 +5,8 @@ import { ReportDocument, REPORT_CSS } from "~/components/report/ReportDocument";
 import { reportMailHtml } from "~/components/report/reportMail";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
+import { fromClient } from "~/lib/http.server";
+import { can } from "~/lib/policy";
 import { reportNumber } from "~/lib/report-data";
 import { form, page } from "~/lib/route.server";
 import { getReport, sendReport } from "~/models/runs/reports.server";
@@ -14,12 +16,12 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service 
 
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
-  return { report: await getReport(ctx, params.reportId) };
+  return { report: await getReport(ctx, params.reportId), canSend: can(ctx, "reports.send") };
 });
 
-export const action = form(async ({ request, params }: Route.ActionArgs) => {
-  const { ctx } = await requireUser(request);
-  const { to } = await sendReport(ctx, params.reportId, reportMailHtml);
+export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
+  const { ctx } = await requireUser(request, "reports.send");
+  const { to } = await sendReport(fromClient(ctx, context), params.reportId, reportMailHtml);
   return { ok: true as const, to };
 });
 
@@ -42,7 +44,7 @@ export default function Report({ loaderData }: Route.ComponentProps) {
             <button type="button" className="btn-quiet" onClick={() => window.print()}>
               Print
             </button>
-            {report.site && !report.sentAt && (
+            {report.site && loaderData.canSend && !report.sentAt && (
               <button type="button" className="btn-primary" disabled={pending} onClick={send}>
                 {pending ? "Sending…" : `E-mail to ${report.site.contactName}`}
               </button>
@@ -64,7 +66,7 @@ export default function Report({ loaderData }: Route.ComponentProps) {
             Last e-mailed to {report.sentTo} on {atShop(report.sentAt, report.shop.timeZone)}.
           </p>
         )}
-        {report.site && report.sentAt && <SendAgain contact={contact} pending={pending} send={send} />}
+        {report.site && loaderData.canSend && report.sentAt && <SendAgain contact={contact} pending={pending} send={send} />}
       </div>
       <div className="mx-auto max-w-3xl px-4 pb-8 print:px-0">
         <div className="rounded-xl border border-rule bg-card print:border-0">

@@ -2,6 +2,7 @@ import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { categoryLabel } from "~/components/editor/kinds";
 import { requireUser } from "~/lib/auth.server";
+import { fromClient } from "~/lib/http.server";
 import { atShop } from "~/lib/display";
 import { can } from "~/lib/policy";
 import { form, page, readForm } from "~/lib/route.server";
@@ -50,7 +51,7 @@ const Intent = z.discriminatedUnion(
   { error: "That action isn't one this page knows." },
 );
 
-export const action = form(async ({ request, params }: Route.ActionArgs) => {
+export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const { ctx } = await requireUser(request, "trees.author");
   const treeId = treeIdOf(params);
   const input = await readForm(request, Intent);
@@ -59,7 +60,7 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
     return redirect(`/trees/${treeId}/edit`);
   }
   if (input.intent === "retire") {
-    await retireVersion(ctx, treeId, input.number);
+    await retireVersion(fromClient(ctx, context), treeId, input.number);
     return { message: `Version ${input.number} is retired: new runs can't start on it. Runs that used it keep it.` };
   }
   const { treeDeleted } = await discardDraft(ctx, treeId);

@@ -5,3 +5,4 @@ export * from "./runs";
 export * from "./audit";
 export * from "./insights";
 export * from "./training";
+export * from "./counters";

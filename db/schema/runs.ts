@@ -187,6 +187,8 @@ export const runNotes = mysqlTable(
     idempotencyKey: varchar("idempotency_key", { length: 36 }).notNull(),
     text: text("text").notNull(),
     authorId: uuidRef("author_id").notNull().references(() => users.id),
+    /** The phone's clock when the note was written (it may reach the server later, from a queue). */
+    clientAt: timestamp("client_at"),
     createdAt: createdAt(),
   },
   (t) => [index("run_notes_run_idx").on(t.runId), uniqueIndex("run_notes_run_key_uq").on(t.runId, t.idempotencyKey)],
@@ -205,6 +207,8 @@ export const runPhotos = mysqlTable(
     contentType: varchar("content_type", { length: 40 }).notNull(),
     bytes: int("bytes").notNull(),
     uploadedBy: uuidRef("uploaded_by").notNull().references(() => users.id),
+    /** The phone's clock when the photo was taken (it may reach the server later, from a queue). */
+    clientAt: timestamp("client_at"),
     createdAt: createdAt(),
     deletedAt: timestamp("deleted_at"),
   },

@@ -2,6 +2,9 @@
 // (scripts/db with DB_DIR/DB_PORT), migrated and seeded with the demo data, a production build,
 // and `node server.js` on it. Everything lives in one temporary folder that stop() removes.
 //
+// STACK_CPU_PROF=DIR runs the app server under `node --cpu-prof`, its profile written to DIR when
+// the stack stops (open it in Chrome's DevTools, or summarise it with scripts/cpu-profile.ts).
+//
 // Ports: STACK_PORT_BASE=B gives the app B, MariaDB B+1 (and leaves B+2, B+3 for the S3 fake and the
 // mail catcher, which these harnesses do not need); without it the OS picks free ports.
 //
@@ -133,6 +136,12 @@ export class Stack {
 
   // --- build ---------------------------------------------------------------------------------
 
+  /** The production build's client folder (build/client), for harnesses that weigh it. */
+  get clientDir(): string {
+    if (!this.buildDir) throw new Error("no build yet");
+    return join(this.buildDir, "client");
+  }
+
   /**
    * A production build in the temporary folder. With extra routes it builds a copy of app/ (and
    * db/, public/) whose routes.ts is the app's own list plus those routes; the app itself is not
@@ -147,7 +156,9 @@ export class Stack {
     if (extraRoutes && Object.keys(extraRoutes).length) {
       projectDir = join(this.dir, "src");
       mkdirSync(projectDir);
-      for (const part of ["app", "db", "public", "package.json", "tsconfig.json"]) cpSync(join(ROOT, part), join(projectDir, part), { recursive: true });
+      // The app's own build configuration (its server entry is server/app.ts); BUILD_DIR below points
+      // the output here.
+      for (const part of ["app", "db", "server", "public", "package.json", "tsconfig.json", "vite.config.ts", "react-router.config.ts"]) cpSync(join(ROOT, part), join(projectDir, part), { recursive: true });
       renameSync(join(projectDir, "app/routes.ts"), join(projectDir, "app/routes.app.ts"));
       const lines = Object.entries(extraRoutes).map(([path, r]) => {
         writeFileSync(join(projectDir, "app/routes", r.file), r.source);
@@ -156,11 +167,6 @@ export class Stack {
       writeFileSync(
         join(projectDir, "app/routes.ts"),
         `import { route, type RouteConfig } from "@react-router/dev/routes";\nimport app from "./routes.app";\n\nexport default [\n  ...app,\n${lines.join("\n")}\n] satisfies RouteConfig;\n`,
-      );
-      writeFileSync(join(projectDir, "react-router.config.ts"), `export default { ssr: true, appDirectory: "app", buildDirectory: ${JSON.stringify(out)} };\n`);
-      writeFileSync(
-        join(projectDir, "vite.config.ts"),
-        `import { reactRouter } from "@react-router/dev/vite";\nimport tailwindcss from "@tailwindcss/vite";\nimport { fileURLToPath } from "node:url";\nimport { defineConfig } from "vite";\n\nexport default defineConfig({\n  plugins: [tailwindcss(), reactRouter()],\n  resolve: { alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) } },\n});\n`,
       );
     }
     const buildLog = join(this.dir, "build.log");
@@ -190,7 +196,9 @@ export class Stack {
   /** `node server.js` on the build; resolves once /healthz answers 200. */
   async startServer(): Promise<void> {
     const started = Date.now();
-    const child = spawn(process.execPath, ["server.js"], {
+    // STACK_CPU_PROF=DIR: the server runs under `node --cpu-prof` and writes its profile there on exit.
+    const profile = process.env.STACK_CPU_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.STACK_CPU_PROF}`] : [];
+    const child = spawn(process.execPath, [...profile, "server.js"], {
       cwd: ROOT,
       env: {
         ...process.env,

@@ -1,6 +1,7 @@
 import { spawn } from "node:child_process";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { DEMO_PASSWORD } from "../../db/demo";
 import { stableId } from "../../db/seed";
 import { launchBrowser, PHONE, signInAs } from "../support/browser";
 import { freePort } from "../support/e2e-setup";
@@ -97,3 +98,70 @@ describe("shop scope over HTTP", () => {
     await context.close();
   });
 });
+
+describe("steps through two app servers (issue 14: each server keeps the run logs it wrote)", () => {
+  it("steps posted to one run alternately through both servers are each judged against the whole log", async () => {
+    // A server answers a step from the run's log as it last stored it when the locked run's step
+    // count says nothing was added since; here every other step is added by the other server, so
+    // each server must notice and read the log. A stale log would judge an undo or a reading
+    // against the wrong step (the engine's refusal, 422) or take back the wrong one.
+    const lead = await signInCookie(baseUrl, "lead@tinderbox.example");
+    const tech = await signInCookie(baseUrl, "tech@tinderbox.example");
+    const call = await fetch(`${baseUrl}/calls/new`, {
+      method: "POST",
+      redirect: "manual",
+      headers: { cookie: lead, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ unitId: stableId("unit:larkspur-rotisserie"), symptom: "one fan slow (two servers)", priority: "normal", assignedTo: stableId("user:tech@tinderbox.example"), notes: "" }),
+    });
+    expect(call.status).toBe(302);
+    const callPath = call.headers.get("location");
+    expect(callPath).toMatch(/^\/calls\/[0-9a-f-]{36}$/);
+    const start = await fetch(`${baseUrl}${callPath}`, {
+      method: "POST",
+      redirect: "manual",
+      headers: { cookie: tech, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ treeId: stableId("tree:rotisserie-uneven-heat.md") }),
+    });
+    const runId = /\/runs\/([0-9a-f-]{36})$/.exec(start.headers.get("location") ?? "")?.[1];
+    expect(runId).toBeDefined();
+
+    const post = async (server: string, entry: Record<string, string>) => {
+      const res = await fetch(`${server}/api/runs/${runId}/steps`, {
+        method: "POST",
+        headers: { cookie: tech, origin: server, "content-type": "application/json" },
+        body: JSON.stringify({ key: crypto.randomUUID(), entry }),
+      });
+      const body = await res.json();
+      expect(res.status, JSON.stringify(body)).toBe(201);
+      return body.step as { seq: number; undoesSeq: number | null; verdict: string | null };
+    };
+    const servers = [baseUrl, secondBaseUrl];
+    const supply = { type: "reading", node: "supply-voltage", reading: "208 V" };
+    let n = 0;
+    for (const node of ["lockout", "discharge-caps", "live-test"]) await post(servers[n++ % 2]!, { type: "acknowledge", node });
+    for (let i = 0; i < 4; i++) {
+      const reading = await post(servers[n++ % 2]!, supply);
+      expect(reading.verdict).toBe("within");
+      const undo = await post(servers[n++ % 2]!, { type: "undo" });
+      expect(undo.undoesSeq).toBe(reading.seq);
+    }
+    // Two undos in a row through different servers take back two different steps.
+    const last = await post(servers[n++ % 2]!, { type: "undo" });
+    const before = await post(servers[n++ % 2]!, { type: "undo" });
+    expect([last.undoesSeq, before.undoesSeq]).toEqual([2, 1]);
+    const view = await (await fetch(`${secondBaseUrl}/api/runs/${runId}`, { headers: { cookie: tech } })).json();
+    expect(view.steps.map((s: { seq: number }) => s.seq)).toEqual(Array.from({ length: n }, (_, i) => i));
+    expect(view.run.currentNode).toBe("discharge-caps");
+  });
+});
+
+/** A session cookie through the /login form. */
+async function signInCookie(url: string, email: string): Promise<string> {
+  const res = await fetch(`${url}/login`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { origin: url, "content-type": "application/x-www-form-urlencoded" },
+    body: new URLSearchParams({ email, password: DEMO_PASSWORD }),
+  });
+  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+}

@@ -102,8 +102,10 @@ describe("the phone runner (390×844)", () => {
     const context = await browser.newContext({ viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
     const page = await context.newPage();
     const editorChunks: string[] = [];
+    const fontFiles = new Set<string>();
     page.on("request", (r) => {
       if (/\/assets\/(Canvas|Editor|tree-edit)[-\w]*\.js$/.test(r.url())) editorChunks.push(r.url());
+      if (r.resourceType() === "font") fontFiles.add(r.url());
     });
     await signInAs(page, baseUrl, "tech@tinderbox.example");
     await page.waitForURL(`${baseUrl}/calls`);
@@ -129,6 +131,8 @@ describe("the phone runner (390×844)", () => {
     // 208 V across L1–L2 with the van's voltmeter: the verdict shows as it is typed.
     await atStep(page, "Supply voltage across L1–L2");
     await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
+    // One font file (every weight in it) is all the pages have fetched by the time a reading can be typed (issue 14).
+    expect([...fontFiles]).toEqual([expect.stringMatching(/\/assets\/source-sans-3-latin-wght-normal-[\w-]+\.woff2$/)]);
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits", { exact: true }).waitFor();
     await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);

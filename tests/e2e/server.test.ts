@@ -4,44 +4,19 @@
 // with 503 and recovered from without a restart, and configuration checked at boot.
 // Servers with their own settings are started here from the same build (server.js); a TCP relay in
 // this process stands between one of them and MariaDB so the test can cut the database off and back.
-import { spawn, type ChildProcess } from "node:child_process";
-import { connect, createServer, type Server, type Socket } from "node:net";
+import { spawn } from "node:child_process";
+import { get as httpGet, type IncomingHttpHeaders } from "node:http";
+import { connect } from "node:net";
+import { brotliDecompressSync, gunzipSync } from "node:zlib";
 import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { freePort } from "../support/e2e-setup";
+import { DatabaseRelay, SERVER_TEST_SECRET as SECRET, signIn, startServer, type Started } from "../support/server";
 
 const baseUrl = inject("baseUrl");
 const dbUrl = process.env.E2E_DATABASE_URL!;
-const SECRET = "server-test-secret-server-test-secret-0";
-
-type Started = { url: string; port: number; output: () => string; stop: () => Promise<void>; child: ChildProcess };
-
-/** `node server.js` from the build with these settings; resolves once /healthz answers at all. */
-async function startServer(env: Record<string, string>): Promise<Started> {
-  const port = await freePort();
-  let output = "";
-  const child = spawn(process.execPath, ["server.js"], {
-    env: { ...process.env, HOST: "127.0.0.1", PORT: String(port), DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: SECRET, ...env },
-    stdio: ["ignore", "pipe", "pipe"],
-  });
-  child.stdout!.on("data", (d) => (output += d));
-  child.stderr!.on("data", (d) => (output += d));
-  const url = `http://127.0.0.1:${port}`;
-  for (let i = 0; i < 150; i++) {
-    if (child.exitCode !== null) throw new Error(`server exited early:\n${output}`);
-    if (await fetch(`${url}/healthz`).catch(() => null)) break;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  const stop = async () => {
-    if (child.exitCode === null) {
-      child.kill("SIGTERM");
-      await new Promise((r) => child.once("exit", r));
-    }
-  };
-  return { url, port, output: () => output, stop, child };
-}
 
 /** Runs `node server.js` with these settings and waits for it to exit (a refused configuration). */
 function bootFails(env: Record<string, string>): Promise<{ code: number | null; output: string }> {
@@ -61,20 +36,6 @@ function bootFails(env: Record<string, string>): Promise<{ code: number | null; 
   });
 }
 
-/** A session cookie for a demo user, signed in through the /login form as a browser would. */
-async function signIn(url: string, email: string): Promise<string> {
-  const res = await fetch(`${url}/login`, {
-    method: "POST",
-    headers: { origin: url, "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ email, password: DEMO_PASSWORD }),
-    redirect: "manual",
-  });
-  expect(res.status).toBe(302);
-  const session = res.headers.getSetCookie().find((c) => c.includes("session-token="));
-  expect(session).toBeDefined();
-  return session!.split(";")[0]!;
-}
-
 /** Sends raw bytes and returns what the server answered (or "" if it closed without a word). */
 function rawHttp(port: number, text: string): Promise<string> {
   return new Promise((resolve) => {
@@ -85,36 +46,6 @@ function rawHttp(port: number, text: string): Promise<string> {
     s.on("error", () => resolve(got));
     s.setTimeout(5000, () => s.destroy());
   });
-}
-
-/** A TCP relay to MariaDB that the test can cut (refusing and dropping connections) and restore. */
-class DatabaseRelay {
-  private server: Server | undefined;
-  private sockets = new Set<Socket>();
-  constructor(
-    readonly port: number,
-    private target: { host: string; port: number },
-  ) {}
-  async up() {
-    if (this.server) return;
-    this.server = createServer((client) => {
-      const upstream = connect(this.target.port, this.target.host);
-      for (const s of [client, upstream]) {
-        this.sockets.add(s);
-        s.on("close", () => this.sockets.delete(s));
-        s.on("error", () => {});
-      }
-      client.pipe(upstream).pipe(client);
-      client.on("close", () => upstream.destroy());
-      upstream.on("close", () => client.destroy());
-    });
-    await new Promise<void>((r) => this.server!.listen(this.port, "127.0.0.1", () => r()));
-  }
-  async down() {
-    for (const s of this.sockets) s.destroy();
-    await new Promise((r) => (this.server ? this.server.close(r) : r(null)));
-    this.server = undefined;
-  }
 }
 
 describe("no request stops the server (issue 9 item 1)", () => {
@@ -192,6 +123,33 @@ describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prev
     expect(api.status).toBe(403);
     expect(await api.json()).toEqual({ error: "Cross-site requests are refused." });
   });
+
+  it("a page's action sent JSON or text is refused with 415 before it runs, and one with no body reads as an empty form (never a 500)", async () => {
+    const cookie = await signIn(baseUrl, "lead@tinderbox.example");
+    for (const [path, body, type] of [
+      ["/calls/new", JSON.stringify({ symptom: "sent as JSON" }), "application/json"],
+      ["/customers/new.data", JSON.stringify({ name: "x" }), "application/json"],
+      ["/meters", "name=plain", "text/plain"],
+    ] as const) {
+      const res = await fetch(`${baseUrl}${path}`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": type }, body, redirect: "manual" });
+      expect(res.status, path).toBe(415);
+    }
+    // No body type: an empty form, so the form's own field errors (a unit to choose, a symptom).
+    const empty = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl }, redirect: "manual" });
+    expect(empty.status).toBe(400);
+    const form = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" }, body: "symptom=x", redirect: "manual" });
+    expect(form.status).toBe(400);
+  });
+
+  it("a GET to an API route that only takes POST answers 405 JSON with Allow: POST (RFC 9110 §15.5.6)", async () => {
+    const cookie = await signIn(baseUrl, "tech@tinderbox.example");
+    for (const path of ["/api/runs/00000000-0000-4000-8000-000000000000/steps", "/api/reports/00000000-0000-4000-8000-000000000000/send", "/api/trees/00000000-0000-4000-8000-000000000000/draft"]) {
+      const res = await fetch(`${baseUrl}${path}`, { headers: { cookie } });
+      expect(res.status, path).toBe(405);
+      expect(res.headers.get("allow"), path).toBe("POST");
+      expect(await res.json(), path).toEqual({ error: "Use POST." });
+    }
+  });
 });
 
 describe("page security headers (issue 9 item 8)", () => {
@@ -235,7 +193,7 @@ describe("page security headers (issue 9 item 8)", () => {
       const problems: string[] = [];
       for (const [email, size, paths] of [
         ["tech@tinderbox.example", PHONE, ["/calls", "/calls/all", "/trees"]],
-        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox"]],
+        ["owner@tinderbox.example", LAPTOP, ["/overview", "/people", "/customers", "/meters", "/outbox", "/audit"]],
       ] as const) {
         const context = await browser.newContext({ viewport: size });
         await context.addInitScript(() => {
@@ -418,5 +376,52 @@ describe("configuration is checked at boot (issue 8 item 8)", () => {
     const { code, output } = await bootFails({ AUTH_SECRET: "" });
     expect(code).toBe(1);
     expect(output).toContain("AUTH_SECRET:");
+  });
+});
+
+describe("compressed answers where the client accepts them (issue 14)", () => {
+  /** GET with exactly these headers; the raw bytes and headers as sent (fetch would decode them). */
+  function rawGet(path: string, headers: Record<string, string>): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
+    return new Promise((resolve, reject) => {
+      const req = httpGet(`${baseUrl}${path}`, { headers }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c: Buffer) => chunks.push(c));
+        res.on("end", () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks) }));
+      });
+      req.on("error", reject);
+    });
+  }
+
+  it("pages and JSON in brotli or gzip as Accept-Encoding asks (RFC 9110 §12.5.3), the same content as uncompressed; tiny answers as they are", async () => {
+    const cookie = await signIn(baseUrl, "lead@tinderbox.example");
+    const plain = await rawGet("/api/trees", { cookie, "accept-encoding": "identity" });
+    expect(plain.status).toBe(200);
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    expect(plain.headers.vary).toMatch(/accept-encoding/i);
+    expect(plain.body.length).toBeGreaterThan(1024);
+
+    const br = await rawGet("/api/trees", { cookie, "accept-encoding": "gzip, deflate, br" });
+    expect(br.headers["content-encoding"]).toBe("br");
+    expect(Number(br.headers["content-length"])).toBe(br.body.length);
+    expect(br.headers.vary).toMatch(/accept-encoding/i);
+    expect(JSON.parse(brotliDecompressSync(br.body).toString())).toEqual(JSON.parse(plain.body.toString()));
+    expect(br.body.length).toBeLessThan(plain.body.length / 2);
+
+    const gz = await rawGet("/api/trees", { cookie, "accept-encoding": "gzip, deflate" });
+    expect(gz.headers["content-encoding"]).toBe("gzip");
+    expect(JSON.parse(gunzipSync(gz.body).toString())).toEqual(JSON.parse(plain.body.toString()));
+
+    // A streamed page: the whole document arrives, compressed.
+    const page = await rawGet("/calls/all", { cookie, "accept-encoding": "br;q=0, gzip" });
+    expect(page.status).toBe(200);
+    expect(page.headers["content-encoding"]).toBe("gzip");
+    const html = gunzipSync(page.body).toString();
+    expect(html).toMatch(/^<!DOCTYPE html>/i);
+    expect(html).toMatch(/<\/html>\s*$/);
+
+    // Under 1 KB it is not worth it; images and other binaries are never touched.
+    const health = await rawGet("/healthz", { "accept-encoding": "gzip, br" });
+    expect(health.headers["content-encoding"]).toBeUndefined();
+    expect(JSON.parse(health.body.toString())).toEqual({ ok: true, db: "up" });
   });
 });

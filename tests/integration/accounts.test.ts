@@ -300,7 +300,7 @@ describe("the account page", () => {
     expect(out.headers?.get("location")).toBe("/login?signedOut=1");
     expect(await getUser(requestWith(here.cookie))).toBeNull();
 
-    const trail = await listAudit(demoOwner, { action: "sessions.ended", actorId: p.ctx.userId });
+    const trail = (await listAudit(demoOwner, { action: "sessions.ended", actorId: p.ctx.userId })).entries;
     expect(trail.map((e) => e.details)).toEqual([
       { ended: 1, everywhereElse: false },
       { ended: 2, everywhereElse: true },
@@ -334,7 +334,7 @@ describe("the account page", () => {
     expect(await getUser(requestWith(other.cookie))).toBeNull();
     expect((await signIn(p.email, "river stone kettle", address())).kind).toBe("ok");
     expect((await signIn(p.email, p.password, address())).kind).toBe("bad-credentials");
-    const [entry] = await listAudit(demoOwner, { action: "password.changed", actorId: p.ctx.userId });
+    const [entry] = (await listAudit(demoOwner, { action: "password.changed", actorId: p.ctx.userId })).entries;
     expect(entry).toMatchObject({ subjectId: p.ctx.userId, details: { otherSessionsEnded: 1 } });
   });
 
@@ -379,14 +379,14 @@ describe("an owner and the shop's people", () => {
     expect(await getUser(requestWith(c.cookie))).toBeNull(); // the old session stays ended
     expect((await signIn(p.email, p.password, address())).kind).toBe("ok");
 
-    const [off] = await listAudit(demoOwner, { action: "member.deactivated" });
+    const [off] = (await listAudit(demoOwner, { action: "member.deactivated" })).entries;
     expect(off).toMatchObject({
       actorId: demoOwner.userId,
       subjectId: p.ctx.userId,
       address: "198.51.100.1",
       details: { sessionsEnded: 1 },
     });
-    const [on] = await listAudit(demoOwner, { action: "member.reactivated" });
+    const [on] = (await listAudit(demoOwner, { action: "member.reactivated" })).entries;
     expect(on).toMatchObject({ subjectId: p.ctx.userId });
   });
 
@@ -409,7 +409,7 @@ describe("an owner and the shop's people", () => {
     expect(await setMemberRole(second, second.userId, "lead")).toMatchObject({ changed: true });
     await expect(setMemberRole(owner.ctx, owner.ctx.userId, "lead")).rejects.toMatchObject({ code: "last-owner" });
 
-    const [changed] = await listAudit(owner.ctx, { action: "member.role-changed" });
+    const [changed] = (await listAudit(owner.ctx, { action: "member.role-changed" })).entries;
     expect(changed).toMatchObject({ actorId: second.userId, subjectId: second.userId, details: { from: "owner", to: "lead" } });
   });
 
@@ -444,13 +444,13 @@ describe("an owner and the shop's people", () => {
     expect(JSON.stringify(r)).not.toContain(token);
     expect((await completePasswordReset(token, "meadow copper lantern", {})).role).toBe("technician");
 
-    const trail = await listAudit(demoOwner, { actorId: demoOwner.userId });
+    const trail = (await listAudit(demoOwner, { actorId: demoOwner.userId })).entries;
     expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({
       details: { by: "owner" },
       address: "198.51.100.2",
     });
     expect(trail.find((e) => e.action === "sessions.ended" && e.subjectId === p.ctx.userId)).toMatchObject({ details: { ended: 1 } });
-    const [done] = await listAudit(demoOwner, { action: "password.reset", actorId: p.ctx.userId });
+    const [done] = (await listAudit(demoOwner, { action: "password.reset", actorId: p.ctx.userId })).entries;
     expect(done).toMatchObject({ details: { linkSentByOwner: true, sessionsEnded: 0 } });
 
     await setMemberActive(demoOwner, p.ctx.userId, false);
@@ -462,7 +462,7 @@ describe("an owner and the shop's people", () => {
     await requestPasswordReset(p.email, { address: "198.51.100.3" }, link);
     const token = await resetTokenFor(demoShop, p.email);
     await completePasswordReset(token, "orchard wire bell", { address: "198.51.100.4" });
-    const trail = await listAudit(demoOwner, {});
+    const trail = (await listAudit(demoOwner, {})).entries;
     expect(trail.find((e) => e.action === "password.reset-requested" && e.subjectId === p.ctx.userId)).toMatchObject({
       actorId: null,
       actorEmail: p.email,

@@ -26,6 +26,7 @@ import * as meters from "../../app/models/meters.server";
 import * as outbox from "../../app/models/outbox.server";
 import * as passwordReset from "../../app/models/password-reset.server";
 import * as people from "../../app/models/people.server";
+import * as kit from "../../app/models/runs/kit.server";
 import * as lifecycle from "../../app/models/runs/lifecycle.server";
 import * as notes from "../../app/models/runs/notes.server";
 import * as photos from "../../app/models/runs/photos.server";
@@ -199,6 +200,7 @@ const ROWS: Row[] = [
   row(account.endMySessions, "account.self", nothing, (c) => account.endMySessions(c, { sessionId: "none", address: address() }, { allButThis: true })),
   // runs
   row(start.startRun, "runs.start", nothing, (c) => start.startRun(c, { treeId: publishedTreeId })),
+  row(kit.fieldKit, "calls.mine", nothing, (c) => kit.fieldKit(c)),
   row(view.getRunView, "runs.view", () => newRun(), (c, runId) => view.getRunView(c, runId)),
   row(steps.postStep, "runs.step", () => newRun(), (c, runId) => steps.postStep(c, runId, step()), held),
   row(notes.addNote, "runs.note", () => newRun(), (c, runId) => notes.addNote(c, runId, { key: crypto.randomUUID(), node: "cap-look", text: "Capacitor top is domed." }), held),

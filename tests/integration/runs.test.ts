@@ -1,10 +1,10 @@
 // Field runs against the real MariaDB (and the local S3 fake and SMTP catcher): the run lifecycle,
 // the idempotent step POST, version pinning, shop isolation, upload refusals and the e-mailed report.
 import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
-import { count, eq } from "drizzle-orm";
+import { and, asc, count, eq, isNull } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runPhotos, runSteps } from "../../db/schema";
+import { escalations, meters, runNotes, runPhotos, runSteps, serviceCalls } from "../../db/schema";
 import { DEMO_SHOP, OTHER_SHOP } from "../../db/demo";
 import { stableId } from "../../db/seed";
 import { parseTree } from "../../app/engine/markdown/parse";
@@ -231,6 +231,119 @@ describe("idempotent step POST", () => {
     expect([a.status, b.status].sort()).toEqual(["fulfilled", "rejected"]);
     expect([a, b].find((r) => r.status === "rejected")).toMatchObject({ reason: { kind: "rejected", status: 422 } });
     expect(await stepCount(runId)).toBe(1);
+  });
+
+  it("ten undos posted at once each judge the log as the previous one left it: four take back four different steps, six are refused", async () => {
+    // Each step reads the run's log in the statement that locks the run; a log read from before the
+    // lock was granted would let two undos take back the same step. The engine's own replay of the
+    // stored log (traversal.ts) is the reference for what each row must say.
+    const { runId } = await newRun();
+    await ok(tech, runId, step({ type: "acknowledge", node: "lockout" }));
+    await ok(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }));
+    await ok(tech, runId, step({ type: "acknowledge", node: "live-test" }));
+    await ok(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 V" }, { meterId: voltMeter }));
+    const results = await Promise.allSettled(Array.from({ length: 10 }, () => postStep(tech, runId, step({ type: "undo" }))));
+    expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(4);
+    for (const r of results) if (r.status === "rejected") expect(r.reason).toMatchObject({ status: 422, code: "nothing-to-undo" });
+
+    const view = await getRunView(tech, runId);
+    expect(view.steps.map((s) => s.seq)).toEqual([0, 1, 2, 3, 4, 5, 6, 7]);
+    const undos = view.steps.filter((s) => s.type === "undo");
+    expect(undos.map((s) => s.undoesSeq)).toEqual([3, 2, 1, 0]);
+    expect(view.steps.filter((s) => s.undone).map((s) => s.seq)).toEqual([0, 1, 2, 3]);
+    const state = replay(view.tree, logOf(view.steps));
+    expect(state.undone.sort()).toEqual([0, 1, 2, 3]);
+    expect(view.run.currentNode).toBe(state.current);
+    expect(view.run.stepCount).toBe(8);
+  });
+});
+
+describe("the run view", () => {
+  it("shows every step, note, photo, part, meter, the escalation and the report exactly as the tables hold them", async () => {
+    // The view is read in one statement with JSON subqueries; the reference here is each table read
+    // on its own through the ORM, as the view was read before (one query per list).
+    const { runId, callId } = await newRun();
+    await walkToCapacitor(runId);
+    await ok(tech, runId, step({ type: "reading", node: "cap-measure", reading: "1.47 µF" }, { meterId: capMeter }));
+    await ok(tech, runId, step({ type: "undo" }));
+    await addNote(tech, runId, { key: crypto.randomUUID(), node: "cap-measure", text: "Case domed; see photo." });
+    await addNote(tech, runId, { key: crypto.randomUUID(), node: "cap-measure", text: "Second note, with “quotes” and a \\ backslash." });
+    await addPhoto(tech, runId, { key: crypto.randomUUID(), node: "cap-measure", bytes: TINY_PNG });
+    await changeRunStatus(tech, runId, { action: "escalate", reason: "Want a second opinion on the capacitor." });
+    await changeRunStatus(lead, runId, { action: "take-over" });
+    // 1.2 µF is below 1.41–1.59 µF: the run ends at the failed-capacitor outcome.
+    await ok(lead, runId, step({ type: "reading", node: "cap-measure", reading: "1.2 µF" }, { meterId: capMeter }));
+
+    const view = await getRunView(lead, runId);
+    const rows = await db().select().from(runSteps).where(eq(runSteps.runId, runId)).orderBy(asc(runSteps.seq));
+    expect(view.steps).toEqual(
+      rows.map((r) => ({
+        seq: r.seq,
+        key: r.idempotencyKey,
+        type: r.type,
+        node: r.nodeKey,
+        kind: r.kind,
+        answer: r.answer,
+        typed: r.typed,
+        value: r.value,
+        unit: r.unit,
+        si: r.siValue,
+        siUnit: r.siUnit,
+        verdict: r.verdict,
+        call: r.call,
+        message: r.message,
+        limitsText: r.limits?.text ?? null,
+        meterId: r.meterId,
+        meter: r.meter,
+        to: r.toNode,
+        undone: r.undone,
+        undoesSeq: r.undoesSeq,
+        enteredBy: r.enteredBy,
+        recordedAt: r.recordedAt.toISOString(),
+      })),
+    );
+    expect(view.steps.some((s) => s.undone)).toBe(true);
+    expect(view.steps.some((s) => s.limitsText === "1.41–1.59 µF")).toBe(true);
+
+    const notes = await db().select().from(runNotes).where(eq(runNotes.runId, runId)).orderBy(asc(runNotes.createdAt));
+    expect(view.notes).toEqual(notes.map((n) => ({ id: n.id, key: n.idempotencyKey, node: n.nodeKey, text: n.text, author: "Priya Lindqvist", createdAt: n.createdAt.toISOString() })));
+    const photos = await db().select().from(runPhotos).where(eq(runPhotos.runId, runId));
+    expect(view.photos).toEqual(photos.map((p) => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: `/api/photos/${p.id}`, bytes: p.bytes, createdAt: p.createdAt.toISOString() })));
+    const shopMeters = await db().select().from(meters).where(and(eq(meters.shopId, shopA), isNull(meters.retiredAt))).orderBy(asc(meters.name), asc(meters.id));
+    expect(view.meters).toEqual(shopMeters.map((m) => ({ id: m.id, name: m.name, quantity: m.quantity, unit: m.unit, rangeMax: m.rangeMax, resolution: m.resolution, percent: m.percent, counts: m.counts })));
+    const [esc] = await db().select().from(escalations).where(eq(escalations.runId, runId));
+    expect(view.escalation).toEqual({ id: esc!.id, reason: "Want a second opinion on the capacitor.", raisedBy: "Priya Lindqvist", raisedAt: esc!.raisedAt.toISOString(), takenBy: "Teodor Vance", fromTree: false });
+    const [call] = await db().select().from(serviceCalls).where(eq(serviceCalls.id, callId));
+    expect(view.call).toEqual({ id: callId, number: call!.number, symptom: call!.symptom, priority: call!.priority });
+    expect(view.unit).toMatchObject({ id: rotisserie, category: "rotisserie", nameplate: expect.any(Object), site: expect.any(String), customer: expect.any(String) });
+    expect(view.run.technician.id).toBe(lead.userId);
+    expect(view.run.startedBy.id).toBe(tech.userId);
+    expect(view.timeZone).toMatch(/\//);
+    expect(view.report).toBeNull();
+
+    const done = await recordOutcome(lead, runId, {
+      action: "Replaced the run capacitor.",
+      minutes: 40,
+      parts: [
+        { partNumber: "RC-1.5-370", description: "Run capacitor 1.5 µF 370 V", quantity: 1 },
+        { partNumber: "WN-12", description: "Wire nuts", quantity: 3 },
+      ],
+    });
+    const after = await getRunView(lead, runId);
+    expect(after.run.status).toBe("done");
+    expect(after.parts).toEqual([
+      { partNumber: "RC-1.5-370", description: "Run capacitor 1.5 µF 370 V", quantity: 1 },
+      { partNumber: "WN-12", description: "Wire nuts", quantity: 3 },
+    ]);
+    expect(after.report).toEqual({ id: done.reportId, number: done.number, sentTo: null, sentAt: null });
+
+    // Over HTTP the same view arrives, the second time with the version's part from its cache.
+    const { cookie } = await cookieFor("lead@tinderbox.example");
+    for (let i = 0; i < 2; i++) {
+      const res = (await runApiLoader(routeArgs(requestWith(cookie, `/api/runs/${runId}`), { runId }))) as Response;
+      expect(res.headers.get("content-type")).toMatch(/^application\/json/);
+      expect(await res.json()).toEqual(JSON.parse(JSON.stringify(after)));
+    }
   });
 });
 

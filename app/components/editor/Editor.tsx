@@ -9,6 +9,7 @@ import { uploadImage, type Validation } from "./api";
 import { draftReducer, initDraft, type Layout } from "./draft";
 import { EditorHeader } from "./EditorHeader";
 import { Findings } from "./Findings";
+import { KeptDraftOffer } from "./KeptDraftOffer";
 import { NodeForm } from "./NodeForm";
 import { Outline } from "./Outline";
 import { Palette } from "./Palette";
@@ -18,6 +19,7 @@ import { TreeForm } from "./TreeForm";
 import { useAutosave } from "./useAutosave";
 import { useChecks } from "./useChecks";
 import { useConflict } from "./useConflict";
+import { useKeptDraft } from "./useKeptDraft";
 import { useSelection, type Pane } from "./useSelection";
 
 const Canvas = lazy(() => import("./Canvas"));
@@ -45,6 +47,7 @@ export function Editor(props: EditorProps) {
   const save = useAutosave(treeId, versionId, state, props.revision);
   const { checks, checking, marks, blocked, stale } = useChecks(treeId, state.tree, save, props);
   const conflict = useConflict(treeId, state, dispatch, save, () => setFormEpoch((e) => e + 1));
+  const kept = useKeptDraft(treeId, versionId, props.tree, state, save, dispatch, () => setFormEpoch((e) => e + 1));
   const view = useSelection(state.tree, dispatch);
   const { pane, setPane, centerView } = view;
   const selectedNode = state.tree.nodes.find((n) => n.id === state.selected) ?? null;
@@ -66,6 +69,7 @@ export function Editor(props: EditorProps) {
     <div className="flex min-h-dvh flex-col lg:h-dvh">
       <EditorHeader treeId={treeId} tree={state.tree} nextNumber={props.nextNumber} basedOn={props.basedOn} save={save} blocked={blocked} publishError={props.publishError} />
       <SaveProblems save={save} conflict={conflict} tree={state.tree} timeZone={props.timeZone} />
+      <KeptDraftOffer kept={kept} tree={state.tree} />
 
       <div role="tablist" aria-label="Editor panes" className="flex gap-1 border-b border-rule bg-card px-2 py-1 lg:hidden">
         {tab("outline", "Outline")}

@@ -4,17 +4,9 @@ import { useQuery } from "@tanstack/react-query";
 import type { Dispatch } from "react";
 import { serializeTree } from "~/engine/markdown/serialize";
 import { fetchDraft } from "./api";
+import { downloadText } from "./download";
 import type { DraftAction, DraftState } from "./draft";
 import type { Autosave } from "./useAutosave";
-
-function download(name: string, text: string) {
-  const url = URL.createObjectURL(new Blob([text], { type: "text/markdown;charset=utf-8" }));
-  const a = document.createElement("a");
-  a.href = url;
-  a.download = name;
-  a.click();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
-}
 
 export function useConflict(treeId: string, state: DraftState, dispatch: Dispatch<DraftAction>, save: Autosave, onReplaced: () => void) {
   const { conflict, status } = save;
@@ -33,7 +25,7 @@ export function useConflict(treeId: string, state: DraftState, dispatch: Dispatc
       save.adopt(t.revision, state.change + 1);
       onReplaced();
     },
-    downloadMine: () => download(`${treeId.slice(0, 8)}-my-changes.md`, serializeTree(state.tree)),
+    downloadMine: () => downloadText(`${treeId.slice(0, 8)}-my-changes.md`, serializeTree(state.tree)),
   };
 }
 

@@ -1,13 +1,26 @@
-// The runner's top bar: back to the call, the step count (opens the history), the save state.
+// The runner's top bar: back to the call, the step count (opens the history), the save state
+// (saved, saving, kept on this phone until there is signal, or refused by the server).
 import { PracticeBanner } from "./practice/Scripted";
 import { stepsDone } from "~/lib/run-log";
 import type { RunHandle } from "./useRun";
 
 function SaveState({ run }: { run: RunHandle }) {
+  if (run.phone.items.some((i) => i.state !== "queued"))
+    return (
+      <span className="rounded-full bg-out-soft px-3 py-1 text-base font-bold text-out" role="status">
+        Not accepted
+      </span>
+    );
   if (run.waiting > 0)
     return (
       <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">
-        Offline · {run.waiting} waiting
+        On this phone · {run.waiting}
+      </span>
+    );
+  if (run.phone.offline)
+    return (
+      <span className="rounded-full bg-marginal-soft px-3 py-1 text-base font-bold text-marginal" role="status">
+        No signal
       </span>
     );
   if (run.saving > 0)

@@ -1,15 +1,14 @@
 // The phone runner: one step per screen, the position in the procedure, a visible saving state,
 // and a bottom bar (back, note, photo, more) sized for gloved hands. This file picks the screen
 // for where the run stands and lays it out; each screen, panel and bar has its own file.
-import { useEffect, useRef, useState, type ReactNode } from "react";
+import { Suspense, useEffect, useRef, useState, type ReactNode } from "react";
 import { Announcer } from "~/components/Announcer";
 import type { OutcomeNode } from "~/engine/types";
 import type { RunView } from "~/lib/run-log";
 import { Closed } from "./ends/Closed";
-import { DoneScreen } from "./ends/DoneScreen";
 import { EscalatedScreen } from "./ends/EscalatedScreen";
 import { HandOverScreen } from "./ends/HandOverScreen";
-import { OutcomeScreen } from "./ends/OutcomeScreen";
+import { DoneScreen, loadEndScreens, OutcomeScreen, PracticeDoneScreen, PracticeEndScreen } from "./ends/later";
 import { PausedScreen } from "./ends/PausedScreen";
 import { ReadOnly } from "./ends/ReadOnly";
 import { History } from "./History";
@@ -23,8 +22,9 @@ import { StepScreen } from "./Screens";
 import { StepExtras } from "./StepExtras";
 import { LastReading, StepHeading } from "./StepHeading";
 import { Toolbar, type Panel } from "./Toolbar";
+import { PhoneStatus } from "./offline/PhoneStatus";
+import { registerWorker } from "./offline/worker-client";
 import { useRun, type RunHandle } from "./useRun";
-import { PracticeDoneScreen, PracticeEndScreen } from "./practice/PracticeEnd";
 import { PracticeBrief } from "./practice/Scripted";
 
 /** The screen for where the run stands. */
@@ -46,8 +46,8 @@ function screenFor(run: RunHandle, setPanel: (p: Panel) => void): ReactNode {
   return <Closed title="This procedure cannot run" detail={state.error ?? "The tree has no step to start from."} />;
 }
 
-export function Runner({ initial }: { initial: RunView }) {
-  const run = useRun(initial);
+export function Runner({ initial, fromPhone = false }: { initial: RunView; fromPhone?: boolean }) {
+  const run = useRun(initial, fromPhone);
   const { view, state, current } = run;
   const [panel, setPanel] = useState<Panel>(null);
   const status = view.run.status;
@@ -73,6 +73,14 @@ export function Runner({ initial }: { initial: RunView }) {
   // Keyboard focus never lands under the bottom bar.
   useFocusClearOfBar();
 
+  // The service worker keeps this page and its code on the phone for working without signal.
+  useEffect(registerWorker, []);
+
+  // The end-of-run screens come in their own chunk: fetched now, used at the run's end.
+  useEffect(() => {
+    void loadEndScreens();
+  }, []);
+
   // A panel opened from the bottom bar (note, reason, history) shows at the top of the screen.
   useEffect(() => {
     if (panel && panel !== "more") window.scrollTo({ top: 0 });
@@ -82,6 +90,7 @@ export function Runner({ initial }: { initial: RunView }) {
     <div className="flex min-h-dvh flex-col bg-paper">
       <RunHeader run={run} walking={walking && Boolean(current)} historyOpen={panel === "history"} onHistory={() => setPanel(panel === "history" ? null : "history")} />
       <main className="mx-auto w-full max-w-xl flex-1 space-y-4 px-4 pb-44 pt-3">
+        <PhoneStatus run={run} />
         {run.error && (
           <div role="alert" className="flex items-start justify-between gap-3 rounded-xl border-2 border-out bg-out-soft p-3 text-out">
             <p className="text-lg font-semibold">{run.error}</p>
@@ -109,7 +118,7 @@ export function Runner({ initial }: { initial: RunView }) {
             <Markdown blocks={view.description} className="mt-2" />
           </details>
         )}
-        {screenFor(run, setPanel)}
+        <Suspense fallback={null}>{screenFor(run, setPanel)}</Suspense>
         {shownNode && <StepExtras run={run} node={shownNode} />}
       </main>
       {holds && open && panel === "more" && <MorePanel run={run} onPick={setPanel} />}

@@ -3,7 +3,20 @@
 import { nodeBranches } from "~/engine/graph";
 import type { Tree, TreeNode } from "~/engine/types";
 
-export function stepsToGo(tree: Tree, from: string): { min: number; max: number } | null {
+type ToGo = { min: number; max: number } | null;
+/** Answers by tree object and node: a published tree never changes, and the runner asks on every render. */
+const known = new WeakMap<Tree, Map<string, ToGo>>();
+
+export function stepsToGo(tree: Tree, from: string): ToGo {
+  let forTree = known.get(tree);
+  if (!forTree) known.set(tree, (forTree = new Map()));
+  if (forTree.has(from)) return forTree.get(from)!;
+  const answer = walkToGo(tree, from);
+  forTree.set(from, answer);
+  return answer;
+}
+
+function walkToGo(tree: Tree, from: string): ToGo {
   const byId = new Map<string, TreeNode>(tree.nodes.map((n) => [n.id, n]));
   const memo = new Map<string, { min: number; max: number }>();
   const visiting = new Set<string>();

@@ -3,7 +3,7 @@
 // statements for both, so "kept up to date" and "rebuilt" cannot drift apart; the tallies add
 // counts (ON DUPLICATE KEY UPDATE runs = runs + …), so a rebuild starts from empty tables.
 import { inArray, sql, type SQL } from "drizzle-orm";
-import { insightCauseTallies, insightKeys, insightParts, insightReadings, insightRuns, insightStepTallies } from "../../../db/schema";
+import { insightCauseTallies, insightKeys, insightParts, insightReadings, insightRuns, insightStepTallies, runs, shopCounters } from "../../../db/schema";
 import { db, writeTx, type Db, type Tx } from "../../lib/db.server";
 
 /** Which ended runs to summarise: some runs, one shop, or every shop. */
@@ -138,7 +138,21 @@ export async function writeRunFacts(tx: Tx | Db, runIds: readonly string[]): Pro
   const seen = new Set(done.map((d) => d.runId));
   const fresh = runIds.filter((id) => !seen.has(id));
   if (!fresh.length) return;
+  await queueForShops(tx, fresh);
   for (const statement of statements({ runIds: fresh })) await tx.execute(statement);
+}
+
+/**
+ * Fact writes of a shop take turns: each locks the shop's "insights" queue row first (held to the
+ * end of the transaction). Runs ending at once upsert the same key and tally rows, and in parallel
+ * the unique indexes' gap locks deadlocked them (32 outcomes at once ran out of retries). Callers
+ * that also number something take that number first, so the order is always counter, then queue.
+ */
+async function queueForShops(tx: Tx | Db, runIds: readonly string[]): Promise<void> {
+  const shops = await tx.selectDistinct({ shopId: runs.shopId }).from(runs).where(inArray(runs.id, [...runIds]));
+  for (const { shopId } of shops.sort((a, b) => a.shopId.localeCompare(b.shopId))) {
+    await tx.execute(sql`INSERT INTO ${shopCounters} (shop_id, name, last) VALUES (${shopId}, 'insights', 1) ON DUPLICATE KEY UPDATE last = last + 1`);
+  }
 }
 
 /** The summary rows of one run that just ended: called by the model in the transaction that ends it. */

@@ -1,14 +1,15 @@
 // A run's life after its start: pause and resume, escalate to a lead, take over, abandon with a
 // reason, and the outcome that closes the run and the call and makes the service report.
-import { and, eq, inArray, isNull, max } from "drizzle-orm";
+import { and, eq, inArray, isNull } from "drizzle-orm";
 import { z } from "zod";
-import { escalations, reports, runParts, runs, serviceCalls, type RunStatus } from "../../../db/schema";
+import { escalations, reports, runParts, runs, serviceCalls, users, type RunStatus } from "../../../db/schema";
 import type { OutcomeNode } from "../../engine/types";
 import type { Ctx } from "../../lib/context";
 import { db, writeTx, type Tx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
-import { lockOwn, withNextNumber } from "../_query.server";
+import { byCaller, recordAudit } from "../_audit.server";
+import { lockRunAndCall, nextNumber } from "../_query.server";
 import { nodeOf, OPEN, versionContent } from "./_version.server";
 import { recordRunFacts } from "../insights/_facts.server";
 
@@ -40,11 +41,28 @@ async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
     .where(and(eq(escalations.runId, runId), isNull(escalations.closedAt)));
 }
 
+/** The take-over in the audit trail: whose run it was, on which call. */
+async function recordTakeOver(tx: Tx, ctx: Ctx, run: typeof runs.$inferSelect) {
+  const [from] = await tx.select({ name: users.name }).from(users).where(eq(users.id, run.technicianId));
+  const [call] = run.callId ? await tx.select({ number: serviceCalls.number }).from(serviceCalls).where(eq(serviceCalls.id, run.callId)) : [];
+  await recordAudit(
+    {
+      ...byCaller(ctx),
+      action: "run.taken-over",
+      subjectType: "run",
+      subjectId: run.id,
+      summary: `Took over ${from?.name ?? "a technician"}'s run${call ? ` on call ${call.number}` : ""}`,
+      details: { fromUserId: run.technicianId, callId: run.callId, wasStatus: run.status },
+    },
+    tx,
+  );
+}
+
 /** Pause, resume, abandon (with a reason), escalate to a lead (with a reason), or take over (leads). */
 export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInput): Promise<StatusResult> {
   authorize(ctx, "runs.view");
   return writeTx(async (tx): Promise<StatusResult> => {
-    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
+    const run = (await lockRunAndCall(tx, ctx, runId)) ?? notFound("That run");
     const facts = { holder: run.technicianId === ctx.userId };
     const now = new Date();
     const set = (patch: Partial<typeof runs.$inferInsert>) => tx.update(runs).set({ ...patch, updatedAt: now }).where(eq(runs.id, runId));
@@ -94,6 +112,7 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
         await set({ technicianId: ctx.userId, status: "active", pausedAt: null });
         await closeEscalations(tx, runId, ctx.userId);
         await setCallStatus(tx, run.callId, "in_progress", ["open", "escalated"]);
+        await recordTakeOver(tx, ctx, run);
         return { status: "active" };
     }
   });
@@ -103,13 +122,14 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
 
 export const outcomeInput = z.object({
   action: z.string().trim().min(3, "Say what you did about it.").max(4000, "Keep it under 4000 characters."),
-  minutes: z.coerce.number({ message: "Enter the time on the job in minutes." }).int("Whole minutes, please.").min(1, "At least 1 minute.").max(1440, "At most 24 hours (1440 minutes)."),
+  // Numbers must be JSON numbers: `true` or "30" is refused, never coerced (issue 9 item 9).
+  minutes: z.number({ message: "Send the time on the job as a number of minutes." }).int("Whole minutes, please.").min(1, "At least 1 minute.").max(1440, "At most 24 hours (1440 minutes)."),
   parts: z
     .array(
       z.object({
         partNumber: z.string().trim().max(60, "Keep the part number under 60 characters.").default(""),
         description: z.string().trim().min(1, "Describe the part.").max(300, "Keep it under 300 characters."),
-        quantity: z.coerce.number({ message: "Enter a quantity." }).int("A whole number.").min(1, "At least 1.").max(999, "At most 999."),
+        quantity: z.number({ message: "Send each part's quantity as a number." }).int("A whole number.").min(1, "At least 1.").max(999, "At most 999."),
       }),
     )
     .max(30, "At most 30 parts on one run."),
@@ -128,7 +148,7 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     return r ? { reportId: r.id, number: r.number } : null;
   };
   const result = await writeTx(async (tx) => {
-    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
+    const run = (await lockRunAndCall(tx, ctx, runId)) ?? notFound("That run");
     if (run.status === "done") return null;
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
     // A practice run makes no report and closes no call: it is finished from the training model.
@@ -148,18 +168,11 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");
-    await recordRunFacts(tx, runId);
+    // The report's number before the summary rows: counter, then the shop's insights queue (_facts.server.ts).
     const id = crypto.randomUUID();
-    const number = await withNextNumber(
-      async () => {
-        const [row] = await tx.select({ n: max(reports.number) }).from(reports).where(eq(reports.shopId, ctx.shopId));
-        return (row?.n ?? 0) + 1;
-      },
-      async (n) => {
-        await tx.insert(reports).values({ id, shopId: ctx.shopId, number: n, runId, callId: run.callId, createdBy: ctx.userId });
-        return n;
-      },
-    );
+    const number = await nextNumber(tx, ctx.shopId, "report");
+    await recordRunFacts(tx, runId);
+    await tx.insert(reports).values({ id, shopId: ctx.shopId, number, runId, callId: run.callId, createdBy: ctx.userId });
     return { reportId: id, number };
   });
   return result ?? (await existing()) ?? notFound("That run");

@@ -15,6 +15,8 @@ export const noteInput = z.object({
   key: z.string().uuid(),
   node: nodeKey,
   text: z.string().trim().min(1, "Write the note first.").max(2000, "Keep a note under 2000 characters."),
+  /** The phone's clock when the note was written. */
+  at: z.iso.datetime({ offset: true }).nullish(),
 });
 export type NoteInput = z.infer<typeof noteInput>;
 
@@ -38,7 +40,7 @@ export async function addNote(ctx: Ctx, runId: string, input: NoteInput): Promis
     if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
     if (!nodeOf(content.tree, input.node)) throw new Refusal("rejected", "That step is not in this run's tree.");
-    const note = { id: crypto.randomUUID(), runId, shopId: ctx.shopId, nodeKey: input.node, idempotencyKey: input.key, text: input.text, authorId: ctx.userId, createdAt: new Date() };
+    const note = { id: crypto.randomUUID(), runId, shopId: ctx.shopId, nodeKey: input.node, idempotencyKey: input.key, text: input.text, authorId: ctx.userId, clientAt: input.at ? new Date(input.at) : null, createdAt: new Date() };
     await tx.insert(runNotes).values(note);
     return { note: view(note) };
   });

@@ -9,32 +9,51 @@ import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { photoUrl, type PhotoView } from "../../lib/run-log";
 import { checkImage, deleteObject, getObject, objectKey, putObject } from "../../lib/storage.server";
-import { OPEN } from "./_version.server";
+import { isDuplicate } from "../_query.server";
+import { nodeOf, OPEN, versionContent } from "./_version.server";
 
-export const photoFields = z.object({ key: z.string().uuid("Each photo needs an idempotency key (a UUID)."), node: z.string().min(1).max(64) });
+export const photoFields = z.object({
+  key: z.string().uuid("Each photo needs an idempotency key (a UUID)."),
+  node: z.string().min(1).max(64),
+  /** The phone's clock when the photo was taken. */
+  at: z.iso.datetime({ offset: true }).nullish(),
+});
 
 const view = (p: typeof runPhotos.$inferSelect): PhotoView => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: photoUrl(p.id), bytes: p.bytes, createdAt: p.createdAt.toISOString() });
 
-/** Adds a photo to a step. The same key again answers with the stored photo (`replayed`). */
-export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array }): Promise<{ replayed: boolean; photo: PhotoView }> {
+/** The stored photo under this key, as a replay; a refusal when the key was used for another photo. */
+function replayOf(existing: typeof runPhotos.$inferSelect, input: { node: string; bytes: Uint8Array }): { replayed: true; photo: PhotoView } {
+  if (existing.bytes !== input.bytes.byteLength || existing.nodeKey !== input.node) throw new Refusal("rejected", "This idempotency key was already used for a different photo.", { code: "key-reused" });
+  return { replayed: true, photo: view(existing) };
+}
+
+async function photoByKey(runId: string, key: string) {
+  const [row] = await db()
+    .select()
+    .from(runPhotos)
+    .where(and(eq(runPhotos.runId, runId), eq(runPhotos.idempotencyKey, key)))
+    .limit(1);
+  return row;
+}
+
+/**
+ * Adds a photo to a step of the run's tree. The same key again answers with the stored photo
+ * (`replayed`), also when both uploads arrive at once: the unique key decides which one is stored,
+ * and the other's object is removed before it answers with the winner's photo.
+ */
+export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array; at?: string | null }): Promise<{ replayed: boolean; photo: PhotoView }> {
   authorize(ctx, "runs.view");
   const [run] = await db()
-    .select({ id: runs.id, technicianId: runs.technicianId, status: runs.status })
+    .select({ id: runs.id, technicianId: runs.technicianId, status: runs.status, versionId: runs.versionId })
     .from(runs)
     .where(and(eq(runs.id, runId), eq(runs.shopId, ctx.shopId)))
     .limit(1);
   if (!run) notFound("That run");
-  const [existing] = await db()
-    .select()
-    .from(runPhotos)
-    .where(and(eq(runPhotos.runId, runId), eq(runPhotos.idempotencyKey, input.key)))
-    .limit(1);
-  if (existing) {
-    if (existing.bytes !== input.bytes.byteLength || existing.nodeKey !== input.node) throw new Refusal("rejected", "This idempotency key was already used for a different photo.", { code: "key-reused" });
-    return { replayed: true, photo: view(existing) };
-  }
+  const existing = await photoByKey(runId, input.key);
+  if (existing) return replayOf(existing, input);
   authorize(ctx, "runs.photo", { holder: run.technicianId === ctx.userId });
   if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
+  if (!nodeOf((await versionContent(ctx, run.versionId)).tree, input.node)) throw new Refusal("rejected", "That step is not in this run's tree.");
   const check = await checkImage(input.bytes);
   const key = objectKey(ctx.shopId, "run-photos", check.ext);
   await putObject(key, input.bytes, check.mime);
@@ -48,6 +67,7 @@ export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; no
     contentType: check.mime,
     bytes: input.bytes.byteLength,
     uploadedBy: ctx.userId,
+    clientAt: input.at ? new Date(input.at) : null,
     createdAt: new Date(),
     deletedAt: null,
   };
@@ -55,6 +75,8 @@ export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; no
     await db().insert(runPhotos).values(row);
   } catch (e) {
     await deleteObject(key).catch(() => undefined);
+    const winner = isDuplicate(e) ? await photoByKey(runId, input.key) : undefined;
+    if (winner) return replayOf(winner, input);
     throw e;
   }
   return { replayed: false, photo: view(row) };

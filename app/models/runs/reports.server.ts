@@ -1,16 +1,17 @@
 // Service reports: the record of a finished run for the customer, shown as a printable page and
 // e-mailed to the site contact (photos attached and shown inline).
-import { and, asc, eq, isNull, sql } from "drizzle-orm";
-import { reports, runNotes, runParts, runPhotos, runs, runSteps, serviceCalls, shops, users } from "../../../db/schema";
+import { and, asc, count, eq, gt, isNull, sql } from "drizzle-orm";
+import { auditEvents, reports, runNotes, runParts, runPhotos, runs, runSteps, serviceCalls, shops, users } from "../../../db/schema";
 import type { OutcomeNode } from "../../engine/types";
 import { describeMeter } from "../../engine/verdict";
 import type { Ctx } from "../../lib/context";
-import { db } from "../../lib/db.server";
+import { db, writeTx } from "../../lib/db.server";
 import { sendMail } from "../../lib/mail.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "../../lib/report-data";
 import { CONFIRMED_NOTE } from "../../lib/run-log";
+import { byCaller, recordAudit } from "../_audit.server";
 import { unitWithPlace } from "../_query.server";
 import { photosWithBytes } from "./photos.server";
 import { versionContent } from "./_version.server";
@@ -143,35 +144,103 @@ function reportText(r: ReportData): string {
  */
 export type ReportMailRenderer = (report: ReportData, photoSrc: (id: string) => string, note: string | null) => string;
 
-/** E-mails the report to the site contact, photos attached and shown inline. */
+/**
+ * How often one report may be e-mailed (docs/decisions/0243): again only 10 minutes after the last
+ * sending, and at most 5 times in 24 hours. A customer who lost the mail gets it again; a double tap,
+ * a script or a grudge does not fill their inbox.
+ */
+export const REPORT_SENDING = { minutesBetween: 10, perDay: 5 } as const;
+
+/**
+ * Claims the next sending of a report, or refuses it (429) under REPORT_SENDING. The claim stamps
+ * `sent_at` at once, so two sendings started together cannot both go out; `release` gives the
+ * claim back when the mail server refuses the message.
+ */
+async function claimSending(ctx: Ctx, reportId: string, now: Date): Promise<{ release: () => Promise<void> }> {
+  const previous = await writeTx(async (tx) => {
+    const [row] = await tx
+      .select({ sentAt: reports.sentAt })
+      .from(reports)
+      .where(and(eq(reports.id, reportId), eq(reports.shopId, ctx.shopId)))
+      .for("update");
+    if (!row) notFound("That report");
+    const wait = row.sentAt ? REPORT_SENDING.minutesBetween - Math.floor((now.getTime() - row.sentAt.getTime()) / 60_000) : 0;
+    if (wait > 0) {
+      throw new Refusal("too-many", `This report was e-mailed less than ${REPORT_SENDING.minutesBetween} minutes ago. It can be sent again in ${wait} minute${wait === 1 ? "" : "s"}.`, {
+        code: "sent-recently",
+        details: { retryInMinutes: wait },
+      });
+    }
+    const [day] = await tx
+      .select({ n: count() })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.shopId, ctx.shopId), eq(auditEvents.action, "report.sent"), eq(auditEvents.subjectId, reportId), gt(auditEvents.at, new Date(now.getTime() - 86_400_000))));
+    if ((day?.n ?? 0) >= REPORT_SENDING.perDay) {
+      throw new Refusal("too-many", `This report has been e-mailed ${REPORT_SENDING.perDay} times in the last 24 hours; it can't be sent again today.`, { code: "sent-too-often" });
+    }
+    await tx.update(reports).set({ sentAt: now }).where(eq(reports.id, reportId));
+    return row.sentAt;
+  });
+  return {
+    release: async () => {
+      await db()
+        .update(reports)
+        .set({ sentAt: previous })
+        .where(and(eq(reports.id, reportId), eq(reports.sentAt, now)));
+    },
+  };
+}
+
+/**
+ * E-mails the report to the site contact, photos attached and shown inline: the roles that work
+ * calls, at most as often as REPORT_SENDING says. The sending is recorded in the audit trail.
+ */
 export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportMailRenderer): Promise<{ to: string; messageId: string }> {
   authorize(ctx, "reports.send");
   const r = await getReport(ctx, reportId);
   if (!r.site?.contactEmail) throw new Refusal("conflict", "The site has no contact e-mail address: add one on the site's page first.", { code: "no-contact" });
-  const { photos, left } = await photosWithBytes(ctx, r.runId);
-  const cid = (id: string) => `photo-${id}@cluepath`;
-  const shown = { ...r, photos: r.photos.filter((p) => photos.some((x) => x.id === p.id)) };
-  const note = left ? `${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.` : null;
-  const html = renderHtml(shown, (id) => `cid:${cid(id)}`, note);
-  const subject = `Service report ${reportNumber(r.number)}${r.unit ? ` — ${r.unit.make} ${r.unit.model}` : ""}${r.site ? ` at ${r.site.name}` : ""}`;
+  const to = r.site.contactEmail;
+  const now = new Date();
+  const claim = await claimSending(ctx, reportId, now);
   let messageId: string;
   try {
+    const { photos, left } = await photosWithBytes(ctx, r.runId);
+    const cid = (id: string) => `photo-${id}@cluepath`;
+    const shown = { ...r, photos: r.photos.filter((p) => photos.some((x) => x.id === p.id)) };
+    const note = left ? `${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.` : null;
+    const html = renderHtml(shown, (id) => `cid:${cid(id)}`, note);
+    const subject = `Service report ${reportNumber(r.number)}${r.unit ? ` — ${r.unit.make} ${r.unit.model}` : ""}${r.site ? ` at ${r.site.name}` : ""}`;
     ({ messageId } = await sendMail({
       shopId: ctx.shopId,
       reportId,
-      to: r.site.contactEmail,
+      to,
       subject,
       text: reportText(r),
       html,
       attachments: photos.map((p, i) => ({ filename: `photo-${i + 1}.${p.ext}`, content: p.body, contentType: p.contentType, cid: cid(p.id) })),
     }));
   } catch (e) {
+    await claim.release().catch(() => undefined);
+    if (e instanceof Refusal) throw e;
     console.error("report mail failed:", e instanceof Error ? e.message : e);
     throw new Refusal("unavailable", "The mail server did not take the report. Try again in a minute.");
   }
-  await db()
-    .update(reports)
-    .set({ sentTo: r.site.contactEmail, sentAt: new Date(), messageId: messageId.slice(0, 300), sendCount: sql`${reports.sendCount} + 1` })
-    .where(and(eq(reports.id, reportId), eq(reports.shopId, ctx.shopId)));
-  return { to: r.site.contactEmail, messageId };
+  await writeTx(async (tx) => {
+    await tx
+      .update(reports)
+      .set({ sentTo: to, sentAt: now, messageId: messageId.slice(0, 300), sendCount: sql`${reports.sendCount} + 1` })
+      .where(and(eq(reports.id, reportId), eq(reports.shopId, ctx.shopId)));
+    await recordAudit(
+      {
+        ...byCaller(ctx),
+        action: "report.sent",
+        subjectType: "report",
+        subjectId: reportId,
+        summary: `E-mailed service report ${reportNumber(r.number)} to ${to}`,
+        details: { to, number: r.number, runId: r.runId },
+      },
+      tx,
+    );
+  });
+  return { to, messageId };
 }

@@ -2,8 +2,9 @@
 // judge each new entry, on the server as on the phone. Retries carry the same idempotency key.
 import { createHash } from "node:crypto";
 import { and, eq } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { z } from "zod";
-import { meters, runs, runSteps, type RunStatus } from "../../../db/schema";
+import { runs, runSteps, type RunStatus } from "../../../db/schema";
 import { practiceTryEntry, type PracticeEntry } from "../../engine/training/practice";
 import { tryEntry, type LogEntry, type Rejection, type RunState } from "../../engine/traversal";
 import { VERDICTS, type Meter } from "../../engine/types";
@@ -11,9 +12,8 @@ import type { Ctx } from "../../lib/context";
 import { writeTx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
-import { canonicalPayload, logOf, meterAccuracy, type StepView } from "../../lib/run-log";
-import { lockOwn } from "../_query.server";
-import { stepRows, stepView } from "./_log.server";
+import { canonicalPayload, entryOf, meterAccuracy, type StepView } from "../../lib/run-log";
+import { lockRunForStep, readLog, stepByKey, stepView, type LoggedEntry, type StepViewSource } from "./_log.server";
 import { nodeOf, versionContent } from "./_version.server";
 
 export const nodeKey = z.string().min(1).max(64);
@@ -59,54 +59,62 @@ function refusalOf(r: Rejection): Refusal {
 }
 
 /**
+ * Each run's log as this process last stored it, with the step count it had then. A log only ever
+ * grows by one step row per step count (postStep is its only writer), so when the locked run still
+ * has that step count, this is its log and the step need not read it again; when another server
+ * (or an earlier failure) moved the count on, the log is read after the lock as usual.
+ */
+const knownLogs = new LRUCache<string, { stepCount: number; log: LoggedEntry[] }>({ max: 1000 });
+
+/**
  * Records one step. The same idempotency key again answers with the stored step (no second row);
  * the same key with another payload is refused (422). The engine judges the entry against the
  * stored log; the verdict stored is the server's.
+ *
+ * A reading costs six statements with the session's: BEGIN, the run locked with its log and meter
+ * (lockRunForStep; the log left out while knownLogs has it), INSERT, UPDATE of the run, COMMIT. The
+ * key is checked against that log, and the answer is the row as inserted, not read back.
  */
 export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promise<StepResult> {
   authorize(ctx, "runs.view");
   const meterId = input.entry.type === "reading" ? (input.meterId ?? null) : null;
   const hash = sha256(canonicalPayload(input.entry as LogEntry, meterId));
-  return writeTx(async (tx) => {
-    const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That run");
-    const [existing] = await tx
-      .select()
-      .from(runSteps)
-      .where(and(eq(runSteps.runId, runId), eq(runSteps.idempotencyKey, input.key)))
-      .limit(1);
-    if (existing) {
-      if (existing.payloadHash !== hash) throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
-      return { replayed: true, step: stepView(existing), run: runSummary(run) };
+  const known = knownLogs.get(runId);
+  const { result, log } = await writeTx(async (tx) => {
+    const locked = (await lockRunForStep(tx, ctx, runId, meterId, !known)) ?? notFound("That run");
+    const { run, meter } = locked;
+    const log = locked.log ?? (known?.stepCount === run.stepCount ? known.log : await readLog(tx, runId));
+
+    // A retry: the stored answer, looked up before the holder and status checks.
+    const logged = log.find((e) => e.key === input.key);
+    if (logged) {
+      if (logged.hash !== hash) throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
+      const stored = (await stepByKey(tx, runId, input.key))!;
+      return { result: { replayed: true, step: stepView(stored), run: runSummary(run) }, log };
     }
     authorize(ctx, "runs.step", { holder: run.technicianId === ctx.userId });
     if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", `This run is ${run.status === "done" ? "finished" : run.status}; it takes no more steps.`, { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
 
+    // A reading is judged with the accuracy of the shop meter chosen, else the procedure's own.
     let entry = input.entry as LogEntry;
-    let meterRow: typeof meters.$inferSelect | undefined;
     if (entry.type === "reading") {
       const node = nodeOf(content.tree, entry.node);
       if (meterId) {
-        [meterRow] = await tx
-          .select()
-          .from(meters)
-          .where(and(eq(meters.id, meterId), eq(meters.shopId, ctx.shopId)))
-          .limit(1);
-        if (!meterRow) throw new Refusal("rejected", "That meter is not in your shop's list.", { code: "meter" });
-        if (node?.kind === "measurement" && meterRow.quantity !== node.quantity)
-          throw new Refusal("rejected", `${meterRow.name} does not measure ${node.quantity}; choose another meter.`, { code: "meter" });
-        entry = { ...entry, meter: meterAccuracy(meterRow) };
+        if (!meter) throw new Refusal("rejected", "That meter is not in your shop's list.", { code: "meter" });
+        if (node?.kind === "measurement" && meter.quantity !== node.quantity)
+          throw new Refusal("rejected", `${meter.name} does not measure ${node.quantity}; choose another meter.`, { code: "meter" });
+        entry = { ...entry, meter: meterAccuracy(meter) };
       } else if (node?.kind === "measurement" && node.meter) {
         entry = { ...entry, meter: node.meter };
       }
     }
 
-    const rows = await stepRows(runId, tx);
-    const log = logOf(rows.map(stepView));
     // Practice runs follow the trainee's call on each reading; the engine's verdict is kept beside it.
     const call = entry.type === "reading" ? (entry as PracticeEntry & { type: "reading" }).call : undefined;
     if (call && !run.practice) throw new Refusal("rejected", "Only a practice run takes your own call on a reading.", { code: "not-practice" });
-    const tried = run.practice ? practiceTryEntry(content.tree, log as PracticeEntry[], entry as PracticeEntry) : tryEntry(content.tree, log, entry);
+    const past = log.map(entryOf);
+    const tried = run.practice ? practiceTryEntry(content.tree, past as PracticeEntry[], entry as PracticeEntry) : tryEntry(content.tree, past, entry);
     if (!tried.ok) throw refusalOf(tried.rejection);
 
     const seq = run.stepCount;
@@ -114,7 +122,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
     const v = s?.verdict;
     const undoneSeq = entry.type === "undo" ? (tried.state.undone[tried.state.undone.length - 1] ?? null) : null;
     const usedMeter: Meter | null = entry.type === "reading" ? (entry.meter ?? null) : null;
-    const row: typeof runSteps.$inferInsert = {
+    const row = {
       id: crypto.randomUUID(),
       runId,
       shopId: ctx.shopId,
@@ -136,17 +144,18 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       limitsHi: v?.limits.hi ?? null,
       limits: v?.limits ?? null,
       message: v ? v.message.slice(0, 600) : s?.nameplate ? `${s.nameplate.display} ${s.nameplate.unit}` : null,
-      meterId: meterRow?.id ?? null,
+      meterId: meterId && meter ? meter.id : null,
       meter: usedMeter,
       confirmed: s?.confirmed === true,
       uncertainty: v?.uncertainty?.value ?? null,
       branch: s?.branch ?? null,
       toNode: s?.to ?? null,
       undoesSeq: undoneSeq,
+      undone: false,
       enteredBy: ctx.userId,
       clientAt: input.at ? new Date(input.at) : null,
       recordedAt: new Date(),
-    };
+    } satisfies typeof runSteps.$inferInsert & StepViewSource;
     await tx.insert(runSteps).values(row);
     if (undoneSeq !== null) await tx.update(runSteps).set({ undone: true }).where(and(eq(runSteps.runId, runId), eq(runSteps.seq, undoneSeq)));
     const next = { status: "active" as RunStatus, currentNode: tried.state.current, ...endOf(tried.state), stepCount: seq + 1 };
@@ -154,7 +163,9 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       .update(runs)
       .set({ ...next, pausedAt: null, updatedAt: new Date() })
       .where(eq(runs.id, runId));
-    const [stored] = await tx.select().from(runSteps).where(eq(runSteps.id, row.id!));
-    return { replayed: false, step: stepView(stored!), run: runSummary(next) };
+    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter, call: row.call, confirmed: row.confirmed };
+    return { result: { replayed: false, step: stepView(row), run: runSummary(next) }, log: [...log, stored] };
   });
+  knownLogs.set(runId, { stepCount: result.run.stepCount, log });
+  return result;
 }

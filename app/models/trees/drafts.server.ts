@@ -5,7 +5,7 @@ import { and, eq } from "drizzle-orm";
 import { treeImages, trees, treeVersions, users } from "../../../db/schema";
 import type { Tree } from "../../engine/types";
 import type { Ctx } from "../../lib/context";
-import { writeTx } from "../../lib/db.server";
+import { writeTx, type Tx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { Refusal } from "../../lib/refusal";
 import { lockOwn } from "../_query.server";
@@ -64,8 +64,12 @@ export async function startDraft(ctx: Ctx, treeId: string, fromNumber?: number):
 export async function replaceDraftContent(ctx: Ctx, versionId: string, tree: Tree, expectedRevision: number, opts: { layout?: Layout; treeId?: string } = {}): Promise<{ revision: number; updatedAt: Date }> {
   authorize(ctx, "trees.author");
   return writeTx(async (tx) => {
+    // The tree's row first, then the version's: the order publishing takes them (docs/decisions/0240).
+    const treeId = opts.treeId ?? (await treeOfVersion(tx, ctx, versionId));
+    if (!treeId) throw new Refusal("not-found", "That draft was not found.");
+    await lockTree(tx, ctx, treeId);
     const version = await lockOwn(tx, ctx, treeVersions, versionId);
-    if (!version || (opts.treeId !== undefined && version.treeId !== opts.treeId)) throw new Refusal("not-found", "That draft was not found.");
+    if (!version || version.treeId !== treeId) throw new Refusal("not-found", "That draft was not found.");
     assertDraft(version);
     if (version.revision !== expectedRevision) {
       const [who] = version.updatedBy ? await tx.select({ name: users.name }).from(users).where(eq(users.id, version.updatedBy)) : [];
@@ -84,6 +88,16 @@ export async function replaceDraftContent(ctx: Ctx, versionId: string, tree: Tre
     await touchTree(tx, version.treeId, now);
     return { revision: version.revision + 1, updatedAt: now };
   });
+}
+
+/** The tree a version of the shop belongs to (a plain read: a version never changes tree). */
+async function treeOfVersion(tx: Tx, ctx: Ctx, versionId: string): Promise<string | null> {
+  const [row] = await tx
+    .select({ treeId: treeVersions.treeId })
+    .from(treeVersions)
+    .where(and(eq(treeVersions.id, versionId), eq(treeVersions.shopId, ctx.shopId)))
+    .limit(1);
+  return row?.treeId ?? null;
 }
 
 /** Throws away the tree's open draft. A tree that never had a published version goes with it. */

@@ -10,6 +10,7 @@ import { db, writeTx, type Db, type Tx } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
 import { fieldRefusal, Refusal } from "../../lib/refusal";
 import { diffTrees } from "../../lib/tree-diff";
+import { byCaller, recordAudit } from "../_audit.server";
 import { assertDraft, lockTree, readContent, touchTree, type VersionRow } from "./_content.server";
 import { loadTreeVersion } from "./versions.server";
 
@@ -70,6 +71,17 @@ export async function publishDraft(ctx: Ctx, treeId: string, expectedRevision: n
       .set({ state: "published", number, changeNote: note.slice(0, 500), publishedAt: now, publishedBy: ctx.userId, openDraftOf: null, updatedAt: now })
       .where(eq(treeVersions.id, draft.id));
     await tx.update(trees).set({ title: content.title, category: content.category, symptom: content.symptom, updatedAt: now }).where(eq(trees.id, treeId));
+    await recordAudit(
+      {
+        ...byCaller(ctx),
+        action: "version.published",
+        subjectType: "tree-version",
+        subjectId: draft.id,
+        summary: `Published ‘${content.title}’ version ${number}`,
+        details: { treeId, number, changeNote: note.slice(0, 500) },
+      },
+      tx,
+    );
     return { number, versionId: draft.id };
   });
 }
@@ -92,5 +104,6 @@ export async function retireVersion(ctx: Ctx, treeId: string, number: number): P
     const now = new Date();
     await tx.update(treeVersions).set({ state: "retired", retiredAt: now }).where(and(eq(treeVersions.id, v.id), eq(treeVersions.state, "published")));
     await touchTree(tx, treeId, now);
+    await recordAudit({ ...byCaller(ctx), action: "version.retired", subjectType: "tree-version", subjectId: v.id, summary: `Retired ‘${v.title}’ version ${number}`, details: { treeId, number } }, tx);
   });
 }

@@ -41,7 +41,11 @@ describe("the policy", () => {
 
   it("trainers read everything a shop shares but change nothing in the field", () => {
     for (const action of ACTIONS.filter((a) => a.endsWith(".view") && a !== "escalations.view" && a !== "outbox.view" && a !== "shop.overview" && a !== "audit.view")) expect(can(who("trainer"), action), action).toBe(true);
-    for (const action of ["calls.write", "equipment.write", "runs.start", "trees.author", "meters.manage"] as const) expect(can(who("trainer"), action), action).toBe(false);
+    for (const action of ["calls.write", "equipment.write", "runs.start", "trees.author", "meters.manage", "reports.send"] as const) expect(can(who("trainer"), action), action).toBe(false);
+  });
+
+  it("service reports are sent by the roles that work calls (issue 9 item 9); the audit trail is the owner's", () => {
+    expect(allowed("reports.send")).toEqual(allowed("calls.write"));
   });
 
   it("only the owner manages people and reads the audit trail; owners and leads read the overview", () => {

@@ -2,29 +2,14 @@
 // works until then); once finished they see the cause they reached against the hidden fault, and
 // each reading's call beside the engine's verdict. The trainer's comments come later, on the
 // practice list.
-import { useMutation, useQueryClient } from "@tanstack/react-query";
 import type { ReactNode } from "react";
-import { ApiError, postJson } from "../api";
 import { EndHeading } from "../ends/EndHeading";
 import type { RunHandle } from "../useRun";
 import { CALL_WORDS } from "./PracticeReading";
 
-function useFinish(run: RunHandle) {
-  const id = run.view.run.id;
-  const qc = useQueryClient();
-  return useMutation({
-    // Queued behind any step still on its way (the same scope as the runner's writes).
-    mutationKey: ["run-write", id],
-    scope: { id: `run-${id}` },
-    mutationFn: () => postJson<{ status: "done" }>(`/api/runs/${id}/finish`, {}),
-    onSuccess: () => qc.invalidateQueries({ queryKey: ["run", id] }),
-    onError: (e) => run.setError(e instanceof ApiError ? e.message : "The practice was not finished."),
-  });
-}
-
 /** The walk stands at an outcome or a hand-over: finish, or undo. */
 export function PracticeEndScreen({ run }: { run: RunHandle }) {
-  const finish = useFinish(run);
+  const { finish } = run;
   const end = run.state.finished!;
   const node = run.byId.get(end.node);
   const outcome = end.kind === "outcome";

@@ -1,0 +1,2 @@
+ALTER TABLE `run_notes` ADD `client_at` datetime(3);--> statement-breakpoint
+ALTER TABLE `run_photos` ADD `client_at` datetime(3);
