@@ -295,6 +295,7 @@ describe("the run view", () => {
         limitsText: r.limits?.text ?? null,
         meterId: r.meterId,
         meter: r.meter,
+        confirmed: r.confirmed,
         to: r.toNode,
         undone: r.undone,
         undoesSeq: r.undoesSeq,
