@@ -71,7 +71,7 @@ async function runOnCall(treeId: string) {
 beforeAll(async () => {
   const techCookie = (await cookieFor("tech@tinderbox.example")).cookie;
   const leadCookie = (await cookieFor("lead@tinderbox.example")).cookie;
-  const { treeId } = await createPublishedTree(lead, smallTree(`Fuzz ${crypto.randomUUID().slice(0, 6)}`), "For the fuzz test");
+  const { treeId, versionId } = await createPublishedTree(lead, smallTree(`Fuzz ${crypto.randomUUID().slice(0, 6)}`), "For the fuzz test");
   const runId = await runOnCall(treeId);
   const statusRun = await runOnCall(treeId);
   const outcomeRun = await runOnCall(treeId);
@@ -82,6 +82,8 @@ beforeAll(async () => {
   const photo = await addPhoto(tech, runId, { key: crypto.randomUUID(), node: "cap-look", bytes: TINY_PNG });
   const draft = await createDraftTree(lead, smallTree(`Fuzz draft ${crypto.randomUUID().slice(0, 6)}`));
   fixtures = {
+    // A run the phone started without signal (each spoiled payload is a fresh attempt; the template's id is new).
+    "api/runs": { cookie: techCookie, params: {}, body: { kind: "json", template: { id: crypto.randomUUID(), treeId, versionId, callId: null, at: new Date().toISOString() } } },
     "api/runs/:runId/steps": { cookie: techCookie, params: { runId }, body: { kind: "json", template: { key: crypto.randomUUID(), entry: { type: "reading", node: "cap-measure", reading: "1.47 µF" }, meterId: null, at: new Date().toISOString() } } },
     "api/runs/:runId/notes": { cookie: techCookie, params: { runId }, body: { kind: "json", template: { key: crypto.randomUUID(), node: "cap-look", text: "Top of the capacitor is domed." } } },
     "api/runs/:runId/photos": { cookie: techCookie, params: { runId }, body: { kind: "multipart", fields: { key: crypto.randomUUID(), node: "cap-look" } } },
