@@ -5,6 +5,8 @@ export interface ReportReading {
   seq: number;
   title: string;
   reading: string;
+  /** The technician confirmed it when asked whether an implausible reading was right. */
+  confirmed: boolean;
   verdict: VerdictKind | null;
   limits: string | null;
   derivation: string | null;

@@ -27,6 +27,8 @@ export interface StepView {
   limitsText: string | null;
   meterId: string | null;
   meter: Meter | null;
+  /** The technician confirmed this implausible reading when the engine asked (decision 0103). */
+  confirmed?: boolean;
   /** Where the step sent the run (null when it ended it, and for undo). */
   to: string | null;
   undone: boolean;
@@ -125,6 +127,9 @@ export interface RunView {
   timeZone: string;
 }
 
+/** Beside a reading the technician confirmed when the engine asked whether it was right (run log, report). */
+export const CONFIRMED_NOTE = "(confirmed as read)";
+
 /** A step as the phone sends it: the log entry (without a meter) and the shop meter chosen. */
 export interface StepPayload {
   key: string;
@@ -146,7 +151,7 @@ export function stepsDone(steps: readonly Pick<StepView, "type" | "undone">[]): 
 }
 
 /** The engine's log entry a stored step stands for (the meter is the accuracy kept with it). */
-export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" | "meter" | "call">): LogEntry {
+export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" | "meter" | "call" | "confirmed">): LogEntry {
   const node = s.node ?? "";
   switch (s.type) {
     case "undo":
@@ -155,6 +160,8 @@ export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" |
       return { type: "answer", node, answer: s.answer ?? "" };
     case "reading": {
       const e: Extract<LogEntry, { type: "reading" }> = s.meter ? { type: "reading", node, reading: s.typed ?? "", meter: s.meter } : { type: "reading", node, reading: s.typed ?? "" };
+      // The confirmation goes with the reading it was given for (a practice log replays as new entries).
+      if (s.confirmed) e.confirmed = true;
       // A practice reading carries the trainee's call (app/engine/training/practice.ts).
       return s.call ? Object.assign(e, { call: s.call }) : e;
     }
@@ -171,16 +178,22 @@ export function logOf(steps: readonly StepView[]): LogEntry[] {
   return [...steps].sort((a, b) => a.seq - b.seq).map(entryOf);
 }
 
-/** The engine's Meter for a shop meter. */
-export function meterAccuracy(m: Pick<MeterView, "percent" | "counts" | "resolution" | "unit">): Meter {
-  return { percent: m.percent, counts: m.counts, resolution: m.resolution, unit: m.unit };
+/**
+ * The engine's Meter for a shop meter: its accuracy and the top of its range, so a reading the
+ * meter can't show is refused and "OL" is judged against the range (decisions 0102, 0103).
+ */
+export function meterAccuracy(m: Pick<MeterView, "percent" | "counts" | "resolution" | "unit" | "rangeMax">): Meter {
+  return { percent: m.percent, counts: m.counts, resolution: m.resolution, unit: m.unit, range: m.rangeMax };
 }
 
-/** What identifies a step's content, for telling a retry from a different step under one key. */
+/**
+ * What identifies a step's content, for telling a retry from a different step under one key. A
+ * reading's `confirmed: true` is part of it (`confirmed: false` reads as no confirmation).
+ */
 export function canonicalPayload(entry: LogEntry, meterId: string | null | undefined): string {
   const e = entry as Record<string, unknown>;
   const fields = Object.keys(e)
-    .filter((k) => k !== "meter")
+    .filter((k) => k !== "meter" && (k !== "confirmed" || e[k] === true))
     .sort()
     .map((k) => [k, typeof e[k] === "string" ? (e[k] as string).trim() : e[k]]);
   return JSON.stringify({ entry: Object.fromEntries(fields), meterId: meterId ?? null });

@@ -152,6 +152,11 @@ export const runSteps = mysqlTable(
     meterId: uuidRef("meter_id").references(() => meters.id),
     /** The accuracy used for the verdict, kept so a later edit of the meter list changes nothing. */
     meter: json<Meter>("meter"),
+    /**
+     * The technician confirmed an implausible reading the engine asked about ("That is 0.208 V —
+     * did you mean 208 V?"): kept as a record; a replayed log is not asked again (decision 0103).
+     */
+    confirmed: boolean("confirmed").notNull().default(false),
     uncertainty: double("uncertainty"),
     branch: varchar("branch", { length: 220 }),
     toNode: varchar("to_node", { length: 64 }),

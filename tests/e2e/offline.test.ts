@@ -128,7 +128,7 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await atStep(page, "Supply voltage across L1–L2");
     await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("208");
-    await page.getByText("Within limits").waitFor();
+    await page.getByText("Within limits", { exact: true }).waitFor();
     await page.getByLabel("Add a photo to this step").setInputFiles({ name: "supply.png", mimeType: "image/png", buffer: Buffer.from(TINY_PNG) });
     await page.getByRole("img", { name: "Photo on this step" }).waitFor();
     await expect(page.getByText("on this phone", { exact: true }).isVisible()).resolves.toBe(true);

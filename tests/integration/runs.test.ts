@@ -93,7 +93,7 @@ describe("run lifecycle", () => {
     expect(supply.verdict).toBe("within");
     expect(supply.message).toMatch(/^208(\.0)? V — within 191–218 V/);
     expect(supply.meterId).toBe(voltMeter);
-    expect(supply.meter).toEqual({ percent: 1, counts: 3, resolution: 0.1, unit: "V" });
+    expect(supply.meter).toEqual({ percent: 1, counts: 3, resolution: 0.1, unit: "V", range: 600 });
 
     // Fan run capacitor rated 1.5 µF, ±6 % field rule (REFERENCES.md: common practice) → 1.41–1.59 µF.
     const first = await ok(tech, runId, step({ type: "reading", node: "cap-measure", reading: "1.47 µF" }, { meterId: capMeter }));
@@ -295,6 +295,7 @@ describe("the run view", () => {
         limitsText: r.limits?.text ?? null,
         meterId: r.meterId,
         meter: r.meter,
+        confirmed: r.confirmed,
         to: r.toNode,
         undone: r.undone,
         undoesSeq: r.undoesSeq,

@@ -13,6 +13,8 @@ import { recordOutcome } from "../../app/models/runs/lifecycle.server";
 import { addPhoto } from "../../app/models/runs/photos.server";
 import { sendReport } from "../../app/models/runs/reports.server";
 import { startRun } from "../../app/models/runs/start.server";
+import { getRunView } from "../../app/models/runs/view.server";
+import { foundHereBefore } from "../../app/models/insights/found-here.server";
 import { postStep, type StepInput } from "../../app/models/runs/steps.server";
 import { createPublishedTree, replaceDraftContent, startDraft } from "../../app/models/trees/drafts.server";
 import { addTreeImage } from "../../app/models/trees/images.server";
@@ -75,6 +77,13 @@ export async function startedRun(symptom = "heats unevenly"): Promise<{ callId: 
   const call = await freshCall("rotisserie", symptom);
   const started = await startRun(tech, { treeId: ROTISSERIE_TREE, callId: call.id });
   return { callId: call.id, runId: started.runId, path: `/runs/${started.runId}` };
+}
+
+/** A run as the server stores it, and what "found here before" says for its tree and unit (the runner's own sources). */
+export async function storedRun(runId: string) {
+  const view = (await getRunView(tech, runId))!;
+  const found = await foundHereBefore(tech, { versionId: view.version.id, unitId: view.unit?.id ?? null });
+  return { view, found };
 }
 
 /**

@@ -5,6 +5,7 @@ import type { Answer, Branch, NodeKind, Tree, TreeNode } from "~/engine/types";
 import { Field } from "~/components/Field";
 import { SelectField } from "~/components/FormFields";
 import { announce } from "~/components/Announcer";
+import { distinctLabels } from "~/lib/node-labels";
 import { newTitle, type DraftAction } from "./draft";
 import { Check } from "./fields";
 import { branchWords } from "./finding-words";
@@ -13,8 +14,9 @@ import { KIND_LABEL, PALETTE_KINDS } from "./kinds";
 const NONE = "";
 const NEW = "new:";
 
-export function nodeOptionLabel(n: TreeNode): string {
-  return `${KIND_LABEL[n.kind]}: ${n.title}`;
+/** Every node of the draft as a choice: kind and title, and the id too where two read the same. */
+export function nodeOptionLabels(nodes: readonly TreeNode[]): Map<string, string> {
+  return distinctLabels(nodes, (n) => `${KIND_LABEL[n.kind]}: ${n.title}`);
 }
 
 type Pick = { to: string } | { kind: NodeKind } | null;
@@ -36,6 +38,7 @@ type TargetProps = {
 /** A select of every node in the draft, plus "a new …" for each kind. Choosing never makes a node by itself. */
 export function TargetSelect({ label, tree, value, newKind = null, allowNone = true, offerNew = true, onPick, hint }: TargetProps) {
   const missing = value !== undefined && !tree.nodes.some((n) => n.id === value);
+  const labels = nodeOptionLabels(tree.nodes);
   return (
     <SelectField
       label={label}
@@ -54,7 +57,7 @@ export function TargetSelect({ label, tree, value, newKind = null, allowNone = t
       <optgroup label="Nodes in this tree">
         {tree.nodes.map((n) => (
           <option key={n.id} value={n.id}>
-            {nodeOptionLabel(n)}
+            {labels.get(n.id)}
           </option>
         ))}
       </optgroup>

@@ -1,5 +1,6 @@
 // The engine's findings on the saved draft, errors first, each linking to its node.
 import type { Finding, Tree } from "~/engine/types";
+import { distinctLabels } from "~/lib/node-labels";
 import { inEditorWords } from "./finding-words";
 
 type Props = {
@@ -14,6 +15,8 @@ export function Findings({ findings, tree, stale, onGo }: Props) {
   const sorted = [...findings].sort((a, b) => (a.severity === b.severity ? 0 : a.severity === "error" ? -1 : 1));
   const errors = findings.filter((f) => f.severity === "error").length;
   const warnings = findings.length - errors;
+  // Two nodes titled alike (itself a warning) are told apart by their ids.
+  const titles = distinctLabels(tree.nodes, (n) => n.title);
   return (
     <section aria-labelledby="checks-heading" className="space-y-2">
       <h2 id="checks-heading" className="text-lg font-bold">
@@ -47,7 +50,7 @@ export function Findings({ findings, tree, stale, onGo }: Props) {
                 </p>
                 {node && (
                   <button type="button" className="mt-1 inline-flex min-h-11 items-center text-left text-base font-semibold text-copper-dark underline underline-offset-2" onClick={() => onGo(node.id)}>
-                    Go to ‘{node.title}’
+                    Go to ‘{titles.get(node.id)}’
                   </button>
                 )}
               </li>

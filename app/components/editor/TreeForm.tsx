@@ -4,7 +4,7 @@ import { useId } from "react";
 import { normaliseBody } from "~/engine/schema";
 import type { Tree } from "~/engine/types";
 import { BodyField, type UploadImage } from "./BodyField";
-import { nodeOptionLabel } from "./BranchFields";
+import { nodeOptionLabels } from "./BranchFields";
 import type { DraftAction } from "./draft";
 import { SelectField, TextField, treeCommitter } from "./fields";
 import { CATEGORY_OPTIONS } from "./kinds";
@@ -30,7 +30,7 @@ export function TreeForm({ tree, dispatch, upload }: { tree: Tree; dispatch: (a:
         <SelectField
           label="First node"
           value={tree.nodes.some((n) => n.id === tree.start) ? tree.start : ""}
-          options={[...(tree.nodes.some((n) => n.id === tree.start) ? [] : [{ value: "", label: "Choose the first node…" }]), ...tree.nodes.map((n) => ({ value: n.id, label: nodeOptionLabel(n) }))]}
+          options={[...(tree.nodes.some((n) => n.id === tree.start) ? [] : [{ value: "", label: "Choose the first node…" }]), ...[...nodeOptionLabels(tree.nodes)].map(([value, label]) => ({ value, label }))]}
           onChange={(start) => start && tryFields({ start })}
         />
       )}

@@ -2,6 +2,7 @@
 // static HTML on the server). Styled by REPORT_CSS so it reads the same in a mail client.
 import { atShop, placeName } from "~/lib/display";
 import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "~/lib/report-data";
+import { CONFIRMED_NOTE } from "~/lib/run-log";
 
 export const REPORT_CSS = `
 .rp { font-family: "Source Sans 3", Arial, Helvetica, sans-serif; color: #1c232e; line-height: 1.45; max-width: 52rem; margin: 0 auto; background: #fff; padding: 1.5rem; font-size: 16px; }
@@ -158,7 +159,10 @@ export function ReportDocument({ report: r, photoSrc }: { report: ReportData; ph
             {r.readings.map((x) => (
               <tr key={x.seq}>
                 <td>{x.title}</td>
-                <td>{x.reading}</td>
+                <td>
+                  {x.reading}
+                  {x.confirmed ? <span className="rp-muted"> {CONFIRMED_NOTE}</span> : null}
+                </td>
                 <td className={x.verdict ? `v-${x.verdict}` : undefined}>{x.verdict ? VERDICT_WORD[x.verdict] : "—"}</td>
                 <td>
                   {x.limits ?? "—"}

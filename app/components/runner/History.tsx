@@ -1,5 +1,5 @@
 // The run so far: every step, with the ones taken back struck through.
-import type { StepView } from "~/lib/run-log";
+import { CONFIRMED_NOTE, type StepView } from "~/lib/run-log";
 import { atShop } from "~/lib/display";
 import type { RunHandle } from "./useRun";
 
@@ -10,7 +10,7 @@ function stepSummary(s: StepView, practice: boolean): string {
     case "answer":
       return s.answer ?? "";
     case "reading":
-      return s.message ?? s.typed ?? "";
+      return `${s.message ?? s.typed ?? ""}${s.confirmed ? ` ${CONFIRMED_NOTE}` : ""}`;
     case "nameplate":
       return `Rated ${s.message ?? s.typed ?? ""}`;
     case "acknowledge":

@@ -5,9 +5,9 @@ import { useId, useMemo, useRef, useState, type ReactNode } from "react";
 import { announce } from "~/components/Announcer";
 import { Labelled } from "~/components/Field";
 import { computeLimits } from "~/engine/limits";
-import type { MeasurementNode, NameplateNode, VerdictKind } from "~/engine/types";
-import { parseReading, QUANTITY_INFO, unitQuantity } from "~/engine/units";
-import { describeMeter, evaluateReading } from "~/engine/verdict";
+import type { MeasurementNode, NameplateNode, Quantity, VerdictKind } from "~/engine/types";
+import { parseRating, QUANTITY_INFO, unitQuantity, type ParseReadingResult } from "~/engine/units";
+import { describeMeter, evaluateReading, type Confirmation, type Verdict } from "~/engine/verdict";
 import { meterAccuracy, type MeterView } from "~/lib/run-log";
 import { useKeepInView } from "./inView";
 import type { RunHandle } from "./useRun";
@@ -18,6 +18,41 @@ export function composeReading(text: string, unit: string): string {
   if (/^[+-]?\d+,\d+$/.test(t.split(/\s+/)[0] ?? "")) t = t.replace(",", ".");
   if (!t) return "";
   return /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t) ? `${t} ${unit}` : t;
+}
+
+/**
+ * What a suggestion ("208 V", "1.47 µF") puts back in the form: the number in the field and its
+ * unit among the step's unit buttons when it is one of them; otherwise the whole text in the field.
+ */
+export function fillFrom(suggestion: string, units: readonly string[]): { text: string; unit: string | null } {
+  const m = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s+(\S.*)$/.exec(suggestion.trim());
+  return m && units.includes(m[2]!) ? { text: m[1]!, unit: m[2]! } : { text: suggestion.trim(), unit: null };
+}
+
+/** What a typed-value form keeps: the text, the unit button chosen and the last refusal on Save. */
+export function useTypedValue(quantity: Quantity, own: string) {
+  const units = unitsFor(quantity, own);
+  const [text, setText] = useState("");
+  const [unit, setUnit] = useState(own);
+  const [error, setError] = useState<string | null>(null);
+  /** A value (and its unit, when given) in the form; any change clears the last refusal. */
+  const put = (value: string, u?: string | null) => {
+    setText(value);
+    if (u) setUnit(u);
+    setError(null);
+  };
+  /** A suggestion back in the form: the number in the field, its unit on the buttons. */
+  const fill = (suggestion: string) => {
+    const f = fillFrom(suggestion, units);
+    put(f.text, f.unit);
+  };
+  return { text, unit, units, error, setError, put, fill, pickUnit: (u: string) => (setUnit(u), setError(null)) };
+}
+export type TypedValue = ReturnType<typeof useTypedValue>;
+
+/** What a nameplate value was understood as: "1.5 µF", or "1500 nF = 1.5 µF" when it was converted. */
+export function ratingEcho(p: Extract<ParseReadingResult, { ok: true }>, unit: string): string {
+  return p.converted ? `${p.typedNumber} ${p.typedUnit} = ${p.display} ${unit}` : `${p.display} ${unit}`;
 }
 
 export const VERDICT_STYLE: Record<VerdictKind, { word: string; box: string }> = {
@@ -41,35 +76,89 @@ export function VerdictBox({ verdict, message }: { verdict: VerdictKind; message
 /**
  * The typed value and, right under it, what Cluepath makes of it. The part under the field is a
  * live region that is always there (so screen readers read each new verdict); a refusal on Save
- * is also said aloud at once. Kept in view while the field has focus.
+ * is also said aloud at once. Kept in view while the field has focus. What was probably meant
+ * shows as buttons with the problem (not with a refusal on Save); the unit buttons follow.
  */
-export function ValueField({ label, text, setText, unit, problem, children }: { label: string; text: string; setText: (v: string) => void; unit: string; problem: string | null; children: ReactNode }) {
+export function ValueField({
+  label,
+  unitLabel,
+  value,
+  problem,
+  suggestions,
+  children,
+}: {
+  label: string;
+  unitLabel: string;
+  value: TypedValue;
+  problem: string | null;
+  suggestions?: readonly string[];
+  children: ReactNode;
+}) {
   const group = useRef<HTMLDivElement>(null);
   const id = useId();
   useKeepInView(group);
   return (
-    <div ref={group} className="space-y-2">
-      <Labelled id={id} label={label} labelClassName="text-lg">
-        {(control) => (
-          <input
-            {...control}
-            aria-invalid={problem ? true : undefined}
-            aria-describedby={`${id}-said`}
-            value={text}
-            onChange={(e) => setText(e.target.value)}
-            inputMode="decimal"
-            autoComplete="off"
-            autoCorrect="off"
-            spellCheck={false}
-            enterKeyHint="done"
-            placeholder={`e.g. in ${unit}`}
-            className="block h-16 w-full rounded-xl border-2 border-ink bg-card px-4 text-3xl font-bold text-ink placeholder:text-lg placeholder:font-normal placeholder:text-ink-soft"
-          />
-        )}
-      </Labelled>
-      <div id={`${id}-said`} role="status" aria-live="polite" aria-atomic="true">
-        {problem ? <p className="field-error">{problem}</p> : children}
+    <>
+      <div ref={group} className="space-y-2">
+        <Labelled id={id} label={label} labelClassName="text-lg">
+          {(control) => (
+            <input
+              {...control}
+              aria-invalid={problem ? true : undefined}
+              aria-describedby={`${id}-said`}
+              value={value.text}
+              onChange={(e) => value.put(e.target.value)}
+              inputMode="decimal"
+              autoComplete="off"
+              autoCorrect="off"
+              spellCheck={false}
+              enterKeyHint="done"
+              placeholder={`e.g. in ${value.unit}`}
+              className="block h-16 w-full rounded-xl border-2 border-ink bg-card px-4 text-3xl font-bold text-ink placeholder:text-lg placeholder:font-normal placeholder:text-ink-soft"
+            />
+          )}
+        </Labelled>
+        <div id={`${id}-said`} role="status" aria-live="polite" aria-atomic="true">
+          {problem ? <p className="field-error">{problem}</p> : children}
+        </div>
+        {problem && !value.error && <Suggestions list={suggestions} onPick={value.fill} />}
       </div>
+      {/* Outside the group kept in view: the field and its verdict must fit above the keyboard. */}
+      <UnitButtons units={value.units} value={value.unit} onChange={value.pickUnit} label={unitLabel} />
+    </>
+  );
+}
+
+/** What was probably meant, as buttons that fill the field ("Use 208 V"). */
+export function Suggestions({ list, onPick }: { list: readonly string[] | undefined; onPick: (s: string) => void }) {
+  if (!list?.length) return null;
+  return (
+    <div className="flex flex-wrap gap-2" role="group" aria-label="Did you mean">
+      {list.map((x) => (
+        <button key={x} type="button" className="btn-quiet min-h-14 text-lg" onClick={() => onPick(x)}>
+          Use {x}
+        </button>
+      ))}
+    </div>
+  );
+}
+
+/**
+ * An implausible reading (decision 0103): the engine's question beside the field, what was probably
+ * meant as a button that fills the field, and "Yes, … is right" to save it as typed, confirmed.
+ * What it would count as stays visible, so confirming is an informed choice (not in practice, where
+ * the trainee makes their own call first).
+ */
+export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { confirm: Confirmation; verdict?: Verdict; typed: string; onPick: (s: string) => void; onConfirm: () => void }) {
+  return (
+    <div className="space-y-3 rounded-xl border-2 border-marginal bg-marginal-soft p-3" role="group" aria-label="Check this reading">
+      <p className="text-xl font-bold text-marginal">Check this reading</p>
+      <p className="text-lg font-semibold text-ink">{confirm.message}</p>
+      <Suggestions list={confirm.suggestion ? [confirm.suggestion] : undefined} onPick={onPick} />
+      <button type="button" className="btn-primary min-h-14 w-full text-lg" onClick={onConfirm}>
+        Yes, {typed} is right
+      </button>
+      {verdict && <p className="text-base text-ink">If it is right, it counts as: {verdict.message}</p>}
     </div>
   );
 }
@@ -101,7 +190,7 @@ function MeterChoice({ node, offered, value, onChange }: { node: MeasurementNode
     node.meter
       ? { id: "", title: "As the procedure assumes", detail: `Accuracy ${describeMeter(node.meter, node.unit)}` }
       : { id: "", title: "Not listed", detail: "The reading is judged as read." },
-    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}` })),
+    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}, range up to ${m.rangeMax} ${m.unit}` })),
   ];
   return (
     <fieldset className="space-y-2">
@@ -141,24 +230,26 @@ function refuse(setError: (e: string | null) => void, message: string | null) {
 }
 
 export function MeasurementInput({ node, run }: { node: MeasurementNode; run: RunHandle }) {
-  const [text, setText] = useState("");
-  const [unit, setUnit] = useState(node.unit);
-  const [error, setError] = useState<string | null>(null);
+  const typed = useTypedValue(node.quantity, node.unit);
+  const { error, setError } = typed;
   const offered = run.view.meters.filter((m) => m.quantity === node.quantity);
   const [meterId, setMeterId] = useState(() => defaultMeter(run, node, offered));
   const chosen = offered.find((m) => m.id === meterId);
   const meter = chosen ? meterAccuracy(chosen) : node.meter;
   const variables = useMemo(() => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])), [run.state.variables]);
   const limits = computeLimits(node, variables);
-  const reading = composeReading(text, unit);
+  const reading = composeReading(typed.text, typed.unit);
+  // The meter's range goes with its accuracy: a reading above it is refused, "OL" judged against it.
   const preview = reading ? evaluateReading(node, reading, meter ? { variables, meter } : { variables }) : null;
-  const overRange = chosen && preview?.ok ? rangeWarning(preview.verdict.reading.si, chosen) : null;
+  const confirm = preview?.ok ? preview.verdict.confirm : undefined;
   // One message at a time: a refusal on Save, else what is wrong with what is typed.
   const problem = error ?? (preview && !preview.ok ? preview.message : null);
 
-  function save() {
+  function save(confirmed = false) {
     if (!reading) return refuse(setError, "Type the reading first.");
-    refuse(setError, run.submit({ type: "reading", node: node.id, reading }, chosen?.id ?? null));
+    // Asked, not refused: the question is already beside the field; say it aloud again.
+    if (confirm && !confirmed) return announce(confirm.message, "assertive");
+    refuse(setError, run.submit(confirmed ? { type: "reading", node: node.id, reading, confirmed: true } : { type: "reading", node: node.id, reading }, chosen?.id ?? null));
   }
 
   return (
@@ -169,11 +260,14 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
         {limits.ok && !limits.limits.fixed && <p className="text-base text-ink-soft">{limits.limits.derivation}</p>}
         {!limits.ok && <p className="field-error">{limits.message}</p>}
       </div>
-      <ValueField label="Reading" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
-        {preview?.ok && <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} />}
-        {overRange && <p className="mt-2 font-semibold text-marginal">{overRange}</p>}
+      <ValueField label="Reading" unitLabel="Unit of the reading" value={typed} problem={problem} suggestions={preview && !preview.ok ? preview.suggestions : undefined}>
+        {preview?.ok &&
+          (confirm ? (
+            <ConfirmBox confirm={confirm} verdict={preview.verdict} typed={reading} onPick={typed.fill} onConfirm={() => save(true)} />
+          ) : (
+            <VerdictBox verdict={preview.verdict.verdict} message={preview.verdict.message} />
+          ))}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
       <MeterChoice node={node} offered={offered} value={meterId} onChange={setMeterId} />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save reading
@@ -182,19 +276,13 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   );
 }
 
-function rangeWarning(si: number, m: MeterView): string | null {
-  const top = parseReading(`${m.rangeMax} ${m.unit}`, m.quantity, m.unit);
-  if (!top.ok) return null;
-  return Math.abs(si) > Math.abs(top.si) ? `That is above this meter's ${m.rangeMax} ${m.unit} range: check the range setting.` : null;
-}
-
 export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHandle }) {
-  const [text, setText] = useState("");
-  const [unit, setUnit] = useState(node.unit);
-  const [error, setError] = useState<string | null>(null);
+  const typed = useTypedValue(node.quantity, node.unit);
+  const { error, setError } = typed;
   const onFile = Object.entries(run.view.unit?.nameplate ?? {}).filter(([, v]) => unitQuantity(v.unit, node.quantity) === node.quantity);
-  const value = composeReading(text, unit);
-  const parsed = value ? parseReading(value, node.quantity, node.unit) : null;
+  const value = composeReading(typed.text, typed.unit);
+  // Read as the server will (a rating is above zero), so what it understood shows before Save.
+  const parsed = value ? parseRating(value, node.quantity, node.unit) : null;
   const problem = error ?? (parsed && !parsed.ok ? parsed.message : null);
 
   function save() {
@@ -209,21 +297,20 @@ export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHan
           <p className="field-label">On file for this unit</p>
           <div className="flex flex-wrap gap-2">
             {onFile.map(([k, v]) => (
-              <button key={k} type="button" className="btn-quiet min-h-14" onClick={() => (setText(String(v.value)), setUnit(v.unit), setError(null))}>
+              <button key={k} type="button" className="btn-quiet min-h-14" onClick={() => typed.put(String(v.value), v.unit)}>
                 Use {v.value} {v.unit}
               </button>
             ))}
           </div>
         </div>
       )}
-      <ValueField label="Rated value" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
+      <ValueField label="Rated value" unitLabel="Unit of the rating" value={typed} problem={problem} suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}>
         {parsed?.ok && (
           <p className="text-lg">
-            Recorded as <strong>{parsed.display} {node.unit}</strong>
+            Understood as <strong>{ratingEcho(parsed, node.unit)}</strong>
           </p>
         )}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the rating" />
       <button type="submit" className="btn-primary min-h-16 w-full text-xl">
         Save rating
       </button>

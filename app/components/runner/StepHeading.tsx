@@ -1,6 +1,8 @@
 // Where the run stands, above each step: the procedure, the kind of step, how far to an answer,
 // the step's title; and the verdict of the reading just saved.
 import type { TreeNode } from "~/engine/types";
+import { CONFIRMED_NOTE } from "~/lib/run-log";
+import { FoundHereLine } from "./FoundHere";
 import { stepsToGo } from "./progress";
 import { VERDICT_STYLE } from "./Reading";
 import { KIND_LABEL } from "./Screens";
@@ -28,6 +30,7 @@ export function StepHeading({ run, node }: { run: RunHandle; node: TreeNode }) {
       <h1 id="step-title" tabIndex={-1} className="mt-1 text-2xl font-bold leading-tight outline-none">
         {node.title}
       </h1>
+      <FoundHereLine run={run} node={node} />
     </div>
   );
 }
@@ -57,6 +60,7 @@ export function LastReading({ run }: { run: RunHandle }) {
       </p>
       <p className="text-base font-semibold text-ink">
         <span className="font-bold">{s.word}:</span> {last.message}
+        {last.confirmed ? ` ${CONFIRMED_NOTE}` : ""}
       </p>
     </div>
   );

@@ -8,6 +8,7 @@ import { formatLimits } from "~/engine/markdown/syntax";
 import { nodesToward } from "~/engine/training/script";
 import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, Tree, TreeNode } from "~/engine/types";
+import { distinctLabels } from "~/lib/node-labels";
 import { scriptableSteps, worldField } from "~/lib/training";
 
 /** The limits as the technician reads them when they are fixed, else as the author wrote them ("rated_uf ± 6 %"). */
@@ -70,6 +71,7 @@ export function WorldFields({ tree, initial, errors, faultError }: { tree: Tree;
   const onWay = steps.filter((n) => !toward || toward.has(n.id));
   const offWay = toward ? steps.filter((n) => !toward.has(n.id)) : [];
   const outcomes = tree.nodes.filter((n) => n.kind === "outcome");
+  const outcomeLabels = distinctLabels(outcomes, (n) => n.title);
   return (
     <div className="space-y-4">
       <Labelled label="Hidden fault" hint="The root cause the trainee should reach: one of this version's outcomes." error={faultError}>
@@ -78,7 +80,7 @@ export function WorldFields({ tree, initial, errors, faultError }: { tree: Tree;
             <option value="">Choose the hidden fault…</option>
             {outcomes.map((n) => (
               <option key={n.id} value={n.id}>
-                {n.title}
+                {outcomeLabels.get(n.id)}
               </option>
             ))}
           </select>

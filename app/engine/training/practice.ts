@@ -80,8 +80,8 @@ export class PracticeRun {
     return this.run.apply(entry);
   }
 
-  private reject(index: number, entry: LogEntry, code: Rejection["code"], message: string): PracticeApply {
-    const rejection: Rejection = { index, entry, code, message };
+  private reject(index: number, entry: LogEntry, code: Rejection["code"], message: string, extra?: Pick<Rejection, "confirm" | "suggestions">): PracticeApply {
+    const rejection: Rejection = { index, entry, code, message, ...extra };
     this.rejected.push(rejection);
     return { ok: false, rejection };
   }
@@ -105,7 +105,11 @@ export class PracticeRun {
     }
     const { call, ...reading } = entry;
     const judged = this.engine(reading, index);
-    if (!judged.ok) return this.reject(index, entry, judged.rejection.code, judged.rejection.message);
+    if (!judged.ok) {
+      // What to ask about an implausible reading, or what was probably meant, goes with the refusal.
+      const { confirm, suggestions } = judged.rejection;
+      return this.reject(index, entry, judged.rejection.code, judged.rejection.message, { ...(confirm ? { confirm } : {}), ...(suggestions ? { suggestions } : {}) });
+    }
     const node = this.byId.get(entry.node) as MeasurementNode;
     const calls = callsAt(node);
     const called = call ? this.engine({ type: "answer", node: callNodeOf(node.id), answer: call }, index) : null;

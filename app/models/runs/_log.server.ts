@@ -29,6 +29,7 @@ export type StepViewSource = Pick<
   | "limits"
   | "meterId"
   | "meter"
+  | "confirmed"
   | "toNode"
   | "undone"
   | "undoesSeq"
@@ -55,6 +56,7 @@ export function stepView(row: StepViewSource): StepView {
     limitsText: row.limits?.text ?? null,
     meterId: row.meterId,
     meter: row.meter,
+    confirmed: row.confirmed,
     to: row.toNode,
     undone: row.undone,
     undoesSeq: row.undoesSeq,
@@ -87,6 +89,7 @@ export const STEP_JSON = {
   limitsText: sql<string | null>`JSON_VALUE(${runSteps.limits}, '$.text')`,
   meterId: runSteps.meterId,
   meter: runSteps.meter,
+  confirmed: runSteps.confirmed,
   to: runSteps.toNode,
   undone: runSteps.undone,
   undoesSeq: runSteps.undoesSeq,
@@ -95,7 +98,7 @@ export const STEP_JSON = {
 };
 
 export function stepViewFromJson(j: JsonOf<typeof STEP_JSON>): StepView {
-  return { ...j, undone: Boolean(j.undone), recordedAt: jsonIso(j.recordedAt) };
+  return { ...j, undone: Boolean(j.undone), confirmed: Boolean(j.confirmed), recordedAt: jsonIso(j.recordedAt) };
 }
 
 /** One stored step by its idempotency key (a retry's answer). */
@@ -109,9 +112,10 @@ export async function stepByKey(tx: Tx, runId: string, key: string): Promise<Ste
 }
 
 /** A log entry as the replay needs it: what the engine reads, and the key and hash a retry is told by. */
-export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter" | "call"> & { hash: string };
+export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter" | "call" | "confirmed"> & { hash: string };
 
-export type MeterChoice = Omit<MeterView, "rangeMax">;
+/** The shop meter chosen, with its range: a reading above it is refused, "OL" judged against it. */
+export type MeterChoice = MeterView;
 
 export type LockedRun = {
   run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind" | "practice">;
@@ -134,11 +138,12 @@ const LOG = jsonRows(
     typed: runSteps.typed,
     meter: runSteps.meter,
     call: runSteps.call,
+    confirmed: runSteps.confirmed,
   },
   sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`,
   sql`${runSteps.seq}`,
 );
-const METER = jsonObject({ id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, resolution: meters.resolution, percent: meters.percent, counts: meters.counts });
+const METER = jsonObject({ id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, rangeMax: meters.rangeMax, resolution: meters.resolution, percent: meters.percent, counts: meters.counts });
 const RUN = sql`${runs.id} AS id, ${runs.versionId} AS versionId, ${runs.technicianId} AS technicianId, ${runs.status} AS status,
   ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind, ${runs.practice} AS practice`;
 

@@ -10,6 +10,7 @@ import { sendMail } from "../../lib/mail.server";
 import { authorize } from "../../lib/policy";
 import { notFound, Refusal } from "../../lib/refusal";
 import { HAZARD_WORD, reportNumber, VERDICT_WORD, type ReportData } from "../../lib/report-data";
+import { CONFIRMED_NOTE } from "../../lib/run-log";
 import { byCaller, recordAudit } from "../_audit.server";
 import { unitWithPlace } from "../_query.server";
 import { photosWithBytes } from "./photos.server";
@@ -89,6 +90,7 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<ReportData 
         seq: s.seq,
         title: title(s.nodeKey),
         reading: readingText(s.typed, s.message),
+        confirmed: s.confirmed,
         verdict: s.verdict,
         limits: s.limits?.text ?? null,
         derivation: s.limits && !s.limits.fixed ? s.limits.derivation : null,
@@ -127,7 +129,7 @@ function reportText(r: ReportData): string {
     ...(r.parts.length ? r.parts.map((p) => `  ${p.quantity} × ${p.description}${p.partNumber ? ` (${p.partNumber})` : ""}`) : ["  none"]),
     "",
     "Readings:",
-    ...(r.readings.length ? r.readings.map((x) => `  ${x.title}: ${x.reading} — ${x.verdict ? VERDICT_WORD[x.verdict] : "—"}${x.limits ? ` (limits ${x.limits})` : ""}`) : ["  none"]),
+    ...(r.readings.length ? r.readings.map((x) => `  ${x.title}: ${x.reading}${x.confirmed ? ` ${CONFIRMED_NOTE}` : ""} — ${x.verdict ? VERDICT_WORD[x.verdict] : "—"}${x.limits ? ` (limits ${x.limits})` : ""}`) : ["  none"]),
     "",
     "Safety precautions taken:",
     ...(r.cautions.length ? r.cautions.map((c) => `  ${c.hazard ? `${HAZARD_WORD[c.hazard] ?? c.hazard}: ` : ""}${c.title}`) : ["  none called for"]),

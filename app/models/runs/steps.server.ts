@@ -6,7 +6,7 @@ import { LRUCache } from "lru-cache";
 import { z } from "zod";
 import { runs, runSteps, type RunStatus } from "../../../db/schema";
 import { practiceTryEntry, type PracticeEntry } from "../../engine/training/practice";
-import { tryEntry, type LogEntry, type RunState } from "../../engine/traversal";
+import { tryEntry, type LogEntry, type Rejection, type RunState } from "../../engine/traversal";
 import { VERDICTS, type Meter } from "../../engine/types";
 import type { Ctx } from "../../lib/context";
 import { writeTx } from "../../lib/db.server";
@@ -27,6 +27,8 @@ export const stepPayload = z.object({
       reading: z.string().trim().min(1, "Enter the reading.").max(120),
       /** Practice runs only: the trainee's own call, which the run follows. */
       call: z.enum(VERDICTS).optional(),
+      /** The technician confirms a reading the engine found implausible (refused without it, code "needs-confirmation"). */
+      confirmed: z.boolean().optional(),
     }),
     z.object({ type: z.literal("nameplate"), node: nodeKey, value: z.string().trim().min(1, "Enter the value.").max(120) }),
     z.object({ type: z.literal("acknowledge"), node: nodeKey }),
@@ -48,6 +50,12 @@ function runSummary(r: { status: RunStatus; currentNode: string | null; endKind:
 
 function endOf(state: RunState): { endKind: string | null; endNode: string | null } {
   return state.finished ? { endKind: state.finished.kind, endNode: state.finished.node } : { endKind: null, endNode: null };
+}
+
+/** The engine's refusal as the API's: its words and code, with what to ask (`confirm`) or offer (`suggestions`). */
+function refusalOf(r: Rejection): Refusal {
+  const details = { ...(r.confirm ? { confirm: r.confirm } : {}), ...(r.suggestions ? { suggestions: r.suggestions } : {}) };
+  return new Refusal("rejected", r.message, Object.keys(details).length ? { code: r.code, details } : { code: r.code });
 }
 
 /**
@@ -107,7 +115,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
     if (call && !run.practice) throw new Refusal("rejected", "Only a practice run takes your own call on a reading.", { code: "not-practice" });
     const past = log.map(entryOf);
     const tried = run.practice ? practiceTryEntry(content.tree, past as PracticeEntry[], entry as PracticeEntry) : tryEntry(content.tree, past, entry);
-    if (!tried.ok) throw new Refusal("rejected", tried.rejection.message, { code: tried.rejection.code });
+    if (!tried.ok) throw refusalOf(tried.rejection);
 
     const seq = run.stepCount;
     const s = tried.step;
@@ -138,6 +146,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       message: v ? v.message.slice(0, 600) : s?.nameplate ? `${s.nameplate.display} ${s.nameplate.unit}` : null,
       meterId: meterId && meter ? meter.id : null,
       meter: usedMeter,
+      confirmed: s?.confirmed === true,
       uncertainty: v?.uncertainty?.value ?? null,
       branch: s?.branch ?? null,
       toNode: s?.to ?? null,
@@ -154,7 +163,7 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       .update(runs)
       .set({ ...next, pausedAt: null, updatedAt: new Date() })
       .where(eq(runs.id, runId));
-    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter, call: row.call };
+    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter, call: row.call, confirmed: row.confirmed };
     return { result: { replayed: false, step: stepView(row), run: runSummary(next) }, log: [...log, stored] };
   });
   knownLogs.set(runId, { stepCount: result.run.stepCount, log });

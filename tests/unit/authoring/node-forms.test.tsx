@@ -187,6 +187,19 @@ describe("choosing where a branch leads", () => {
     expect(low().value).toBe(made.id);
   });
 
+  it("two nodes with the same title are told apart in the list (issue 10 item 11): kind, title and id", () => {
+    const t = smallTree();
+    const twin = t.nodes.find((n) => n.id === "motor-failed")!;
+    twin.title = "Failed run capacitor";
+    mount(t, "cap-measure");
+    const low = screen.getByLabelText("On a low reading, go to") as HTMLSelectElement;
+    const options = [...low.querySelectorAll("optgroup[label='Nodes in this tree'] option")].map((o) => o.textContent);
+    expect(options).toContain("Outcome: Failed run capacitor · cap-failed");
+    expect(options).toContain("Outcome: Failed run capacitor · motor-failed");
+    expect(new Set(options).size).toBe(options.length);
+    expect(options).toContain("Question: Is the run capacitor bulging or leaking?");
+  });
+
   it("the new answer's target keeps a chosen “New …” option on screen, so the next key press does not land on another node", () => {
     const s = mount(smallTree(), "cap-look");
     const target = () => screen.getByLabelText("The new answer leads to") as HTMLSelectElement;

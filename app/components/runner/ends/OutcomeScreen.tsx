@@ -3,6 +3,7 @@
 import { useState } from "react";
 import { Field, Labelled } from "~/components/Field";
 import type { OutcomeNode } from "~/engine/types";
+import { FoundHereLine } from "../FoundHere";
 import { Markdown } from "../Markdown";
 import type { RunHandle } from "../useRun";
 import { EndHeading } from "./EndHeading";
@@ -38,6 +39,7 @@ export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle
     <div className="space-y-5">
       <section className="rounded-xl border-2 border-within bg-within-soft p-4">
         <EndHeading kicker="Root cause found" title={node.title} tone="text-within" />
+        <FoundHereLine run={run} node={node} />
         <p className="mt-2 text-lg">{node.remedy}</p>
         <Markdown blocks={run.view.bodies[node.id]} className="mt-2" />
       </section>

@@ -49,6 +49,8 @@ export function stepFor(
       limitsText: verdict?.limits.text ?? null,
       meterId: entry.type === "reading" ? p.meterId : null,
       meter: entry.type === "reading" ? (entry.meter ?? null) : null,
+      // As the server stores it: only a reading the engine asked about is kept as confirmed.
+      confirmed: s?.confirmed === true,
       to: s?.to ?? null,
       undone: false,
       undoesSeq: undone ?? null,

@@ -7,7 +7,7 @@ import { computeLimits } from "~/engine/limits";
 import type { MeasurementNode, VerdictKind } from "~/engine/types";
 import { callsAt } from "~/engine/training/practice";
 import { describeMeter, evaluateReading } from "~/engine/verdict";
-import { composeReading, UnitButtons, unitsFor, ValueField } from "../Reading";
+import { composeReading, ConfirmBox, useTypedValue, ValueField } from "../Reading";
 import type { RunHandle } from "../useRun";
 import { ScriptedBox } from "./Scripted";
 
@@ -21,26 +21,28 @@ export const CALL_WORDS: Record<VerdictKind, { word: string; detail: string }> =
 
 export function PracticeReading({ node, run }: { node: MeasurementNode; run: RunHandle }) {
   const shows = run.view.practice?.world[node.id]?.shows;
-  const [text, setText] = useState("");
-  const [unit, setUnit] = useState(node.unit);
+  const typed = useTypedValue(node.quantity, node.unit);
+  const { error, setError } = typed;
   const [call, setCall] = useState<VerdictKind | null>(null);
-  const [error, setError] = useState<string | null>(null);
   const callName = useId();
   const variables = useMemo(() => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])), [run.state.variables]);
   const limits = computeLimits(node, variables);
-  const reading = composeReading(text, unit);
+  const reading = composeReading(typed.text, typed.unit);
   // Only what is wrong with the typing is shown here (a unit of another quantity…), never a verdict.
   const parsed = reading ? evaluateReading(node, reading, { variables }) : null;
   const problem = error ?? (parsed && !parsed.ok && parsed.code !== "limits" ? parsed.message : null);
+  // An implausible reading is asked about as on a real run, without saying what it would count as.
+  const confirm = parsed?.ok ? parsed.verdict.confirm : undefined;
 
   function refuse(message: string | null) {
     setError(message);
     if (message) announce(message, "assertive");
   }
-  function save() {
+  function save(confirmed = false) {
     if (!reading) return refuse("Type the reading first.");
     if (!call) return refuse("Make your call on the reading: which way does it go?");
-    refuse(run.submit({ type: "reading", node: node.id, reading, call }));
+    if (confirm && !confirmed) return announce(confirm.message, "assertive");
+    refuse(run.submit(confirmed ? { type: "reading", node: node.id, reading, call, confirmed: true } : { type: "reading", node: node.id, reading, call }));
   }
 
   return (
@@ -53,15 +55,14 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
       </div>
       <ScriptedBox label="The meter shows" value={shows} missing="This practice gives no meter value here: type the reading you would expect, then make your call.">
         {shows && (
-          <button type="button" className="btn-quiet mt-2 min-h-14 w-full text-base" onClick={() => (setText(shows), setError(null))}>
+          <button type="button" className="btn-quiet mt-2 min-h-14 w-full text-base" onClick={() => typed.put(shows)}>
             Take the reading as shown
           </button>
         )}
       </ScriptedBox>
-      <ValueField label="Reading" text={text} setText={(v) => (setText(v), setError(null))} unit={unit} problem={problem}>
-        {null}
+      <ValueField label="Reading" unitLabel="Unit of the reading" value={typed} problem={problem} suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}>
+        {confirm ? <ConfirmBox confirm={confirm} typed={reading} onPick={typed.fill} onConfirm={() => save(true)} /> : null}
       </ValueField>
-      <UnitButtons units={unitsFor(node.quantity, node.unit)} value={unit} onChange={(u) => (setUnit(u), setError(null))} label="Unit of the reading" />
       <fieldset className="space-y-2">
         <legend className="field-label text-lg">Your call on this reading</legend>
         {callsAt(node).map((c) => (

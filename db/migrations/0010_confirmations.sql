@@ -1,0 +1,1 @@
+ALTER TABLE `run_steps` ADD `confirmed` boolean DEFAULT false NOT NULL;
