@@ -23,7 +23,8 @@ const escape = (/** @type {string} */ s) => s.replace(/[.*+?^${}()|[\]\\/-]/g, "
 /** @type {Pattern} */
 const SERVER_MODULES = {
   regex: String.raw`\.server(\.[cm]?[jt]sx?)?$|(^|/)\.server/`,
-  message: "Client code cannot import a *.server module. Move what the browser needs into a module without .server, or read it in a route's loader.",
+  message:
+    "Client code cannot import a *.server module. Move what the browser needs into a module without .server, or read it in a route's loader.",
 };
 
 /** @type {Pattern[]} */
@@ -48,7 +49,10 @@ const ENGINE = [
 
 /** @type {Pattern[]} */
 const MODELS = [
-  { regex: String.raw`(^|/)(components|routes)(/|$)`, message: "Models never import components or routes: data flows from models to routes to UI." },
+  {
+    regex: String.raw`(^|/)(components|routes)(/|$)`,
+    message: "Models never import components or routes: data flows from models to routes to UI.",
+  },
 ];
 
 /** @type {Pattern[]} */
@@ -62,7 +66,17 @@ const restrict = (patterns) => ({ "no-restricted-imports": ["error", { patterns 
 
 export default defineConfig(
   {
-    ignores: ["build/", "build-*/", ".react-router/", ".data/", ".tmp/", "node_modules/", "db/migrations/", "tests/screenshots/", "public/"],
+    ignores: [
+      "build/",
+      "build-*/",
+      ".react-router/",
+      ".data/",
+      ".tmp/",
+      "node_modules/",
+      "db/migrations/",
+      "tests/screenshots/",
+      "public/",
+    ],
   },
   js.configs.recommended,
   tseslint.configs.recommended,

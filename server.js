@@ -19,7 +19,12 @@ const buildDir = process.env.BUILD_DIR ?? "build";
  * @returns {never}
  */
 function stop(error) {
-  const message = error instanceof Error && error.name === "ConfigError" ? error.message : error instanceof Error ? (error.stack ?? error.message) : String(error);
+  const message =
+    error instanceof Error && error.name === "ConfigError"
+      ? error.message
+      : error instanceof Error
+        ? (error.stack ?? error.message)
+        : String(error);
   console.error(message);
   process.exit(1);
 }
@@ -78,11 +83,15 @@ process.on("uncaughtException", (error) => log.error({ err: appModule.safeError(
 
 server.on("clientError", (error, socket) => {
   // Malformed HTTP (bad request line or headers) never reaches a handler: answer 400 and close.
-  if (socket.writable && !(/** @type {{ code?: string }} */ (error).code === "ECONNRESET")) socket.end("HTTP/1.1 400 Bad Request\r\nConnection: close\r\n\r\n");
+  if (socket.writable && !(/** @type {{ code?: string }} */ (error).code === "ECONNRESET"))
+    socket.end("HTTP/1.1 400 Bad Request\r\nConnection: close\r\n\r\n");
   else socket.destroy();
 });
 server.listen(config.PORT, config.HOST, () => {
-  log.info({ port: config.PORT, host: config.HOST, mode: production ? "production" : "development" }, `Cluepath listening on http://localhost:${config.PORT}`);
+  log.info(
+    { port: config.PORT, host: config.HOST, mode: production ? "production" : "development" },
+    `Cluepath listening on http://localhost:${config.PORT}`,
+  );
 });
 
 let closing = false;

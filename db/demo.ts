@@ -18,7 +18,15 @@ export const DEMO_USERS: DemoUser[] = [
   { email: "tech@pellham.example", name: "Odile Marsh", role: "technician", shop: "other" },
 ];
 
-export type DemoUnit = { key: string; category: string; make: string; model: string; serial: string; installedOn: string; nameplate: Record<string, { value: number; unit: string }> };
+export type DemoUnit = {
+  key: string;
+  category: string;
+  make: string;
+  model: string;
+  serial: string;
+  installedOn: string;
+  nameplate: Record<string, { value: number; unit: string }>;
+};
 export type DemoSite = { key: string; name: string; address: string; contactName: string; contactEmail: string; units: DemoUnit[] };
 export type DemoCustomer = { key: string; name: string; phone: string; shop: "demo" | "other"; sites: DemoSite[] };
 
@@ -154,18 +162,81 @@ export function demoLoginsText(): string {
 
 // --- Field runs: the shop's meters and open service calls (invented) ------------------------------
 
-export type DemoMeter = { key: string; name: string; quantity: string; unit: string; rangeMax: number; resolution: number; percent: number; counts: number };
+export type DemoMeter = {
+  key: string;
+  name: string;
+  quantity: string;
+  unit: string;
+  rangeMax: number;
+  resolution: number;
+  percent: number;
+  counts: number;
+};
 
 /** One row per meter function and range, with the accuracy printed in its (invented) manual. */
 export const DEMO_METERS: DemoMeter[] = [
-  { key: "meter:van1-volts", name: "Van 1 multimeter — AC volts, 600 V range", quantity: "voltage", unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 },
-  { key: "meter:van1-cap", name: "Van 1 multimeter — capacitance, 100 µF range", quantity: "capacitance", unit: "µF", rangeMax: 100, resolution: 0.01, percent: 1.9, counts: 2 },
-  { key: "meter:van1-ohms", name: "Van 1 multimeter — resistance, 600 Ω range", quantity: "resistance", unit: "Ω", rangeMax: 600, resolution: 0.1, percent: 0.9, counts: 2 },
-  { key: "meter:bench-lcr", name: "Bench LCR meter — capacitance, 2000 nF range", quantity: "capacitance", unit: "nF", rangeMax: 2000, resolution: 1, percent: 0.5, counts: 2 },
-  { key: "meter:probe-thermo", name: "Probe thermometer", quantity: "temperature", unit: "°C", rangeMax: 300, resolution: 0.1, percent: 0.5, counts: 5 },
+  {
+    key: "meter:van1-volts",
+    name: "Van 1 multimeter — AC volts, 600 V range",
+    quantity: "voltage",
+    unit: "V",
+    rangeMax: 600,
+    resolution: 0.1,
+    percent: 1,
+    counts: 3,
+  },
+  {
+    key: "meter:van1-cap",
+    name: "Van 1 multimeter — capacitance, 100 µF range",
+    quantity: "capacitance",
+    unit: "µF",
+    rangeMax: 100,
+    resolution: 0.01,
+    percent: 1.9,
+    counts: 2,
+  },
+  {
+    key: "meter:van1-ohms",
+    name: "Van 1 multimeter — resistance, 600 Ω range",
+    quantity: "resistance",
+    unit: "Ω",
+    rangeMax: 600,
+    resolution: 0.1,
+    percent: 0.9,
+    counts: 2,
+  },
+  {
+    key: "meter:bench-lcr",
+    name: "Bench LCR meter — capacitance, 2000 nF range",
+    quantity: "capacitance",
+    unit: "nF",
+    rangeMax: 2000,
+    resolution: 1,
+    percent: 0.5,
+    counts: 2,
+  },
+  {
+    key: "meter:probe-thermo",
+    name: "Probe thermometer",
+    quantity: "temperature",
+    unit: "°C",
+    rangeMax: 300,
+    resolution: 0.1,
+    percent: 0.5,
+    counts: 5,
+  },
 ];
 
-export type DemoCall = { key: string; number: number; unit: string; symptom: string; priority: "low" | "normal" | "high" | "urgent"; assignedTo: string | null; notes?: string; shop: "demo" | "other" };
+export type DemoCall = {
+  key: string;
+  number: number;
+  unit: string;
+  symptom: string;
+  priority: "low" | "normal" | "high" | "urgent";
+  assignedTo: string | null;
+  notes?: string;
+  shop: "demo" | "other";
+};
 
 export const DEMO_CALLS: DemoCall[] = [
   {

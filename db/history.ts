@@ -5,7 +5,19 @@
 // Used by the demo seed (a few months) and by `npm run db:history` (100,000 runs for the benchmark).
 import { and, desc, eq, sql } from "drizzle-orm";
 import { createHash } from "node:crypto";
-import { customers, equipmentUnits, escalations, reports, runParts, runs, runSteps, serviceCalls, sites, treeVersions, type EquipmentCategory } from "./schema";
+import {
+  customers,
+  equipmentUnits,
+  escalations,
+  reports,
+  runParts,
+  runs,
+  runSteps,
+  serviceCalls,
+  sites,
+  treeVersions,
+  type EquipmentCategory,
+} from "./schema";
 import { computeLimits } from "../app/engine/limits";
 import { Run } from "../app/engine/traversal";
 import type { LogEntry, RunStep } from "../app/engine/traversal";
@@ -48,10 +60,20 @@ const hashInt = (s: string) => createHash("sha256").update(s).digest().readUInt3
 // --- invented equipment ------------------------------------------------------------------------------
 
 /** Invented makes and models per category (no real brands). */
-export const HISTORY_MODELS: Partial<Record<EquipmentCategory, { make: string; model: string; nameplate: Record<string, { value: number; unit: string }> }[]>> = {
+export const HISTORY_MODELS: Partial<
+  Record<EquipmentCategory, { make: string; model: string; nameplate: Record<string, { value: number; unit: string }> }[]>
+> = {
   rotisserie: [
-    { make: "Vantor", model: "RCF-2208 two-fan convection rotisserie", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 5600, unit: "W" } } },
-    { make: "Vantor", model: "RCF-1604 two-fan convection rotisserie", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 4200, unit: "W" } } },
+    {
+      make: "Vantor",
+      model: "RCF-2208 two-fan convection rotisserie",
+      nameplate: { supply: { value: 208, unit: "V" }, power: { value: 5600, unit: "W" } },
+    },
+    {
+      make: "Vantor",
+      model: "RCF-1604 two-fan convection rotisserie",
+      nameplate: { supply: { value: 208, unit: "V" }, power: { value: 4200, unit: "W" } },
+    },
     { make: "Ostrell", model: "SR-9 spit rotisserie", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 6000, unit: "W" } } },
   ],
   fryer: [
@@ -60,22 +82,67 @@ export const HISTORY_MODELS: Partial<Record<EquipmentCategory, { make: string; m
     { make: "Hobbern", model: "TF-50 tube fryer", nameplate: { manifold: { value: 3.5, unit: "inWC" } } },
   ],
   oven: [
-    { make: "Brenmoor", model: "EO-6 electric deck oven", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 6000, unit: "W" } } },
-    { make: "Brenmoor", model: "EO-10 convection oven", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 10000, unit: "W" } } },
-    { make: "Ostrell", model: "CV-5 half-size convection oven", nameplate: { supply: { value: 240, unit: "V" }, power: { value: 5000, unit: "W" } } },
+    {
+      make: "Brenmoor",
+      model: "EO-6 electric deck oven",
+      nameplate: { supply: { value: 208, unit: "V" }, power: { value: 6000, unit: "W" } },
+    },
+    {
+      make: "Brenmoor",
+      model: "EO-10 convection oven",
+      nameplate: { supply: { value: 208, unit: "V" }, power: { value: 10000, unit: "W" } },
+    },
+    {
+      make: "Ostrell",
+      model: "CV-5 half-size convection oven",
+      nameplate: { supply: { value: 240, unit: "V" }, power: { value: 5000, unit: "W" } },
+    },
   ],
   griddle: [
-    { make: "Brenmoor", model: "EG-36 electric griddle", nameplate: { supply: { value: 240, unit: "V" }, power: { value: 10800, unit: "W" } } },
-    { make: "Hobbern", model: "FG-48 electric griddle", nameplate: { supply: { value: 208, unit: "V" }, power: { value: 14400, unit: "W" } } },
+    {
+      make: "Brenmoor",
+      model: "EG-36 electric griddle",
+      nameplate: { supply: { value: 240, unit: "V" }, power: { value: 10800, unit: "W" } },
+    },
+    {
+      make: "Hobbern",
+      model: "FG-48 electric griddle",
+      nameplate: { supply: { value: 208, unit: "V" }, power: { value: 14400, unit: "W" } },
+    },
   ],
   "hot-holding": [
-    { make: "Caldra", model: "HHC-12 heated display case", nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1320, unit: "W" } } },
-    { make: "Caldra", model: "HHC-8 heated holding cabinet", nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1000, unit: "W" } } },
-    { make: "Ostrell", model: "HC-20 humidified cabinet", nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1500, unit: "W" } } },
+    {
+      make: "Caldra",
+      model: "HHC-12 heated display case",
+      nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1320, unit: "W" } },
+    },
+    {
+      make: "Caldra",
+      model: "HHC-8 heated holding cabinet",
+      nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1000, unit: "W" } },
+    },
+    {
+      make: "Ostrell",
+      model: "HC-20 humidified cabinet",
+      nameplate: { supply: { value: 120, unit: "V" }, power: { value: 1500, unit: "W" } },
+    },
   ],
 };
 
-const PLACE = ["Quillfen", "Marrowby", "Tansel", "Brackwell", "Orrindale", "Fennick", "Wexbury", "Saltreach", "Cobbleton", "Dunmere", "Hartsell", "Pimberly"];
+const PLACE = [
+  "Quillfen",
+  "Marrowby",
+  "Tansel",
+  "Brackwell",
+  "Orrindale",
+  "Fennick",
+  "Wexbury",
+  "Saltreach",
+  "Cobbleton",
+  "Dunmere",
+  "Hartsell",
+  "Pimberly",
+];
 const TRADE = ["Market", "Bistro", "School Kitchen", "Deli", "Canteen", "Grill House", "Bakehouse", "Diner"];
 const STREET = ["Quarry Lane", "Foundry Road", "Weir Street", "Mill Row", "Tanner's Yard", "Chapel Walk", "Barrow Street", "Kiln Road"];
 
@@ -132,7 +199,14 @@ async function publishedTrees(shopId: string): Promise<Version[]> {
   const out: Version[] = [];
   for (const versionId of [...newest.values()].sort()) {
     const loaded = await loadVersion({ shopId, userId: "", role: "owner" }, versionId);
-    if (loaded) out.push({ versionId, treeId: loaded.version.treeId, tree: loaded.tree, category: loaded.version.category, symptom: loaded.version.symptom });
+    if (loaded)
+      out.push({
+        versionId,
+        treeId: loaded.version.treeId,
+        tree: loaded.tree,
+        category: loaded.version.category,
+        symptom: loaded.version.symptom,
+      });
   }
   return out;
 }
@@ -149,7 +223,18 @@ type Rows = {
   reports: (typeof reports.$inferInsert)[];
   ended: string[];
 };
-const emptyRows = (): Rows => ({ customers: [], sites: [], units: [], calls: [], runs: [], steps: [], escalations: [], parts: [], reports: [], ended: [] });
+const emptyRows = (): Rows => ({
+  customers: [],
+  sites: [],
+  units: [],
+  calls: [],
+  runs: [],
+  steps: [],
+  escalations: [],
+  parts: [],
+  reports: [],
+  ended: [],
+});
 
 const SECONDS: Record<TreeNode["kind"], [number, number]> = {
   caution: [15, 60],
@@ -200,7 +285,9 @@ function depthOf(tree: Tree, id: string): number {
     : node.kind === "question"
       ? node.answers.filter((a) => !a.recheck).map((a) => a.to)
       : node.kind === "measurement"
-        ? Object.values(node.branches).filter((b) => b && !b.recheck).map((b) => b!.to)
+        ? Object.values(node.branches)
+            .filter((b) => b && !b.recheck)
+            .map((b) => b!.to)
         : "next" in node && node.next && !node.next.recheck
           ? [node.next.to]
           : [];
@@ -234,18 +321,27 @@ function entryAt(v: Version, node: TreeNode, run: Run, r: Random, avoid: Set<str
     case "question": {
       const q = node as QuestionNode;
       const options = q.answers.filter((a) => !avoid.has(`answer:${a.label}`));
-      const list = (options.length ? options : q.answers).map((a) => ({ item: a.label, weight: answerWeight(v.treeId, q.id, a.label, q.answers.indexOf(a)) * deeper(v.tree, a.to) }));
+      const list = (options.length ? options : q.answers).map((a) => ({
+        item: a.label,
+        weight: answerWeight(v.treeId, q.id, a.label, q.answers.indexOf(a)) * deeper(v.tree, a.to),
+      }));
       return { type: "answer", node: node.id, answer: r.weighted(list) };
     }
     case "measurement": {
       const m = node as MeasurementNode;
       const kinds = (Object.keys(m.branches) as VerdictKind[]).filter((k) => !avoid.has(k));
-      const want = kinds.length ? r.weighted(kinds.map((k) => ({ item: k, weight: VERDICT_WEIGHT[k] * deeper(v.tree, m.branches[k]?.to) }))) : "within";
+      const want = kinds.length
+        ? r.weighted(kinds.map((k) => ({ item: k, weight: VERDICT_WEIGHT[k] * deeper(v.tree, m.branches[k]?.to) })))
+        : "within";
       const entry: LogEntry = { type: "reading", node: node.id, reading: readingFor(m, run.variableValues, want, r) };
       return m.meter ? { ...entry, meter: m.meter } : entry;
     }
     case "nameplate":
-      return { type: "nameplate", node: node.id, value: nameplate[node.variable] ?? r.pick(NAMEPLATE_VALUES[node.variable] ?? [`100 ${node.unit}`]) };
+      return {
+        type: "nameplate",
+        node: node.id,
+        value: nameplate[node.variable] ?? r.pick(NAMEPLATE_VALUES[node.variable] ?? [`100 ${node.unit}`]),
+      };
     case "caution":
       return { type: "acknowledge", node: node.id };
     default:
@@ -254,7 +350,15 @@ function entryAt(v: Version, node: TreeNode, run: Run, r: Random, avoid: Set<str
 }
 
 /** Walks from where the run stands until it ends (or `stopAfter` entries), with the odd mis-tap undone. */
-function walk(w: Walker, v: Version, r: Random, by: string, nameplate: Record<string, string>, stopAfter = Infinity, avoidFirst = new Set<string>()) {
+function walk(
+  w: Walker,
+  v: Version,
+  r: Random,
+  by: string,
+  nameplate: Record<string, string>,
+  stopAfter = Infinity,
+  avoidFirst = new Set<string>(),
+) {
   for (let n = 0; n < stopAfter && w.run.currentNode; n++) {
     const avoid = n === 0 ? avoidFirst : new Set<string>();
     const node = w.run.currentNode;
@@ -278,7 +382,14 @@ function walk(w: Walker, v: Version, r: Random, by: string, nameplate: Record<st
   }
 }
 
-function stepRow(shopId: string, runId: string, seq: number, item: Walker["log"][number], id: string, undone: boolean): typeof runSteps.$inferInsert {
+function stepRow(
+  shopId: string,
+  runId: string,
+  seq: number,
+  item: Walker["log"][number],
+  id: string,
+  undone: boolean,
+): typeof runSteps.$inferInsert {
   const s = item.step;
   const v = s?.verdict;
   const e = item.entry;
@@ -316,10 +427,12 @@ function stepRow(shopId: string, runId: string, seq: number, item: Walker["log"]
   };
 }
 
-const PART_NUMBER = (description: string) => `P-${String(hashInt(description) % 90000 + 10000)}`;
+const PART_NUMBER = (description: string) => `P-${String((hashInt(description) % 90000) + 10000)}`;
 
 /** Writes invented history into the shop. Returns how many runs (real and practice) were written. */
-export async function generateHistory(o: HistoryOptions): Promise<{ runs: number; practice: number; steps: number; units: number; calls: number }> {
+export async function generateHistory(
+  o: HistoryOptions,
+): Promise<{ runs: number; practice: number; steps: number; units: number; calls: number }> {
   const versions = await publishedTrees(o.shopId);
   if (!versions.length) throw new Error("history: the shop has no published trees to walk");
   const byCategory = new Map<string, Version[]>();
@@ -341,7 +454,7 @@ export async function generateHistory(o: HistoryOptions): Promise<{ runs: number
 
   const flush = async () => {
     const d = db();
-    const chunks = async <T,>(list: T[], size: number, write: (part: T[]) => Promise<unknown>) => {
+    const chunks = async <T>(list: T[], size: number, write: (part: T[]) => Promise<unknown>) => {
       for (let i = 0; i < list.length; i += size) await write(list.slice(i, i + size));
     };
     // Ids are deterministic, so a history cut short by an error is completed by running it again.
@@ -391,12 +504,26 @@ export async function generateHistory(o: HistoryOptions): Promise<{ runs: number
     const category = categories[n % categories.length]!;
     const m = r.pick(HISTORY_MODELS[category]!);
     const unit = { id: id("unit"), category, make: m.make, model: m.model };
-    rows.units.push({ ...unit, shopId: o.shopId, siteId, serial: `${m.make.slice(0, 2).toUpperCase()}-${String(100000 + n)}`, installedOn: `20${String(15 + (n % 9)).padStart(2, "0")}-0${(n % 9) + 1}-1${n % 9}`, nameplate: m.nameplate });
+    rows.units.push({
+      ...unit,
+      shopId: o.shopId,
+      siteId,
+      serial: `${m.make.slice(0, 2).toUpperCase()}-${String(100000 + n)}`,
+      installedOn: `20${String(15 + (n % 9)).padStart(2, "0")}-0${(n % 9) + 1}-1${n % 9}`,
+      nameplate: m.nameplate,
+    });
     return unit;
   };
 
   /** One run on a call (or a practice run without one). */
-  const oneRun = (v: Version, unit: Unit | null, callId: string | null, at: Date, tech: string, opts: { abandon?: boolean; practice?: boolean }) => {
+  const oneRun = (
+    v: Version,
+    unit: Unit | null,
+    callId: string | null,
+    at: Date,
+    tech: string,
+    opts: { abandon?: boolean; practice?: boolean },
+  ) => {
     const runId = id("run");
     const w: Walker = { run: new Run(v.tree), log: [], clock: at };
     const nameplate: Record<string, string> = {};
@@ -410,13 +537,29 @@ export async function generateHistory(o: HistoryOptions): Promise<{ runs: number
       const lead = r.pick(o.leads);
       const nodeKey = w.run.currentNode?.id ?? w.run.snapshot().finished?.node ?? null;
       w.clock = new Date(raisedAt.getTime() + r.between(10, 90) * 60_000);
-      rows.escalations.push({ id: id("escalation"), runId, shopId: o.shopId, reason, nodeKey, fromTree, raisedBy: tech, raisedAt, takenBy: takeOver ? lead : null, takenAt: takeOver ? w.clock : null, closedAt: w.clock });
+      rows.escalations.push({
+        id: id("escalation"),
+        runId,
+        shopId: o.shopId,
+        reason,
+        nodeKey,
+        fromTree,
+        raisedBy: tech,
+        raisedAt,
+        takenBy: takeOver ? lead : null,
+        takenAt: takeOver ? w.clock : null,
+        closedAt: w.clock,
+      });
       return takeOver ? lead : null;
     };
     if (opts.abandon) {
       walk(w, v, r, tech, nameplate, r.int(2, 6));
       status = "abandoned";
-      abandonReason = r.pick(["Customer needs the unit back for service; return with parts", "No access to the panel today", "Unit needs a second technician for the lift"]);
+      abandonReason = r.pick([
+        "Customer needs the unit back for service; return with parts",
+        "No access to the panel today",
+        "Unit needs a second technician for the lift",
+      ]);
     } else if (!opts.practice && r.chance(0.03)) {
       // The technician asks a lead partway, the lead takes it over (or not) and finishes.
       walk(w, v, r, tech, nameplate, r.int(3, 6));
@@ -446,10 +589,12 @@ export async function generateHistory(o: HistoryOptions): Promise<{ runs: number
     const undone = new Set(state.undone);
     w.log.forEach((item, seq) => rows.steps.push(stepRow(o.shopId, runId, seq, item, id("step"), undone.has(seq))));
     totals.steps += w.log.length;
-    const outcome = status === "done" ? (v.tree.nodes.find((n) => n.id === state.finished?.node) as Extract<TreeNode, { kind: "outcome" }>) : null;
+    const outcome =
+      status === "done" ? (v.tree.nodes.find((n) => n.id === state.finished?.node) as Extract<TreeNode, { kind: "outcome" }>) : null;
     const diagnosed = w.clock;
     const repairMinutes = r.between(15, 110);
-    const completedAt = status === "done" ? new Date(diagnosed.getTime() + repairMinutes * 60_000) : new Date(w.clock.getTime() + 5 * 60_000);
+    const completedAt =
+      status === "done" ? new Date(diagnosed.getTime() + repairMinutes * 60_000) : new Date(w.clock.getTime() + 5 * 60_000);
     rows.runs.push({
       id: runId,
       shopId: o.shopId,
@@ -477,9 +622,28 @@ export async function generateHistory(o: HistoryOptions): Promise<{ runs: number
     });
     if (outcome && outcome.parts.length && r.chance(0.85)) {
       const chosen = outcome.parts.slice(0, r.chance(0.3) ? 2 : 1);
-      chosen.forEach((p, position) => rows.parts.push({ id: id("part"), runId, shopId: o.shopId, position, partNumber: PART_NUMBER(p), description: p.slice(0, 300), quantity: r.chance(0.15) ? 2 : 1 }));
+      chosen.forEach((p, position) =>
+        rows.parts.push({
+          id: id("part"),
+          runId,
+          shopId: o.shopId,
+          position,
+          partNumber: PART_NUMBER(p),
+          description: p.slice(0, 300),
+          quantity: r.chance(0.15) ? 2 : 1,
+        }),
+      );
     }
-    if (outcome && !opts.practice) rows.reports.push({ id: id("report"), shopId: o.shopId, number: reportNumber++, runId, callId, createdBy: holder, createdAt: completedAt });
+    if (outcome && !opts.practice)
+      rows.reports.push({
+        id: id("report"),
+        shopId: o.shopId,
+        number: reportNumber++,
+        runId,
+        callId,
+        createdBy: holder,
+        createdAt: completedAt,
+      });
     if (opts.practice) totals.practice++;
     else {
       totals.runs++;

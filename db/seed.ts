@@ -25,7 +25,9 @@ const TREES_DIR = fileURLToPath(new URL("../trees/", import.meta.url));
 /** The starter trees in trees/, imported into the demo shop as published version 1. */
 export async function seedStarterTrees(shopId: string, authorId: string): Promise<number> {
   let added = 0;
-  for (const file of readdirSync(TREES_DIR).filter((f) => f.endsWith(".md")).sort()) {
+  for (const file of readdirSync(TREES_DIR)
+    .filter((f) => f.endsWith(".md"))
+    .sort()) {
     const treeId = stableId(`tree:${file}`);
     const [exists] = await db().select({ id: trees.id }).from(trees).where(eq(trees.id, treeId)).limit(1);
     if (exists) continue;
@@ -45,7 +47,10 @@ export async function seedStarterTrees(shopId: string, authorId: string): Promis
 export async function seed(opts: { history?: boolean } = {}): Promise<void> {
   const d = db();
   const shopIds = { demo: stableId(DEMO_SHOP.key), other: stableId(OTHER_SHOP.key) };
-  for (const [which, shop] of [["demo", DEMO_SHOP], ["other", OTHER_SHOP]] as const) {
+  for (const [which, shop] of [
+    ["demo", DEMO_SHOP],
+    ["other", OTHER_SHOP],
+  ] as const) {
     await d
       .insert(shops)
       .values({ id: shopIds[which], name: shop.name, town: shop.town, settings: { timeZone: "America/Chicago" } })
@@ -54,7 +59,10 @@ export async function seed(opts: { history?: boolean } = {}): Promise<void> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   for (const u of DEMO_USERS) {
     const userId = stableId(`user:${u.email}`);
-    await d.insert(users).values({ id: userId, email: u.email, name: u.name, passwordHash }).onDuplicateKeyUpdate({ set: { id: userId } });
+    await d
+      .insert(users)
+      .values({ id: userId, email: u.email, name: u.name, passwordHash })
+      .onDuplicateKeyUpdate({ set: { id: userId } });
     const membershipId = stableId(`member:${u.email}:${u.shop}`);
     await d
       .insert(memberships)
@@ -64,12 +72,23 @@ export async function seed(opts: { history?: boolean } = {}): Promise<void> {
   for (const c of DEMO_CUSTOMERS) {
     const shopId = shopIds[c.shop];
     const customerId = stableId(c.key);
-    await d.insert(customers).values({ id: customerId, shopId, name: c.name, phone: c.phone }).onDuplicateKeyUpdate({ set: { id: customerId } });
+    await d
+      .insert(customers)
+      .values({ id: customerId, shopId, name: c.name, phone: c.phone })
+      .onDuplicateKeyUpdate({ set: { id: customerId } });
     for (const s of c.sites) {
       const siteId = stableId(s.key);
       await d
         .insert(sites)
-        .values({ id: siteId, shopId, customerId, name: s.name, address: s.address, contactName: s.contactName, contactEmail: s.contactEmail })
+        .values({
+          id: siteId,
+          shopId,
+          customerId,
+          name: s.name,
+          address: s.address,
+          contactName: s.contactName,
+          contactEmail: s.contactEmail,
+        })
         .onDuplicateKeyUpdate({ set: { id: siteId } });
       for (const u of s.units) {
         const unitId = stableId(u.key);
@@ -100,7 +119,11 @@ export async function seed(opts: { history?: boolean } = {}): Promise<void> {
  * something to show (added once). Invented customers and units join the demo's own.
  */
 export async function seedDemoHistory(shopId: string): Promise<void> {
-  const [done] = await db().select({ id: runs.id }).from(runs).where(eq(runs.id, stableId("history:run:1"))).limit(1);
+  const [done] = await db()
+    .select({ id: runs.id })
+    .from(runs)
+    .where(eq(runs.id, stableId("history:run:1")))
+    .limit(1);
   if (done) return;
   const units = await db()
     .select({ id: equipmentUnits.id, category: equipmentUnits.category, make: equipmentUnits.make, model: equipmentUnits.model })

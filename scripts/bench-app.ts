@@ -29,7 +29,10 @@ const VIEW_LOG = 20;
 const BROWSER = { "accept-encoding": "gzip, deflate, br" };
 
 const extraRoutes = {
-  "/__bench/json": { file: "__bench-json.ts", source: `export function loader() {\n  return Response.json({ ok: true, at: Date.now() });\n}\n` },
+  "/__bench/json": {
+    file: "__bench-json.ts",
+    source: `export function loader() {\n  return Response.json({ ok: true, at: Date.now() });\n}\n`,
+  },
   "/__bench/hello": { file: "__bench-hello.tsx", source: `export default function Hello() {\n  return <main><h1>Hello</h1></main>;\n}\n` },
 };
 
@@ -112,7 +115,9 @@ async function bench(stack: Stack, load0: number) {
     const db0 = cpuSeconds(stack.dbPid());
     const t0 = performance.now();
     const result = await new Promise<autocannon.Result>((resolve, reject) => {
-      const instance = autocannon({ url: stack.baseUrl, connections: CLIENTS, duration: seconds, requests, timeout: 30 }, (e, r) => (e ? reject(e) : resolve(r)));
+      const instance = autocannon({ url: stack.baseUrl, connections: CLIENTS, duration: seconds, requests, timeout: 30 }, (e, r) =>
+        e ? reject(e) : resolve(r),
+      );
       instance.on("response", (_client, status, resBytes, ms) => {
         if (status >= 200 && status < 300) latencies.push(ms);
         else failed++;
@@ -157,7 +162,13 @@ async function bench(stack: Stack, load0: number) {
       const requests: autocannon.Request[] = [0, 1, 2, 3].map((i) => ({
         setupRequest: (req, ctx: { run?: string; cookie?: string; failed?: boolean }) => {
           if (i === 0) Object.assign(ctx, q.take());
-          return { ...req, method: "POST", path: `/api/runs/${ctx.run}/steps`, headers: stepHeaders(stack, ctx.cookie!), body: stepBody(nextKind(log + i), field.meterId) };
+          return {
+            ...req,
+            method: "POST",
+            path: `/api/runs/${ctx.run}/steps`,
+            headers: stepHeaders(stack, ctx.cookie!),
+            body: stepBody(nextKind(log + i), field.meterId),
+          };
         },
         onResponse: (status, _body, ctx: { run?: string; failed?: boolean }) => {
           if (status < 200 || status >= 300) ctx.failed = true;
@@ -174,7 +185,13 @@ async function bench(stack: Stack, load0: number) {
     {
       key: "json",
       label: "framework floor: a resource route returning JSON, no database (/__bench/json)",
-      round: async (s) => ({ ...(await httpRound(s, getEach(() => "/__bench/json", "application/json"))), recycled: 0 }),
+      round: async (s) => ({
+        ...(await httpRound(
+          s,
+          getEach(() => "/__bench/json", "application/json"),
+        )),
+        recycled: 0,
+      }),
     },
     {
       key: "db",
@@ -198,7 +215,16 @@ async function bench(stack: Stack, load0: number) {
         const elapsed = (performance.now() - t0) / 1000;
         latencies.sort((a, b) => a - b);
         const dbCpu = cpuSeconds(stack.dbPid()) - db0;
-        return { rps: latencies.length / elapsed, p50: quantile(latencies, 0.5), p95: quantile(latencies, 0.95), cpuMs: NaN, dbCpuMs: (dbCpu * 1000) / latencies.length, bytes: NaN, failed: 0, recycled: 0 };
+        return {
+          rps: latencies.length / elapsed,
+          p50: quantile(latencies, 0.5),
+          p95: quantile(latencies, 0.95),
+          cpuMs: NaN,
+          dbCpuMs: (dbCpu * 1000) / latencies.length,
+          bytes: NaN,
+          failed: 0,
+          recycled: 0,
+        };
       },
     },
     stepScenario(6),
@@ -206,17 +232,35 @@ async function bench(stack: Stack, load0: number) {
     {
       key: "api",
       label: `GET /api/runs/:id (log of ${VIEW_LOG} entries)`,
-      round: async (s) => ({ ...(await httpRound(s, getEach((i) => `/api/runs/${views[i]}`, "application/json"))), recycled: 0 }),
+      round: async (s) => ({
+        ...(await httpRound(
+          s,
+          getEach((i) => `/api/runs/${views[i]}`, "application/json"),
+        )),
+        recycled: 0,
+      }),
     },
     {
       key: "bare",
       label: "a bare SSR page with one heading (/__bench/hello)",
-      round: async (s) => ({ ...(await httpRound(s, getEach(() => "/__bench/hello", "text/html"))), recycled: 0 }),
+      round: async (s) => ({
+        ...(await httpRound(
+          s,
+          getEach(() => "/__bench/hello", "text/html"),
+        )),
+        recycled: 0,
+      }),
     },
     {
       key: "runner",
       label: `the runner page /runs/:id (log of ${VIEW_LOG} entries)`,
-      round: async (s) => ({ ...(await httpRound(s, getEach((i) => `/runs/${views[i]}`, "text/html"))), recycled: 0 }),
+      round: async (s) => ({
+        ...(await httpRound(
+          s,
+          getEach((i) => `/runs/${views[i]}`, "text/html"),
+        )),
+        recycled: 0,
+      }),
     },
   ];
 
@@ -226,7 +270,8 @@ async function bench(stack: Stack, load0: number) {
   log("warm-up round");
   for (const s of scenarios) {
     const r = await s.round(Math.min(1.5, SECONDS));
-    if (r.failed) throw new Error(`${s.key}: ${r.failed} failed requests in the warm-up; the server said:\n${stack.serverOutput().slice(-2000)}`);
+    if (r.failed)
+      throw new Error(`${s.key}: ${r.failed} failed requests in the warm-up; the server said:\n${stack.serverOutput().slice(-2000)}`);
   }
   const rounds = new Map<string, Round[]>(scenarios.map((s) => [s.key, []]));
   for (let r = 1; r <= ROUNDS; r++) {
@@ -236,7 +281,9 @@ async function bench(stack: Stack, load0: number) {
   floorPool.end().catch(() => {});
 
   const sql = await statementsPerRequest(stack, field, queues[6], views[0]!, cookies[0]!);
-  const runnerEncoding = (await fetch(`${stack.baseUrl}/runs/${views[0]}`, { headers: { cookie: cookies[0]!, ...BROWSER } })).headers.get("content-encoding");
+  const runnerEncoding = (await fetch(`${stack.baseUrl}/runs/${views[0]}`, { headers: { cookie: cookies[0]!, ...BROWSER } })).headers.get(
+    "content-encoding",
+  );
   report(scenarios, rounds, sql, { load0, runnerEncoding, weight: runnerWeight(stack.clientDir) });
 }
 
@@ -298,7 +345,11 @@ async function statementsPerRequest(stack: Stack, field: Field, q: RunQueue, vie
   }
   const get = (path: string, accept: string) => () => fetch(`${stack.baseUrl}${path}`, { headers: { cookie, accept, ...BROWSER } });
   const post = (run: string, kind: "undo" | "reading") => () =>
-    fetch(`${stack.baseUrl}/api/runs/${run}/steps`, { method: "POST", headers: stepHeaders(stack, field.cookie), body: stepBody(kind, field.meterId) });
+    fetch(`${stack.baseUrl}/api/runs/${run}/steps`, {
+      method: "POST",
+      headers: stepHeaders(stack, field.cookie),
+      body: stepBody(kind, field.meterId),
+    });
   // Steps on fresh 6-entry runs: an undo, then the reading.
   await q.topUp(5);
   const undos: Statements[] = [];
@@ -330,7 +381,8 @@ function report(
   const rps = (key: string) => m(key, "rps");
   const p50 = (key: string) => m(key, "p50");
   const x = (v: number) => `${v.toFixed(v < 1 ? 3 : 2)}×`;
-  const num = (v: number, digits = 0) => (Number.isFinite(v) ? v.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: digits }) : "—");
+  const num = (v: number, digits = 0) =>
+    Number.isFinite(v) ? v.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: digits }) : "—";
   const ms = (v: number) => (Number.isFinite(v) ? `${num(v, v < 10 ? 1 : 0)} ms` : "—");
   // Throughput ratios, and the same ratio of server CPU per request, which holds up better when
   // other work shares the machine (the server is one thread: 1000 / CPU ms is its ceiling per core).
@@ -369,7 +421,10 @@ function report(
         num(m(s.key, "dbCpuMs"), 2),
         sqlOf[s.key] ?? "—",
         num(m(s.key, "bytes") / 1000, 1),
-      ].join(" | ").replace(/^/, "| ").replace(/$/, " |"),
+      ]
+        .join(" | ")
+        .replace(/^/, "| ")
+        .replace(/$/, " |"),
     ),
     "",
     `SQL statements per reading step: ${sql.step6.total} (${sql.step6.detail}); per undo: ${sql.undo.total} (${sql.undo.detail}); GET /api/runs/:id: ${sql.api.total} (${sql.api.detail}); runner page: ${sql.runner.total} (${sql.runner.detail}).`,
@@ -377,7 +432,8 @@ function report(
     "| target (issue 14) | measured | by server CPU per request | met |",
     "|---|--:|--:|---|",
   ];
-  const target = (what: string, measured: string, byCpu: string, ok: boolean) => lines.push(`| ${what} | ${measured} | ${byCpu} | ${ok ? "yes" : "no"} |`);
+  const target = (what: string, measured: string, byCpu: string, ok: boolean) =>
+    lines.push(`| ${what} | ${measured} | ${byCpu} | ${ok ? "yes" : "no"} |`);
   for (const log of ["6", "60"] as const) {
     const r = ratios[`step${log}`];
     target(`persisted step ≥ 0.30× the JSON floor (log of ${log})`, x(r.rps), x(r.cpu), r.rps >= 0.3);
@@ -389,12 +445,20 @@ function report(
   target("SQL statements per reading step ≤ 6", String(sql.step6.total), "—", sql.step6.total <= 6);
   target("runner HTML compressed (Accept-Encoding: gzip, deflate, br)", extra.runnerEncoding ?? "none", "—", extra.runnerEncoding !== null);
   const w = extra.weight;
-  target(`runner route's own JavaScript beyond the shared part (${w.sharedKb.toFixed(1)} kB) ≤ 40 kB gzip`, `${w.ownKb.toFixed(1)} kB`, "—", w.ownKb <= 40);
+  target(
+    `runner route's own JavaScript beyond the shared part (${w.sharedKb.toFixed(1)} kB) ≤ 40 kB gzip`,
+    `${w.ownKb.toFixed(1)} kB`,
+    "—",
+    w.ownKb <= 40,
+  );
   target("font files every page loads (the root stylesheet's) ≤ 1", String(w.fontFiles), "—", w.fontFiles <= 1);
   const failed = scenarios.map((s) => [s.key, rounds.get(s.key)!.reduce((a, r) => a + r.failed, 0)] as const).filter(([, n]) => n > 0);
-  const recycled = ["step6", "step60"].map((k) => [k, (rounds.get(k) ?? []).reduce((a, r) => a + r.recycled, 0)] as const).filter(([, n]) => n > 0);
+  const recycled = ["step6", "step60"]
+    .map((k) => [k, (rounds.get(k) ?? []).reduce((a, r) => a + r.recycled, 0)] as const)
+    .filter(([, n]) => n > 0);
   if (failed.length) lines.push("", `Failed requests (not counted above): ${failed.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
-  if (recycled.length) lines.push("", `Runs reused after their cycle (log 4 entries longer): ${recycled.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
+  if (recycled.length)
+    lines.push("", `Runs reused after their cycle (log 4 entries longer): ${recycled.map(([k, n]) => `${k} ${n}`).join(", ")}.`);
   console.log(lines.join("\n"));
 }
 

@@ -33,7 +33,15 @@ export function generateTree(size: number): Tree {
     const v = k % 8;
     nodes.push(
       { id: id("caution"), kind: "caution", title: `Lock out section ${k}`, hazard: "electrical", next: { to: id("rated") }, body },
-      { id: id("rated"), kind: "nameplate", title: `Rated µF, section ${k}`, variable: `r${v}`, quantity: "capacitance", unit: "µF", next: { to: id("q") } },
+      {
+        id: id("rated"),
+        kind: "nameplate",
+        title: `Rated µF, section ${k}`,
+        variable: `r${v}`,
+        quantity: "capacitance",
+        unit: "µF",
+        next: { to: id("q") },
+      },
       {
         id: id("q"),
         kind: "question",
@@ -45,9 +53,33 @@ export function generateTree(size: number): Tree {
         ],
       },
       { id: id("s"), kind: "step", title: `Open the rear panel of section ${k}`, next: { to: id("wc") }, body },
-      { id: id("wa"), kind: "nameplate", title: `Watts (a), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
-      { id: id("wb"), kind: "nameplate", title: `Watts (b), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
-      { id: id("wc"), kind: "nameplate", title: `Watts (c), section ${k}`, variable: `w${v}`, quantity: "power", unit: "W", next: { to: id("m") } },
+      {
+        id: id("wa"),
+        kind: "nameplate",
+        title: `Watts (a), section ${k}`,
+        variable: `w${v}`,
+        quantity: "power",
+        unit: "W",
+        next: { to: id("m") },
+      },
+      {
+        id: id("wb"),
+        kind: "nameplate",
+        title: `Watts (b), section ${k}`,
+        variable: `w${v}`,
+        quantity: "power",
+        unit: "W",
+        next: { to: id("m") },
+      },
+      {
+        id: id("wc"),
+        kind: "nameplate",
+        title: `Watts (c), section ${k}`,
+        variable: `w${v}`,
+        quantity: "power",
+        unit: "W",
+        next: { to: id("m") },
+      },
       {
         id: id("m"),
         kind: "measurement",
@@ -67,7 +99,8 @@ export function generateTree(size: number): Tree {
       { id: id("esc"), kind: "escalate", title: `Can't settle section ${k}`, reason: "Readings keep landing on the limit" },
     );
   }
-  for (let p = 0; p < pad; p++) nodes.push({ id: `pad-${p}`, kind: "step", title: `Tidy up ${p}`, next: { to: p + 1 < pad ? `pad-${p + 1}` : "end" } });
+  for (let p = 0; p < pad; p++)
+    nodes.push({ id: `pad-${p}`, kind: "step", title: `Tidy up ${p}`, next: { to: p + 1 < pad ? `pad-${p + 1}` : "end" } });
   nodes.push({ id: "end", kind: "outcome", title: "All sections good", remedy: "Return to service", parts: [] });
   return { title: `Generated tree of ${size} nodes`, category: "other", symptom: "Benchmark", start: first(0), nodes };
 }
@@ -151,7 +184,8 @@ function main(): void {
     const v = validateTree(tree);
     if (!v.ok || v.warnings) throw new Error(`generated tree of ${size} is not clean: ${v.findings[0]?.message}`);
     const run = replay(tree, log);
-    if (run.rejected.length || run.finished?.kind !== "outcome") throw new Error(`generated log for ${size} does not finish: ${run.rejected[0]?.message}`);
+    if (run.rejected.length || run.finished?.kind !== "outcome")
+      throw new Error(`generated log for ${size} does not finish: ${run.rejected[0]?.message}`);
     const parsed = parseTree(text);
     if (!parsed.ok) throw new Error(`generated tree of ${size} does not parse back`);
     return { size, tree, log, text };
@@ -185,7 +219,8 @@ function main(): void {
     const head = [title, ...sizes.map((s) => `${s.toLocaleString("en-US")} nodes`), "t(10k)/t(1k)"];
     const body = rows.map(([name, t]) => [name, ...t.map(fmt), (t[2]! / t[1]!).toFixed(1)]);
     const widths = head.map((h, i) => Math.max(h.length, ...body.map((r) => r[i]!.length)));
-    const line = (cells: string[]) => "| " + cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(" | ") + " |";
+    const line = (cells: string[]) =>
+      "| " + cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join(" | ") + " |";
     console.log(line(head));
     console.log("|" + widths.map((w, i) => (i === 0 ? "-".repeat(w + 2) : "-".repeat(w + 1) + ":")).join("|") + "|");
     for (const r of body) console.log(line(r));
@@ -193,7 +228,10 @@ function main(): void {
   };
   print("median CPU ms, cold caches", cpuRows);
   print("median wall-clock ms", wallRows);
-  for (const c of cases) console.log(`${c.size.toLocaleString("en-US")} nodes: ${c.log.length} log entries, ${(c.text.length / 1024).toFixed(0)} KiB of Markdown`);
+  for (const c of cases)
+    console.log(
+      `${c.size.toLocaleString("en-US")} nodes: ${c.log.length} log entries, ${(c.text.length / 1024).toFixed(0)} KiB of Markdown`,
+    );
   const [v, w] = [cpuRows[0]![1], wallRows[0]![1]];
   const ratio = v[2]! / v[1]!;
   console.log(

@@ -46,7 +46,9 @@ async function measure(): Promise<void> {
   const year = { period: "365" as const };
   const figures: Figure[] = [];
   for (const name of QUERY_NAMES) figures.push(await time(`${name} (365 days)`, () => runQuery(ctx, name, year, HISTORY_END)));
-  figures.push(await time("rootCauses (365 days, one category)", () => runQuery(ctx, "rootCauses", { ...year, category: "rotisserie" }, HISTORY_END)));
+  figures.push(
+    await time("rootCauses (365 days, one category)", () => runQuery(ctx, "rootCauses", { ...year, category: "rotisserie" }, HISTORY_END)),
+  );
   figures.push(await time("filterOptions", () => filterOptions(ctx, {})));
   const version = stableId("tree-version:rotisserie-uneven-heat.md:1");
   const [unit] = await db()
@@ -57,7 +59,9 @@ async function measure(): Promise<void> {
   const tech = { ...ctx, role: "technician" as const };
   figures.push(await time("found here before: whole tree + unit", () => foundHereBefore(tech, { versionId: version, unitId: unit!.id })));
   figures.push(await time("found here before: one step", () => foundHereBefore(tech, { versionId: version, node: "fans" })));
-  const [counts] = (await db().execute(sql`SELECT (SELECT COUNT(*) FROM ${runs}) AS runs, (SELECT COUNT(*) FROM run_steps) AS steps`)) as unknown as [{ runs: number; steps: number }[]];
+  const [counts] = (await db().execute(
+    sql`SELECT (SELECT COUNT(*) FROM ${runs}) AS runs, (SELECT COUNT(*) FROM run_steps) AS steps`,
+  )) as unknown as [{ runs: number; steps: number }[]];
   await closeDb();
   process.stdout.write(JSON.stringify({ figures, rows: counts[0] }));
 }
@@ -65,7 +69,9 @@ async function measure(): Promise<void> {
 async function historyReady(url: string, runs: number): Promise<boolean> {
   const conn = await mysql.createConnection({ uri: new URL("/", url).toString() });
   try {
-    const [rows] = (await conn.query("SELECT COUNT(*) AS n FROM `" + new URL(url).pathname.slice(1) + "`.insight_runs")) as unknown as [{ n: number }[]];
+    const [rows] = (await conn.query("SELECT COUNT(*) AS n FROM `" + new URL(url).pathname.slice(1) + "`.insight_runs")) as unknown as [
+      { n: number }[],
+    ];
     return Number(rows[0]?.n) === runs;
   } catch {
     return false;
@@ -83,18 +89,31 @@ async function main() {
     const url = historyDatabaseUrl(size);
     if (values.rebuild || !(await historyReady(url, size))) {
       console.log(`› building the ${size.toLocaleString("en-US")}-run history (npm run db:history -- --runs ${size})`);
-      const child = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(new URL("./history.ts", import.meta.url)), "--runs", String(size)], { stdio: "inherit", env: process.env });
+      const child = spawnSync(
+        process.execPath,
+        ["--import", "tsx", fileURLToPath(new URL("./history.ts", import.meta.url)), "--runs", String(size)],
+        { stdio: "inherit", env: process.env },
+      );
       if (child.status !== 0) throw new Error("building the history failed");
     }
-    const child = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--measure"], { env: { ...process.env, DATABASE_URL: url }, encoding: "utf8", maxBuffer: 1 << 24 });
+    const child = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--measure"], {
+      env: { ...process.env, DATABASE_URL: url },
+      encoding: "utf8",
+      maxBuffer: 1 << 24,
+    });
     if (child.status !== 0) throw new Error(`measuring failed:\n${child.stderr}`);
     results.set(size, JSON.parse(child.stdout));
   }
   const small = results.get(SIZES[0]!)!;
   const large = results.get(SIZES[1]!)!;
   const f = (n: number) => (n < 10 ? n.toFixed(2) : n < 100 ? n.toFixed(1) : n.toFixed(0));
-  console.log(`\nInsights benchmark — Node ${process.versions.node}, ${availableParallelism()} cores, load ${loadavg()[0]!.toFixed(2)}, ${REPEAT} calls each after 3 warm-ups`);
-  for (const [size, r] of results) console.log(`  ${size.toLocaleString("en-US")}-run history: ${Number(r.rows.runs).toLocaleString("en-US")} runs, ${Number(r.rows.steps).toLocaleString("en-US")} step rows`);
+  console.log(
+    `\nInsights benchmark — Node ${process.versions.node}, ${availableParallelism()} cores, load ${loadavg()[0]!.toFixed(2)}, ${REPEAT} calls each after 3 warm-ups`,
+  );
+  for (const [size, r] of results)
+    console.log(
+      `  ${size.toLocaleString("en-US")}-run history: ${Number(r.rows.runs).toLocaleString("en-US")} runs, ${Number(r.rows.steps).toLocaleString("en-US")} step rows`,
+    );
   console.log("\n| query | 10k p50 ms | 10k p95 ms | 100k p50 ms | 100k p95 ms | t(100k)/t(10k) |\n|---|--:|--:|--:|--:|--:|");
   for (const a of small.figures) {
     const b = large.figures.find((x) => x.name === a.name)!;

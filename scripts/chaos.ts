@@ -94,7 +94,14 @@ async function chaos(stack: Stack) {
 }
 
 /** One phone: posts the next valid step of its run until told to stop, retrying each until a 2xx. */
-async function client(stack: Stack, field: Field, run: string, cookie: string, tally: Tally, state: { stopping: boolean; givingUp: boolean }) {
+async function client(
+  stack: Stack,
+  field: Field,
+  run: string,
+  cookie: string,
+  tally: Tally,
+  state: { stopping: boolean; givingUp: boolean },
+) {
   let length = PREFIX;
   while (!state.stopping) {
     const key = crypto.randomUUID();
@@ -147,22 +154,31 @@ async function refetchLength(stack: Stack, cookie: string, run: string): Promise
 type Row = { run_id: string; idempotency_key: string; seq: number };
 
 async function storedRows(pool: mysql.Pool, runs: string[]): Promise<Row[]> {
-  const [rows] = await pool.query<(mysql.RowDataPacket & Row)[]>("SELECT run_id, idempotency_key, seq FROM run_steps WHERE run_id IN (?) AND seq >= ?", [runs, PREFIX]);
+  const [rows] = await pool.query<(mysql.RowDataPacket & Row)[]>(
+    "SELECT run_id, idempotency_key, seq FROM run_steps WHERE run_id IN (?) AND seq >= ?",
+    [runs, PREFIX],
+  );
   return rows;
 }
 
 function report(tally: Tally, stored: Row[], runs: string[], events: string[]) {
   const id = (run: string, key: string) => `${run}/${key}`;
   const storedByKey = new Map<string, Row[]>();
-  for (const r of stored) storedByKey.set(id(r.run_id, r.idempotency_key), [...(storedByKey.get(id(r.run_id, r.idempotency_key)) ?? []), r]);
+  for (const r of stored)
+    storedByKey.set(id(r.run_id, r.idempotency_key), [...(storedByKey.get(id(r.run_id, r.idempotency_key)) ?? []), r]);
   const acked = new Map(tally.acks.map((a) => [id(a.run, a.key), a]));
   const missing = tally.acks.filter((a) => !storedByKey.has(id(a.run, a.key)));
   const doubled = [...storedByKey.values()].filter((rows) => rows.length > 1).length;
   const unacknowledged = [...storedByKey.keys()].filter((k) => !acked.has(k)).length;
-  const seqMismatch = tally.acks.filter((a) => storedByKey.get(id(a.run, a.key))?.[0]?.seq !== a.seq && storedByKey.has(id(a.run, a.key))).length;
+  const seqMismatch = tally.acks.filter(
+    (a) => storedByKey.get(id(a.run, a.key))?.[0]?.seq !== a.seq && storedByKey.has(id(a.run, a.key)),
+  ).length;
   let gaps = 0;
   for (const run of runs) {
-    const seqs = stored.filter((r) => r.run_id === run).map((r) => r.seq).sort((a, b) => a - b);
+    const seqs = stored
+      .filter((r) => r.run_id === run)
+      .map((r) => r.seq)
+      .sort((a, b) => a - b);
     seqs.forEach((s, i) => (gaps += s === PREFIX + i ? 0 : 1));
   }
   const replays = tally.acks.filter((a) => a.replayed).length;

@@ -9,7 +9,16 @@ import mysql from "mysql2/promise";
 export type NodeInfo = { name: string; port: number; pidFile: string; log: string };
 export type AppInfo = { name: string; port: number; dbPort: number; pidFile: string; log: string };
 /** Written by scripts/cluster start into CLUSTER_DIR/cluster.json: the one description of the layout. */
-export type Layout = { mode: "galera" | "single"; dir: string; url: string; haproxySocket: string; haproxyPidFile: string; database: string; nodes: NodeInfo[]; apps: AppInfo[] };
+export type Layout = {
+  mode: "galera" | "single";
+  dir: string;
+  url: string;
+  haproxySocket: string;
+  haproxyPidFile: string;
+  database: string;
+  nodes: NodeInfo[];
+  apps: AppInfo[];
+};
 
 export function readLayout(file: string): Layout {
   return JSON.parse(readFileSync(file, "utf8")) as Layout;
@@ -19,7 +28,8 @@ export function dbUrl(layout: Layout, port: number): string {
   return `mysql://root@127.0.0.1:${port}/${layout.database}`;
 }
 
-export type NodeStatus = { up: false; error: string } | { up: true; state: string; ready: boolean; clusterSize: number; clusterStatus: string; wsrep: boolean };
+export type NodeStatus =
+  { up: false; error: string } | { up: true; state: string; ready: boolean; clusterSize: number; clusterStatus: string; wsrep: boolean };
 
 /** A node's wsrep_* status (a plain MariaDB reports wsrep: false). */
 export async function nodeStatus(port: number): Promise<NodeStatus> {
@@ -96,7 +106,9 @@ export async function clusterStatus(layout: Layout): Promise<{ text: string; hea
   const sizes = nodes.flatMap(({ s }) => (s.up && s.wsrep ? [s.clusterSize] : []));
   if (layout.mode === "galera") {
     const primary = nodes.find(({ s }) => s.up && s.clusterStatus === "Primary");
-    out.push(`Galera cluster size: ${sizes.length ? Math.max(...sizes) : 0} of ${layout.nodes.length}${primary ? " (primary component)" : " (no primary component)"}`);
+    out.push(
+      `Galera cluster size: ${sizes.length ? Math.max(...sizes) : 0} of ${layout.nodes.length}${primary ? " (primary component)" : " (no primary component)"}`,
+    );
   } else {
     out.push("Single MariaDB (no cluster)");
   }
@@ -121,7 +133,9 @@ export async function clusterStatus(layout: Layout): Promise<{ text: string; hea
     out.push(`  ${a.name.padEnd(7)} 127.0.0.1:${a.port} → ${node.padEnd(6)} ${health}${seen ? `; HAProxy: ${seen.status}` : ""}`);
   }
   const healthy =
-    nodes.every(({ s }) => s.up && (!s.wsrep || (s.state === "Synced" && s.clusterStatus === "Primary"))) && !lbError && lb.every((s) => s.status === "UP");
+    nodes.every(({ s }) => s.up && (!s.wsrep || (s.state === "Synced" && s.clusterStatus === "Primary"))) &&
+    !lbError &&
+    lb.every((s) => s.status === "UP");
   return { text: out.join("\n"), healthy };
 }
 

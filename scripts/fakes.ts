@@ -15,7 +15,13 @@ const captureDir = process.env.MAIL_CAPTURE_DIR ?? ".data/mail";
 mkdirSync(s3Dir, { recursive: true });
 mkdirSync(captureDir, { recursive: true });
 
-const s3 = new S3rver({ port: s3Port, address: "127.0.0.1", silent: true, directory: s3Dir, configureBuckets: [{ name: bucket, configs: [] }] });
+const s3 = new S3rver({
+  port: s3Port,
+  address: "127.0.0.1",
+  silent: true,
+  directory: s3Dir,
+  configureBuckets: [{ name: bucket, configs: [] }],
+});
 await s3.run();
 
 const addresses = (a: AddressObject | AddressObject[] | undefined) =>

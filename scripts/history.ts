@@ -17,7 +17,10 @@ export const HISTORY_END = new Date("2026-12-01T06:00:00Z");
 
 /** A UUID-shaped id that sorts in the order it was made (kind first), so bulk inserts append. */
 function sequentialId(kind: string, n: number): string {
-  const k = [...kind].reduce((h, c) => (h * 31 + c.charCodeAt(0)) >>> 0, 7).toString(16).padStart(8, "0");
+  const k = [...kind]
+    .reduce((h, c) => (h * 31 + c.charCodeAt(0)) >>> 0, 7)
+    .toString(16)
+    .padStart(8, "0");
   return `${k}-0000-4000-8000-${n.toString(16).padStart(12, "0")}`;
 }
 
@@ -28,7 +31,10 @@ export function historyDatabaseUrl(runs: number, name?: string): string {
 }
 
 /** Drops and fills the history database; returns its URL. */
-export async function buildHistory(runs: number, opts: { database?: string; seed?: number; log?: (s: string) => void } = {}): Promise<string> {
+export async function buildHistory(
+  runs: number,
+  opts: { database?: string; seed?: number; log?: (s: string) => void } = {},
+): Promise<string> {
   const log = opts.log ?? ((s: string) => console.log(s));
   const url = historyDatabaseUrl(runs, opts.database);
   const name = new URL(url).pathname.slice(1);
@@ -49,7 +55,10 @@ export async function buildHistory(runs: number, opts: { database?: string; seed
   const { memberships, users } = await import("../db/schema");
   await seed({ history: false });
   const shopId = stableId(DEMO_SHOP.key);
-  const [owner] = await db().select({ hash: users.passwordHash }).from(users).where(eq(users.id, stableId("user:owner@tinderbox.example")));
+  const [owner] = await db()
+    .select({ hash: users.passwordHash })
+    .from(users)
+    .where(eq(users.id, stableId("user:owner@tinderbox.example")));
   const people = async (role: "technician" | "lead", count: number) => {
     const ids: string[] = [];
     for (let i = 1; i <= count; i++) {
@@ -59,8 +68,14 @@ export async function buildHistory(runs: number, opts: { database?: string; seed
         .insert(users)
         .values({ id, email: `${role}${i}@history.example`, name: `${label} ${String(i).padStart(2, "0")}`, passwordHash: owner!.hash })
         .onDuplicateKeyUpdate({ set: { id } });
-      const [m] = await db().select({ id: memberships.id }).from(memberships).where(and(eq(memberships.userId, id), eq(memberships.shopId, shopId)));
-      if (!m) await db().insert(memberships).values({ id: sequentialId(`member-${role}`, i), shopId, userId: id, role });
+      const [m] = await db()
+        .select({ id: memberships.id })
+        .from(memberships)
+        .where(and(eq(memberships.userId, id), eq(memberships.shopId, shopId)));
+      if (!m)
+        await db()
+          .insert(memberships)
+          .values({ id: sequentialId(`member-${role}`, i), shopId, userId: id, role });
       ids.push(id);
     }
     return ids;
@@ -98,7 +113,9 @@ export async function buildHistory(runs: number, opts: { database?: string; seed
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const { values } = parseArgs({ options: { runs: { type: "string", default: "10000" }, database: { type: "string" }, seed: { type: "string", default: "1" } } });
+  const { values } = parseArgs({
+    options: { runs: { type: "string", default: "10000" }, database: { type: "string" }, seed: { type: "string", default: "1" } },
+  });
   const runs = Number(values.runs);
   if (!Number.isInteger(runs) || runs < 1 || runs > 2_000_000) {
     console.error("--runs takes a whole number from 1 to 2,000,000, e.g. --runs 100000");

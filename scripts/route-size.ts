@@ -41,7 +41,9 @@ const shared = new Set([assets.url, assets.entry.module, ...assets.entry.imports
 const sum = (s: Iterable<string>) => [...s].reduce((t, u) => t + size(u), 0);
 const kb = (n: number) => `${(n / 1000).toFixed(1)} kB`;
 
-const ids = process.argv.slice(2).length ? process.argv.slice(2) : ["routes/runs.$runId", "routes/calls._index", "routes/phone", "routes/trees._index"];
+const ids = process.argv.slice(2).length
+  ? process.argv.slice(2)
+  : ["routes/runs.$runId", "routes/calls._index", "routes/phone", "routes/trees._index"];
 console.log(`every page: ${kb(sum(shared))}`);
 for (const id of ids) {
   if (!assets.routes[id]) {

@@ -8,9 +8,7 @@ import type { Finding } from "../app/engine/index";
 import type { SourceMap } from "../app/engine/index";
 
 function usage(): never {
-  process.stderr.write(
-    "usage:\n  npm run trees -- validate <files…>\n  npm run trees -- format <file>\n",
-  );
+  process.stderr.write("usage:\n  npm run trees -- validate <files…>\n  npm run trees -- format <file>\n");
   process.exit(2);
 }
 

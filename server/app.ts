@@ -20,7 +20,15 @@ import { answeringOutages } from "../app/lib/errors.server";
 import { CROSS_SITE_MESSAGE, SAFE_METHODS, crossSiteReason } from "../app/lib/http.server";
 import { log, safeError } from "../app/lib/log.server";
 import { baseSecurityHeaders } from "../app/lib/security-headers.server";
-import { compressible, compressionStages, compressWhole, MIN_BYTES, negotiateEncoding, streamsAsRendered, varyOnEncoding } from "./compression";
+import {
+  compressible,
+  compressionStages,
+  compressWhole,
+  MIN_BYTES,
+  negotiateEncoding,
+  streamsAsRendered,
+  varyOnEncoding,
+} from "./compression";
 import { WORKER_HEADERS, workerSource } from "./service-worker";
 import { staticFiles } from "./static";
 
@@ -56,7 +64,13 @@ export function createApp({ dev }: AppOptions): NodeHandler {
     const headers: Record<string, string> = { "x-request-id": requestId };
     let route = "(static)";
     res.once("close", () => {
-      const line = { reqId: requestId, method: req.method, route, status: res.statusCode, ms: Math.round((performance.now() - started) * 10) / 10 };
+      const line = {
+        reqId: requestId,
+        method: req.method,
+        route,
+        status: res.statusCode,
+        ms: Math.round((performance.now() - started) * 10) / 10,
+      };
       if (!res.writableFinished) log().info({ ...line, aborted: true }, "request");
       else log().info(line, "request");
     });
@@ -135,7 +149,10 @@ function formOnly<A extends { request: Request }>(args: A): A {
   if (type !== null) throw Response.json({ error: "Send this as a form: Cluepath's pages post forms." }, { status: 415 });
   const headers = new Headers(args.request.headers);
   headers.set("content-type", "application/x-www-form-urlencoded");
-  return { ...args, request: new Request(args.request.url, { method: args.request.method, headers, body: "", signal: args.request.signal }) };
+  return {
+    ...args,
+    request: new Request(args.request.url, { method: args.request.method, headers, body: "", signal: args.request.signal }),
+  };
 }
 
 /**
@@ -154,7 +171,9 @@ function answeringOutagesIn(build: ServerBuild): ServerBuild {
         ...route.module,
         ...(loader ? { loader: (args: Parameters<typeof loader>[0]) => answeringOutages(() => loader(args)) } : {}),
         ...(!loader && action && route.path?.startsWith("api/") ? { loader: postOnly } : {}),
-        ...(action ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(isPage(route.path) ? formOnly(args) : args)) } : {}),
+        ...(action
+          ? { action: (args: Parameters<typeof action>[0]) => answeringOutages(() => action(isPage(route.path) ? formOnly(args) : args)) }
+          : {}),
       },
     };
   }
@@ -165,7 +184,8 @@ type RouteNode = { id: string; path?: string; index?: boolean; caseSensitive?: b
 
 function routeTree(build: ServerBuild): RouteNode[] {
   const nodes = new Map<string, RouteNode>();
-  for (const r of Object.values(build.routes)) if (r) nodes.set(r.id, { id: r.id, path: r.path, index: r.index, caseSensitive: r.caseSensitive, children: [] });
+  for (const r of Object.values(build.routes))
+    if (r) nodes.set(r.id, { id: r.id, path: r.path, index: r.index, caseSensitive: r.caseSensitive, children: [] });
   const roots: RouteNode[] = [];
   for (const r of Object.values(build.routes)) {
     if (!r) continue;
@@ -186,7 +206,12 @@ function routePattern(routes: RouteNode[], pathname: string): string {
     matches = null;
   }
   if (!matches) return "(no route)";
-  const pattern = "/" + matches.map((m) => m.route.path ?? "").filter(Boolean).join("/");
+  const pattern =
+    "/" +
+    matches
+      .map((m) => m.route.path ?? "")
+      .filter(Boolean)
+      .join("/");
   return data ? `${pattern} (data)` : pattern;
 }
 
@@ -275,6 +300,10 @@ async function send(req: IncomingMessage, res: ServerResponse, response: Respons
 /** An answer made here: JSON `{ error }` for API addresses (and refusals), plain text otherwise. */
 function fail(res: ServerResponse, status: number, message: string, headers: Record<string, string>, pathname: string): void {
   const api = pathname.startsWith("/api/");
-  res.writeHead(status, { ...headers, "content-type": api ? "application/json; charset=utf-8" : "text/plain; charset=utf-8", "cache-control": "no-store" });
+  res.writeHead(status, {
+    ...headers,
+    "content-type": api ? "application/json; charset=utf-8" : "text/plain; charset=utf-8",
+    "cache-control": "no-store",
+  });
   res.end(api ? JSON.stringify({ error: message }) : message);
 }

@@ -13,7 +13,14 @@ import template from "./worker.js?raw";
 /** The routes whose code the phone keeps: the root, the runner and the phone page. */
 export const OFFLINE_ROUTES = ["root", "routes/runs.$runId", "routes/phone"];
 /** Public files the installed app shows (manifest and icons). */
-const PUBLIC = ["/manifest.webmanifest", "/icon.svg", "/icons/icon-192.png", "/icons/icon-512.png", "/icons/maskable-512.png", "/icons/apple-touch-icon.png"];
+const PUBLIC = [
+  "/manifest.webmanifest",
+  "/icon.svg",
+  "/icons/icon-192.png",
+  "/icons/icon-512.png",
+  "/icons/maskable-512.png",
+  "/icons/apple-touch-icon.png",
+];
 
 /** The files to keep, in the order the worker caches them. */
 export function precacheList(assets: ServerBuild["assets"], clientDir: string): string[] {

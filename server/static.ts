@@ -60,7 +60,12 @@ export function staticFiles(rootDir: string) {
   }
 
   /** GET/HEAD of a path with a file extension is looked up in the build; anything else is not ours. */
-  return async function serve(req: IncomingMessage, res: ServerResponse, pathname: string, headers: Record<string, string>): Promise<StaticOutcome> {
+  return async function serve(
+    req: IncomingMessage,
+    res: ServerResponse,
+    pathname: string,
+    headers: Record<string, string>,
+  ): Promise<StaticOutcome> {
     if ((req.method !== "GET" && req.method !== "HEAD") || pathname === "/" || !extname(pathname)) return "not-a-file";
     const entry = await load(pathname);
     if (entry === "bad") return "bad-request";

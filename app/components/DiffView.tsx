@@ -35,11 +35,17 @@ function NodeList({ heading, nodes }: { heading: string; nodes: NodeRef[] }) {
 }
 
 export function DiffView({ diff, fromLabel, toLabel }: { diff: TreeDiff; fromLabel: string; toLabel: string }) {
-  if (diff.same) return <p className="card">{fromLabel} and {toLabel} have the same content.</p>;
+  if (diff.same)
+    return (
+      <p className="card">
+        {fromLabel} and {toLabel} have the same content.
+      </p>
+    );
   return (
     <div className="space-y-4">
       <p className="text-ink-soft">
-        From {fromLabel} to {toLabel}: {diff.added.length} added, {diff.removed.length} removed, {diff.changed.length} changed, {diff.unchanged} the same.
+        From {fromLabel} to {toLabel}: {diff.added.length} added, {diff.removed.length} removed, {diff.changed.length} changed,{" "}
+        {diff.unchanged} the same.
       </p>
       <p className="hidden text-sm text-ink-soft sm:grid sm:grid-cols-[10rem_1fr_1fr] sm:gap-3" aria-hidden="true">
         <span />

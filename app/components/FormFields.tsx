@@ -4,7 +4,15 @@ import { Labelled } from "./Field";
 
 type Common = { label: string; name: string; error?: string; hint?: string; className?: string };
 
-export function SelectField({ label, name, error, hint, className, children, ...select }: Common & SelectHTMLAttributes<HTMLSelectElement> & { children: ReactNode }) {
+export function SelectField({
+  label,
+  name,
+  error,
+  hint,
+  className,
+  children,
+  ...select
+}: Common & SelectHTMLAttributes<HTMLSelectElement> & { children: ReactNode }) {
   return (
     <Labelled label={label} hint={hint} error={error} className={className}>
       {(control) => (
@@ -17,5 +25,9 @@ export function SelectField({ label, name, error, hint, className, children, ...
 }
 
 export function TextAreaField({ label, name, error, hint, className, ...area }: Common & TextareaHTMLAttributes<HTMLTextAreaElement>) {
-  return <Labelled label={label} hint={hint} error={error} className={className}>{(control) => <textarea name={name} rows={3} className="field-input py-2" {...control} {...area} />}</Labelled>;
+  return (
+    <Labelled label={label} hint={hint} error={error} className={className}>
+      {(control) => <textarea name={name} rows={3} className="field-input py-2" {...control} {...area} />}
+    </Labelled>
+  );
 }

@@ -184,7 +184,10 @@ export function compileFormula(source: string): CompileResult {
       tree = jsep(source);
     } catch (e) {
       const msg = e instanceof Error ? e.message : String(e);
-      throw new FormulaError(msg.replace(/^./, (c) => c.toLowerCase()), "syntax");
+      throw new FormulaError(
+        msg.replace(/^./, (c) => c.toLowerCase()),
+        "syntax",
+      );
     }
     if (tree.type === "Compound") throw new FormulaError("a formula is one expression", "syntax");
     const variables: string[] = [];

@@ -131,11 +131,7 @@ function valueOf(v: LimitValue, ctx: Ctx): { x: number; text: string; bare?: str
   return { x: convertQty(raw, r.qty, display.qty), text };
 }
 
-function toleranceSpan(
-  t: Tolerance,
-  nominal: number,
-  ctx: Ctx,
-): { plus: number; minus: number; text: string } {
+function toleranceSpan(t: Tolerance, nominal: number, ctx: Ctx): { plus: number; minus: number; text: string } {
   if (t.kind === "percent") {
     const text = t.plus === t.minus ? `± ${formatExact(t.plus)} %` : `+${formatExact(t.plus)} % / −${formatExact(t.minus)} %`;
     return { plus: (Math.abs(nominal) * t.plus) / 100, minus: (Math.abs(nominal) * t.minus) / 100, text };
@@ -185,10 +181,20 @@ function exactDecimals(x: number): number {
 }
 
 /** The text of limits at `decimals` places: "1.41–1.59 µF", "at least 135 °F". */
-export function showLimits(lo: number | undefined, hi: number | undefined, unit: string, decimals: number): { text: string; loText?: string; hiText?: string } {
+export function showLimits(
+  lo: number | undefined,
+  hi: number | undefined,
+  unit: string,
+  decimals: number,
+): { text: string; loText?: string; hiText?: string } {
   const loText = lo !== undefined ? `${showAt(lo, decimals)} ${unit}` : undefined;
   const hiText = hi !== undefined ? `${showAt(hi, decimals)} ${unit}` : undefined;
-  const text = lo !== undefined && hi !== undefined ? `${showAt(lo, decimals)}–${hiText}` : loText !== undefined ? `at least ${loText}` : `at most ${hiText}`;
+  const text =
+    lo !== undefined && hi !== undefined
+      ? `${showAt(lo, decimals)}–${hiText}`
+      : loText !== undefined
+        ? `at least ${loText}`
+        : `at most ${hiText}`;
   const out: { text: string; loText?: string; hiText?: string } = { text };
   if (loText !== undefined) out.loText = loText;
   if (hiText !== undefined) out.hiText = hiText;
@@ -261,7 +267,14 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
       }
     }
     const shown = showLimits(lo, hi, node.unit, decimals);
-    const limits: ComputedLimits = { unit: node.unit, text: shown.text, derivation, fixed: ctx.exact && ctx.formulas.length === 0, formulas: ctx.formulas, decimals };
+    const limits: ComputedLimits = {
+      unit: node.unit,
+      text: shown.text,
+      derivation,
+      fixed: ctx.exact && ctx.formulas.length === 0,
+      formulas: ctx.formulas,
+      decimals,
+    };
     if (lo !== undefined) limits.lo = lo;
     if (hi !== undefined) limits.hi = hi;
     if (shown.loText !== undefined) limits.loText = shown.loText;
@@ -277,7 +290,13 @@ export function computeLimits(node: LimitsNode, vars: Readonly<Record<string, nu
 /** Every formula in a set of limits (for validation and data-flow). */
 export function limitFormulas(limits: Limits): string[] {
   const vals: LimitValue[] =
-    limits.kind === "range" ? [limits.min, limits.max] : limits.kind === "atLeast" ? [limits.min] : limits.kind === "atMost" ? [limits.max] : [limits.nominal];
+    limits.kind === "range"
+      ? [limits.min, limits.max]
+      : limits.kind === "atLeast"
+        ? [limits.min]
+        : limits.kind === "atMost"
+          ? [limits.max]
+          : [limits.nominal];
   const out: string[] = [];
   for (const v of vals) if ("formula" in v) out.push(v.formula);
   return out;

@@ -1,7 +1,20 @@
 // The runner's slice of the engine: units, limits, verdicts and traversal. No zod, no Markdown
 // parser, so the phone downloads only what it needs to judge readings offline.
 export * from "./types";
-export { parseReading, parseRating, isOverload, exampleReading, resolveUnit, convert, unitQuantity, unitLabel, normaliseUnit, kindNoun, quantityWord, QUANTITY_INFO } from "./units";
+export {
+  parseReading,
+  parseRating,
+  isOverload,
+  exampleReading,
+  resolveUnit,
+  convert,
+  unitQuantity,
+  unitLabel,
+  normaliseUnit,
+  kindNoun,
+  quantityWord,
+  QUANTITY_INFO,
+} from "./units";
 export type { ParsedReading, ParseReadingResult, ReadingError, ReadingErrorCode, QuantityInfo } from "./units";
 export { computeLimits, showLimits, possibleVerdicts, limitFormulas, LETTER_PERCENT, LETTER_SMALL_CAP_PF } from "./limits";
 export type { ComputedLimits, LimitsResult, FormulaUse } from "./limits";

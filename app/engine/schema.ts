@@ -55,29 +55,35 @@ const oneLine = (what: string, max: number) =>
 
 export const NodeIdSchema = z
   .string()
-  .check(z.maxLength(64, "ids are at most 64 characters"), z.regex(NODE_ID_PATTERN, "ids are lower-case words joined by hyphens, like check-fan-rotation"));
+  .check(
+    z.maxLength(64, "ids are at most 64 characters"),
+    z.regex(NODE_ID_PATTERN, "ids are lower-case words joined by hyphens, like check-fan-rotation"),
+  );
 export const VariableSchema = z
   .string()
   .check(
     z.maxLength(64, "variable names are at most 64 characters"),
     z.regex(VARIABLE_PATTERN, "variable names are letters, digits and _ and start with a letter, like rated_uf"),
   );
-export const UnitSchema = z
-  .string()
-  .check(
-    z.maxLength(32, "a unit is at most 32 characters"),
-    z.regex(UNIT_PATTERN, "a unit is one word like µF, V, °F or inWC"),
-    z.refine((s) => !["to", "letter", "%", "/", "least", "most"].includes(s), "that word can't be a unit"),
-  );
+export const UnitSchema = z.string().check(
+  z.maxLength(32, "a unit is at most 32 characters"),
+  z.regex(UNIT_PATTERN, "a unit is one word like µF, V, °F or inWC"),
+  z.refine((s) => !["to", "letter", "%", "/", "least", "most"].includes(s), "that word can't be a unit"),
+);
 /** zod 4 numbers are finite already (no NaN, no Infinity). */
 const finite = z.number();
-const body = z
-  .string()
-  .check(z.minLength(1), z.maxLength(TEXT_CAPS.body, `a body is longer than ${TEXT_CAPS.body} characters`), z.refine((s) => s === normaliseBody(s), "body has blank lines or spaces at the start or end"));
+const body = z.string().check(
+  z.minLength(1),
+  z.maxLength(TEXT_CAPS.body, `a body is longer than ${TEXT_CAPS.body} characters`),
+  z.refine((s) => s === normaliseBody(s), "body has blank lines or spaces at the start or end"),
+);
 
 /** Bodies are kept as written, minus leading blank lines and trailing whitespace. */
 export function normaliseBody(s: string): string {
-  return s.replace(/\r\n?/g, "\n").replace(/^(?:[ \t]*\n)+/, "").trimEnd();
+  return s
+    .replace(/\r\n?/g, "\n")
+    .replace(/^(?:[ \t]*\n)+/, "")
+    .trimEnd();
 }
 
 export const RecheckSchema = z.strictObject({
@@ -91,13 +97,11 @@ export const AnswerSchema = z.strictObject({
   recheck: z.optional(RecheckSchema),
 });
 
-const formula = z
-  .string()
-  .check(
-    z.minLength(1),
-    z.maxLength(TEXT_CAPS.formula),
-    z.refine((s) => !/[`\r\n\u2028\u2029]/.test(s) && s === s.trim(), "a formula is one line without backticks"),
-  );
+const formula = z.string().check(
+  z.minLength(1),
+  z.maxLength(TEXT_CAPS.formula),
+  z.refine((s) => !/[`\r\n\u2028\u2029]/.test(s) && s === s.trim(), "a formula is one line without backticks"),
+);
 
 export const LimitValueSchema = z.union([
   z.strictObject({ value: finite, unit: z.optional(UnitSchema) }),

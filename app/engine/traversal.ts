@@ -176,7 +176,13 @@ export class Run {
     }
   }
 
-  private reject(entry: LogEntry, index: number, code: Rejection["code"], message: string, extra?: Pick<Rejection, "confirm" | "suggestions">): ApplyResult {
+  private reject(
+    entry: LogEntry,
+    index: number,
+    code: Rejection["code"],
+    message: string,
+    extra?: Pick<Rejection, "confirm" | "suggestions">,
+  ): ApplyResult {
     const rejection: Rejection = { index, entry, code, message, ...extra };
     this.rejected.push(rejection);
     return { ok: false, rejection };
@@ -214,7 +220,12 @@ export class Run {
         for (const x of node.answers) if (x.label === e.answer) a = a ?? x;
         if (!a) {
           const list = node.answers.map((x) => `‘${x.label}’`).join(", ");
-          return this.reject(entry, index, "unknown-answer", `‘${e.answer}’ isn't an answer to ${describeNode(node)}; the answers are ${list}.`);
+          return this.reject(
+            entry,
+            index,
+            "unknown-answer",
+            `‘${e.answer}’ isn't an answer to ${describeNode(node)}; the answers are ${list}.`,
+          );
         }
         branchKey = `answer:${a.label}`;
         branch = a;
@@ -227,7 +238,8 @@ export class Run {
         const r = evaluateReading(node, e.reading, opts);
         if (!r.ok) return this.reject(entry, index, "reading", r.message, r.suggestions ? { suggestions: r.suggestions } : undefined);
         if (r.verdict.confirm) {
-          if (e.confirmed !== true && !how.replaying) return this.reject(entry, index, "needs-confirmation", r.verdict.confirm.message, { confirm: r.verdict.confirm });
+          if (e.confirmed !== true && !how.replaying)
+            return this.reject(entry, index, "needs-confirmation", r.verdict.confirm.message, { confirm: r.verdict.confirm });
           if (e.confirmed === true) step.confirmed = true;
         }
         branchKey = r.verdict.verdict;
@@ -261,7 +273,12 @@ export class Run {
     }
 
     if (!branch) {
-      return this.reject(entry, index, "no-branch", `${describeNode(node)} has nowhere to go for ‘${branchName(branchKey)}’: the tree needs fixing.`);
+      return this.reject(
+        entry,
+        index,
+        "no-branch",
+        `${describeNode(node)} has nowhere to go for ‘${branchName(branchKey)}’: the tree needs fixing.`,
+      );
     }
 
     // Bounded re-check loops.
@@ -289,7 +306,12 @@ export class Run {
     }
     const target = to === null ? null : this.nodes.get(to);
     if (to !== null && !target) {
-      return this.reject(entry, index, "broken-tree", `${describeNode(node)} sends ‘${branchName(branchKey)}’ to ‘${to}’, which isn't in the tree.`);
+      return this.reject(
+        entry,
+        index,
+        "broken-tree",
+        `${describeNode(node)} sends ‘${branchName(branchKey)}’ to ‘${to}’, which isn't in the tree.`,
+      );
     }
 
     // Commit.

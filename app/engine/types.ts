@@ -2,15 +2,7 @@
 // Plain data (JSON-safe), so it can sit in a DB column, travel to the phone and round-trip
 // through the Markdown tree format. The zod schemas in ./schema accept exactly these shapes.
 
-export const NODE_KINDS = [
-  "question",
-  "measurement",
-  "step",
-  "caution",
-  "nameplate",
-  "outcome",
-  "escalate",
-] as const;
+export const NODE_KINDS = ["question", "measurement", "step", "caution", "nameplate", "outcome", "escalate"] as const;
 export type NodeKind = (typeof NODE_KINDS)[number];
 
 /** Physical quantities a reading or nameplate value can have. Each maps to one dimension. */
@@ -28,29 +20,10 @@ export const QUANTITIES = [
 ] as const;
 export type Quantity = (typeof QUANTITIES)[number];
 
-export const CATEGORIES = [
-  "rotisserie",
-  "fryer",
-  "oven",
-  "griddle",
-  "hot-holding",
-  "range",
-  "broiler",
-  "steamer",
-  "other",
-] as const;
+export const CATEGORIES = ["rotisserie", "fryer", "oven", "griddle", "hot-holding", "range", "broiler", "steamer", "other"] as const;
 export type EquipmentCategory = (typeof CATEGORIES)[number];
 
-export const HAZARDS = [
-  "electrical",
-  "stored-energy",
-  "gas",
-  "hot-oil",
-  "hot-surface",
-  "steam",
-  "moving-parts",
-  "other",
-] as const;
+export const HAZARDS = ["electrical", "stored-energy", "gas", "hot-oil", "hot-surface", "steam", "moving-parts", "other"] as const;
 export type Hazard = (typeof HAZARDS)[number];
 
 export const VERDICTS = ["low", "within", "high", "marginal"] as const;
@@ -167,14 +140,7 @@ export interface EscalateNode extends NodeBase {
   reason: string;
 }
 
-export type TreeNode =
-  | QuestionNode
-  | MeasurementNode
-  | StepNode
-  | CautionNode
-  | NameplateNode
-  | OutcomeNode
-  | EscalateNode;
+export type TreeNode = QuestionNode | MeasurementNode | StepNode | CautionNode | NameplateNode | OutcomeNode | EscalateNode;
 
 export interface Tree {
   title: string;

@@ -30,9 +30,7 @@ export const QUANTITY_INFO: Readonly<Record<Quantity, QuantityInfo>> = {
   rotation: { kind: "angular_velocity", noun: "a rotational speed", si: "rad/s", units: ["rpm"] },
 };
 
-const KIND_TO_QUANTITY = new Map<string, Quantity>(
-  (Object.keys(QUANTITY_INFO) as Quantity[]).map((q) => [QUANTITY_INFO[q].kind, q]),
-);
+const KIND_TO_QUANTITY = new Map<string, Quantity>((Object.keys(QUANTITY_INFO) as Quantity[]).map((q) => [QUANTITY_INFO[q].kind, q]));
 
 /** "a capacitance" for one of ours, else a readable name of the js-quantities kind ("a length"). */
 export function kindNoun(kind: string): string {
@@ -203,14 +201,43 @@ const INCH = 0.0254; // m (exact)
  */
 export const EXACT_FACTORS: Readonly<Record<string, readonly [number, number?]>> = {
   // SI prefixes (exact)
-  V: [1], mV: [1e-3], kV: [1e3], uV: [1e-6],
-  A: [1], mA: [1e-3], uA: [1e-6], kA: [1e3],
-  Ohm: [1], mOhm: [1e-3], kOhm: [1e3], MOhm: [1e6], GOhm: [1e9],
-  F: [1], mF: [1e-3], uF: [1e-6], nF: [1e-9], pF: [1e-12],
-  W: [1], kW: [1e3], mW: [1e-3], MW: [1e6],
-  Hz: [1], kHz: [1e3], MHz: [1e6],
-  s: [1], ms: [1e-3], us: [1e-6], min: [60], h: [3600], d: [86400],
-  Pa: [1], hPa: [100], kPa: [1e3], MPa: [1e6], mbar: [100], bar: [1e5],
+  V: [1],
+  mV: [1e-3],
+  kV: [1e3],
+  uV: [1e-6],
+  A: [1],
+  mA: [1e-3],
+  uA: [1e-6],
+  kA: [1e3],
+  Ohm: [1],
+  mOhm: [1e-3],
+  kOhm: [1e3],
+  MOhm: [1e6],
+  GOhm: [1e9],
+  F: [1],
+  mF: [1e-3],
+  uF: [1e-6],
+  nF: [1e-9],
+  pF: [1e-12],
+  W: [1],
+  kW: [1e3],
+  mW: [1e-3],
+  MW: [1e6],
+  Hz: [1],
+  kHz: [1e3],
+  MHz: [1e6],
+  s: [1],
+  ms: [1e-3],
+  us: [1e-6],
+  min: [60],
+  h: [3600],
+  d: [86400],
+  Pa: [1],
+  hPa: [100],
+  kPa: [1e3],
+  MPa: [1e6],
+  mbar: [100],
+  bar: [1e5],
   // Pressure units of the trade, conventional (NIST SP 811 (2008) B.8)
   psi: [(0.45359237 * G_N) / (INCH * INCH)], // 6894.757 Pa
   inH2O: [INCH * 1000 * G_N], // 249.0889 Pa, inch of water (conventional)
@@ -224,8 +251,12 @@ export const EXACT_FACTORS: Readonly<Record<string, readonly [number, number?]>>
   rpm: [(2 * Math.PI) / 60],
   "rad/s": [1],
   // Temperatures: kelvin = (°F + 459.67) × 5/9 (NIST SP 811 B.9), °C + 273.15; spans without the offset
-  tempK: [1, 0], tempC: [1, 273.15], tempF: [5 / 9, (459.67 * 5) / 9],
-  degK: [1], degC: [1], degF: [5 / 9],
+  tempK: [1, 0],
+  tempC: [1, 273.15],
+  tempF: [5 / 9, (459.67 * 5) / 9],
+  degK: [1],
+  degC: [1],
+  degF: [5 / 9],
 };
 
 /** The ratio of two exact factors, cleaned of binary noise (1e-9 / 1e-6 is 0.001, not 0.0010000000000000002). */
@@ -406,7 +437,8 @@ export function exampleReading(quantity: Quantity, displayUnit: string): string 
   const [x, u] = EXAMPLE[quantity];
   const from = resolveUnit(u, quantity);
   const to = resolveUnit(displayUnit, quantity);
-  const y = from && to && from.kind === to.kind && from.absoluteTemperature === to.absoluteTemperature ? convertQty(x, from.qty, to.qty) : NaN;
+  const y =
+    from && to && from.kind === to.kind && from.absoluteTemperature === to.absoluteTemperature ? convertQty(x, from.qty, to.qty) : NaN;
   return Number.isFinite(y) ? `${formatCompact(y, 3)} ${displayUnit}` : `${x} ${u}`;
 }
 
@@ -416,7 +448,10 @@ export function exampleReading(quantity: Quantity, displayUnit: string): string 
  * "1,470" is refused as ambiguous; "1,470.5" reads commas as thousands separators.
  */
 function splitNumber(text: string, example: string): { number: string; unit: string } | ReadingError {
-  let t = text.trim().replace(/\u2212/g, "-").replace(/[\u00a0\u202f]/g, " ");
+  let t = text
+    .trim()
+    .replace(/\u2212/g, "-")
+    .replace(/[\u00a0\u202f]/g, " ");
   const lead = /^[+-]?[\d.,]+/.exec(t)?.[0] ?? "";
   if (lead.includes(",")) {
     const commas = (lead.match(/,/g) ?? []).length;
@@ -440,7 +475,8 @@ function splitNumber(text: string, example: string): { number: string; unit: str
   if (/^\d/.test(m[2]!)) {
     // "1 100 Ω": digits after a space — a thousands gap, or a slip. Numbers go without spaces.
     const spaced = /^([+-]?\d+(?: \d+)+(?:\.\d+)?)(?![\d.,eE])\s*([^\d\s][\s\S]*)?$/.exec(t);
-    if (!spaced) return { code: "not-a-number", message: `‘${text.trim()}’ holds more than one number: type one reading, like ${example}.` };
+    if (!spaced)
+      return { code: "not-a-number", message: `‘${text.trim()}’ holds more than one number: type one reading, like ${example}.` };
     const joined = spaced[1]!.replace(/ /g, "");
     const meant = spaced[2] ? `${joined} ${spaced[2].trim()}` : joined;
     return { code: "not-a-number", message: `Type the number without spaces: did you mean ${meant}?`, suggestions: [meant] };
@@ -453,7 +489,16 @@ function listUnits(quantity: Quantity): string {
   return u.length > 1 ? `${u.slice(0, -1).join(", ")} or ${u[u.length - 1]}` : (u[0] ?? "");
 }
 
-const SI_SYMBOL: Partial<Record<Quantity, string>> = { voltage: "V", current: "A", resistance: "Ω", capacitance: "F", power: "W", frequency: "Hz", time: "s", pressure: "Pa" };
+const SI_SYMBOL: Partial<Record<Quantity, string>> = {
+  voltage: "V",
+  current: "A",
+  resistance: "Ω",
+  capacitance: "F",
+  power: "W",
+  frequency: "Hz",
+  time: "s",
+  pressure: "Pa",
+};
 const PREFIX_ONLY = /^(?:[µμu]|n|p|m|k|K|M)$/;
 const DEGREES_ONLY = /^(?:°|º|˚|deg\.?|degs|degrees?)$/i;
 /** Spellings that aren't units of the quantity but mean one (per quantity). */
@@ -501,7 +546,11 @@ export function parseReading(text: string, quantity: Quantity, displayUnit: stri
   const t = text.trim();
   if (t === "") return { ok: false, code: "empty", message: `Type a reading, like ${example}.` };
   if (isOverload(t)) {
-    return { ok: false, code: "overload", message: `‘${t}’ is the meter's overload display (open circuit or above its range): there is no value to record.` };
+    return {
+      ok: false,
+      code: "overload",
+      message: `‘${t}’ is the meter's overload display (open circuit or above its range): there is no value to record.`,
+    };
   }
   const split = splitNumber(text, quantity === "resistance" ? `${example} (or OL when the meter shows overload)` : example);
   if ("code" in split) return { ok: false, ...split };
@@ -521,10 +570,19 @@ export function parseReading(text: string, quantity: Quantity, displayUnit: stri
         : PREFIX_ONLY.test(split.unit)
           ? `‘${split.unit}’ alone isn't a unit of ${quantityWord(quantity)}`
           : `‘${split.unit}’ isn't a unit of ${quantityWord(quantity)}`;
-      return { ok: false, code: typed ? "wrong-dimension" : "unknown-unit", message: `${why}: did you mean ${suggestions.join(" or ")}?`, suggestions };
+      return {
+        ok: false,
+        code: typed ? "wrong-dimension" : "unknown-unit",
+        message: `${why}: did you mean ${suggestions.join(" or ")}?`,
+        suggestions,
+      };
     }
     if (!typed) {
-      return { ok: false, code: "unknown-unit", message: `‘${split.unit}’ isn't a unit of ${quantityWord(quantity)} Cluepath knows: type it in ${listUnits(quantity)}.` };
+      return {
+        ok: false,
+        code: "unknown-unit",
+        message: `‘${split.unit}’ isn't a unit of ${quantityWord(quantity)} Cluepath knows: type it in ${listUnits(quantity)}.`,
+      };
     }
     return {
       ok: false,
@@ -533,15 +591,27 @@ export function parseReading(text: string, quantity: Quantity, displayUnit: stri
     };
   }
   if (typed.absoluteTemperature !== display.absoluteTemperature) {
-    return { ok: false, code: "wrong-dimension", message: `‘${t}’ is a temperature difference: type the temperature in ${listUnits(quantity)}.` };
+    return {
+      ok: false,
+      code: "wrong-dimension",
+      message: `‘${t}’ is a temperature difference: type the temperature in ${listUnits(quantity)}.`,
+    };
   }
   const typedValue = Number(split.number);
   if (!Number.isFinite(typedValue)) return { ok: false, code: "not-finite", message: `‘${t}’ is too large to be a reading.` };
   if (belowAbsoluteZero(typedValue, typed)) {
-    return { ok: false, code: "below-absolute-zero", message: `‘${t}’ is below absolute zero (${ABSOLUTE_ZERO[typed.qty] ?? "0 K"}): check the reading and its unit.` };
+    return {
+      ok: false,
+      code: "below-absolute-zero",
+      message: `‘${t}’ is below absolute zero (${ABSOLUTE_ZERO[typed.qty] ?? "0 K"}): check the reading and its unit.`,
+    };
   }
   if (typedValue < 0 && NON_NEGATIVE.has(quantity)) {
-    return { ok: false, code: "impossible", message: `A ${quantityWord(quantity)} can't be below zero (‘${t}’): check the reading, and zero the meter's leads if it shows a minus sign.` };
+    return {
+      ok: false,
+      code: "impossible",
+      message: `A ${quantityWord(quantity)} can't be below zero (‘${t}’): check the reading, and zero the meter's leads if it shows a minus sign.`,
+    };
   }
   const value = convertQty(typedValue, typed.qty, display.qty);
   const si = Number.isFinite(value) ? toSI(value, display, quantity) : NaN;
@@ -581,11 +651,19 @@ export function parseRating(text: string, quantity: Quantity, unit: string): Par
   const r = parseReading(text, quantity, unit);
   if (r.ok) {
     if (quantity !== "temperature" && r.value <= 0) {
-      return { ok: false, code: "impossible", message: `A rated ${quantityWord(quantity)} of ${r.display} ${unit} can't be right: a rating is above zero. Check the nameplate.` };
+      return {
+        ok: false,
+        code: "impossible",
+        message: `A rated ${quantityWord(quantity)} of ${r.display} ${unit} can't be right: a rating is above zero. Check the nameplate.`,
+      };
     }
     return r;
   }
   if (r.code === "empty") return { ...r, message: `Type the rating from the nameplate, like ${example}.` };
-  if (r.code === "overload") return { ...r, message: `‘${text.trim()}’ is what a meter shows on overload: type the rating printed on the nameplate, like ${example}.` };
+  if (r.code === "overload")
+    return {
+      ...r,
+      message: `‘${text.trim()}’ is what a meter shows on overload: type the rating printed on the nameplate, like ${example}.`,
+    };
   return r;
 }

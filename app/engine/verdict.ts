@@ -165,7 +165,14 @@ export function evaluateReading(node: JudgedNode, text: string, opts: EvaluateOp
   let uncertainty: Uncertainty | undefined;
   if (meter) {
     const u = meterUncertainty(meter, parsed.value, node.quantity, node.unit);
-    if (u !== null) uncertainty = { value: u, unit: node.unit, text: `±${formatCompact(u, 2)} ${node.unit}`, meter, meterText: describeMeter(meter, node.unit) };
+    if (u !== null)
+      uncertainty = {
+        value: u,
+        unit: node.unit,
+        text: `±${formatCompact(u, 2)} ${node.unit}`,
+        meter,
+        meterText: describeMeter(meter, node.unit),
+      };
   }
   const guardU = acceptance === "guarded" && uncertainty ? uncertainty.value : 0;
   const { verdict, side } = judge(parsed.value, limits.lo, limits.hi, guardU);
@@ -178,7 +185,9 @@ export function evaluateReading(node: JudgedNode, text: string, opts: EvaluateOp
   if (uncertainty) notes.push(`meter ±${shown.u ?? formatCompact(uncertainty.value, 2)} ${unit}`);
   if (guardU > 0 && verdict === "within") {
     const { alLo, alHi } = shown;
-    notes.push(`acceptance limits ${alLo !== undefined && alHi !== undefined ? `${alLo}–${alHi} ${unit}` : alLo !== undefined ? `from ${alLo} ${unit}` : `up to ${alHi} ${unit}`}`);
+    notes.push(
+      `acceptance limits ${alLo !== undefined && alHi !== undefined ? `${alLo}–${alHi} ${unit}` : alLo !== undefined ? `from ${alLo} ${unit}` : `up to ${alHi} ${unit}`}`,
+    );
   }
   const paren = notes.length ? ` (${notes.join("; ")})` : "";
   const L = shown.limits;
@@ -211,7 +220,16 @@ export function evaluateReading(node: JudgedNode, text: string, opts: EvaluateOp
   const result: Verdict = {
     verdict,
     acceptance,
-    reading: { value: parsed.value, unit, display: shown.reading, text: r, typed: text, si: parsed.si, siUnit: parsed.siUnit, converted: parsed.converted },
+    reading: {
+      value: parsed.value,
+      unit,
+      display: shown.reading,
+      text: r,
+      typed: text,
+      si: parsed.si,
+      siUnit: parsed.siUnit,
+      converted: parsed.converted,
+    },
     limits: { ...limits, ...L, decimals: shown.decimals },
     message,
     preview,
@@ -252,7 +270,13 @@ interface Shown {
  * say what the verdict says — a low reading shows below its limit, a within one between them, a
  * marginal one between its limit and the acceptance limit. Judging is always on exact values.
  */
-function showConsistently(p: ParsedReading, limits: ComputedLimits, verdict: VerdictKind, side: "low" | "high" | undefined, u: number): Shown {
+function showConsistently(
+  p: ParsedReading,
+  limits: ComputedLimits,
+  verdict: VerdictKind,
+  side: "low" | "high" | undefined,
+  u: number,
+): Shown {
   const { lo, hi } = limits;
   // U with at least two significant figures.
   const uDecimals = u > 0 ? Math.max(0, 1 - Math.floor(Math.log10(u))) : 0;
@@ -305,14 +329,25 @@ function showConsistently(p: ParsedReading, limits: ComputedLimits, verdict: Ver
  * Otherwise the step can't judge it and the technician is asked to change range. Decision record
  * 0102; the tree branches on it as on any high (or within) reading.
  */
-function judgeOverload(node: JudgedNode, text: string, limits: ComputedLimits, meter: Meter | undefined, top: number | undefined): VerdictResult {
+function judgeOverload(
+  node: JudgedNode,
+  text: string,
+  limits: ComputedLimits,
+  meter: Meter | undefined,
+  top: number | undefined,
+): VerdictResult {
   const { lo, hi } = limits;
   const resistance = node.quantity === "resistance";
   let verdict: "high" | "within" | null = null;
   if (hi !== undefined) {
     if (top !== undefined ? top >= hi - eps(hi) : resistance) verdict = "high";
   } else if (resistance && lo !== undefined && (top === undefined || top >= lo - eps(lo))) verdict = "within";
-  const range = top !== undefined ? `above its ${formatExact(meter!.range!)} ${meter!.unit ?? node.unit} range` : resistance ? "an open circuit, or above its range" : "above its range";
+  const range =
+    top !== undefined
+      ? `above its ${formatExact(meter!.range!)} ${meter!.unit ?? node.unit} range`
+      : resistance
+        ? "an open circuit, or above its range"
+        : "above its range";
   if (!verdict) {
     return {
       ok: false,
@@ -331,7 +366,17 @@ function judgeOverload(node: JudgedNode, text: string, limits: ComputedLimits, m
     verdict: {
       verdict,
       acceptance: node.acceptance ?? "simple",
-      reading: { value: bound, unit: node.unit, display: "OL", text: "OL", typed: text, si: toSI(bound, display, node.quantity), siUnit: QUANTITY_INFO[node.quantity].si, converted: false, overload: true },
+      reading: {
+        value: bound,
+        unit: node.unit,
+        display: "OL",
+        text: "OL",
+        typed: text,
+        si: toSI(bound, display, node.quantity),
+        siUnit: QUANTITY_INFO[node.quantity].si,
+        converted: false,
+        overload: true,
+      },
       limits,
       message: `OL — the meter shows overload (${why}): ${judged}${paren}`,
       preview: `OL (${why}) → ${judged}`,
@@ -353,7 +398,14 @@ const FAR_ABOVE = 1000;
  * Readings far below the limits are never questioned: dead circuits, shorts and open capacitors
  * read near zero, and that is what the tree is there to find.
  */
-function plausibility(node: JudgedNode, p: ParsedReading, limits: ComputedLimits, verdict: VerdictKind, shown: string, L: { loText?: string; hiText?: string; text: string }): Confirmation | undefined {
+function plausibility(
+  node: JudgedNode,
+  p: ParsedReading,
+  limits: ComputedLimits,
+  verdict: VerdictKind,
+  shown: string,
+  L: { loText?: string; hiText?: string; text: string },
+): Confirmation | undefined {
   if (verdict !== "low" && verdict !== "high") return undefined;
   const { lo, hi } = limits;
   const display = resolveUnit(node.unit, node.quantity);
@@ -368,7 +420,10 @@ function plausibility(node: JudgedNode, p: ParsedReading, limits: ComputedLimits
   // Temperature scales overlap in everyday ranges (60 °F and 60 °C are both real readings), so a
   // scale is never taken for a slip; units that differ by a factor are. A reading in the step's
   // own unit is taken as meant, unless the limits are two-sided (a bare 1470 on a 1.41–1.59 µF step).
-  const slips = node.quantity === "temperature" || !band || (!p.converted && (lo === undefined || hi === undefined)) ? [] : [node.unit, ...QUANTITY_INFO[node.quantity].units];
+  const slips =
+    node.quantity === "temperature" || !band || (!p.converted && (lo === undefined || hi === undefined))
+      ? []
+      : [node.unit, ...QUANTITY_INFO[node.quantity].units];
   for (const label of slips) {
     const alt = resolveUnit(label, node.quantity);
     if (!alt || alt.qty === typed.qty || alt.kind !== display.kind || alt.absoluteTemperature !== display.absoluteTemperature) continue;
@@ -382,12 +437,19 @@ function plausibility(node: JudgedNode, p: ParsedReading, limits: ComputedLimits
   const top = hi ?? lo!;
   if (node.quantity === "temperature") {
     const span = convertQty(1000, "degK", resolveUnit(node.unit, "temperature", true)?.qty ?? "degK");
-    if (p.value - top > span) return { reason: "far-above", message: `${that}, more than ${formatCompact(span, 4)} ${node.unit} above ${hi !== undefined ? `the upper limit ${L.hiText}` : `the limit ${L.loText}`}: is that right?` };
+    if (p.value - top > span)
+      return {
+        reason: "far-above",
+        message: `${that}, more than ${formatCompact(span, 4)} ${node.unit} above ${hi !== undefined ? `the upper limit ${L.hiText}` : `the limit ${L.loText}`}: is that right?`,
+      };
     return undefined;
   }
   const biggest = Math.max(Math.abs(lo ?? 0), Math.abs(hi ?? 0));
   if (biggest > 0 && Math.abs(p.value) > FAR_ABOVE * biggest) {
-    return { reason: "far-above", message: `${that}, more than a thousand times ${hi !== undefined ? `the upper limit ${L.hiText}` : `the limit ${L.loText}`}: is that right?` };
+    return {
+      reason: "far-above",
+      message: `${that}, more than a thousand times ${hi !== undefined ? `the upper limit ${L.hiText}` : `the limit ${L.loText}`}: is that right?`,
+    };
   }
   return undefined;
 }

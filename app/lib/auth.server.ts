@@ -37,7 +37,13 @@ export function authConfig(address: string): AuthConfig {
     useSecureCookies: e.secureCookies,
     session: { strategy: "jwt", maxAge: SESSION_HOURS * 3600 },
     pages: { signIn: "/login", error: "/login" },
-    logger: { error: (err) => { if (!(err instanceof CredentialsSignin)) console.error(err); }, warn: () => {}, debug: () => {} },
+    logger: {
+      error: (err) => {
+        if (!(err instanceof CredentialsSignin)) console.error(err);
+      },
+      warn: () => {},
+      debug: () => {},
+    },
     providers: [
       Credentials({
         credentials: { email: { label: "Email", type: "email" }, password: { label: "Password", type: "password" } },
@@ -144,7 +150,8 @@ function cookiePairs(setCookie: string[]): string {
   return setCookie.map((c) => c.split(";")[0]).join("; ");
 }
 
-export type PasswordSignIn = { ok: true; headers: Headers; home: string } | { ok: false; reason: "credentials" | "too_many" | "access_off" };
+export type PasswordSignIn =
+  { ok: true; headers: Headers; home: string } | { ok: false; reason: "credentials" | "too_many" | "access_off" };
 
 /**
  * The /login form's action: runs the Credentials sign-in through Auth.js on the server, so the
@@ -160,7 +167,11 @@ export async function signInWithPassword(request: Request, address: string, emai
   const response = await Auth(
     new Request(`${origin}/auth/callback/credentials`, {
       method: "POST",
-      headers: { "content-type": "application/x-www-form-urlencoded", cookie: cookiePairs(csrfCookies), "user-agent": request.headers.get("user-agent") ?? "" },
+      headers: {
+        "content-type": "application/x-www-form-urlencoded",
+        cookie: cookiePairs(csrfCookies),
+        "user-agent": request.headers.get("user-agent") ?? "",
+      },
       body,
     }),
     config,

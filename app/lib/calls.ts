@@ -17,7 +17,13 @@ export const STATUS_LABEL: Record<CallStatus, string> = {
 };
 
 /** How a run's status reads in lists. */
-export const RUN_STATUS_LABEL: Record<RunStatus, string> = { active: "In progress", paused: "Paused", escalated: "With a lead", abandoned: "Abandoned", done: "Finished" };
+export const RUN_STATUS_LABEL: Record<RunStatus, string> = {
+  active: "In progress",
+  paused: "Paused",
+  escalated: "With a lead",
+  abandoned: "Abandoned",
+  done: "Finished",
+};
 
 export type OpenRunState = { status: RunStatus; heldByMe: boolean; holder: string };
 

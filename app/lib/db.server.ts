@@ -104,10 +104,7 @@ export async function closeDb(): Promise<void> {
 /** True when MariaDB answers a trivial query within the timeout. */
 export async function databaseIsUp(timeoutMs = 2000): Promise<boolean> {
   try {
-    await Promise.race([
-      pool().query("SELECT 1"),
-      new Promise((_, reject) => setTimeout(() => reject(new Error("timeout")), timeoutMs)),
-    ]);
+    await Promise.race([pool().query("SELECT 1"), new Promise((_, reject) => setTimeout(() => reject(new Error("timeout")), timeoutMs))]);
     return true;
   } catch {
     return false;

@@ -37,7 +37,16 @@ export function ratingLabel(key: string, treeTitle?: string | null): string {
 /** How far the wall clock in `timeZone` is ahead of UTC at that instant, in milliseconds. */
 function zoneOffset(at: number, timeZone: string): number {
   const parts: Record<string, number> = {};
-  const format = new Intl.DateTimeFormat("en-US", { timeZone, hourCycle: "h23", year: "numeric", month: "numeric", day: "numeric", hour: "numeric", minute: "numeric", second: "numeric" });
+  const format = new Intl.DateTimeFormat("en-US", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "numeric",
+    day: "numeric",
+    hour: "numeric",
+    minute: "numeric",
+    second: "numeric",
+  });
   for (const p of format.formatToParts(new Date(at))) if (p.type !== "literal") parts[p.type] = Number(p.value);
   const wall = Date.UTC(parts.year!, parts.month! - 1, parts.day!, parts.hour!, parts.minute!, parts.second!);
   return wall - Math.floor(at / 1000) * 1000;

@@ -78,7 +78,8 @@ export function parseEnv(source: Source = process.env): Env {
     });
     throw new ConfigError(`Cluepath's configuration is not valid:\n${lines.join("\n")}`);
   }
-  const secureCookies = parsed.data.SECURE_COOKIES !== undefined ? parsed.data.SECURE_COOKIES === "1" : parsed.data.NODE_ENV === "production";
+  const secureCookies =
+    parsed.data.SECURE_COOKIES !== undefined ? parsed.data.SECURE_COOKIES === "1" : parsed.data.NODE_ENV === "production";
   return { ...parsed.data, secureCookies };
 }
 

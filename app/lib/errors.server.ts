@@ -49,7 +49,10 @@ export function isDatabaseUnavailable(error: unknown): boolean {
 
 /** The 503 answer: `{ error, code }` as JSON, which the page error boundary shows in the user's words. */
 export function databaseUnavailable(): Response {
-  return Response.json({ error: DB_UNAVAILABLE_MESSAGE, code: DB_UNAVAILABLE }, { status: 503, headers: { "retry-after": "30", "cache-control": "no-store" } });
+  return Response.json(
+    { error: DB_UNAVAILABLE_MESSAGE, code: DB_UNAVAILABLE },
+    { status: 503, headers: { "retry-after": "30", "cache-control": "no-store" } },
+  );
 }
 
 /** Runs a loader or action; a database outage becomes the 503 answer (thrown, as React Router expects). */

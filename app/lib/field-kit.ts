@@ -23,7 +23,15 @@ export type KitCall = {
   procedures: KitProcedure[];
 };
 
-export type KitVersion = { id: string; treeId: string; number: number | null; title: string; tree: Tree; bodies: Record<string, MdBlock[]>; description: MdBlock[] };
+export type KitVersion = {
+  id: string;
+  treeId: string;
+  number: number | null;
+  title: string;
+  tree: Tree;
+  bodies: Record<string, MdBlock[]>;
+  description: MdBlock[];
+};
 
 export type FieldKit = {
   user: { id: string; name: string };

@@ -3,7 +3,10 @@ import { z } from "zod";
 
 /** A number typed into a form field; an empty field is "missing", not 0. */
 export function formNumber(message: string) {
-  return z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.coerce.number({ message }).refine(Number.isFinite, message));
+  return z.preprocess(
+    (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
+    z.coerce.number({ message }).refine(Number.isFinite, message),
+  );
 }
 
 /** An optional text field: empty becomes null. */

@@ -14,7 +14,18 @@ export function log(): Logger {
     timestamp: pino.stdTimeFunctions.isoTime,
     // Last line of defence if someone logs a header bag or a request by mistake.
     redact: {
-      paths: ["headers", "req.headers", "cookie", "*.cookie", "authorization", "*.authorization", "password", "*.password", "token", "*.token"],
+      paths: [
+        "headers",
+        "req.headers",
+        "cookie",
+        "*.cookie",
+        "authorization",
+        "*.authorization",
+        "password",
+        "*.password",
+        "token",
+        "*.token",
+      ],
       censor: "[hidden]",
     },
   }));
@@ -29,7 +40,12 @@ export function safeError(error: unknown): Record<string, unknown> {
   if (typeof e.code === "string" || typeof e.code === "number") out.code = e.code;
   if (typeof e.errno === "number") out.errno = e.errno;
   // Stack frames only: the first stack line repeats the message, which may hold values.
-  if (e.stack) out.stack = e.stack.split("\n").filter((l) => /^\s+at /.test(l)).slice(0, 12).join("\n");
+  if (e.stack)
+    out.stack = e.stack
+      .split("\n")
+      .filter((l) => /^\s+at /.test(l))
+      .slice(0, 12)
+      .join("\n");
   if (e.cause) out.cause = safeError(e.cause);
   return out;
 }

@@ -30,7 +30,12 @@ export async function sendMail(mail: OutgoingMail): Promise<{ messageId: string 
     text: mail.text,
     html: mail.html,
     headers: { "X-Cluepath-Shop": mail.shopId, ...(mail.reportId ? { "X-Cluepath-Report": mail.reportId } : {}) },
-    attachments: mail.attachments?.map((a) => ({ filename: a.filename, content: Buffer.from(a.content), contentType: a.contentType, cid: a.cid })),
+    attachments: mail.attachments?.map((a) => ({
+      filename: a.filename,
+      content: Buffer.from(a.content),
+      contentType: a.contentType,
+      cid: a.cid,
+    })),
   });
   return { messageId: String(info.messageId) };
 }

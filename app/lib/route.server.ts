@@ -105,7 +105,10 @@ function fieldPath(path: readonly PropertyKey[]): string {
  * other problem of shape `invalid` (400).
  */
 export async function readJson<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
-  const bytes = await readBody(request, MAX_JSON_BYTES, { tooLarge: `Send at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`, empty: "Send a JSON body." });
+  const bytes = await readBody(request, MAX_JSON_BYTES, {
+    tooLarge: `Send at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`,
+    empty: "Send a JSON body.",
+  });
   let raw: unknown;
   try {
     raw = JSON.parse(new TextDecoder().decode(bytes), (_key, value: unknown) => (typeof value === "string" ? wellFormed(value) : value));
@@ -130,7 +133,10 @@ export async function readJson<S extends z.ZodType>(request: Request, schema: S)
  * refusal of it (here, or later from a model) goes back to the form with the values; a field the
  * schema refuses is an `invalid` refusal (400) with its message beside the field.
  */
-export async function readForm<S extends z.ZodType>(request: Request, schema: S | ((values: Record<string, string>) => S)): Promise<z.infer<S>> {
+export async function readForm<S extends z.ZodType>(
+  request: Request,
+  schema: S | ((values: Record<string, string>) => S),
+): Promise<z.infer<S>> {
   const values = formStrings(await request.formData());
   // Passwords are never sent back to the page: the person types them again.
   typed.set(request, Object.fromEntries(Object.entries(values).filter(([k]) => !/password/i.test(k))));

@@ -159,7 +159,9 @@ export function entryOf(s: Pick<StepView, "type" | "node" | "answer" | "typed" |
     case "answer":
       return { type: "answer", node, answer: s.answer ?? "" };
     case "reading": {
-      const e: Extract<LogEntry, { type: "reading" }> = s.meter ? { type: "reading", node, reading: s.typed ?? "", meter: s.meter } : { type: "reading", node, reading: s.typed ?? "" };
+      const e: Extract<LogEntry, { type: "reading" }> = s.meter
+        ? { type: "reading", node, reading: s.typed ?? "", meter: s.meter }
+        : { type: "reading", node, reading: s.typed ?? "" };
       // The confirmation goes with the reading it was given for (a practice log replays as new entries).
       if (s.confirmed) e.confirmed = true;
       // A practice reading carries the trainee's call (app/engine/training/practice.ts).

@@ -40,7 +40,12 @@ async function failuresSince(where: ReturnType<typeof and>, since: Date): Promis
   return row?.n ?? 0;
 }
 
-export async function signInAllowed(emailRaw: string, address: string, now = new Date(), purpose: AttemptPurpose = "sign-in"): Promise<boolean> {
+export async function signInAllowed(
+  emailRaw: string,
+  address: string,
+  now = new Date(),
+  purpose: AttemptPurpose = "sign-in",
+): Promise<boolean> {
   const email = normaliseEmail(emailRaw);
   const limits = LIMITS[purpose];
   const windowStart = new Date(now.getTime() - limits.windowMinutes * 60_000);
@@ -50,20 +55,34 @@ export async function signInAllowed(emailRaw: string, address: string, now = new
     .from(signInAttempts)
     .where(and(eq(signInAttempts.email, email), eq(signInAttempts.address, address), eq(signInAttempts.succeeded, true), ofPurpose));
   const pairSince = lastPairSuccess?.at && lastPairSuccess.at > windowStart ? lastPairSuccess.at : windowStart;
-  if ((await failuresSince(and(eq(signInAttempts.email, email), eq(signInAttempts.address, address), ofPurpose), pairSince)) >= limits.perPair)
+  if (
+    (await failuresSince(and(eq(signInAttempts.email, email), eq(signInAttempts.address, address), ofPurpose), pairSince)) >= limits.perPair
+  )
     return false;
   if ((await failuresSince(and(eq(signInAttempts.address, address), ofPurpose), windowStart)) >= limits.perAddress) return false;
   const knownSince = new Date(now.getTime() - limits.knownAddressDays * 86_400_000);
   const known = lastPairSuccess?.at !== null && lastPairSuccess?.at !== undefined && lastPairSuccess.at > knownSince;
   if (!known) {
-    const fromOthers = await failuresSince(and(eq(signInAttempts.email, email), ne(signInAttempts.address, address), ofPurpose), windowStart);
+    const fromOthers = await failuresSince(
+      and(eq(signInAttempts.email, email), ne(signInAttempts.address, address), ofPurpose),
+      windowStart,
+    );
     if (fromOthers >= limits.perAccount) return false;
   }
   return true;
 }
 
-export async function recordSignInAttempt(emailRaw: string, address: string, succeeded: boolean, at = new Date(), purpose: AttemptPurpose = "sign-in", tx: Tx | Db = db()) {
-  await tx.insert(signInAttempts).values({ email: normaliseEmail(emailRaw).slice(0, 254), address: address.slice(0, 64), succeeded, at, purpose });
+export async function recordSignInAttempt(
+  emailRaw: string,
+  address: string,
+  succeeded: boolean,
+  at = new Date(),
+  purpose: AttemptPurpose = "sign-in",
+  tx: Tx | Db = db(),
+) {
+  await tx
+    .insert(signInAttempts)
+    .values({ email: normaliseEmail(emailRaw).slice(0, 254), address: address.slice(0, 64), succeeded, at, purpose });
 }
 
 export type SignInResult =
@@ -88,13 +107,21 @@ export async function signIn(emailRaw: string, password: string, address: string
   }
   const [user] = await db().select().from(users).where(eq(users.email, email)).limit(1);
   const ok = user ? await verifyPassword(user.passwordHash, password) : (await burnVerify(password), false);
-  const [membership] = user && ok
-    ? await db().select().from(memberships).where(and(eq(memberships.userId, user.id), isNull(memberships.deactivatedAt))).orderBy(memberships.createdAt).limit(1)
-    : [];
+  const [membership] =
+    user && ok
+      ? await db()
+          .select()
+          .from(memberships)
+          .where(and(eq(memberships.userId, user.id), isNull(memberships.deactivatedAt)))
+          .orderBy(memberships.createdAt)
+          .limit(1)
+      : [];
   if (!user || !ok || !membership) {
     // Audited in the same transaction as the attempt: in every shop of the account typed, or in
     // no shop when nobody has that e-mail (docs/decisions/0244).
-    const shopIds = user ? (await db().select({ shopId: memberships.shopId }).from(memberships).where(eq(memberships.userId, user.id))).map((m) => m.shopId) : [];
+    const shopIds = user
+      ? (await db().select({ shopId: memberships.shopId }).from(memberships).where(eq(memberships.userId, user.id))).map((m) => m.shopId)
+      : [];
     const kind = user && ok ? "access-off" : "bad-credentials";
     await writeTx(async (tx) => {
       await recordSignInAttempt(email, address, false, new Date(), "sign-in", tx);
@@ -119,7 +146,16 @@ export async function signIn(emailRaw: string, password: string, address: string
     await recordSignInAttempt(email, address, true, new Date(), "sign-in", tx);
     const id = await openSession(user.id, membership.shopId, user.sessionVersion, { address, userAgent }, tx);
     await recordAudit(
-      { shopId: membership.shopId, actorId: user.id, actorEmail: user.email, address, action: "sign-in.succeeded", subjectType: "user", subjectId: user.id, summary: `${user.email} signed in` },
+      {
+        shopId: membership.shopId,
+        actorId: user.id,
+        actorEmail: user.email,
+        address,
+        action: "sign-in.succeeded",
+        subjectType: "user",
+        subjectId: user.id,
+        summary: `${user.email} signed in`,
+      },
       tx,
     );
     return id;
@@ -128,7 +164,13 @@ export async function signIn(emailRaw: string, password: string, address: string
 }
 
 /** Opens a session row (inside the caller's transaction when one is given) and returns its id. */
-export async function openSession(userId: string, shopId: string, sessionVersion: number, origin: SessionOrigin = {}, executor: Db | Tx = db()): Promise<string> {
+export async function openSession(
+  userId: string,
+  shopId: string,
+  sessionVersion: number,
+  origin: SessionOrigin = {},
+  executor: Db | Tx = db(),
+): Promise<string> {
   const id = Buffer.from(crypto.getRandomValues(new Uint8Array(32))).toString("base64url");
   const now = new Date();
   await executor.insert(sessions).values({
@@ -178,7 +220,10 @@ const sessionQuery = prepared((db) =>
     })
     .from(sessions)
     .innerJoin(users, eq(users.id, sessions.userId))
-    .innerJoin(memberships, and(eq(memberships.userId, sessions.userId), eq(memberships.shopId, sessions.shopId), isNull(memberships.deactivatedAt)))
+    .innerJoin(
+      memberships,
+      and(eq(memberships.userId, sessions.userId), eq(memberships.shopId, sessions.shopId), isNull(memberships.deactivatedAt)),
+    )
     .innerJoin(shops, eq(shops.id, sessions.shopId))
     .where(and(eq(sessions.id, sql.placeholder("sessionId")), isNull(sessions.revokedAt)))
     .limit(1)
@@ -202,7 +247,10 @@ export async function loadSession(sessionId: string, now = new Date()): Promise<
 }
 
 export async function revokeSession(sessionId: string): Promise<void> {
-  await db().update(sessions).set({ revokedAt: new Date() }).where(and(eq(sessions.id, sessionId), isNull(sessions.revokedAt)));
+  await db()
+    .update(sessions)
+    .set({ revokedAt: new Date() })
+    .where(and(eq(sessions.id, sessionId), isNull(sessions.revokedAt)));
 }
 
 /**

@@ -34,7 +34,8 @@ export async function checkImage(bytes: Uint8Array): Promise<{ mime: string; ext
   const ext = type ? IMAGE_TYPES[type.mime] : undefined;
   // file-type takes any "GIF" prefix for a GIF; the format's signature is GIF87a or GIF89a.
   const badGif = type?.mime === "image/gif" && !/^GIF8[79]a$/.test(new TextDecoder().decode(bytes.subarray(0, 6)));
-  if (!type || !ext || badGif) throw new Refusal("wrong-type", "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF).");
+  if (!type || !ext || badGif)
+    throw new Refusal("wrong-type", "That file is not a photo Cluepath accepts (JPEG, PNG, WebP, GIF, HEIC or AVIF).");
   return { mime: type.mime, ext };
 }
 

@@ -52,7 +52,8 @@ export interface PracticeView {
 /** The world as the trainee may see it: observations, meter values and labels, no answers. */
 export function worldForTrainee(world: World): PracticeView["world"] {
   const out: PracticeView["world"] = {};
-  for (const [node, s] of Object.entries(world)) out[node] = s.kind === "question" ? { observation: s.observation } : s.kind === "measurement" ? { shows: s.shows } : { label: s.label };
+  for (const [node, s] of Object.entries(world))
+    out[node] = s.kind === "question" ? { observation: s.observation } : s.kind === "measurement" ? { shows: s.shows } : { label: s.label };
   return out;
 }
 
@@ -69,7 +70,11 @@ export function duration(ms: number | null | undefined): string {
 export type AssignmentState = "to do" | "in progress" | "abandoned" | "finished" | "reviewed" | "withdrawn";
 
 /** Where an assignment stands, from its run and review. */
-export function assignmentState(a: { withdrawnAt: Date | string | null; runStatus: string | null; reviewedAt: Date | string | null }): AssignmentState {
+export function assignmentState(a: {
+  withdrawnAt: Date | string | null;
+  runStatus: string | null;
+  reviewedAt: Date | string | null;
+}): AssignmentState {
   if (a.withdrawnAt) return "withdrawn";
   if (a.reviewedAt) return "reviewed";
   if (!a.runStatus) return "to do";

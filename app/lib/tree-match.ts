@@ -12,7 +12,10 @@ import type { EquipmentCategory } from "../engine/types";
  */
 export const KIND_GROUPS: readonly { name: string; words: Readonly<Record<string, string>> }[] = [
   { name: "heat source", words: { gas: "gas", lp: "gas", propane: "gas", natural: "gas", electric: "electric" } },
-  { name: "build", words: { convection: "convection", deck: "deck", conveyor: "conveyor", combi: "combi", combination: "combi", rack: "rack" } },
+  {
+    name: "build",
+    words: { convection: "convection", deck: "deck", conveyor: "conveyor", combi: "combi", combination: "combi", rack: "rack" },
+  },
 ];
 
 /** The kinds a text names, by group ("EO-6 electric deck oven" → heat source: electric, build: deck). */

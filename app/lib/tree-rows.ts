@@ -4,8 +4,22 @@ import { nodeBranches } from "../engine/graph";
 import type { Branch, Tree, TreeNode } from "../engine/types";
 
 export type VersionFields = Pick<Tree, "title" | "category" | "symptom" | "equipment" | "description" | "start">;
-export type NodeRow = { nodeKey: string; position: number; kind: TreeNode["kind"]; title: string; body: string | null; data: Record<string, unknown> };
-export type BranchRow = { fromKey: string; branchKey: string; position: number; toKey: string; recheckMax: number | null; recheckOnExceed: string | null };
+export type NodeRow = {
+  nodeKey: string;
+  position: number;
+  kind: TreeNode["kind"];
+  title: string;
+  body: string | null;
+  data: Record<string, unknown>;
+};
+export type BranchRow = {
+  fromKey: string;
+  branchKey: string;
+  position: number;
+  toKey: string;
+  recheckMax: number | null;
+  recheckOnExceed: string | null;
+};
 
 export function treeToRows(tree: Tree): { version: VersionFields; nodes: NodeRow[]; branches: BranchRow[] } {
   const nodes: NodeRow[] = [];

@@ -36,7 +36,11 @@ export async function readBody(request: Request, limit: number, messages: { tooL
 
 /** The multipart form of an upload, read up to the cap; a Refusal (413, or 400) otherwise. */
 export async function readUploadForm(request: Request, limits: UploadLimits = {}): Promise<FormData> {
-  const { maxBytes = MAX_IMAGE_BYTES, tooLarge = TOO_LARGE_PHOTO, malformed = "Send the photo as a multipart form with a file field named “photo”." } = limits;
+  const {
+    maxBytes = MAX_IMAGE_BYTES,
+    tooLarge = TOO_LARGE_PHOTO,
+    malformed = "Send the photo as a multipart form with a file field named “photo”.",
+  } = limits;
   const body = await readBody(request, maxBytes + ENVELOPE, { tooLarge, empty: limits.malformed ?? "The upload was empty." });
   try {
     return await new Response(body as BodyInit, { headers: { "content-type": request.headers.get("content-type") ?? "" } }).formData();

@@ -4,7 +4,18 @@
 import { and, eq, max, sql, type Column, type GetColumnData, type SQL } from "drizzle-orm";
 import type { MySqlSelect } from "drizzle-orm/mysql-core";
 import type { ResultSetHeader } from "mysql2";
-import { customers, equipmentUnits, reports, runs, serviceCalls, shopCounters, sites, trees, treeVersions, type Counter } from "../../db/schema";
+import {
+  customers,
+  equipmentUnits,
+  reports,
+  runs,
+  serviceCalls,
+  shopCounters,
+  sites,
+  trees,
+  treeVersions,
+  type Counter,
+} from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import type { RunView } from "../lib/run-log";
 import { db, type Tx } from "../lib/db.server";
@@ -100,7 +111,10 @@ const NUMBERED = { call: serviceCalls, report: reports } as const;
  */
 export async function nextNumber(tx: Tx, shopId: string, counter: Counter): Promise<number> {
   const table = NUMBERED[counter];
-  const [top] = await tx.select({ n: max(table.number) }).from(table).where(eq(table.shopId, shopId));
+  const [top] = await tx
+    .select({ n: max(table.number) })
+    .from(table)
+    .where(eq(table.shopId, shopId));
   const floor = Math.max(FIRST[counter], (top?.n ?? 0) + 1);
   const c = shopCounters;
   const [head] = (await tx.execute(

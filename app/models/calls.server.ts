@@ -26,7 +26,6 @@ import { searchUnits } from "./equipment.server";
 import { recordNewCall } from "./insights/_facts.server";
 import { listPublished, type PublishedTreeSummary } from "./trees/library.server";
 
-
 export const callInput = z.object({
   unitId: z.string().uuid("Choose the unit the call is about."),
   symptom: z.string().trim().min(3, "Say what the customer reported, in a few words.").max(300, "Keep it under 300 characters."),
@@ -63,10 +62,9 @@ function callColumns() {
 }
 
 function callsQuery() {
-  return withPlace(db().select(callColumns()).from(serviceCalls).innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId)).$dynamic()).leftJoin(
-    assignee,
-    eq(assignee.id, serviceCalls.assignedTo),
-  );
+  return withPlace(
+    db().select(callColumns()).from(serviceCalls).innerJoin(equipmentUnits, eq(equipmentUnits.id, serviceCalls.unitId)).$dynamic(),
+  ).leftJoin(assignee, eq(assignee.id, serviceCalls.assignedTo));
 }
 
 const PRIORITY_ORDER = sql`FIELD(${serviceCalls.priority}, 'urgent', 'high', 'normal', 'low')`;
@@ -89,7 +87,11 @@ export async function listCalls(ctx: Ctx, filter: CallFilter = {}) {
     .where(
       and(
         eq(serviceCalls.shopId, ctx.shopId),
-        filter.status === "active" ? inArray(serviceCalls.status, ACTIVE) : filter.status ? eq(serviceCalls.status, filter.status) : undefined,
+        filter.status === "active"
+          ? inArray(serviceCalls.status, ACTIVE)
+          : filter.status
+            ? eq(serviceCalls.status, filter.status)
+            : undefined,
         filter.priority ? eq(serviceCalls.priority, filter.priority) : undefined,
         filter.assigned === "me"
           ? eq(serviceCalls.assignedTo, ctx.userId)
@@ -126,7 +128,16 @@ export async function myCalls(ctx: Ctx) {
         .select({ id: runs.id, callId: runs.callId, status: runs.status, holderId: runs.technicianId, holder: holder.name })
         .from(runs)
         .innerJoin(holder, eq(holder.id, runs.technicianId))
-        .where(and(eq(runs.shopId, ctx.shopId), inArray(runs.callId, calls.map((c) => c.id)), inArray(runs.status, ["active", "paused", "escalated"])))
+        .where(
+          and(
+            eq(runs.shopId, ctx.shopId),
+            inArray(
+              runs.callId,
+              calls.map((c) => c.id),
+            ),
+            inArray(runs.status, ["active", "paused", "escalated"]),
+          ),
+        )
     : [];
   return calls.map((c) => {
     const run = open.find((r) => r.callId === c.id);
@@ -196,7 +207,8 @@ async function checkRefs(ctx: Ctx, input: CallInput): Promise<void> {
     .where(and(eq(equipmentUnits.id, input.unitId), eq(equipmentUnits.shopId, ctx.shopId)))
     .limit(1);
   if (!unit) throw fieldRefusal("unitId", "Choose one of your shop's units.");
-  if (input.assignedTo && !(await assignablePeople(ctx)).some((p) => p.id === input.assignedTo)) throw fieldRefusal("assignedTo", "Choose a technician or lead of your shop.");
+  if (input.assignedTo && !(await assignablePeople(ctx)).some((p) => p.id === input.assignedTo))
+    throw fieldRefusal("assignedTo", "Choose a technician or lead of your shop.");
 }
 
 /** Opens a call with the shop's next number. */
@@ -207,7 +219,9 @@ export async function createCall(ctx: Ctx, input: CallInput): Promise<{ id: stri
   const now = new Date();
   return writeTx(async (tx) => {
     const number = await nextNumber(tx, ctx.shopId, "call");
-    await tx.insert(serviceCalls).values({ id, shopId: ctx.shopId, number, ...input, status: "open", openedBy: ctx.userId, openedAt: now, updatedAt: now });
+    await tx
+      .insert(serviceCalls)
+      .values({ id, shopId: ctx.shopId, number, ...input, status: "open", openedBy: ctx.userId, openedAt: now, updatedAt: now });
     await recordNewCall(tx, ctx.shopId, input.unitId, now);
     return { id, number };
   });

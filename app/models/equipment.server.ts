@@ -1,7 +1,16 @@
 // Customers, their sites and the equipment units at them. Always scoped to the caller's shop.
 import { and, asc, count, desc, eq, or, sql } from "drizzle-orm";
 import { z } from "zod";
-import { customers, EQUIPMENT_CATEGORIES, equipmentUnits, memberships, sites, treeNodes, treeVersions, type EquipmentCategory } from "../../db/schema";
+import {
+  customers,
+  EQUIPMENT_CATEGORIES,
+  equipmentUnits,
+  memberships,
+  sites,
+  treeNodes,
+  treeVersions,
+  type EquipmentCategory,
+} from "../../db/schema";
 import type { Ctx } from "../lib/context";
 import { db } from "../lib/db.server";
 import { ratingLabel } from "../lib/display";
@@ -11,12 +20,20 @@ import { notFound } from "../lib/refusal";
 import { unitWithPlace, withPlace } from "./_query.server";
 
 async function customerRow(ctx: Ctx, id: string) {
-  const [row] = await db().select().from(customers).where(and(eq(customers.id, id), eq(customers.shopId, ctx.shopId))).limit(1);
+  const [row] = await db()
+    .select()
+    .from(customers)
+    .where(and(eq(customers.id, id), eq(customers.shopId, ctx.shopId)))
+    .limit(1);
   return row ?? notFound("That customer");
 }
 
 async function siteRow(ctx: Ctx, id: string) {
-  const [row] = await db().select().from(sites).where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId))).limit(1);
+  const [row] = await db()
+    .select()
+    .from(sites)
+    .where(and(eq(sites.id, id), eq(sites.shopId, ctx.shopId)))
+    .limit(1);
   return row ?? notFound("That site");
 }
 
@@ -41,7 +58,10 @@ export async function getUnit(ctx: Ctx, id: string) {
  * published trees for the unit's category give the nameplate step that records that variable
  * (newest version first), or else the key in words ("fanCapacitor" → "Fan capacitor").
  */
-export async function unitRatings(ctx: Ctx, unit: { category: EquipmentCategory; nameplate: Record<string, { value: number; unit: string }> }) {
+export async function unitRatings(
+  ctx: Ctx,
+  unit: { category: EquipmentCategory; nameplate: Record<string, { value: number; unit: string }> },
+) {
   authorize(ctx, "equipment.view");
   const keys = Object.keys(unit.nameplate);
   const steps = keys.length
@@ -49,12 +69,24 @@ export async function unitRatings(ctx: Ctx, unit: { category: EquipmentCategory;
         .select({ title: treeNodes.title, data: treeNodes.data })
         .from(treeNodes)
         .innerJoin(treeVersions, eq(treeVersions.id, treeNodes.versionId))
-        .where(and(eq(treeVersions.shopId, ctx.shopId), eq(treeVersions.state, "published"), eq(treeVersions.category, unit.category), eq(treeNodes.kind, "nameplate")))
+        .where(
+          and(
+            eq(treeVersions.shopId, ctx.shopId),
+            eq(treeVersions.state, "published"),
+            eq(treeVersions.category, unit.category),
+            eq(treeNodes.kind, "nameplate"),
+          ),
+        )
         .orderBy(desc(treeVersions.number))
     : [];
   const titles = new Map<string, string>();
   for (const s of steps) if (typeof s.data.variable === "string" && !titles.has(s.data.variable)) titles.set(s.data.variable, s.title);
-  return keys.map((key) => ({ key, label: ratingLabel(key, titles.get(key)), value: unit.nameplate[key]!.value, unit: unit.nameplate[key]!.unit }));
+  return keys.map((key) => ({
+    key,
+    label: ratingLabel(key, titles.get(key)),
+    value: unit.nameplate[key]!.value,
+    unit: unit.nameplate[key]!.unit,
+  }));
 }
 
 export async function listUnits(ctx: Ctx) {
@@ -68,7 +100,12 @@ export async function shopCounts(ctx: Ctx) {
     const [row] = await db().select({ n: count() }).from(table).where(eq(table.shopId, ctx.shopId));
     return row?.n ?? 0;
   };
-  const [people, customerCount, siteCount, unitCount] = await Promise.all([one(memberships), one(customers), one(sites), one(equipmentUnits)]);
+  const [people, customerCount, siteCount, unitCount] = await Promise.all([
+    one(memberships),
+    one(customers),
+    one(sites),
+    one(equipmentUnits),
+  ]);
   return { people, customers: customerCount, sites: siteCount, units: unitCount };
 }
 

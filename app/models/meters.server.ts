@@ -22,14 +22,21 @@ export const meterInput = z
     rangeMax: positive("top of the range"),
     resolution: positive("resolution"),
     percent: formNumber("Enter the % of reading as a number.").pipe(z.number().min(0, "Can't be negative.").max(100, "At most 100 %.")),
-    counts: formNumber("Enter the counts as a whole number.").pipe(z.number().int("Counts are a whole number.").min(0, "Can't be negative.").max(10000, "At most 10000 counts.")),
+    counts: formNumber("Enter the counts as a whole number.").pipe(
+      z.number().int("Counts are a whole number.").min(0, "Can't be negative.").max(10000, "At most 10000 counts."),
+    ),
   })
   .superRefine((m, ctx) => {
     if (unitQuantity(m.unit, m.quantity) !== m.quantity) {
       const offered = QUANTITY_INFO[m.quantity].units.join(", ");
-      ctx.addIssue({ code: "custom", path: ["unit"], message: `“${m.unit}” isn't a unit of ${QUANTITY_INFO[m.quantity].noun}; try ${offered}.` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["unit"],
+        message: `“${m.unit}” isn't a unit of ${QUANTITY_INFO[m.quantity].noun}; try ${offered}.`,
+      });
     }
-    if (m.resolution > m.rangeMax) ctx.addIssue({ code: "custom", path: ["resolution"], message: "The resolution can't be coarser than the range." });
+    if (m.resolution > m.rangeMax)
+      ctx.addIssue({ code: "custom", path: ["resolution"], message: "The resolution can't be coarser than the range." });
   });
 export type MeterInput = z.infer<typeof meterInput>;
 

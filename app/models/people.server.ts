@@ -17,7 +17,14 @@ export const INVITATION_DAYS = 7;
 export async function listMembers(ctx: Ctx) {
   authorize(ctx, "people.manage");
   return db()
-    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, since: memberships.createdAt, deactivatedAt: memberships.deactivatedAt })
+    .select({
+      userId: users.id,
+      name: users.name,
+      email: users.email,
+      role: memberships.role,
+      since: memberships.createdAt,
+      deactivatedAt: memberships.deactivatedAt,
+    })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(eq(memberships.shopId, ctx.shopId))
@@ -29,7 +36,14 @@ export async function listOpenInvitations(ctx: Ctx, now = new Date()) {
   return db()
     .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt })
     .from(invitations)
-    .where(and(eq(invitations.shopId, ctx.shopId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
+    .where(
+      and(
+        eq(invitations.shopId, ctx.shopId),
+        isNull(invitations.acceptedAt),
+        isNull(invitations.revokedAt),
+        gt(invitations.expiresAt, now),
+      ),
+    )
     .orderBy(asc(invitations.createdAt));
 }
 
@@ -49,7 +63,17 @@ export async function invite(ctx: Ctx, emailRaw: string, role: Role): Promise<{ 
       invitedBy: ctx.userId,
       expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000),
     });
-    await recordAudit({ ...byCaller(ctx), action: "invitation.sent", subjectType: "invitation", subjectId: id, summary: `Invited ${email} as ${ROLE_LABEL[role]}`, details: { email, role } }, tx);
+    await recordAudit(
+      {
+        ...byCaller(ctx),
+        action: "invitation.sent",
+        subjectType: "invitation",
+        subjectId: id,
+        summary: `Invited ${email} as ${ROLE_LABEL[role]}`,
+        details: { email, role },
+      },
+      tx,
+    );
   });
   return { id, token };
 }
@@ -90,7 +114,17 @@ export async function revokeInvitation(ctx: Ctx, id: string): Promise<void> {
       .for("update");
     if (!inv) notFound("That invitation");
     await tx.update(invitations).set({ revokedAt: new Date() }).where(eq(invitations.id, id));
-    await recordAudit({ ...byCaller(ctx), action: "invitation.withdrawn", subjectType: "invitation", subjectId: id, summary: `Withdrew the invitation of ${inv.email}`, details: { email: inv.email, role: inv.role } }, tx);
+    await recordAudit(
+      {
+        ...byCaller(ctx),
+        action: "invitation.withdrawn",
+        subjectType: "invitation",
+        subjectId: id,
+        summary: `Withdrew the invitation of ${inv.email}`,
+        details: { email: inv.email, role: inv.role },
+      },
+      tx,
+    );
   });
 }
 
@@ -102,7 +136,14 @@ export async function findInvitation(token: string, now = new Date()): Promise<O
     .select({ id: invitations.id, email: invitations.email, role: invitations.role, shopId: shops.id, shopName: shops.name })
     .from(invitations)
     .innerJoin(shops, eq(shops.id, invitations.shopId))
-    .where(and(eq(invitations.tokenHash, tokenHash(token)), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, now)))
+    .where(
+      and(
+        eq(invitations.tokenHash, tokenHash(token)),
+        isNull(invitations.acceptedAt),
+        isNull(invitations.revokedAt),
+        gt(invitations.expiresAt, now),
+      ),
+    )
     .limit(1);
   if (!row) return null;
   const [user] = await db().select({ id: users.id }).from(users).where(eq(users.email, row.email)).limit(1);
@@ -135,14 +176,25 @@ export async function acceptInvitation(
     let userId: string;
     let sessionVersion = 1;
     if (existing) {
-      if (!(await verifyPassword(existing.passwordHash, input.password))) throw fieldRefusal("password", "That password doesn't match your existing account.");
+      if (!(await verifyPassword(existing.passwordHash, input.password)))
+        throw fieldRefusal("password", "That password doesn't match your existing account.");
       userId = existing.id;
       sessionVersion = existing.sessionVersion;
     } else {
       userId = crypto.randomUUID();
-      await tx.insert(users).values({ id: userId, email: inv.email, name: input.name?.trim() || inv.email, passwordHash: await hashPassword(input.password), sessionVersion });
+      await tx.insert(users).values({
+        id: userId,
+        email: inv.email,
+        name: input.name?.trim() || inv.email,
+        passwordHash: await hashPassword(input.password),
+        sessionVersion,
+      });
     }
-    const [member] = await tx.select().from(memberships).where(and(eq(memberships.shopId, inv.shopId), eq(memberships.userId, userId))).limit(1);
+    const [member] = await tx
+      .select()
+      .from(memberships)
+      .where(and(eq(memberships.shopId, inv.shopId), eq(memberships.userId, userId)))
+      .limit(1);
     if (member && member.role === "owner" && inv.role !== "owner") {
       // An invitation never demotes the shop's last owner (members.server.ts keeps the same rule).
       const owners = await tx
@@ -150,7 +202,12 @@ export async function acceptInvitation(
         .from(memberships)
         .where(and(eq(memberships.shopId, inv.shopId), eq(memberships.role, "owner"), isNull(memberships.deactivatedAt)))
         .for("update");
-      if (owners.length <= 1) throw new Refusal("conflict", "You are this shop's only owner; this invitation would take that away. Ask for an owner's invitation instead.", { code: "last-owner" });
+      if (owners.length <= 1)
+        throw new Refusal(
+          "conflict",
+          "You are this shop's only owner; this invitation would take that away. Ask for an owner's invitation instead.",
+          { code: "last-owner" },
+        );
     }
     if (member) await tx.update(memberships).set({ role: inv.role, deactivatedAt: null }).where(eq(memberships.id, member.id));
     else await tx.insert(memberships).values({ shopId: inv.shopId, userId, role: inv.role });

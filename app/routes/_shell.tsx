@@ -11,7 +11,10 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 const sideLink = ({ isActive }: { isActive: boolean }) =>
-  ["flex min-h-12 items-center rounded-lg px-3 text-base font-semibold no-underline", isActive ? "bg-copper-soft text-copper-dark" : "text-ink hover:bg-paper"].join(" ");
+  [
+    "flex min-h-12 items-center rounded-lg px-3 text-base font-semibold no-underline",
+    isActive ? "bg-copper-soft text-copper-dark" : "text-ink hover:bg-paper",
+  ].join(" ");
 
 const tabLook = (active: boolean) =>
   [
@@ -76,7 +79,10 @@ function MoreMenu({ items }: { items: NavItem[] }) {
           {here && <span className="sr-only"> (more pages)</span>}
         </span>
       </summary>
-      <NavList items={items} className="absolute right-0 bottom-full mb-2 max-h-[70dvh] w-60 overflow-y-auto rounded-xl border border-rule bg-card p-2 shadow-lg" />
+      <NavList
+        items={items}
+        className="absolute right-0 bottom-full mb-2 max-h-[70dvh] w-60 overflow-y-auto rounded-xl border border-rule bg-card p-2 shadow-lg"
+      />
     </details>
   );
 }
@@ -88,7 +94,10 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
   const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <div className="min-h-dvh pb-20 md:grid md:grid-cols-[14rem_1fr] md:grid-rows-[auto_1fr] md:pb-0">
-      <a href="#main" className="sr-only z-30 rounded-lg border-2 border-focus bg-card px-4 font-semibold focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:flex focus:min-h-12 focus:items-center">
+      <a
+        href="#main"
+        className="sr-only z-30 rounded-lg border-2 border-focus bg-card px-4 font-semibold focus:not-sr-only focus:fixed focus:top-2 focus:left-2 focus:flex focus:min-h-12 focus:items-center"
+      >
         Skip to the page's content
       </a>
       <header className="flex items-center justify-between gap-3 border-b border-rule bg-card px-4 py-2 md:col-span-2">
@@ -112,7 +121,10 @@ export default function Shell({ loaderData }: Route.ComponentProps) {
           </Form>
         </div>
       </header>
-      <nav aria-label="Main" className="fixed inset-x-0 bottom-0 z-10 border-t border-rule bg-card px-2 py-1 md:static md:border-t-0 md:border-r md:px-3 md:py-4">
+      <nav
+        aria-label="Main"
+        className="fixed inset-x-0 bottom-0 z-10 border-t border-rule bg-card px-2 py-1 md:static md:border-t-0 md:border-r md:px-3 md:py-4"
+      >
         {/* Phone: a bar of tabs that always fits, the rest behind "More". */}
         <ul className="grid auto-cols-fr grid-flow-col gap-1 md:hidden">
           {tabs.map((item) => (

@@ -9,5 +9,8 @@ export const action = api(async ({ request, params, context }: Route.ActionArgs)
   requireMethod(request, "POST");
   requireSameOrigin(request);
   const { ctx } = await requireUser(request);
-  return Response.json({ ok: true, ...(await changeRunStatus(fromClient(ctx, context), params.runId, await readJson(request, statusInput))) });
+  return Response.json({
+    ok: true,
+    ...(await changeRunStatus(fromClient(ctx, context), params.runId, await readJson(request, statusInput))),
+  });
 });

@@ -12,6 +12,12 @@ export const action = api(async ({ request }: Route.ActionArgs) => {
   requireSameOrigin(request);
   const { ctx } = await requireUser(request, "runs.start");
   const p = await readJson(request, startPayload);
-  const result = await startRun(ctx, { runId: p.id, treeId: p.treeId, versionId: p.versionId, callId: p.callId ?? undefined, startedAt: p.at ? new Date(p.at) : undefined });
+  const result = await startRun(ctx, {
+    runId: p.id,
+    treeId: p.treeId,
+    versionId: p.versionId,
+    callId: p.callId ?? undefined,
+    startedAt: p.at ? new Date(p.at) : undefined,
+  });
   return Response.json({ ok: true, ...result }, { status: result.replayed ? 200 : 201 });
 });

@@ -24,6 +24,9 @@ export const action = api(async ({ request, params }: Route.ActionArgs) => {
   const { ctx } = await requireUser(request);
   const treeId = treeIdOf(params);
   const body = await readJson(request, Save);
-  const saved = await replaceDraftContent(ctx, idOf(body.versionId, "That draft"), body.tree as Tree, body.revision, { layout: body.layout, treeId });
+  const saved = await replaceDraftContent(ctx, idOf(body.versionId, "That draft"), body.tree as Tree, body.revision, {
+    layout: body.layout,
+    treeId,
+  });
   return Response.json(saved);
 });

@@ -10,7 +10,15 @@ export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const found = await getTree(ctx, treeIdOf(params));
   return Response.json(
-    { id: found.tree.id, title: found.tree.title, category: found.tree.category, symptom: found.tree.symptom, current: found.current, draft: found.draft, versions: found.versions },
+    {
+      id: found.tree.id,
+      title: found.tree.title,
+      category: found.tree.category,
+      symptom: found.tree.symptom,
+      current: found.current,
+      draft: found.draft,
+      versions: found.versions,
+    },
     { headers: { "cache-control": "private, no-store" } },
   );
 });

@@ -9,5 +9,8 @@ import type { Route } from "./+types/api.trees.$treeId.validation";
 export const loader = api(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const v = await validateDraft(ctx, treeIdOf(params));
-  return Response.json({ revision: v.revision, sameAs: v.sameAs, findings: v.findings, errors: v.errors, warnings: v.warnings }, { headers: { "cache-control": "private, no-store" } });
+  return Response.json(
+    { revision: v.revision, sameAs: v.sameAs, findings: v.findings, errors: v.errors, warnings: v.warnings },
+    { headers: { "cache-control": "private, no-store" } },
+  );
 });

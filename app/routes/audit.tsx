@@ -19,7 +19,10 @@ export const handle = { wide: true };
 
 const PAGE = 50;
 const ACTIONS = Object.keys(AUDIT_LABEL) as (keyof typeof AUDIT_LABEL)[];
-const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).refine((d) => !Number.isNaN(Date.parse(d)));
+const day = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/)
+  .refine((d) => !Number.isNaN(Date.parse(d)));
 
 // Filters come from the address: anything unreadable is simply not applied.
 const filters = z.object({
@@ -37,7 +40,14 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   // "To" includes the whole day: up to the start of the next one.
   const to = f.to ? dayStartsAt(new Date(Date.parse(f.to) + 86_400_000).toISOString().slice(0, 10), tz) : undefined;
   const [trail, members] = await Promise.all([
-    listAudit(ctx, { action: f.action, actorId: f.person, from: f.from ? dayStartsAt(f.from, tz) : undefined, to, before: f.before, limit: PAGE }),
+    listAudit(ctx, {
+      action: f.action,
+      actorId: f.person,
+      from: f.from ? dayStartsAt(f.from, tz) : undefined,
+      to,
+      before: f.before,
+      limit: PAGE,
+    }),
     listMembers(ctx),
   ]);
   return {
@@ -66,8 +76,8 @@ export default function Audit({ loaderData }: Route.ComponentProps) {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Audit trail</h1>
       <p className="text-ink-soft">
-        Who did what in your shop, when, and from which address: publishing and retiring versions, people and invitations, take-overs, reports
-        e-mailed, sign-ins. Newest first. Entries can't be changed or removed.
+        Who did what in your shop, when, and from which address: publishing and retiring versions, people and invitations, take-overs,
+        reports e-mailed, sign-ins. Newest first. Entries can't be changed or removed.
       </p>
       <Form method="get" className="card grid gap-4 sm:grid-cols-2 lg:grid-cols-[1fr_1fr_11rem_11rem_auto] lg:items-end">
         <SelectField label="What" name="action" defaultValue={f.action}>

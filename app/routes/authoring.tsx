@@ -15,10 +15,20 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   // The authors' home: the library's drafts and recent changes.
   authorize(ctx, "trees.author");
   const [rows, tz] = await Promise.all([listLibrary(ctx, { sort: "changed" }), shopTimeZone(ctx)]);
-  const item = (r: (typeof rows)[number]) => ({ treeId: r.treeId, title: r.title, symptom: r.symptom, current: r.current?.number ?? null, when: atShop(r.draft?.updatedAt ?? r.lastChange, tz), by: r.lastAuthor });
+  const item = (r: (typeof rows)[number]) => ({
+    treeId: r.treeId,
+    title: r.title,
+    symptom: r.symptom,
+    current: r.current?.number ?? null,
+    when: atShop(r.draft?.updatedAt ?? r.lastChange, tz),
+    by: r.lastAuthor,
+  });
   return {
     drafts: rows.filter((r) => r.draft).map(item),
-    recent: rows.filter((r) => !r.draft).slice(0, 5).map(item),
+    recent: rows
+      .filter((r) => !r.draft)
+      .slice(0, 5)
+      .map(item),
     total: rows.length,
   };
 });

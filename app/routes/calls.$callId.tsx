@@ -22,7 +22,11 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Call ${d
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const call = await getCall(ctx, params.callId);
-  const [runs, trees, tz] = await Promise.all([runsOfCall(ctx, call.call.id), suggestTrees(ctx, call.unit, call.call.symptom), shopTimeZone(ctx)]);
+  const [runs, trees, tz] = await Promise.all([
+    runsOfCall(ctx, call.call.id),
+    suggestTrees(ctx, call.unit, call.call.symptom),
+    shopTimeZone(ctx),
+  ]);
   const open = runs.find((r) => r.status === "active" || r.status === "paused" || r.status === "escalated");
   const openRun = open ? { id: open.id, status: open.status, holder: open.technician, heldByMe: open.technicianId === ctx.userId } : null;
   const canRun = can(ctx, "runs.start") && !openRun && call.call.status !== "done" && call.call.status !== "cancelled";
@@ -123,14 +127,18 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
             </p>
           )}
           {matching.length === 0 ? (
-            <p className="card">No published procedure covers this kind of equipment yet. Ask a lead to write one, or pick one below if it fits.</p>
+            <p className="card">
+              No published procedure covers this kind of equipment yet. Ask a lead to write one, or pick one below if it fits.
+            </p>
           ) : (
             <p className="text-ink-soft">Procedures for this kind of equipment, closest to the reported symptom first:</p>
           )}
           <ul className="space-y-3">
             {matching.map((t, i) => (
               <li key={t.treeId} className={`card space-y-2 ${i === 0 && best ? "border-2 border-copper" : ""}`}>
-                {i === 0 && best && <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>}
+                {i === 0 && best && (
+                  <p className="text-sm font-bold uppercase tracking-wide text-copper-dark">Best match for “{c.call.symptom}”</p>
+                )}
                 <p className="text-lg font-bold">{t.title}</p>
                 <p className="text-ink-soft">
                   {t.symptom} · version {t.number}
@@ -151,8 +159,11 @@ export default function Call({ loaderData, actionData }: Route.ComponentProps) {
                 {others.map((t) => (
                   <li key={t.treeId} className="flex flex-wrap items-center justify-between gap-2 border-t border-rule pt-2">
                     <span>
-                      {t.title} <span className="text-ink-soft">· {categoryLabel(t.category)}
-                        {t.otherKind && ` — written for ${t.otherKind}`}</span>
+                      {t.title}{" "}
+                      <span className="text-ink-soft">
+                        · {categoryLabel(t.category)}
+                        {t.otherKind && ` — written for ${t.otherKind}`}
+                      </span>
                     </span>
                     <Form method="post">
                       <input type="hidden" name="treeId" value={t.treeId} />

@@ -16,7 +16,13 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   // Practice stays apart from real calls: a count and a link to the practice list.
   const toDo = practice.items.filter((i) => i.state === "to do" || i.state === "in progress" || i.state === "abandoned");
   const newNotes = practice.items.filter((i) => i.state === "reviewed").length;
-  return { firstName: user.name.split(" ")[0], userId: user.ctx.userId, calls, done, practice: { toDo: toDo.map((i) => i.name), reviewed: newNotes } };
+  return {
+    firstName: user.name.split(" ")[0],
+    userId: user.ctx.userId,
+    calls,
+    done,
+    practice: { toDo: toDo.map((i) => i.name), reviewed: newNotes },
+  };
 });
 
 export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
@@ -26,14 +32,20 @@ export default function TechnicianHome({ loaderData }: Route.ComponentProps) {
       <div>
         <h1 className="text-2xl font-bold">My calls</h1>
         <p className="text-ink-soft">
-          Good to see you, {loaderData.firstName}. {calls.length === 0 ? "Nothing is assigned to you right now." : `${calls.length} call${calls.length === 1 ? "" : "s"} assigned to you, most urgent first.`}
+          Good to see you, {loaderData.firstName}.{" "}
+          {calls.length === 0
+            ? "Nothing is assigned to you right now."
+            : `${calls.length} call${calls.length === 1 ? "" : "s"} assigned to you, most urgent first.`}
         </p>
       </div>
       <KeptOnPhone userId={loaderData.userId} />
       <ul className="space-y-3">
         {calls.map((c) => (
           <li key={c.id}>
-            <a href={c.openRun ? `/runs/${c.openRun.id}` : `/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper">
+            <a
+              href={c.openRun ? `/runs/${c.openRun.id}` : `/calls/${c.id}`}
+              className="card block text-ink no-underline hover:border-copper"
+            >
               <div className="flex flex-wrap items-center gap-2">
                 <span className="text-lg font-bold">Call {c.number}</span>
                 <PriorityBadge priority={c.priority} />

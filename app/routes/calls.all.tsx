@@ -27,7 +27,12 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const params = Object.fromEntries(new URL(request.url).searchParams);
   const f = filterSchema.parse({ q: "", status: "active", assigned: "", priority: "", ...params });
   const [calls, people, escalated, tz] = await Promise.all([
-    listCalls(ctx, { q: f.q, status: f.status === "any" ? undefined : f.status, assigned: f.assigned || undefined, priority: f.priority || undefined }),
+    listCalls(ctx, {
+      q: f.q,
+      status: f.status === "any" ? undefined : f.status,
+      assigned: f.assigned || undefined,
+      priority: f.priority || undefined,
+    }),
     assignablePeople(ctx),
     can(ctx, "escalations.view") ? countOpenEscalations(ctx) : Promise.resolve(null),
     shopTimeZone(ctx),
@@ -48,9 +53,13 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
         )}
       </div>
       {loaderData.escalated !== null && (
-        <div className={`card flex flex-wrap items-center justify-between gap-2 ${loaderData.escalated ? "border-2 border-marginal bg-marginal-soft" : ""}`}>
+        <div
+          className={`card flex flex-wrap items-center justify-between gap-2 ${loaderData.escalated ? "border-2 border-marginal bg-marginal-soft" : ""}`}
+        >
           <p className="font-semibold">
-            {loaderData.escalated === 0 ? "No run is waiting for a lead." : `${loaderData.escalated} run${loaderData.escalated === 1 ? " is" : "s are"} waiting for a lead.`}
+            {loaderData.escalated === 0
+              ? "No run is waiting for a lead."
+              : `${loaderData.escalated} run${loaderData.escalated === 1 ? " is" : "s are"} waiting for a lead.`}
           </p>
           <a href="/escalations" className={loaderData.escalated ? "btn-primary" : "btn-quiet"}>
             Escalations
@@ -62,7 +71,14 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
           <label htmlFor="calls-q" className="field-label">
             Search
           </label>
-          <input id="calls-q" name="q" type="search" defaultValue={filter.q} placeholder="Call number, symptom, customer, model or serial" className="field-input" />
+          <input
+            id="calls-q"
+            name="q"
+            type="search"
+            defaultValue={filter.q}
+            placeholder="Call number, symptom, customer, model or serial"
+            className="field-input"
+          />
         </div>
         <SelectField label="Status" name="status" defaultValue={filter.status}>
           <option value="active">Not finished</option>
@@ -112,7 +128,9 @@ export default function Calls({ loaderData }: Route.ComponentProps) {
             <p className="text-ink-soft">
               {placeName(c.customerName, c.siteName)} · {c.make} {c.model}
             </p>
-            <p className="text-ink-soft">{c.assigneeName ? `Assigned to ${c.assigneeName}` : "Not assigned"} · opened {atShop(c.openedAt, loaderData.tz, "date")}</p>
+            <p className="text-ink-soft">
+              {c.assigneeName ? `Assigned to ${c.assigneeName}` : "Not assigned"} · opened {atShop(c.openedAt, loaderData.tz, "date")}
+            </p>
           </li>
         ))}
       </ul>

@@ -47,7 +47,9 @@ export default function CallForm({ loaderData, actionData }: Route.ComponentProp
   return (
     <div className="space-y-4">
       <p>
-        <a href={editing ? `/calls/${editing.id}` : "/calls/all"} className="tap">← {editing ? `Call ${editing.number}` : "Service calls"}</a>
+        <a href={editing ? `/calls/${editing.id}` : "/calls/all"} className="tap">
+          ← {editing ? `Call ${editing.number}` : "Service calls"}
+        </a>
       </p>
       <h1 className="text-2xl font-bold">{editing ? `Edit call ${editing.number}` : "New service call"}</h1>
       <Form method="post" className="card space-y-4" noValidate>
@@ -59,7 +61,13 @@ export default function CallForm({ loaderData, actionData }: Route.ComponentProp
             </option>
           ))}
         </SelectField>
-        <Field label="Reported symptom" name="symptom" defaultValue={v.symptom} error={e.symptom} hint="In the customer's words, e.g. “heats unevenly”." />
+        <Field
+          label="Reported symptom"
+          name="symptom"
+          defaultValue={v.symptom}
+          error={e.symptom}
+          hint="In the customer's words, e.g. “heats unevenly”."
+        />
         <SelectField label="Priority" name="priority" defaultValue={v.priority} error={e.priority}>
           {CALL_PRIORITIES.map((p) => (
             <option key={p} value={p}>

@@ -16,7 +16,11 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   authorize(ctx, "equipment.write");
   if (params.siteId) {
     const { site, customer } = await getSiteWithCustomer(ctx, params.siteId);
-    return { values: { name: site.name, address: site.address, contactName: site.contactName, contactEmail: site.contactEmail }, customer, siteId: site.id };
+    return {
+      values: { name: site.name, address: site.address, contactName: site.contactName, contactEmail: site.contactEmail },
+      customer,
+      siteId: site.id,
+    };
   }
   const customer = await getCustomer(ctx, params.customerId ?? "");
   return { values: { name: "", address: "", contactName: "", contactEmail: "" }, customer, siteId: null };
@@ -43,7 +47,13 @@ export default function SiteForm({ loaderData, actionData }: Route.ComponentProp
       <Form method="post" className="card space-y-4" noValidate>
         <Field label="Site name" name="name" defaultValue={v.name} error={e.name} hint="e.g. Deli counter, Central kitchen." />
         <Field label="Address" name="address" defaultValue={v.address} error={e.address} />
-        <Field label="Contact name" name="contactName" defaultValue={v.contactName} error={e.contactName} hint="Service reports go to this person." />
+        <Field
+          label="Contact name"
+          name="contactName"
+          defaultValue={v.contactName}
+          error={e.contactName}
+          hint="Service reports go to this person."
+        />
         <Field label="Contact e-mail" name="contactEmail" type="email" defaultValue={v.contactEmail} error={e.contactEmail} />
         <button className="btn-primary" disabled={busy}>
           {loaderData.siteId ? "Save" : "Add the site"}

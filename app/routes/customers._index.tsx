@@ -32,7 +32,14 @@ export default function Customers({ loaderData }: Route.ComponentProps) {
         <label htmlFor="customers-q" className="sr-only">
           Search customers
         </label>
-        <input id="customers-q" name="q" type="search" defaultValue={loaderData.q} placeholder="Name, site or address" className="field-input" />
+        <input
+          id="customers-q"
+          name="q"
+          type="search"
+          defaultValue={loaderData.q}
+          placeholder="Name, site or address"
+          className="field-input"
+        />
         <button className="btn-quiet">Search</button>
       </Form>
       {loaderData.customers.length === 0 ? (

@@ -17,10 +17,14 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.unit.mo
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const found = await getUnit(ctx, params.unitId);
-  const [calls, history, ratings, tz] = await Promise.all([callsOfUnit(ctx, found.unit.id), historyOfUnit(ctx, found.unit.id), unitRatings(ctx, found.unit), shopTimeZone(ctx)]);
+  const [calls, history, ratings, tz] = await Promise.all([
+    callsOfUnit(ctx, found.unit.id),
+    historyOfUnit(ctx, found.unit.id),
+    unitRatings(ctx, found.unit),
+    shopTimeZone(ctx),
+  ]);
   return { ...found, calls, history, ratings, tz, canEdit: can(ctx, "equipment.write") };
 });
-
 
 export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
   const { unit, site, customer, calls, history, ratings } = loaderData;
@@ -136,7 +140,8 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
             {calls.map((c) => (
               <li key={c.id}>
                 <a href={`/calls/${c.id}`} className="card block text-ink no-underline hover:border-copper">
-                  <span className="font-semibold text-copper-dark underline">Call {c.number}</span> <StatusBadge status={c.status} /> · {day(c.openedAt)} · “{c.symptom}”
+                  <span className="font-semibold text-copper-dark underline">Call {c.number}</span> <StatusBadge status={c.status} /> ·{" "}
+                  {day(c.openedAt)} · “{c.symptom}”
                 </a>
               </li>
             ))}
@@ -150,7 +155,8 @@ export default function EquipmentUnit({ loaderData }: Route.ComponentProps) {
             {history.runs.map((r) => (
               <li key={r.id}>
                 <a href={`/runs/${r.id}`} className="card block text-ink no-underline hover:border-copper">
-                  <span className="font-semibold text-copper-dark underline">{r.treeTitle}</span> (v{r.versionNumber}) · {r.technician} · {day(r.startedAt)} · {RUN_STATUS_LABEL[r.status]}
+                  <span className="font-semibold text-copper-dark underline">{r.treeTitle}</span> (v{r.versionNumber}) · {r.technician} ·{" "}
+                  {day(r.startedAt)} · {RUN_STATUS_LABEL[r.status]}
                 </a>
               </li>
             ))}

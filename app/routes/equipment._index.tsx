@@ -24,14 +24,22 @@ export default function Equipment({ loaderData }: Route.ComponentProps) {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Equipment</h1>
       <p className="text-ink-soft">
-        Units your shop services, by customer and site. See also <a href="/customers">customers and sites</a> and the <a href="/meters">shop's meters</a>.
+        Units your shop services, by customer and site. See also <a href="/customers">customers and sites</a> and the{" "}
+        <a href="/meters">shop's meters</a>.
       </p>
       <Form method="get" role="search" className="card grid gap-3 sm:grid-cols-[1fr_12rem_auto] sm:items-end">
         <div>
           <label htmlFor="units-q" className="field-label">
             Search
           </label>
-          <input id="units-q" name="q" type="search" defaultValue={f.q} placeholder="Make, model, serial, site or customer" className="field-input" />
+          <input
+            id="units-q"
+            name="q"
+            type="search"
+            defaultValue={f.q}
+            placeholder="Make, model, serial, site or customer"
+            className="field-input"
+          />
         </div>
         <SelectField label="Kind" name="category" defaultValue={f.category}>
           <option value="">All kinds</option>

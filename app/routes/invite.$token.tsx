@@ -28,7 +28,10 @@ const Join = z.object({
 // Accepting signs the person in to the shop they joined and takes them to their role's home.
 export const action = form(async ({ request, params, context }: Route.ActionArgs) => {
   const input = await readForm(request, Join);
-  const joined = await acceptInvitation(params.token, input, { address: clientAddress(context), userAgent: request.headers.get("user-agent") });
+  const joined = await acceptInvitation(params.token, input, {
+    address: clientAddress(context),
+    userAgent: request.headers.get("user-agent"),
+  });
   return redirect(HOME_PATH[joined.role], { headers: await sessionCookie(joined.sessionId, joined.userId) });
 });
 
@@ -45,7 +48,8 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
         <>
           <h1 className="text-2xl font-bold">This invitation can't be used</h1>
           <p className="mt-2 text-ink-soft">
-            It has expired, was withdrawn, or was already used. If you have joined already, sign in. Otherwise ask your shop's owner for a new invitation.
+            It has expired, was withdrawn, or was already used. If you have joined already, sign in. Otherwise ask your shop's owner for a
+            new invitation.
           </p>
           <p className="mt-6 flex flex-wrap gap-3">
             <Link to="/login" className="btn-primary">
@@ -65,13 +69,34 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
           {formError && <Notice kind="problem">{formError}</Notice>}
           <Form ref={ref} method="post" className="mt-6 space-y-5" noValidate>
             {/* The e-mail the invitation is for: shown, and the username a password manager saves. */}
-            <Field label="Email" name="username" type="email" autoComplete="username" value={inv.email} readOnly hint="The invitation is for this address; you sign in with it." />
+            <Field
+              label="Email"
+              name="username"
+              type="email"
+              autoComplete="username"
+              value={inv.email}
+              readOnly
+              hint="The invitation is for this address; you sign in with it."
+            />
             {inv.hasAccount ? (
-              <Field label="Password of your existing account" name="password" type="password" autoComplete="current-password" error={errors.password} />
+              <Field
+                label="Password of your existing account"
+                name="password"
+                type="password"
+                autoComplete="current-password"
+                error={errors.password}
+              />
             ) : (
               <>
                 <Field label="Your name" name="name" autoComplete="name" defaultValue={refused?.values.name} error={errors.name} />
-                <Field label="Choose a password" name="password" type="password" autoComplete="new-password" hint={PASSWORD_HINT} error={errors.password} />
+                <Field
+                  label="Choose a password"
+                  name="password"
+                  type="password"
+                  autoComplete="new-password"
+                  hint={PASSWORD_HINT}
+                  error={errors.password}
+                />
               </>
             )}
             <button className="btn-primary w-full" disabled={busy}>

@@ -27,7 +27,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   const email = typeof raw.email === "string" ? raw.email : "";
   if (!parsed.success) {
     const fields = z.flattenError(parsed.error).fieldErrors;
-    return data({ email, fieldErrors: { email: fields.email?.[0], password: fields.password?.[0] }, formError: undefined }, { status: 400 });
+    return data(
+      { email, fieldErrors: { email: fields.email?.[0], password: fields.password?.[0] }, formError: undefined },
+      { status: 400 },
+    );
   }
   const result = await signInWithPassword(request, clientAddress(context), parsed.data.email, parsed.data.password);
   if (!result.ok) {
@@ -37,7 +40,10 @@ export async function action({ request, context }: Route.ActionArgs) {
         : result.reason === "access_off"
           ? "Your shop's owner has turned off your access to Cluepath. Ask them to turn it back on."
           : "That e-mail and password don't match an account. Check both and try again.";
-    return data({ email, fieldErrors: {}, formError }, { status: result.reason === "too_many" ? 429 : result.reason === "access_off" ? 403 : 401 });
+    return data(
+      { email, fieldErrors: {}, formError },
+      { status: result.reason === "too_many" ? 429 : result.reason === "access_off" ? 403 : 401 },
+    );
   }
   throw redirect(safeNext(parsed.data.next, result.home), { headers: result.headers });
 }
@@ -67,7 +73,15 @@ export default function Login({ loaderData, actionData }: Route.ComponentProps) 
         </p>
       )}
       <Form method="post" className="space-y-5" noValidate>
-        <Field label="Email" name="email" type="email" autoComplete="username" defaultValue={actionData?.email} error={errors.email} required />
+        <Field
+          label="Email"
+          name="email"
+          type="email"
+          autoComplete="username"
+          defaultValue={actionData?.email}
+          error={errors.email}
+          required
+        />
         <Field label="Password" name="password" type="password" autoComplete="current-password" error={errors.password} required />
         {next && <input type="hidden" name="next" value={next} />}
         <button type="submit" className="btn-primary w-full" disabled={busy}>

@@ -15,7 +15,15 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   // A form only: the page is for those who keep the list.
   authorize(ctx, "meters.manage");
   const m = await getMeter(ctx, params.meterId);
-  const values: Record<string, string> = { name: m.name, quantity: m.quantity, unit: m.unit, rangeMax: String(m.rangeMax), resolution: String(m.resolution), percent: String(m.percent), counts: String(m.counts) };
+  const values: Record<string, string> = {
+    name: m.name,
+    quantity: m.quantity,
+    unit: m.unit,
+    rangeMax: String(m.rangeMax),
+    resolution: String(m.resolution),
+    percent: String(m.percent),
+    counts: String(m.counts),
+  };
   return { values };
 });
 

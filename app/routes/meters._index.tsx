@@ -41,7 +41,10 @@ export default function Meters({ loaderData, actionData }: Route.ComponentProps)
         <a href="/equipment">← Equipment</a>
       </p>
       <h1 className="text-2xl font-bold">Meters</h1>
-      <p className="text-ink-soft">Each function and range of a meter is its own entry, with the accuracy its manual states. Verdicts use it to tell a reading that is clearly within limits from one too close to call.</p>
+      <p className="text-ink-soft">
+        Each function and range of a meter is its own entry, with the accuracy its manual states. Verdicts use it to tell a reading that is
+        clearly within limits from one too close to call.
+      </p>
       <ul className="space-y-2">
         {loaderData.meters.map((m) => (
           <li key={m.id} className={`card flex flex-wrap items-center justify-between gap-2 ${m.retired ? "opacity-60" : ""}`}>
@@ -78,7 +81,12 @@ export default function Meters({ loaderData, actionData }: Route.ComponentProps)
             </p>
           )}
           {/* A fresh, empty form after each meter added. */}
-          <Form method="post" noValidate className="space-y-4" key={actionData?.ok && actionData.kind === "created" ? actionData.id : "new"}>
+          <Form
+            method="post"
+            noValidate
+            className="space-y-4"
+            key={actionData?.ok && actionData.kind === "created" ? actionData.id : "new"}
+          >
             <MeterFields v={invalid?.values ?? {}} e={invalid?.errors ?? {}} />
             <button className="btn-primary" disabled={busy}>
               Add the meter

@@ -21,7 +21,10 @@ export default function Outbox({ loaderData }: Route.ComponentProps) {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Outbox</h1>
       {!enabled ? (
-        <p className="card">Cluepath hands the shop's mail to your mail server, which keeps the sent copies: look for them there. This list is kept only on demo and test setups.</p>
+        <p className="card">
+          Cluepath hands the shop's mail to your mail server, which keeps the sent copies: look for them there. This list is kept only on
+          demo and test setups.
+        </p>
       ) : (
         <p className="text-ink-soft">What Cluepath has e-mailed for your shop, newest first.</p>
       )}

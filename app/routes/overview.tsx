@@ -15,7 +15,13 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const data = await overview(ctx, filters);
   const { start, end, timeZone } = data.period;
   const last = new Date(Date.parse(end) - 1);
-  return { ...data, filters, errors, query: filtersQuery(filters), periodText: `from ${atShop(new Date(start), timeZone, "date")} to ${atShop(last, timeZone, "date")}` };
+  return {
+    ...data,
+    filters,
+    errors,
+    query: filtersQuery(filters),
+    periodText: `from ${atShop(new Date(start), timeZone, "date")} to ${atShop(last, timeZone, "date")}`,
+  };
 });
 
 export default function OverviewRoute({ loaderData }: Route.ComponentProps) {

@@ -37,7 +37,11 @@ const memberForms = {
   reset: z.object({ intent: z.literal("reset"), userId: person }),
 };
 const pick = (values: Record<string, string>) =>
-  values.intent === "revoke" ? revokeForm : Object.hasOwn(memberForms, values.intent ?? "") ? memberForms[values.intent as keyof typeof memberForms] : inviteForm;
+  values.intent === "revoke"
+    ? revokeForm
+    : Object.hasOwn(memberForms, values.intent ?? "")
+      ? memberForms[values.intent as keyof typeof memberForms]
+      : inviteForm;
 
 export const action = form(async ({ request, context }: Route.ActionArgs) => {
   const ctx = fromClient((await requireUser(request, "people.manage")).ctx, context);
@@ -49,7 +53,11 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
       return { ok: true as const, kind: "revoked" as const };
     case "role": {
       const { changed, name } = await setMemberRole(ctx, input.userId, input.role, address);
-      return { ok: true as const, kind: "member" as const, done: changed ? `${name} is now ${ROLE_LABEL[input.role]}.` : `${name} already is ${ROLE_LABEL[input.role]}.` };
+      return {
+        ok: true as const,
+        kind: "member" as const,
+        done: changed ? `${name} is now ${ROLE_LABEL[input.role]}.` : `${name} already is ${ROLE_LABEL[input.role]}.`,
+      };
     }
     case "deactivate":
     case "reactivate": {
@@ -68,7 +76,9 @@ export const action = form(async ({ request, context }: Route.ActionArgs) => {
         ok: true as const,
         kind: "member" as const,
         done: `${r.sessionsEnded ? `${r.name} is signed out (${r.sessionsEnded} session${r.sessionsEnded === 1 ? "" : "s"}). ` : ""}${
-          r.mailed ? `We e-mailed ${r.email} a link to set a new password (valid 30 minutes).` : `The mail server did not take the message to ${r.email}; try Reset sign-in again in a moment.`
+          r.mailed
+            ? `We e-mailed ${r.email} a link to set a new password (valid 30 minutes).`
+            : `The mail server did not take the message to ${r.email}; try Reset sign-in again in a moment.`
         }`,
       };
     }

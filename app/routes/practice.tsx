@@ -49,7 +49,9 @@ export default function Practice({ loaderData, actionData }: Route.ComponentProp
     <div className="space-y-5">
       <div>
         <h1 className="text-2xl font-bold">Practice</h1>
-        <p className="text-ink-soft">Practice calls from your trainer. No customer, no report: work them as on site and make your own call at each reading.</p>
+        <p className="text-ink-soft">
+          Practice calls from your trainer. No customer, no report: work them as on site and make your own call at each reading.
+        </p>
       </div>
       {actionData && actionData.ok === false && (
         <p role="alert" className="field-error">
@@ -72,7 +74,9 @@ export default function Practice({ loaderData, actionData }: Route.ComponentProp
                 {i.due && <p className="font-semibold">Due by {i.due}</p>}
                 <Form method="post">
                   <input type="hidden" name="assignmentId" value={i.id} />
-                  <button className="min-h-14 w-full rounded-xl bg-practice px-4 text-lg font-bold text-white">{i.state === "in progress" ? "Carry on with the practice" : "Start the practice"}</button>
+                  <button className="min-h-14 w-full rounded-xl bg-practice px-4 text-lg font-bold text-white">
+                    {i.state === "in progress" ? "Carry on with the practice" : "Start the practice"}
+                  </button>
                 </Form>
               </li>
             ))}
@@ -89,7 +93,9 @@ export default function Practice({ loaderData, actionData }: Route.ComponentProp
               <li key={i.id} className="card space-y-2">
                 <Head item={i} />
                 {i.result && (
-                  <div className={`rounded-lg border-l-8 px-3 py-2 ${i.result.right ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}>
+                  <div
+                    className={`rounded-lg border-l-8 px-3 py-2 ${i.result.right ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}
+                  >
                     <p>
                       You reached: <strong>{i.result.reached ?? "a hand-over, no cause"}</strong>
                     </p>

@@ -12,7 +12,9 @@ import { form, page } from "~/lib/route.server";
 import { getReport, sendReport } from "~/models/runs/reports.server";
 import type { Route } from "./+types/reports.$reportId";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Service report ${reportNumber(data.report.number)} · Cluepath` : "Service report · Cluepath" }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: data ? `Service report ${reportNumber(data.report.number)} · Cluepath` : "Service report · Cluepath" },
+];
 
 export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);

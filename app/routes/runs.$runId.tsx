@@ -38,7 +38,11 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
 export default function RunnerRoute({ loaderData, params }: Route.ComponentProps) {
   const view = loaderData.view;
   const version = "version" in loaderData ? loaderData.version : null;
-  const initial = useMemo((): RunView | null => (view && version ? { ...view, ...(JSON.parse(version) as Pick<RunView, "tree" | "bodies" | "description">) } : null), [view, version]);
+  const initial = useMemo(
+    (): RunView | null =>
+      view && version ? { ...view, ...(JSON.parse(version) as Pick<RunView, "tree" | "bodies" | "description">) } : null,
+    [view, version],
+  );
   if (initial) return <Runner key={initial.run.id} initial={initial} />;
   return <RunFromPhone runId={params.runId} missing={"missing" in loaderData} />;
 }

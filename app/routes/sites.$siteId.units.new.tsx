@@ -18,10 +18,20 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   authorize(ctx, "equipment.write");
   if (params.unitId) {
     const { unit, site } = await getUnit(ctx, params.unitId);
-    return { values: { category: unit.category, make: unit.make, model: unit.model, serial: unit.serial, installedOn: unit.installedOn ?? "" }, siteName: site.name, back: `/equipment/${unit.id}`, editing: true };
+    return {
+      values: { category: unit.category, make: unit.make, model: unit.model, serial: unit.serial, installedOn: unit.installedOn ?? "" },
+      siteName: site.name,
+      back: `/equipment/${unit.id}`,
+      editing: true,
+    };
   }
   const { site } = await getSiteWithCustomer(ctx, params.siteId ?? "");
-  return { values: { category: "", make: "", model: "", serial: "", installedOn: "" }, siteName: site.name, back: `/sites/${site.id}`, editing: false };
+  return {
+    values: { category: "", make: "", model: "", serial: "", installedOn: "" },
+    siteName: site.name,
+    back: `/sites/${site.id}`,
+    editing: false,
+  };
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {

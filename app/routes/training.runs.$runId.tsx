@@ -45,7 +45,13 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   return { ok: true as const, message: "Comment added." };
 });
 
-const KIND: Partial<Record<TreeNode["kind"], string>> = { question: "Question", measurement: "Reading", nameplate: "Rating", caution: "Caution", step: "Instruction" };
+const KIND: Partial<Record<TreeNode["kind"], string>> = {
+  question: "Question",
+  measurement: "Reading",
+  nameplate: "Rating",
+  caution: "Caution",
+  step: "Instruction",
+};
 
 type Titles = Record<string, { title: string; kind: TreeNode["kind"] }>;
 
@@ -60,7 +66,8 @@ function Did({ step, typed, trainee }: { step: ReviewStep & StepFlags; typed?: s
         </p>
         {trainee && step.call ? (
           <p>
-            Call <strong>{step.call}</strong> · Cluepath <strong className={step.verdict.verdict === step.call ? "text-within" : "text-out"}>{step.verdict.verdict}</strong>
+            Call <strong>{step.call}</strong> · Cluepath{" "}
+            <strong className={step.verdict.verdict === step.call ? "text-within" : "text-out"}>{step.verdict.verdict}</strong>
           </p>
         ) : (
           <p>
@@ -80,7 +87,13 @@ function Did({ step, typed, trainee }: { step: ReviewStep & StepFlags; typed?: s
         “{step.answer}”{step.misread && <span className="ml-1 font-semibold text-out">(the observation meant otherwise)</span>}
       </p>
     );
-  if (step.recorded) return <p>Rated {step.recorded}{step.mistyped && <span className="ml-1 font-semibold text-marginal">(the label said otherwise)</span>}</p>;
+  if (step.recorded)
+    return (
+      <p>
+        Rated {step.recorded}
+        {step.mistyped && <span className="ml-1 font-semibold text-marginal">(the label said otherwise)</span>}
+      </p>
+    );
   return <p className="text-ink-soft">{step.kind === "caution" ? "Acknowledged" : "Done"}</p>;
 }
 
@@ -110,18 +123,23 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
         </h1>
         <p className="text-ink-soft">
           {version.title}, version {version.number} · started {started}
-          {finished ? ` · finished ${finished}` : ` · ${run.status === "abandoned" ? "abandoned" : "not finished yet"}`} · {duration(review.totalMs)} in all
+          {finished ? ` · finished ${finished}` : ` · ${run.status === "abandoned" ? "abandoned" : "not finished yet"}`} ·{" "}
+          {duration(review.totalMs)} in all
         </p>
       </div>
       <Notice sent={sent} />
 
-      <section className={`rounded-xl border-2 p-4 ${review.rightFault ? "border-within bg-within-soft" : "border-out bg-out-soft"}`} aria-label="Cause reached">
+      <section
+        className={`rounded-xl border-2 p-4 ${review.rightFault ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}
+        aria-label="Cause reached"
+      >
         <div className="flex flex-wrap items-center gap-3">
           <h2 className="text-lg font-bold">Cause reached</h2>
           {review.end && <CauseMark right={review.rightFault} />}
         </div>
         <p className="text-lg">
-          {review.end ? (review.end.kind === "outcome" ? title(review.end.node) : `Handed over at ${title(review.end.node)}`) : "None yet"} — hidden fault: <strong>{title(review.fault)}</strong>
+          {review.end ? (review.end.kind === "outcome" ? title(review.end.node) : `Handed over at ${title(review.end.node)}`) : "None yet"}{" "}
+          — hidden fault: <strong>{title(review.fault)}</strong>
           {review.timeToCauseMs !== null && <span className="text-ink-soft"> · reached after {duration(review.timeToCauseMs)}</span>}
         </p>
       </section>
@@ -132,7 +150,8 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
           <p className="text-lg font-bold">{turn ? `Step ${turn.index + 1}: ${title(turn.node)}` : "None"}</p>
           {turn && (
             <p className="text-base">
-              Took {branchName(turn.trainee)} → {title(turn.traineeTo) || "end"}; the reference took {branchName(turn.reference)} → {title(turn.referenceTo) || "end"}
+              Took {branchName(turn.trainee)} → {title(turn.traineeTo) || "end"}; the reference took {branchName(turn.reference)} →{" "}
+              {title(turn.referenceTo) || "end"}
             </p>
           )}
         </div>
@@ -160,13 +179,16 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                   {m.undone ? " (taken back by an undo)" : ""}
                 </p>
                 <p>
-                  {typed[m.index] ?? m.verdict.reading.text} — the trainee called it <strong>{m.call}</strong>; Cluepath judged it <strong>{m.verdict.verdict}</strong>.
+                  {typed[m.index] ?? m.verdict.reading.text} — the trainee called it <strong>{m.call}</strong>; Cluepath judged it{" "}
+                  <strong>{m.verdict.verdict}</strong>.
                 </p>
                 <p className="text-base">{m.verdict.message}</p>
                 <p className="text-sm text-ink-soft">
                   Limits {m.verdict.limits.text}
                   {m.verdict.limits.fixed ? "" : ` (${m.verdict.limits.derivation})`}
-                  {m.verdict.uncertainty ? ` · meter ${m.verdict.uncertainty.meterText}, ${m.verdict.uncertainty.text}` : " · no meter accuracy given"}
+                  {m.verdict.uncertainty
+                    ? ` · meter ${m.verdict.uncertainty.meterText}, ${m.verdict.uncertainty.text}`
+                    : " · no meter accuracy given"}
                   {` · ${m.verdict.acceptance} acceptance`}
                 </p>
               </li>
@@ -188,11 +210,16 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
             </thead>
             <tbody>
               {review.rows.map((row, i) => {
-                const mark = i === turn?.row ? { label: "First wrong turn", cls: "border-out bg-out-soft", word: "text-out" } : ROW_MARK[row.kind];
+                const mark =
+                  i === turn?.row ? { label: "First wrong turn", cls: "border-out bg-out-soft", word: "text-out" } : ROW_MARK[row.kind];
                 const seq = row.trainee?.index;
                 const onStep = seq === undefined ? [] : comments.filter((c) => c.seq === seq);
                 return (
-                  <tr key={i} className={`border-b border-rule align-top last:border-0 ${mark ? `border-l-8 ${mark.cls}` : ""}`} aria-label={mark ? `${mark.label}: ${title(row.node)}` : undefined}>
+                  <tr
+                    key={i}
+                    className={`border-b border-rule align-top last:border-0 ${mark ? `border-l-8 ${mark.cls}` : ""}`}
+                    aria-label={mark ? `${mark.label}: ${title(row.node)}` : undefined}
+                  >
                     <td className="px-3 py-2">
                       {mark && <p className={`text-sm font-bold uppercase tracking-wide ${mark.word}`}>{mark.label}</p>}
                       <p className="text-sm font-semibold uppercase tracking-wide text-copper-dark">{KIND[t[row.node]?.kind ?? "step"]}</p>
@@ -200,7 +227,11 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                     </td>
                     <td className="px-3 py-2">{row.reference ? <Did step={row.reference} /> : <p className="text-ink-soft">—</p>}</td>
                     <td className="px-3 py-2">
-                      {row.trainee ? <Did step={row.trainee} typed={typed[row.trainee.index]} trainee /> : <p className="text-ink-soft">—</p>}
+                      {row.trainee ? (
+                        <Did step={row.trainee} typed={typed[row.trainee.index]} trainee />
+                      ) : (
+                        <p className="text-ink-soft">—</p>
+                      )}
                       {onStep.map((c) => (
                         <p key={c.id} className="mt-2 rounded-lg bg-practice-soft px-2 py-1 text-base">
                           <span className="font-semibold text-practice">{c.author}:</span> {c.text}
@@ -209,7 +240,9 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                       {seq !== undefined && (
                         // A fresh, closed form once the comment is saved.
                         <details key={onStep.length} className="mt-1">
-                          <summary className="min-h-11 cursor-pointer py-2 text-base font-semibold text-copper-dark">Comment on this step</summary>
+                          <summary className="min-h-11 cursor-pointer py-2 text-base font-semibold text-copper-dark">
+                            Comment on this step
+                          </summary>
                           <Form method="post" action="?intent=comment" className="space-y-2">
                             <input type="hidden" name="seq" value={seq} />
                             <label className="sr-only" htmlFor={`comment-${seq}`}>
@@ -234,7 +267,9 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
             </tbody>
           </table>
         </div>
-        <p className="text-sm text-ink-soft">Time on a step runs from the entry before it to this one, by the phone's clock; the first step's from the start of the run.</p>
+        <p className="text-sm text-ink-soft">
+          Time on a step runs from the entry before it to this one, by the phone's clock; the first step's from the start of the run.
+        </p>
       </Section>
 
       {review.undos.length > 0 && (
@@ -245,7 +280,12 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
               return (
                 <li key={u.index}>
                   Entry {u.index + 1} took back step {u.undid + 1}, {title(u.node)}
-                  {was?.call ? ` (${typed[u.undid] ?? ""}, called ${was.call}; Cluepath ${was.verdict?.verdict})` : was?.answer !== undefined ? ` (“${was.answer}”)` : ""} after {duration(u.spentMs)}.
+                  {was?.call
+                    ? ` (${typed[u.undid] ?? ""}, called ${was.call}; Cluepath ${was.verdict?.verdict})`
+                    : was?.answer !== undefined
+                      ? ` (“${was.answer}”)`
+                      : ""}{" "}
+                  after {duration(u.spentMs)}.
                 </li>
               );
             })}
@@ -264,7 +304,15 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
             <label htmlFor="note" className="field-label">
               Overall note
             </label>
-            <textarea id="note" name="note" rows={4} defaultValue={sent?.values?.note ?? note?.note ?? ""} className="field-input py-2" aria-invalid={sent?.errors?.note ? true : undefined} aria-describedby={sent?.errors?.note ? "note-error" : undefined} />
+            <textarea
+              id="note"
+              name="note"
+              rows={4}
+              defaultValue={sent?.values?.note ?? note?.note ?? ""}
+              className="field-input py-2"
+              aria-invalid={sent?.errors?.note ? true : undefined}
+              aria-describedby={sent?.errors?.note ? "note-error" : undefined}
+            />
             {sent?.errors?.note && (
               <p id="note-error" className="field-error">
                 {sent.errors.note}

@@ -38,7 +38,11 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
       to: title(st.to),
     })),
     end: s.check.reference.end ? { kind: s.check.reference.end.kind, title: title(s.check.reference.end.node) } : null,
-    assignments: s.assignments.map((a) => ({ ...a, assigned: atShop(a.createdAt, tz, "date"), due: a.dueOn ? atShop(`${a.dueOn}T12:00:00Z`, tz, "date") : null })),
+    assignments: s.assignments.map((a) => ({
+      ...a,
+      assigned: atShop(a.createdAt, tz, "date"),
+      due: a.dueOn ? atShop(`${a.dueOn}T12:00:00Z`, tz, "date") : null,
+    })),
   };
 });
 
@@ -64,7 +68,13 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   return { ok: true as const, message: `Assigned to ${r.assigned} technician${r.assigned === 1 ? "" : "s"}.${again}` };
 });
 
-const KIND: Partial<Record<TreeNode["kind"], string>> = { question: "Question", measurement: "Reading", nameplate: "Rating", caution: "Caution", step: "Instruction" };
+const KIND: Partial<Record<TreeNode["kind"], string>> = {
+  question: "Question",
+  measurement: "Reading",
+  nameplate: "Rating",
+  caution: "Caution",
+  step: "Instruction",
+};
 
 export default function ScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
   const { scenario, findings, reference, end, check, newer, locked, assignments, technicians } = loaderData;
@@ -114,13 +124,24 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
         </div>
       </section>
 
-      <Section title={<>The engine's check <CheckBadge ok={check.ok} errors={findings.filter((f) => f.severity === "error").length} /></>}>
+      <Section
+        title={
+          <>
+            The engine's check <CheckBadge ok={check.ok} errors={findings.filter((f) => f.severity === "error").length} />
+          </>
+        }
+      >
         {findings.length === 0 ? (
-          <p className="text-ink-soft">Walking the tree with this script reaches the hidden fault, with a readable value at every step on the way.</p>
+          <p className="text-ink-soft">
+            Walking the tree with this script reaches the hidden fault, with a readable value at every step on the way.
+          </p>
         ) : (
           <ul className="space-y-2">
             {findings.map((f, i) => (
-              <li key={i} className={`rounded-lg border-l-8 px-3 py-2 ${f.severity === "error" ? "border-out bg-out-soft" : "border-marginal bg-marginal-soft"}`}>
+              <li
+                key={i}
+                className={`rounded-lg border-l-8 px-3 py-2 ${f.severity === "error" ? "border-out bg-out-soft" : "border-marginal bg-marginal-soft"}`}
+              >
                 {f.step && <p className="text-sm font-semibold text-ink-soft">{f.step}</p>}
                 <p>{f.message}</p>
               </li>
@@ -130,7 +151,9 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
       </Section>
 
       <Section title="The reference path">
-        <p className="text-ink-soft">What a trainee who reads everything right does, step by step. Reviews set each trainee's path beside it.</p>
+        <p className="text-ink-soft">
+          What a trainee who reads everything right does, step by step. Reviews set each trainee's path beside it.
+        </p>
         <ol className="card divide-y divide-rule p-0">
           {reference.map((r) => (
             <li key={r.index} className="grid gap-1 px-3 py-2 md:grid-cols-[2rem_1fr_1.2fr]">
@@ -156,7 +179,9 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
               </span>
             </li>
           ))}
-          <li className="px-3 py-2 font-semibold">{end ? `Ends at: ${end.title}` : "The walk stops before an end (see the check above)."}</li>
+          <li className="px-3 py-2 font-semibold">
+            {end ? `Ends at: ${end.title}` : "The walk stops before an end (see the check above)."}
+          </li>
         </ol>
       </Section>
 

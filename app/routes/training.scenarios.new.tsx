@@ -24,12 +24,23 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
       trees: null,
       version: { treeId: scenario.treeId, number: scenario.versionNumber, title: scenario.treeTitle, tree: s.tree },
       editing: { id: scenario.id, name: scenario.name, locked: s.locked || Boolean(scenario.retiredAt) },
-      values: { name: scenario.name, complaint: scenario.complaint, unitText: scenario.unitText, fault: scenario.fault, ...worldToForm(scenario.world) } as Record<string, string>,
+      values: {
+        name: scenario.name,
+        complaint: scenario.complaint,
+        unitText: scenario.unitText,
+        fault: scenario.fault,
+        ...worldToForm(scenario.world),
+      } as Record<string, string>,
     };
   }
   const treeId = new URL(request.url).searchParams.get("tree");
   const choices = await scenarioFormChoices(ctx, treeId);
-  return { trees: choices.trees, version: choices.version, editing: null, values: { name: "", complaint: "", unitText: "", fault: "" } as Record<string, string> };
+  return {
+    trees: choices.trees,
+    version: choices.version,
+    editing: null,
+    values: { name: "", complaint: "", unitText: "", fault: "" } as Record<string, string>,
+  };
 });
 
 export const action = form(async ({ request, params }: Route.ActionArgs) => {
@@ -55,7 +66,12 @@ export default function ScenarioForm({ loaderData, actionData }: Route.Component
         </p>
         <h1 className="text-2xl font-bold">New practice scenario</h1>
         <Form method="get" className="card space-y-4">
-          <SelectField label="Tree" name="tree" defaultValue="" hint="The scenario is written on the tree's newest published version and stays on it.">
+          <SelectField
+            label="Tree"
+            name="tree"
+            defaultValue=""
+            hint="The scenario is written on the tree's newest published version and stays on it."
+          >
             <option value="">Choose a published tree…</option>
             {(trees ?? []).map((t) => (
               <option key={t.treeId} value={t.treeId}>
@@ -87,14 +103,38 @@ export default function ScenarioForm({ loaderData, actionData }: Route.Component
           {actionData.message}
         </p>
       )}
-      <Form method="post" action={editing ? `/training/scenarios/${editing.id}/edit` : `/training/scenarios/new?tree=${version.treeId}`} className="space-y-4" noValidate>
+      <Form
+        method="post"
+        action={editing ? `/training/scenarios/${editing.id}/edit` : `/training/scenarios/new?tree=${version.treeId}`}
+        className="space-y-4"
+        noValidate
+      >
         <section className="card grid gap-4 md:grid-cols-2" aria-labelledby="call-heading">
           <h2 id="call-heading" className="text-lg font-bold md:col-span-2">
             The call
           </h2>
-          <Field label="Scenario name" name="name" defaultValue={v.name} error={e.name} hint="For you and the trainee, e.g. “Slow fan, weak capacitor”." />
-          <Field label="The unit" name="unitText" defaultValue={v.unitText} error={e.unitText} hint="As the trainee finds it: make, model, where it stands." />
-          <TextAreaField className="md:col-span-2" label="What the customer says" name="complaint" defaultValue={v.complaint} error={e.complaint} hint="The complaint in the customer's words." />
+          <Field
+            label="Scenario name"
+            name="name"
+            defaultValue={v.name}
+            error={e.name}
+            hint="For you and the trainee, e.g. “Slow fan, weak capacitor”."
+          />
+          <Field
+            label="The unit"
+            name="unitText"
+            defaultValue={v.unitText}
+            error={e.unitText}
+            hint="As the trainee finds it: make, model, where it stands."
+          />
+          <TextAreaField
+            className="md:col-span-2"
+            label="What the customer says"
+            name="complaint"
+            defaultValue={v.complaint}
+            error={e.complaint}
+            hint="The complaint in the customer's words."
+          />
         </section>
         <WorldFields key={JSON.stringify(v)} tree={version.tree} initial={v} errors={e} faultError={e.fault} />
         <button className="btn-primary" disabled={busy || editing?.locked}>

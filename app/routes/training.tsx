@@ -20,7 +20,11 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const tz = board.timeZone;
   return {
     waiting: board.waiting.map((w) => ({ ...w, finished: atShop(w.completedAt, tz) })),
-    assignments: board.assignments.map((a) => ({ ...a, due: a.dueOn ? atShop(`${a.dueOn}T12:00:00Z`, tz, "date") : null, assigned: atShop(a.createdAt, tz, "date") })),
+    assignments: board.assignments.map((a) => ({
+      ...a,
+      due: a.dueOn ? atShop(`${a.dueOn}T12:00:00Z`, tz, "date") : null,
+      assigned: atShop(a.createdAt, tz, "date"),
+    })),
     scenarios: scenarios.map((s) => ({ ...s, changed: atShop(s.updatedAt, tz, "date") })),
     trainees,
   };
@@ -51,7 +55,11 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
       </div>
 
       <Section title={<>Runs waiting for review {waiting.length > 0 && <span className="text-ink-soft">({waiting.length})</span>}</>}>
-        <CardTable empty="No finished practice run is waiting for a review." rows={waiting.length} head={["Finished", "Trainee", "Scenario", "Cause reached", ""]}>
+        <CardTable
+          empty="No finished practice run is waiting for a review."
+          rows={waiting.length}
+          head={["Finished", "Trainee", "Scenario", "Cause reached", ""]}
+        >
           {waiting.map((w) => (
             <tr key={w.runId} className={tr}>
               <td className={td}>{w.finished}</td>
@@ -62,7 +70,11 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
                 <CauseMark right={w.right} />
               </td>
               <td className={td}>
-                <Link to={`/training/runs/${w.runId}`} className="btn-quiet min-h-11 text-base" aria-label={`Review ${w.trainee}'s run of ${w.scenario}`}>
+                <Link
+                  to={`/training/runs/${w.runId}`}
+                  className="btn-quiet min-h-11 text-base"
+                  aria-label={`Review ${w.trainee}'s run of ${w.scenario}`}
+                >
                   Review
                 </Link>
               </td>
@@ -72,7 +84,11 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
       </Section>
 
       <Section title="Scenarios">
-        <CardTable empty="No scenarios yet. Write one on a published tree: the hidden fault, and what the trainee finds on the way." rows={scenarios.length} head={["Scenario", "Tree", "Check", "Assigned", "Changed"]}>
+        <CardTable
+          empty="No scenarios yet. Write one on a published tree: the hidden fault, and what the trainee finds on the way."
+          rows={scenarios.length}
+          head={["Scenario", "Tree", "Check", "Assigned", "Changed"]}
+        >
           {scenarios.map((s) => (
             <tr key={s.id} className={tr}>
               <td className={td}>
@@ -94,7 +110,11 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
       </Section>
 
       <Section title="Assignments">
-        <CardTable empty="Nothing is assigned. Open a scenario whose check passed and assign it to technicians." rows={assignments.length} head={["Trainee", "Scenario", "Assigned", "Due", "Where it stands"]}>
+        <CardTable
+          empty="Nothing is assigned. Open a scenario whose check passed and assign it to technicians."
+          rows={assignments.length}
+          head={["Trainee", "Scenario", "Assigned", "Due", "Where it stands"]}
+        >
           {assignments.map((a) => (
             <tr key={a.id} className={tr}>
               <td className={`${td} font-semibold`}>{a.trainee}</td>
@@ -117,10 +137,19 @@ export default function TrainerHome({ loaderData }: Route.ComponentProps) {
       </Section>
 
       <Section title="Trainees over time">
-        <p className="text-ink-soft">Finished practice runs. Misjudged readings count every call that differed from the verdict, even when undone; time to a cause runs from the start to the step that reached it, by the phone's clock.</p>
+        <p className="text-ink-soft">
+          Finished practice runs. Misjudged readings count every call that differed from the verdict, even when undone; time to a cause runs
+          from the start to the step that reached it, by the phone's clock.
+        </p>
         {trainees.length === 0 && <p className="card text-ink-soft">No practice run has been finished yet.</p>}
         {trainees.map((t) => (
-          <CardTable key={t.id} caption={t.name} empty="" rows={1} head={["Period", "Practice runs", "Ended at the right fault", "Misjudged readings per run", "Median time to a cause"]}>
+          <CardTable
+            key={t.id}
+            caption={t.name}
+            empty=""
+            rows={1}
+            head={["Period", "Practice runs", "Ended at the right fault", "Misjudged readings per run", "Median time to a cause"]}
+          >
             {[{ month: "All", ...t.all }, ...t.months].map((m) => (
               <tr key={m.month} className={`${tr} ${m.month === "All" ? "font-semibold" : ""}`}>
                 <th scope="row" className={`${td} text-left ${m.month === "All" ? "font-semibold" : "font-normal"}`}>

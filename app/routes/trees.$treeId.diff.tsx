@@ -41,7 +41,13 @@ export default function TreeDiffPage({ loaderData }: Route.ComponentProps) {
   const [from, setFrom] = useState<Ref>(loaderData.from);
   const [to, setTo] = useState<Ref>(loaderData.to);
   const initial = from === loaderData.from && to === loaderData.to ? { diff: loaderData.diff } : undefined;
-  const q = useQuery({ queryKey: ["tree-diff", treeId, from, to], queryFn: () => fetchDiff(treeId, from, to), initialData: initial, placeholderData: keepPreviousData, staleTime: 60_000 });
+  const q = useQuery({
+    queryKey: ["tree-diff", treeId, from, to],
+    queryFn: () => fetchDiff(treeId, from, to),
+    initialData: initial,
+    placeholderData: keepPreviousData,
+    staleTime: 60_000,
+  });
   const pick = (which: "from" | "to", v: string) => {
     const r: Ref = v === "draft" ? "draft" : Number(v);
     const next = { from, to, [which]: r };

@@ -39,7 +39,9 @@ export const action = form(async ({ request, params, context }: Route.ActionArgs
 });
 
 export default function EditTree({ loaderData, actionData }: Route.ComponentProps) {
-  const publishError = actionData ? { message: actionData.message, findings: actionData.details?.findings as Finding[] | undefined } : undefined;
+  const publishError = actionData
+    ? { message: actionData.message, findings: actionData.details?.findings as Finding[] | undefined }
+    : undefined;
   return <Editor {...loaderData} publishError={publishError} />;
 }
 

@@ -22,9 +22,16 @@ export const loader = page(async ({ request, params }: Route.LoaderArgs) => {
   const [t, tz] = await Promise.all([getTree(ctx, treeId), shopTimeZone(ctx)]);
   const url = new URL(request.url);
   return {
-    tree: { id: t.tree.id, title: t.current?.title ?? t.versions.at(-1)?.title ?? t.tree.title, category: t.tree.category, symptom: t.tree.symptom },
+    tree: {
+      id: t.tree.id,
+      title: t.current?.title ?? t.versions.at(-1)?.title ?? t.tree.title,
+      category: t.tree.category,
+      symptom: t.tree.symptom,
+    },
     current: t.current ? { number: t.current.number!, publishedText: atShop(t.current.publishedAt, tz) } : null,
-    draft: t.draft ? { updatedText: atShop(t.draft.updatedAt, tz), by: t.draft.updatedByName ?? t.draft.authorName, basedOn: t.draft.basedOnNumber } : null,
+    draft: t.draft
+      ? { updatedText: atShop(t.draft.updatedAt, tz), by: t.draft.updatedByName ?? t.draft.authorName, basedOn: t.draft.basedOnNumber }
+      : null,
     versions: t.versions.map((v) => ({
       id: v.id,
       number: v.number,
@@ -68,7 +75,11 @@ export const action = form(async ({ request, params, context }: Route.ActionArgs
 });
 
 const STATE_LABEL = { draft: "Draft", published: "Published", retired: "Retired" } as const;
-const STATE_STYLE = { draft: "bg-marginal-soft text-marginal", published: "bg-within-soft text-within", retired: "bg-paper text-ink-soft border border-rule" } as const;
+const STATE_STYLE = {
+  draft: "bg-marginal-soft text-marginal",
+  published: "bg-within-soft text-within",
+  retired: "bg-paper text-ink-soft border border-rule",
+} as const;
 
 export default function TreePage({ loaderData, actionData }: Route.ComponentProps) {
   const { tree, current, draft, versions, canEdit, published } = loaderData;
@@ -110,7 +121,8 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
         </p>
         {draft && (
           <p>
-            A draft is open{draft.basedOn !== null && <> (started from version {draft.basedOn})</>}, last saved {draft.updatedText} by {draft.by}.
+            A draft is open{draft.basedOn !== null && <> (started from version {draft.basedOn})</>}, last saved {draft.updatedText} by{" "}
+            {draft.by}.
           </p>
         )}
         <div className="flex flex-wrap gap-2">
@@ -144,7 +156,11 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
           <details className="rounded-lg border border-rule p-3">
             <summary className="cursor-pointer font-semibold">Discard the draft…</summary>
             <Form method="post" className="mt-2 space-y-2">
-              <p>{numbered.length ? "The draft's changes are thrown away. Published versions stay as they are." : "This tree was never published, so discarding the draft deletes the tree."}</p>
+              <p>
+                {numbered.length
+                  ? "The draft's changes are thrown away. Published versions stay as they are."
+                  : "This tree was never published, so discarding the draft deletes the tree."}
+              </p>
               <input type="hidden" name="intent" value="discard" />
               <button className="btn min-h-11 bg-out text-white" disabled={busy}>
                 Discard the draft
@@ -164,11 +180,21 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
               <div className="flex flex-wrap items-center gap-2">
                 <h3 className="text-lg font-bold">{v.number === null ? "Draft" : `Version ${v.number}`}</h3>
                 <span className={`rounded-md px-2 py-0.5 text-sm font-semibold ${STATE_STYLE[v.state]}`}>{STATE_LABEL[v.state]}</span>
-                {current?.number === v.number && v.number !== null && <span className="text-sm font-semibold text-within">new runs start here</span>}
+                {current?.number === v.number && v.number !== null && (
+                  <span className="text-sm font-semibold text-within">new runs start here</span>
+                )}
               </div>
               {v.changeNote && <p>{v.changeNote}</p>}
               <p className="text-sm text-ink-soft">
-                {v.number === null ? <>Started by {v.authorName}; last saved {v.updatedText}</> : <>By {v.authorName}; published {v.publishedText}</>}
+                {v.number === null ? (
+                  <>
+                    Started by {v.authorName}; last saved {v.updatedText}
+                  </>
+                ) : (
+                  <>
+                    By {v.authorName}; published {v.publishedText}
+                  </>
+                )}
                 {v.state === "retired" && <> · retired {v.retiredText}</>}
               </p>
               <div className="flex flex-wrap gap-x-4 gap-y-2">
@@ -178,8 +204,12 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
                     Download .md
                   </a>
                 )}
-                {v.number !== null && v.number > 1 && <Link to={`/trees/${tree.id}/diff?from=${v.number - 1}&to=${v.number}`}>Changes from version {v.number - 1}</Link>}
-                {v.number === null && latest && <Link to={`/trees/${tree.id}/diff?from=${latest.number}&to=draft`}>Changes from version {latest.number}</Link>}
+                {v.number !== null && v.number > 1 && (
+                  <Link to={`/trees/${tree.id}/diff?from=${v.number - 1}&to=${v.number}`}>Changes from version {v.number - 1}</Link>
+                )}
+                {v.number === null && latest && (
+                  <Link to={`/trees/${tree.id}/diff?from=${latest.number}&to=draft`}>Changes from version {latest.number}</Link>
+                )}
                 {canEdit && !draft && v.number !== null && v.number !== latest?.number && (
                   <Form method="post" className="inline">
                     <input type="hidden" name="intent" value="start-draft" />
@@ -194,7 +224,10 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
                 <details>
                   <summary className="cursor-pointer font-semibold text-out">Retire version {v.number}…</summary>
                   <Form method="post" className="mt-2 space-y-2">
-                    <p>New runs can't start on a retired version; runs that used it keep it and its record. This can't be undone; publish a new version to replace it.</p>
+                    <p>
+                      New runs can't start on a retired version; runs that used it keep it and its record. This can't be undone; publish a
+                      new version to replace it.
+                    </p>
                     <input type="hidden" name="intent" value="retire" />
                     <input type="hidden" name="number" value={v.number!} />
                     <button className="btn min-h-11 bg-out text-white" disabled={busy}>
@@ -209,9 +242,26 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
       </section>
 
       {versions.length > 1 && (
-        <Form method="get" action={`/trees/${tree.id}/diff`} className="card flex flex-wrap items-end gap-3" aria-label="Compare two versions">
-          <CompareSelect name="from" label="Compare" versions={versions} canEdit={canEdit} initial={numbered.at(-2)?.number ?? numbered[0]?.number ?? "draft"} />
-          <CompareSelect name="to" label="with" versions={versions} canEdit={canEdit} initial={draft && canEdit ? "draft" : (latest?.number ?? "draft")} />
+        <Form
+          method="get"
+          action={`/trees/${tree.id}/diff`}
+          className="card flex flex-wrap items-end gap-3"
+          aria-label="Compare two versions"
+        >
+          <CompareSelect
+            name="from"
+            label="Compare"
+            versions={versions}
+            canEdit={canEdit}
+            initial={numbered.at(-2)?.number ?? numbered[0]?.number ?? "draft"}
+          />
+          <CompareSelect
+            name="to"
+            label="with"
+            versions={versions}
+            canEdit={canEdit}
+            initial={draft && canEdit ? "draft" : (latest?.number ?? "draft")}
+          />
           <button className="btn-quiet">Show the changes</button>
         </Form>
       )}
@@ -219,7 +269,19 @@ export default function TreePage({ loaderData, actionData }: Route.ComponentProp
   );
 }
 
-function CompareSelect({ name, label, versions, canEdit, initial }: { name: string; label: string; versions: { number: number | null }[]; canEdit: boolean; initial: number | string }) {
+function CompareSelect({
+  name,
+  label,
+  versions,
+  canEdit,
+  initial,
+}: {
+  name: string;
+  label: string;
+  versions: { number: number | null }[];
+  canEdit: boolean;
+  initial: number | string;
+}) {
   return (
     <div>
       <label htmlFor={`compare-${name}`} className="field-label">

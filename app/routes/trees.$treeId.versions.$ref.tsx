@@ -38,7 +38,8 @@ export default function TreeVersion({ loaderData }: Route.ComponentProps) {
     <article className="space-y-4">
       <header className="space-y-1">
         <p className="text-sm text-ink-soft">
-          <Link to={`/trees/${treeId}`}>{tree.title}</Link> · {label} · {state === "draft" ? `saved ${loaderData.when}` : `published ${loaderData.when}`}
+          <Link to={`/trees/${treeId}`}>{tree.title}</Link> · {label} ·{" "}
+          {state === "draft" ? `saved ${loaderData.when}` : `published ${loaderData.when}`}
           {state === "retired" && " · retired"}
         </p>
         <h1 className="text-2xl font-bold">{tree.title}</h1>
@@ -66,7 +67,9 @@ export default function TreeVersion({ loaderData }: Route.ComponentProps) {
                 {KIND_MARK[n.kind]}
               </span>
               <span className="text-ink-soft">{KIND_LABEL[n.kind]}:</span> {n.title}
-              {n.id === tree.start && <span className="ml-2 rounded bg-copper-soft px-1.5 text-sm font-semibold text-copper-dark">first</span>}
+              {n.id === tree.start && (
+                <span className="ml-2 rounded bg-copper-soft px-1.5 text-sm font-semibold text-copper-dark">first</span>
+              )}
             </h2>
             <dl className="grid gap-x-3 gap-y-1 text-base sm:grid-cols-[10rem_1fr]">
               {nodeFields(n)
@@ -83,7 +86,10 @@ export default function TreeVersion({ loaderData }: Route.ComponentProps) {
               <ul className="flex flex-wrap gap-2" aria-label="Leads to">
                 {nodeBranches(n).map(({ key, branch }) => (
                   <li key={key}>
-                    <a href={`#node-${branch.to}`} className="inline-block rounded-lg border border-rule bg-paper px-2 py-1 text-base no-underline">
+                    <a
+                      href={`#node-${branch.to}`}
+                      className="inline-block rounded-lg border border-rule bg-paper px-2 py-1 text-base no-underline"
+                    >
                       <strong>{branchName(key)}</strong> → {titles.get(branch.to) ?? `missing ‘${branch.to}’`}
                       {branch.recheck && ` (re-check up to ${branch.recheck.max}×)`}
                     </a>

@@ -22,7 +22,11 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   return {
     query,
     canEdit: can(ctx, "trees.author"),
-    rows: rows.map((r) => ({ ...r, lastChangeText: atShop(r.lastChange, tz, "date"), draftText: r.draft ? atShop(r.draft.updatedAt, tz, "date") : null })),
+    rows: rows.map((r) => ({
+      ...r,
+      lastChangeText: atShop(r.lastChange, tz, "date"),
+      draftText: r.draft ? atShop(r.draft.updatedAt, tz, "date") : null,
+    })),
   };
 });
 
@@ -66,7 +70,12 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
         {canEdit && <NewTreeLinks />}
       </div>
 
-      <Form method="get" role="search" aria-label="Find trees" className="card grid gap-3 sm:grid-cols-2 sm:items-end lg:grid-cols-[1fr_11rem_11rem_12rem_auto]">
+      <Form
+        method="get"
+        role="search"
+        aria-label="Find trees"
+        className="card grid gap-3 sm:grid-cols-2 sm:items-end lg:grid-cols-[1fr_11rem_11rem_12rem_auto]"
+      >
         <Field label="Search" name="q" type="search" defaultValue={query.q ?? ""} placeholder="Title, symptom or equipment" />
         <SelectField label="Category" name="category" defaultValue={query.category ?? ""}>
           <CategoryOptions all="All categories" />
@@ -104,7 +113,12 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
             <thead className="border-b border-rule bg-paper text-sm">
               <tr>
                 {COLUMNS.map((c) => (
-                  <th key={c.label} scope="col" className="px-3 py-2 font-semibold" aria-sort={c.key && c.key === sort ? (dir === "asc" ? "ascending" : "descending") : undefined}>
+                  <th
+                    key={c.label}
+                    scope="col"
+                    className="px-3 py-2 font-semibold"
+                    aria-sort={c.key && c.key === sort ? (dir === "asc" ? "ascending" : "descending") : undefined}
+                  >
                     {c.key ? (
                       <Link to={sortHref(c.key)} className="tap font-semibold text-ink no-underline hover:underline">
                         {c.label}
@@ -130,7 +144,9 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
                   <td className="px-3 py-2 whitespace-nowrap">
                     <Published r={r} />
                   </td>
-                  <td className="px-3 py-2 whitespace-nowrap">{r.draft ? <>Open since {r.draftText}</> : <span className="text-ink-soft">None</span>}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">
+                    {r.draft ? <>Open since {r.draftText}</> : <span className="text-ink-soft">None</span>}
+                  </td>
                   <td className="px-3 py-2 whitespace-nowrap">{r.lastChangeText}</td>
                   <td className="px-3 py-2">{r.lastAuthor}</td>
                 </tr>
@@ -155,7 +171,11 @@ export default function Trees({ loaderData }: Route.ComponentProps) {
       )}
       {rows.length === 0 && (
         <p className="card">
-          {filtered ? "No tree matches. Try fewer words or another category." : canEdit ? "No trees yet. Start one, or import a tree file." : "No trees published yet."}
+          {filtered
+            ? "No tree matches. Try fewer words or another category."
+            : canEdit
+              ? "No trees yet. Start one, or import a tree file."
+              : "No trees published yet."}
         </p>
       )}
     </div>

@@ -18,7 +18,10 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   // Importing makes a draft: the page is for those who may write trees.
   authorize(ctx, "trees.author");
   const trees = await listLibrary(ctx, { sort: "title" });
-  return { trees: trees.map((t) => ({ id: t.treeId, title: t.title, draft: t.draft !== null })), into: new URL(request.url).searchParams.get("into") ?? "" };
+  return {
+    trees: trees.map((t) => ({ id: t.treeId, title: t.title, draft: t.draft !== null })),
+    into: new URL(request.url).searchParams.get("into") ?? "",
+  };
 });
 
 export const action = form(async ({ request }: Route.ActionArgs) => {
@@ -50,7 +53,8 @@ export default function ImportTree({ loaderData, actionData }: Route.ComponentPr
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Import a tree file</h1>
       <p className="text-ink-soft">
-        A tree file is Markdown in Cluepath's tree format (what “Download .md” gives you). It becomes a draft: check it in the editor, then publish it.
+        A tree file is Markdown in Cluepath's tree format (what “Download .md” gives you). It becomes a draft: check it in the editor, then
+        publish it.
       </p>
       {actionData && (
         <section role="alert" aria-labelledby="import-problem" className="card space-y-2 border-out bg-out-soft">
@@ -81,7 +85,14 @@ export default function ImportTree({ loaderData, actionData }: Route.ComponentPr
           <label htmlFor="import-file" className="field-label">
             Tree file
           </label>
-          <input id="import-file" name="file" type="file" accept=".md,.markdown,text/markdown,text/plain" required className="block w-full text-base file:mr-3 file:min-h-11 file:rounded-lg file:border file:border-rule file:bg-card file:px-4" />
+          <input
+            id="import-file"
+            name="file"
+            type="file"
+            accept=".md,.markdown,text/markdown,text/plain"
+            required
+            className="block w-full text-base file:mr-3 file:min-h-11 file:rounded-lg file:border file:border-rule file:bg-card file:px-4"
+          />
         </div>
         <div>
           <label htmlFor="import-into" className="field-label">

@@ -22,8 +22,18 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
 
 // The engine's own rules for these fields, with messages for this form.
 const NewTree = z.object({
-  title: z.string().trim().min(1, "Give the tree a title, like “Fryer won't light”.").max(200, "Keep the title under 200 characters.").pipe(TreeSchema.shape.title),
-  symptom: z.string().trim().min(1, "Say what the customer reports.").max(300, "Keep the symptom under 300 characters.").pipe(TreeSchema.shape.symptom),
+  title: z
+    .string()
+    .trim()
+    .min(1, "Give the tree a title, like “Fryer won't light”.")
+    .max(200, "Keep the title under 200 characters.")
+    .pipe(TreeSchema.shape.title),
+  symptom: z
+    .string()
+    .trim()
+    .min(1, "Say what the customer reports.")
+    .max(300, "Keep the symptom under 300 characters.")
+    .pipe(TreeSchema.shape.symptom),
   category: TreeSchema.shape.category,
 });
 
@@ -40,13 +50,21 @@ export default function NewTreePage({ actionData }: Route.ComponentProps) {
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">New tree</h1>
-      <p className="text-ink-soft">Start with what the customer reports. You add the questions, measurements and outcomes in the editor next.</p>
+      <p className="text-ink-soft">
+        Start with what the customer reports. You add the questions, measurements and outcomes in the editor next.
+      </p>
       <Form method="post" className="card space-y-4" noValidate>
         <Field label="Title" name="title" defaultValue={v.title} error={e.title} hint="What the tree diagnoses, as a lead would say it." />
         <SelectField label="Equipment category" name="category" defaultValue={v.category ?? "rotisserie"}>
           <CategoryOptions />
         </SelectField>
-        <Field label="Symptom" name="symptom" defaultValue={v.symptom} error={e.symptom} hint="What the customer reports, in their words." />
+        <Field
+          label="Symptom"
+          name="symptom"
+          defaultValue={v.symptom}
+          error={e.symptom}
+          hint="What the customer reports, in their words."
+        />
         <button className="btn-primary" disabled={busy}>
           Create and open the editor
         </button>

@@ -12,7 +12,9 @@ export const customers = mysqlTable(
   "customers",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     name: varchar("name", { length: 160 }).notNull(),
     phone: varchar("phone", { length: 40 }),
     createdAt: createdAt(),
@@ -24,8 +26,12 @@ export const sites = mysqlTable(
   "sites",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    customerId: uuidRef("customer_id").notNull().references(() => customers.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    customerId: uuidRef("customer_id")
+      .notNull()
+      .references(() => customers.id),
     name: varchar("name", { length: 160 }).notNull(),
     address: varchar("address", { length: 300 }).notNull(),
     contactName: varchar("contact_name", { length: 120 }).notNull(),
@@ -39,8 +45,12 @@ export const equipmentUnits = mysqlTable(
   "equipment_units",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    siteId: uuidRef("site_id").notNull().references(() => sites.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    siteId: uuidRef("site_id")
+      .notNull()
+      .references(() => sites.id),
     category: varchar("category", { length: 32 }).$type<EquipmentCategory>().notNull(),
     make: varchar("make", { length: 120 }).notNull(),
     model: varchar("model", { length: 120 }).notNull(),

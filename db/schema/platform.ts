@@ -1,13 +1,4 @@
-import {
-  bigint,
-  boolean,
-  index,
-  mysqlEnum,
-  mysqlTable,
-  uniqueIndex,
-  varchar,
-  int,
-} from "drizzle-orm/mysql-core";
+import { bigint, boolean, index, mysqlEnum, mysqlTable, uniqueIndex, varchar, int } from "drizzle-orm/mysql-core";
 import { createdAt, json, timestamp, uuidPk, uuidRef } from "./columns";
 
 import { ROLES } from "../../app/lib/roles";
@@ -41,8 +32,12 @@ export const memberships = mysqlTable(
   "memberships",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    userId: uuidRef("user_id").notNull().references(() => users.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    userId: uuidRef("user_id")
+      .notNull()
+      .references(() => users.id),
     role: mysqlEnum("role", ROLES).notNull(),
     createdAt: createdAt(),
     /** Set while the owner has turned this person's access to the shop off; their work stays. */
@@ -55,12 +50,16 @@ export const invitations = mysqlTable(
   "invitations",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     email: varchar("email", { length: 254 }).notNull(),
     role: mysqlEnum("role", ROLES).notNull(),
     /** SHA-256 of the token in the link; the token itself is never stored. */
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
-    invitedBy: uuidRef("invited_by").notNull().references(() => users.id),
+    invitedBy: uuidRef("invited_by")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
     expiresAt: timestamp("expires_at").notNull(),
     acceptedAt: timestamp("accepted_at"),
@@ -74,8 +73,12 @@ export const sessions = mysqlTable(
   "sessions",
   {
     id: varchar("id", { length: 64 }).primaryKey(),
-    userId: uuidRef("user_id").notNull().references(() => users.id),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    userId: uuidRef("user_id")
+      .notNull()
+      .references(() => users.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     sessionVersion: int("session_version").notNull(),
     createdAt: createdAt(),
     expiresAt: timestamp("expires_at").notNull(),
@@ -95,7 +98,9 @@ export const passwordResets = mysqlTable(
   "password_resets",
   {
     id: uuidPk(),
-    userId: uuidRef("user_id").notNull().references(() => users.id),
+    userId: uuidRef("user_id")
+      .notNull()
+      .references(() => users.id),
     /** SHA-256 of the token in the link; the token itself is never stored. */
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
     /** The owner who sent it; null when the person asked for it themselves. */

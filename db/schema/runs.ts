@@ -16,7 +16,9 @@ export const meters = mysqlTable(
   "meters",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     name: varchar("name", { length: 120 }).notNull(),
     /** The function: which quantity this range measures. */
     quantity: varchar("quantity", { length: 16 }).$type<Quantity>().notNull(),
@@ -37,16 +39,22 @@ export const serviceCalls = mysqlTable(
   "service_calls",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     /** 1, 2, 3… per shop, for people to say on the phone. */
     number: int("number").notNull(),
-    unitId: uuidRef("unit_id").notNull().references(() => equipmentUnits.id),
+    unitId: uuidRef("unit_id")
+      .notNull()
+      .references(() => equipmentUnits.id),
     symptom: varchar("symptom", { length: 300 }).notNull(),
     priority: mysqlEnum("priority", CALL_PRIORITIES).notNull(),
     status: mysqlEnum("status", CALL_STATUSES).notNull(),
     assignedTo: uuidRef("assigned_to").references(() => users.id),
     notes: text("notes"),
-    openedBy: uuidRef("opened_by").notNull().references(() => users.id),
+    openedBy: uuidRef("opened_by")
+      .notNull()
+      .references(() => users.id),
     openedAt: timestamp("opened_at").notNull(),
     closedAt: timestamp("closed_at"),
     updatedAt: timestamp("updated_at").notNull(),
@@ -73,15 +81,25 @@ export const runs = mysqlTable(
   "runs",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     callId: uuidRef("call_id").references(() => serviceCalls.id),
     unitId: uuidRef("unit_id").references(() => equipmentUnits.id),
-    treeId: uuidRef("tree_id").notNull().references(() => trees.id),
+    treeId: uuidRef("tree_id")
+      .notNull()
+      .references(() => trees.id),
     /** The published version current when the run started; never changes. */
-    versionId: uuidRef("version_id").notNull().references(() => treeVersions.id),
+    versionId: uuidRef("version_id")
+      .notNull()
+      .references(() => treeVersions.id),
     /** Who holds the run now (a lead after taking it over). */
-    technicianId: uuidRef("technician_id").notNull().references(() => users.id),
-    startedBy: uuidRef("started_by").notNull().references(() => users.id),
+    technicianId: uuidRef("technician_id")
+      .notNull()
+      .references(() => users.id),
+    startedBy: uuidRef("started_by")
+      .notNull()
+      .references(() => users.id),
     /** Training runs against a scenario (later issue); kept out of owner analytics. */
     practice: boolean("practice").notNull().default(false),
     scenarioId: varchar("scenario_id", { length: 36 }),
@@ -120,7 +138,9 @@ export const runSteps = mysqlTable(
   "run_steps",
   {
     id: uuidPk(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     shopId: uuidRef("shop_id").notNull(),
     /** Position in the run's log: 0, 1, 2… (the engine's entry index). */
     seq: int("seq").notNull(),
@@ -164,7 +184,9 @@ export const runSteps = mysqlTable(
     undoesSeq: int("undoes_seq"),
     /** On a step that a later undo took back. */
     undone: boolean("undone").notNull().default(false),
-    enteredBy: uuidRef("entered_by").notNull().references(() => users.id),
+    enteredBy: uuidRef("entered_by")
+      .notNull()
+      .references(() => users.id),
     /** The phone's clock when the step was taken (it may reach the server later). */
     clientAt: timestamp("client_at"),
     recordedAt: createdAt(),
@@ -181,12 +203,16 @@ export const runNotes = mysqlTable(
   "run_notes",
   {
     id: uuidPk(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     shopId: uuidRef("shop_id").notNull(),
     nodeKey: varchar("node_key", { length: 64 }).notNull(),
     idempotencyKey: varchar("idempotency_key", { length: 36 }).notNull(),
     text: text("text").notNull(),
-    authorId: uuidRef("author_id").notNull().references(() => users.id),
+    authorId: uuidRef("author_id")
+      .notNull()
+      .references(() => users.id),
     /** The phone's clock when the note was written (it may reach the server later, from a queue). */
     clientAt: timestamp("client_at"),
     createdAt: createdAt(),
@@ -199,14 +225,18 @@ export const runPhotos = mysqlTable(
   "run_photos",
   {
     id: uuidPk(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     shopId: uuidRef("shop_id").notNull(),
     nodeKey: varchar("node_key", { length: 64 }).notNull(),
     idempotencyKey: varchar("idempotency_key", { length: 36 }).notNull(),
     objectKey: varchar("object_key", { length: 200 }).notNull(),
     contentType: varchar("content_type", { length: 40 }).notNull(),
     bytes: int("bytes").notNull(),
-    uploadedBy: uuidRef("uploaded_by").notNull().references(() => users.id),
+    uploadedBy: uuidRef("uploaded_by")
+      .notNull()
+      .references(() => users.id),
     /** The phone's clock when the photo was taken (it may reach the server later, from a queue). */
     clientAt: timestamp("client_at"),
     createdAt: createdAt(),
@@ -219,7 +249,9 @@ export const runParts = mysqlTable(
   "run_parts",
   {
     id: uuidPk(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     shopId: uuidRef("shop_id").notNull(),
     position: int("position").notNull(),
     partNumber: varchar("part_number", { length: 60 }).notNull(),
@@ -234,13 +266,17 @@ export const escalations = mysqlTable(
   "escalations",
   {
     id: uuidPk(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     shopId: uuidRef("shop_id").notNull(),
     reason: varchar("reason", { length: 500 }).notNull(),
     /** The node the run stood at, and whether the tree itself sent it ("escalate" end). */
     nodeKey: varchar("node_key", { length: 64 }),
     fromTree: boolean("from_tree").notNull().default(false),
-    raisedBy: uuidRef("raised_by").notNull().references(() => users.id),
+    raisedBy: uuidRef("raised_by")
+      .notNull()
+      .references(() => users.id),
     raisedAt: timestamp("raised_at").notNull(),
     takenBy: uuidRef("taken_by").references(() => users.id),
     takenAt: timestamp("taken_at"),
@@ -254,11 +290,17 @@ export const reports = mysqlTable(
   "reports",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     number: int("number").notNull(),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     callId: uuidRef("call_id").references(() => serviceCalls.id),
-    createdBy: uuidRef("created_by").notNull().references(() => users.id),
+    createdBy: uuidRef("created_by")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
     sentTo: varchar("sent_to", { length: 254 }),
     sentAt: timestamp("sent_at"),

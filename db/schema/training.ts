@@ -17,10 +17,16 @@ export const trainingScenarios = mysqlTable(
   "training_scenarios",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    treeId: uuidRef("tree_id").notNull().references(() => trees.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    treeId: uuidRef("tree_id")
+      .notNull()
+      .references(() => trees.id),
     /** The published version the scenario is written on; pinned, like a run's. */
-    versionId: uuidRef("version_id").notNull().references(() => treeVersions.id),
+    versionId: uuidRef("version_id")
+      .notNull()
+      .references(() => treeVersions.id),
     name: varchar("name", { length: 120 }).notNull(),
     /** What the trainee is told at the start: the complaint as the customer would put it. */
     complaint: varchar("complaint", { length: 500 }).notNull(),
@@ -35,7 +41,9 @@ export const trainingScenarios = mysqlTable(
     findings: json<Finding[]>("findings").notNull(),
     /** The scenario this one was copied from (onto a newer version of the tree). */
     copiedFrom: uuidRef("copied_from"),
-    createdBy: uuidRef("created_by").notNull().references(() => users.id),
+    createdBy: uuidRef("created_by")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at").notNull(),
     /** Set when a copy on a newer version takes its place: no new assignments; its runs keep it. */
@@ -49,10 +57,18 @@ export const trainingAssignments = mysqlTable(
   "training_assignments",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    scenarioId: uuidRef("scenario_id").notNull().references(() => trainingScenarios.id),
-    traineeId: uuidRef("trainee_id").notNull().references(() => users.id),
-    assignedBy: uuidRef("assigned_by").notNull().references(() => users.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    scenarioId: uuidRef("scenario_id")
+      .notNull()
+      .references(() => trainingScenarios.id),
+    traineeId: uuidRef("trainee_id")
+      .notNull()
+      .references(() => users.id),
+    assignedBy: uuidRef("assigned_by")
+      .notNull()
+      .references(() => users.id),
     dueOn: date("due_on", { mode: "string" }),
     /** The practice run taken for it (the latest, when one was abandoned and taken again). */
     runId: uuidRef("run_id").references(() => runs.id),
@@ -60,7 +76,11 @@ export const trainingAssignments = mysqlTable(
     /** Withdrawn by a trainer before it was taken. */
     withdrawnAt: timestamp("withdrawn_at"),
   },
-  (t) => [index("training_assignments_trainee_idx").on(t.traineeId, t.withdrawnAt), index("training_assignments_scenario_idx").on(t.scenarioId), index("training_assignments_shop_idx").on(t.shopId)],
+  (t) => [
+    index("training_assignments_trainee_idx").on(t.traineeId, t.withdrawnAt),
+    index("training_assignments_scenario_idx").on(t.scenarioId),
+    index("training_assignments_shop_idx").on(t.shopId),
+  ],
 );
 
 /** The trainer's review of one practice run: an overall note, and when it was marked reviewed. */
@@ -68,9 +88,15 @@ export const trainingReviews = mysqlTable(
   "training_reviews",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
-    reviewerId: uuidRef("reviewer_id").notNull().references(() => users.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
+    reviewerId: uuidRef("reviewer_id")
+      .notNull()
+      .references(() => users.id),
     note: text("note").notNull(),
     reviewedAt: timestamp("reviewed_at").notNull(),
   },
@@ -82,12 +108,18 @@ export const trainingComments = mysqlTable(
   "training_comments",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    runId: uuidRef("run_id").notNull().references(() => runs.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    runId: uuidRef("run_id")
+      .notNull()
+      .references(() => runs.id),
     seq: int("seq").notNull(),
     nodeKey: varchar("node_key", { length: 64 }).notNull(),
     text: text("text").notNull(),
-    authorId: uuidRef("author_id").notNull().references(() => users.id),
+    authorId: uuidRef("author_id")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
   },
   (t) => [index("training_comments_run_idx").on(t.runId, t.seq)],

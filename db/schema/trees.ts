@@ -11,11 +11,15 @@ export const trees = mysqlTable(
   "trees",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     title: varchar("title", { length: 200 }).notNull(),
     category: varchar("category", { length: 32 }).$type<EquipmentCategory>().notNull(),
     symptom: varchar("symptom", { length: 300 }).notNull(),
-    createdBy: uuidRef("created_by").notNull().references(() => users.id),
+    createdBy: uuidRef("created_by")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at").notNull(),
   },
@@ -30,8 +34,12 @@ export const treeVersions = mysqlTable(
   "tree_versions",
   {
     id: uuidPk(),
-    treeId: uuidRef("tree_id").notNull().references(() => trees.id),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
+    treeId: uuidRef("tree_id")
+      .notNull()
+      .references(() => trees.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
     /** 1, 2, 3… once published; null while a draft. */
     number: int("number"),
     state: mysqlEnum("state", VERSION_STATES).notNull(),
@@ -42,7 +50,9 @@ export const treeVersions = mysqlTable(
     description: text("description"),
     startKey: varchar("start_key", { length: 64 }).notNull(),
     changeNote: varchar("change_note", { length: 500 }),
-    authorId: uuidRef("author_id").notNull().references(() => users.id),
+    authorId: uuidRef("author_id")
+      .notNull()
+      .references(() => users.id),
     /** Who saved it last (a draft can have more than one editor). */
     updatedBy: uuidRef("updated_by"),
     publishedBy: uuidRef("published_by"),
@@ -70,7 +80,9 @@ export const treeNodes = mysqlTable(
   "tree_nodes",
   {
     id: uuidPk(),
-    versionId: uuidRef("version_id").notNull().references(() => treeVersions.id),
+    versionId: uuidRef("version_id")
+      .notNull()
+      .references(() => treeVersions.id),
     shopId: uuidRef("shop_id").notNull(),
     /** The author's node id ("check-fan-cap"), unique within a valid version. */
     nodeKey: varchar("node_key", { length: 64 }).notNull(),
@@ -91,7 +103,9 @@ export const treeBranches = mysqlTable(
   "tree_branches",
   {
     id: uuidPk(),
-    versionId: uuidRef("version_id").notNull().references(() => treeVersions.id),
+    versionId: uuidRef("version_id")
+      .notNull()
+      .references(() => treeVersions.id),
     shopId: uuidRef("shop_id").notNull(),
     fromKey: varchar("from_key", { length: 64 }).notNull(),
     /** "answer:<label>", "low" | "within" | "high" | "marginal", or "next". */
@@ -112,14 +126,20 @@ export const treeImages = mysqlTable(
   "tree_images",
   {
     id: uuidPk(),
-    shopId: uuidRef("shop_id").notNull().references(() => shops.id),
-    treeId: uuidRef("tree_id").notNull().references(() => trees.id),
+    shopId: uuidRef("shop_id")
+      .notNull()
+      .references(() => shops.id),
+    treeId: uuidRef("tree_id")
+      .notNull()
+      .references(() => trees.id),
     objectKey: varchar("object_key", { length: 200 }).notNull(),
     mime: varchar("mime", { length: 40 }).notNull(),
     bytes: int("bytes").notNull(),
     /** The uploader's file name, shown and used as the download name; never part of the key. */
     filename: varchar("filename", { length: 200 }).notNull(),
-    createdBy: uuidRef("created_by").notNull().references(() => users.id),
+    createdBy: uuidRef("created_by")
+      .notNull()
+      .references(() => users.id),
     createdAt: createdAt(),
   },
   (t) => [index("tree_images_tree_idx").on(t.shopId, t.treeId)],

@@ -61,7 +61,9 @@ export async function startField(stack: Stack): Promise<Field & { runId: string 
   const [calls] = await stack.sql().query<mysql.RowDataPacket[]>("SELECT id FROM service_calls WHERE number = ?", [CALL_NUMBER]);
   const callId = calls[0]?.id as string | undefined;
   if (!callId) throw new Error(`demo call ${CALL_NUMBER} is missing`);
-  const library = (await (await fetch(`${stack.baseUrl}/api/trees`, { headers: { cookie } })).json()) as { trees: { treeId: string; title: string }[] };
+  const library = (await (await fetch(`${stack.baseUrl}/api/trees`, { headers: { cookie } })).json()) as {
+    trees: { treeId: string; title: string }[];
+  };
   const treeId = library.trees.find((t) => t.title === TREE_TITLE)?.treeId;
   if (!treeId) throw new Error(`starter tree "${TREE_TITLE}" is missing`);
   const start = await fetch(`${stack.baseUrl}/calls/${callId}`, {
@@ -72,7 +74,9 @@ export async function startField(stack: Stack): Promise<Field & { runId: string 
   });
   const runId = /\/runs\/([0-9a-f-]{36})$/.exec(start.headers.get("location") ?? "")?.[1];
   if (!runId) throw new Error(`starting a run answered ${start.status}`);
-  const view = (await (await fetch(`${stack.baseUrl}/api/runs/${runId}`, { headers: { cookie } })).json()) as { meters: { id: string; quantity: string; unit: string }[] };
+  const view = (await (await fetch(`${stack.baseUrl}/api/runs/${runId}`, { headers: { cookie } })).json()) as {
+    meters: { id: string; quantity: string; unit: string }[];
+  };
   const meterId = view.meters.find((m) => m.quantity === "voltage" && m.unit === "V")?.id;
   if (!meterId) throw new Error("the demo shop has no voltmeter");
   const field = { stack, cookie, meterId };
@@ -100,10 +104,15 @@ export async function cloneRun(pool: mysql.Pool, runId: string, count: number): 
       const batch = ids.slice(i, i + 500);
       await conn.query("CREATE TEMPORARY TABLE clone_ids (id VARCHAR(36) PRIMARY KEY)");
       await conn.query("INSERT INTO clone_ids (id) VALUES ?", [batch.map((id) => [id])]);
-      await conn.query("CREATE TEMPORARY TABLE clone_runs AS SELECT r.*, i.id AS clone_id FROM runs r JOIN clone_ids i WHERE r.id = ?", [runId]);
+      await conn.query("CREATE TEMPORARY TABLE clone_runs AS SELECT r.*, i.id AS clone_id FROM runs r JOIN clone_ids i WHERE r.id = ?", [
+        runId,
+      ]);
       await conn.query("UPDATE clone_runs SET id = clone_id");
       await conn.query("ALTER TABLE clone_runs DROP COLUMN clone_id");
-      await conn.query("CREATE TEMPORARY TABLE clone_steps AS SELECT s.*, i.id AS clone_run FROM run_steps s JOIN clone_ids i WHERE s.run_id = ?", [runId]);
+      await conn.query(
+        "CREATE TEMPORARY TABLE clone_steps AS SELECT s.*, i.id AS clone_run FROM run_steps s JOIN clone_ids i WHERE s.run_id = ?",
+        [runId],
+      );
       await conn.query("UPDATE clone_steps SET id = UUID(), run_id = clone_run, idempotency_key = UUID()");
       await conn.query("ALTER TABLE clone_steps DROP COLUMN clone_run");
       await conn.beginTransaction();

@@ -158,7 +158,8 @@ export class Stack {
       mkdirSync(projectDir);
       // The app's own build configuration (its server entry is server/app.ts); BUILD_DIR below points
       // the output here.
-      for (const part of ["app", "db", "server", "public", "package.json", "tsconfig.json", "vite.config.ts", "react-router.config.ts"]) cpSync(join(ROOT, part), join(projectDir, part), { recursive: true });
+      for (const part of ["app", "db", "server", "public", "package.json", "tsconfig.json", "vite.config.ts", "react-router.config.ts"])
+        cpSync(join(ROOT, part), join(projectDir, part), { recursive: true });
       renameSync(join(projectDir, "app/routes.ts"), join(projectDir, "app/routes.app.ts"));
       const lines = Object.entries(extraRoutes).map(([path, r]) => {
         writeFileSync(join(projectDir, "app/routes", r.file), r.source);
@@ -182,7 +183,9 @@ export class Stack {
       throw new Error(`the production build failed:\n${err.stdout ?? ""}${err.stderr ?? ""}`, { cause: e });
     }
     this.buildDir = out;
-    log(`production build${projectDir === ROOT ? "" : " (the app plus the harness's own routes)"} in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+    log(
+      `production build${projectDir === ROOT ? "" : " (the app plus the harness's own routes)"} in ${((Date.now() - started) / 1000).toFixed(1)} s`,
+    );
   }
 
   // --- app server ----------------------------------------------------------------------------
@@ -258,7 +261,8 @@ export class Stack {
       body: new URLSearchParams({ email, password }),
     });
     const cookies = res.headers.getSetCookie().map((c) => c.split(";")[0]!);
-    if (res.status !== 302 || !cookies.some((c) => c.includes("session-token="))) throw new Error(`sign-in as ${email} answered ${res.status}`);
+    if (res.status !== 302 || !cookies.some((c) => c.includes("session-token=")))
+      throw new Error(`sign-in as ${email} answered ${res.status}`);
     return cookies.join("; ");
   }
 

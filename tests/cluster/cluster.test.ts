@@ -11,7 +11,21 @@ import { writeFileSync } from "node:fs";
 import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { dbUrl, haproxyServers, nodeStatus, type ServerStat } from "../../scripts/cluster-status";
-import { bringDown, bringUp, clusterScript, compare, Ledger, percentile, readBack, rotisserieWalk, technicians, WORK, type Ack, type Setup, type Technician } from "./harness";
+import {
+  bringDown,
+  bringUp,
+  clusterScript,
+  compare,
+  Ledger,
+  percentile,
+  readBack,
+  rotisserieWalk,
+  technicians,
+  WORK,
+  type Ack,
+  type Setup,
+  type Technician,
+} from "./harness";
 
 let galera: Setup | undefined;
 let single: Setup | undefined;
@@ -90,9 +104,19 @@ describe("technicians on different app servers at once", () => {
     const servedBy = Object.fromEntries(galera!.layout.apps.map((a) => [a.name, ledger.acks.filter((x) => x.servedBy === a.name).length]));
     const stored = await readAll(galera!, [...ledger.runs]);
     const figures = stored.map((s) => ({ node: s.node, ...compare(ledger.acks, s), digest: s.digest }));
-    console.log(`\n[1] ${techs.length} technicians, ${ledger.runs.size} runs, ${ledger.acks.length} steps in ${seconds(ms)} s; answered by ${JSON.stringify(servedBy)}; failed tries ${ledger.misses.length}`);
+    console.log(
+      `\n[1] ${techs.length} technicians, ${ledger.runs.size} runs, ${ledger.acks.length} steps in ${seconds(ms)} s; answered by ${JSON.stringify(servedBy)}; failed tries ${ledger.misses.length}`,
+    );
     console.table(figures);
-    results.concurrent = { technicians: techs.length, runs: ledger.runs.size, steps: ledger.acks.length, seconds: seconds(ms), servedBy, failedTries: ledger.misses.length, nodes: figures };
+    results.concurrent = {
+      technicians: techs.length,
+      runs: ledger.runs.size,
+      steps: ledger.acks.length,
+      seconds: seconds(ms),
+      servedBy,
+      failedTries: ledger.misses.length,
+      nodes: figures,
+    };
 
     expect(ledger.acks).toHaveLength(6 * 3 * rotisserieWalk(extra).length);
     // Round robin over three healthy servers: each one answered steps, so each node took writes.
@@ -100,7 +124,15 @@ describe("technicians on different app servers at once", () => {
     checkVerdicts(ledger.acks);
     checkSequence(ledger.acks, extra);
     for (const f of figures) {
-      expect(f).toMatchObject({ acknowledged: ledger.acks.length, stored: ledger.acks.length, missing: 0, doubled: 0, unacknowledged: 0, gaps: 0, countsOff: 0 });
+      expect(f).toMatchObject({
+        acknowledged: ledger.acks.length,
+        stored: ledger.acks.length,
+        missing: 0,
+        doubled: 0,
+        unacknowledged: 0,
+        gaps: 0,
+        countsOff: 0,
+      });
     }
     expect(new Set(figures.map((f) => f.digest)).size).toBe(1);
   });
@@ -125,7 +157,9 @@ describe("technicians on different app servers at once", () => {
       expect([...s.byKey.values()].every((n) => n === 1)).toBe(true);
       expect(s.byRun.get(runId)).toEqual(walk.map((_, i) => i));
     }
-    console.log(`\n[1b] ${walk.length} steps each sent to app1 (node1) and app2 (node2) at the same moment: ${walk.length} rows on every node, one 201 and one replayed 200 per key`);
+    console.log(
+      `\n[1b] ${walk.length} steps each sent to app1 (node1) and app2 (node2) at the same moment: ${walk.length} rows on every node, one 201 and one replayed 200 per key`,
+    );
   });
 });
 
@@ -138,7 +172,10 @@ describe("failover under load", () => {
     const techs = await technicians(setup, 8, "f", ledger, 24);
     let stop = false;
     const load = Promise.all(techs.map((t) => t.work({ extra, thinkMs: 25, stop: () => stop })));
-    const loadFailed = load.then(() => null, (e: unknown) => e);
+    const loadFailed = load.then(
+      () => null,
+      (e: unknown) => e,
+    );
 
     await sleep(4000);
     const deadApp = layout.apps[0]!; // app1, on node1
@@ -150,14 +187,18 @@ describe("failover under load", () => {
     const tKill = ledger.now();
     process.kill(nodePid, "SIGKILL");
     process.kill(appPid, "SIGKILL");
-    console.log(`\n[2] t=${seconds(tKill)} s: SIGKILL ${deadNode.name} (pid ${nodePid}) and ${deadApp.name} (pid ${appPid}) after ${acksBeforeKill} acknowledged steps`);
+    console.log(
+      `\n[2] t=${seconds(tKill)} s: SIGKILL ${deadNode.name} (pid ${nodePid}) and ${deadApp.name} (pid ${appPid}) after ${acksBeforeKill} acknowledged steps`,
+    );
 
     // HAProxy takes app1 (dead) and app3 (its node dead, /healthz 503) out of rotation.
     const downAt: Record<string, number> = {};
     let atDown: ServerStat[] = [];
     for (let i = 0; i < 300 && Object.keys(downAt).length < 2; i++) {
       const stats = await haproxyServers(layout.haproxySocket);
-      for (const s of stats) if ((s.name === "app1" || s.name === "app3") && s.status.startsWith("DOWN") && !(s.name in downAt)) downAt[s.name] = ledger.now() - tKill;
+      for (const s of stats)
+        if ((s.name === "app1" || s.name === "app3") && s.status.startsWith("DOWN") && !(s.name in downAt))
+          downAt[s.name] = ledger.now() - tKill;
       atDown = stats;
       await sleep(100);
     }
@@ -224,7 +265,9 @@ describe("failover under load", () => {
       const from = `${m.status} from ${m.servedBy || (/^\d+$/.test(m.status) ? "HAProxy" : "the connection")}`;
       missesByStatus[from] = (missesByStatus[from] ?? 0) + 1;
     }
-    const servedAfterRejoin = Object.fromEntries(layout.apps.map((a) => [a.name, ledger.acks.filter((x) => x.ackAt > tAllUp && x.servedBy === a.name).length]));
+    const servedAfterRejoin = Object.fromEntries(
+      layout.apps.map((a) => [a.name, ledger.acks.filter((x) => x.ackAt > tAllUp && x.servedBy === a.name).length]),
+    );
     const servedDegraded = Object.fromEntries(layout.apps.map((a) => [a.name, degradedAcks.filter((x) => x.servedBy === a.name).length]));
     const summary = {
       technicians: techs.length,
@@ -249,7 +292,8 @@ describe("failover under load", () => {
     };
     console.log(`[2] ${JSON.stringify(summary, null, 2)}`);
     console.table(figures);
-    for (const f of figures) console.log(`[2] ${f.node}: acknowledged ${f.acknowledged}, stored ${f.stored}: ${f.missing} missing, ${f.doubled} doubled`);
+    for (const f of figures)
+      console.log(`[2] ${f.node}: acknowledged ${f.acknowledged}, stored ${f.stored}: ${f.missing} missing, ${f.doubled} doubled`);
     results.failover = { ...summary, nodes: figures };
 
     // The load went on through the survivors, and only through them.
@@ -266,7 +310,8 @@ describe("failover under load", () => {
     // Acknowledged against stored, on every node including the one that was killed.
     checkVerdicts(ledger.acks);
     checkSequence(ledger.acks, extra);
-    for (const f of figures) expect(f).toMatchObject({ missing: 0, doubled: 0, unacknowledged: 0, gaps: 0, countsOff: 0, stored: ledger.acks.length });
+    for (const f of figures)
+      expect(f).toMatchObject({ missing: 0, doubled: 0, unacknowledged: 0, gaps: 0, countsOff: 0, stored: ledger.acks.length });
     expect(new Set(figures.map((f) => f.digest)).size).toBe(1);
   });
 });
@@ -283,7 +328,14 @@ describe("throughput: the cluster beside the single database", () => {
     await Promise.all(techs.map((t) => t.work({ extra, thinkMs: 0, skip: 1 + r * runsPerRound, limit: runsPerRound })));
     const ms = ledger.now() - t0;
     const acks = ledger.acks.slice(before);
-    return { setup: setup.kind, round: r + 1, steps: acks.length, seconds: seconds(ms), stepsPerSecond: Math.round(acks.length / (ms / 1000)), latencies: acks.map((a) => a.ackAt - a.firstTry) };
+    return {
+      setup: setup.kind,
+      round: r + 1,
+      steps: acks.length,
+      seconds: seconds(ms),
+      stepsPerSecond: Math.round(acks.length / (ms / 1000)),
+      latencies: acks.map((a) => a.ackAt - a.firstTry),
+    };
   }
 
   it("prints persisted steps per second on both, in interleaved rounds, and their ratio", async () => {
@@ -293,7 +345,8 @@ describe("throughput: the cluster beside the single database", () => {
     const setups = [galera!, single];
     const ledgers = setups.map(() => new Ledger());
     const techs: Technician[][] = [];
-    for (const [i, setup] of setups.entries()) techs.push(await technicians(setup, 6, i === 0 ? "tg" : "ts", ledgers[i]!, 1 + rounds * runsPerRound));
+    for (const [i, setup] of setups.entries())
+      techs.push(await technicians(setup, 6, i === 0 ? "tg" : "ts", ledgers[i]!, 1 + rounds * runsPerRound));
     for (const [i] of setups.entries()) await Promise.all(techs[i]!.map((t) => t.work({ extra, thinkMs: 0, limit: 1 }))); // warm-up
     const measured: Awaited<ReturnType<typeof round>>[] = [];
     for (let r = 0; r < rounds; r++) {
@@ -319,7 +372,9 @@ describe("throughput: the cluster beside the single database", () => {
       expect(compare(ledgers[i]!.acks, stored)).toMatchObject({ missing: 0, doubled: 0, unacknowledged: 0, gaps: 0, countsOff: 0 });
     }
     const ratio = Number((rows[0]!.medianStepsPerSecond / rows[1]!.medianStepsPerSecond).toFixed(2));
-    console.log(`\n[3] persisted steps per second through HAProxy: 6 technicians without pauses, ${rounds} interleaved rounds of ${runsPerRound} runs × ${rotisserieWalk(extra).length} steps each`);
+    console.log(
+      `\n[3] persisted steps per second through HAProxy: 6 technicians without pauses, ${rounds} interleaved rounds of ${runsPerRound} runs × ${rotisserieWalk(extra).length} steps each`,
+    );
     console.table(rows);
     console.log(`[3] cluster / single (medians) = ${ratio}`);
     results.throughput = { cluster: rows[0], single: rows[1], ratio };

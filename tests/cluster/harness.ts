@@ -160,11 +160,21 @@ export class Technician {
       headers["content-type"] = "application/json";
       body = JSON.stringify(init.json);
     }
-    return fetch(`${this.base}${path}`, { method: init.method ?? "POST", headers, body, redirect: "manual", signal: AbortSignal.timeout(timeoutMs) });
+    return fetch(`${this.base}${path}`, {
+      method: init.method ?? "POST",
+      headers,
+      body,
+      redirect: "manual",
+      signal: AbortSignal.timeout(timeoutMs),
+    });
   }
 
   /** Repeats `attempt` on 5xx and dropped connections until it answers otherwise or `deadlineMs` passes. */
-  private async retrying(what: string, attempt: () => Promise<Response>, deadlineMs = 90_000): Promise<{ res: Response; attempts: number; firstTry: number }> {
+  private async retrying(
+    what: string,
+    attempt: () => Promise<Response>,
+    deadlineMs = 90_000,
+  ): Promise<{ res: Response; attempts: number; firstTry: number }> {
     const firstTry = this.ledger.now();
     for (let attempts = 1; ; attempts++) {
       let status: string;
@@ -207,7 +217,8 @@ export class Technician {
   async startRun(callId: string): Promise<string> {
     const { res } = await this.retrying("start run", () => this.send(`/calls/${callId}`, { form: { treeId: ROTISSERIE_TREE } }));
     const id = /\/runs\/([0-9a-f-]{36})$/.exec(res.headers.get("location") ?? "")?.[1];
-    if (res.status !== 302 || !id) throw new Error(`starting a run failed: ${res.status} ${res.headers.get("location")} ${(await res.text()).slice(0, 400)}`);
+    if (res.status !== 302 || !id)
+      throw new Error(`starting a run failed: ${res.status} ${res.headers.get("location")} ${(await res.text()).slice(0, 400)}`);
     this.ledger.runs.add(id);
     return id;
   }
@@ -215,9 +226,16 @@ export class Technician {
   /** One step, retried with the same idempotency key until acknowledged (201, or 200 replayed). */
   async postStep(runId: string, entry: Entry): Promise<Ack> {
     const key = crypto.randomUUID();
-    const { res, attempts, firstTry } = await this.retrying("step", () => this.send(`/api/runs/${runId}/steps`, { json: { key, entry, at: new Date().toISOString() } }));
-    const body = (await res.json()) as { replayed?: boolean; step?: { seq: number; key: string; verdict: string | null; limitsText: string | null }; error?: string };
-    if ((res.status !== 201 && res.status !== 200) || !body.step) throw new Error(`step ${entry.type} on run ${runId} refused: ${res.status} ${body.error ?? ""}`);
+    const { res, attempts, firstTry } = await this.retrying("step", () =>
+      this.send(`/api/runs/${runId}/steps`, { json: { key, entry, at: new Date().toISOString() } }),
+    );
+    const body = (await res.json()) as {
+      replayed?: boolean;
+      step?: { seq: number; key: string; verdict: string | null; limitsText: string | null };
+      error?: string;
+    };
+    if ((res.status !== 201 && res.status !== 200) || !body.step)
+      throw new Error(`step ${entry.type} on run ${runId} refused: ${res.status} ${body.error ?? ""}`);
     const ack: Ack = {
       tech: this.email,
       runId,
@@ -279,7 +297,14 @@ export async function technicians(setup: Setup, count: number, prefix: string, l
 
 // --- read-back -----------------------------------------------------------------------------------
 
-export type Stored = { node: string; rows: number; byKey: Map<string, number>; byRun: Map<string, number[]>; stepCounts: Map<string, number>; digest: string };
+export type Stored = {
+  node: string;
+  rows: number;
+  byKey: Map<string, number>;
+  byRun: Map<string, number[]>;
+  stepCounts: Map<string, number>;
+  digest: string;
+};
 
 /** The steps of the given runs as one node has them, read straight from that node. */
 export async function readBack(layout: Layout, port: number, runIds: string[]): Promise<Stored> {
@@ -292,7 +317,10 @@ export async function readBack(layout: Layout, port: number, runIds: string[]): 
     const hash = (await import("node:crypto")).createHash("sha256");
     for (let i = 0; i < runIds.length; i += 200) {
       const ids = runIds.slice(i, i + 200);
-      const [steps] = await conn.query("SELECT run_id, seq, idempotency_key, type, verdict FROM run_steps WHERE run_id IN (?) ORDER BY run_id, seq", [ids]);
+      const [steps] = await conn.query(
+        "SELECT run_id, seq, idempotency_key, type, verdict FROM run_steps WHERE run_id IN (?) ORDER BY run_id, seq",
+        [ids],
+      );
       for (const r of steps as { run_id: string; seq: number; idempotency_key: string; type: string; verdict: string | null }[]) {
         rows++;
         byKey.set(r.idempotency_key, (byKey.get(r.idempotency_key) ?? 0) + 1);

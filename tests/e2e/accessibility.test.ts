@@ -17,14 +17,21 @@ beforeAll(async () => {
 });
 afterAll(() => browser?.close());
 
-const EMAIL: Record<Role, string> = { technician: "tech@tinderbox.example", lead: "lead@tinderbox.example", trainer: "trainer@tinderbox.example", owner: "owner@tinderbox.example" };
+const EMAIL: Record<Role, string> = {
+  technician: "tech@tinderbox.example",
+  lead: "lead@tinderbox.example",
+  trainer: "trainer@tinderbox.example",
+  owner: "owner@tinderbox.example",
+};
 const SIZES = [
   ["phone", PHONE],
   ["laptop", LAPTOP],
 ] as const;
 
 async function open(role: Role | null, size: "phone" | "laptop"): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext(size === "phone" ? { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true } : { viewport: LAPTOP });
+  const context = await browser.newContext(
+    size === "phone" ? { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true } : { viewport: LAPTOP },
+  );
   const page = await context.newPage();
   if (role) {
     await signInAs(page, baseUrl, EMAIL[role]);
@@ -91,11 +98,19 @@ describe("the phone's bottom bar", () => {
       const nav = page.getByRole("navigation", { name: "Main" });
       await nav.waitFor();
       await page.waitForLoadState("networkidle");
-      const widths = await page.evaluate(() => ({ page: document.documentElement.scrollWidth, bar: document.querySelector('nav[aria-label="Main"] ul')!.scrollWidth, window: window.innerWidth }));
+      const widths = await page.evaluate(() => ({
+        page: document.documentElement.scrollWidth,
+        bar: document.querySelector('nav[aria-label="Main"] ul')!.scrollWidth,
+        window: window.innerWidth,
+      }));
       expect(widths.page).toBeLessThanOrEqual(widths.window);
       expect(widths.bar).toBeLessThanOrEqual(widths.window);
       // Every visible tab lies wholly on screen.
-      for (const box of await nav.locator("li").evaluateAll((els) => els.filter((e) => e.getBoundingClientRect().width > 0).map((e) => e.getBoundingClientRect().toJSON() as DOMRect))) {
+      for (const box of await nav
+        .locator("li")
+        .evaluateAll((els) =>
+          els.filter((e) => e.getBoundingClientRect().width > 0).map((e) => e.getBoundingClientRect().toJSON() as DOMRect),
+        )) {
         expect(box.left).toBeGreaterThanOrEqual(0);
         expect(box.right).toBeLessThanOrEqual(PHONE.width);
       }

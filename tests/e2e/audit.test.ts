@@ -28,12 +28,18 @@ describe("/audit", () => {
       await page.getByRole("heading", { level: 1, name: "Audit trail" }).waitFor();
       // At least this sign-in is there, newest first, with its address.
       const first = page.getByRole("list", { name: "Entries, newest first" }).getByRole("listitem").first();
-      await expect(first.textContent()).resolves.toMatch(/owner@tinderbox\.example signed in.*Signed in · Maren Holt · from (127\.0\.0\.1|::1|::ffff:127\.0\.0\.1)/);
+      await expect(first.textContent()).resolves.toMatch(
+        /owner@tinderbox\.example signed in.*Signed in · Maren Holt · from (127\.0\.0\.1|::1|::ffff:127\.0\.0\.1)/,
+      );
       await page.screenshot({ path: screenshotPath(`audit-${size}`), fullPage: true });
       await page.getByLabel("What").selectOption("sign-in.refused");
       await page.getByRole("button", { name: "Show" }).click();
       await page.waitForURL(/action=sign-in\.refused/);
-      const items = await page.getByRole("list", { name: "Entries, newest first" }).getByRole("listitem").allTextContents().catch(() => []);
+      const items = await page
+        .getByRole("list", { name: "Entries, newest first" })
+        .getByRole("listitem")
+        .allTextContents()
+        .catch(() => []);
       for (const text of items) expect(text).toContain("Sign-in refused");
       await context.close();
     });

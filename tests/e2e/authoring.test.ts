@@ -26,11 +26,17 @@ beforeAll(async () => {
 });
 afterAll(() => browser?.close());
 
-const HOME = { "lead@tinderbox.example": "/authoring", "owner@tinderbox.example": "/overview", "tech@tinderbox.example": "/calls" } as const;
+const HOME = {
+  "lead@tinderbox.example": "/authoring",
+  "owner@tinderbox.example": "/overview",
+  "tech@tinderbox.example": "/calls",
+} as const;
 
 /** A fresh browser context signed in as a demo user, on their home page. */
 async function signedIn(email: keyof typeof HOME, size: "laptop" | "phone" = "laptop") {
-  const context = await browser.newContext(size === "laptop" ? { viewport: LAPTOP } : { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true });
+  const context = await browser.newContext(
+    size === "laptop" ? { viewport: LAPTOP } : { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true },
+  );
   const page = await context.newPage();
   const canvas = canvasRequests(page);
   await signInAs(page, baseUrl, email);
@@ -68,7 +74,9 @@ describe("authoring a tree in the browser", () => {
     // 1. A question, with an answer that makes a new measurement and one that makes a new outcome.
     // Adding from the palette puts focus in the new node's first field, and says so.
     await page.getByRole("button", { name: "Add question" }).first().click();
-    await expect.poll(() => page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.labels?.[0]?.textContent)).toBe("Question to ask");
+    await expect
+      .poll(() => page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.labels?.[0]?.textContent))
+      .toBe("Question to ask");
     await expect.poll(() => page.locator("#announce-polite").textContent()).toBe("Added a new question, ‘New question’. Its form is open.");
     await page.keyboard.type("Is the run capacitor bulging or leaking?");
     await page.getByLabel("Answer text").fill("no");
@@ -101,7 +109,10 @@ describe("authoring a tree in the browser", () => {
     await page.getByLabel("On a high reading, go to").selectOption("outcome");
 
     // 3. The low branch is still open: the checks say so in the editor's words, and Publish is held back with the reason.
-    await waitForChecks(page, "Connect the Low branch of the measurement ‘Run capacitor against its rating’ to a node: a low reading has nowhere to go yet.");
+    await waitForChecks(
+      page,
+      "Connect the Low branch of the measurement ‘Run capacitor against its rating’ to a node: a low reading has nowhere to go yet.",
+    );
     const publish = page.getByRole("button", { name: "Publish…" });
     await expect(publish.isDisabled()).resolves.toBe(true);
     await page.getByText(/Fix the (error|\d+ errors) under Checks first/).waitFor(); // the placeholders of new nodes are errors too (issue 10 item 11)
@@ -110,10 +121,16 @@ describe("authoring a tree in the browser", () => {
     // 4. Fix it from the finding's link, and name the two outcomes.
     await page.getByRole("button", { name: "Go to ‘Run capacitor against its rating’" }).click();
     await page.getByLabel("On a low reading, go to").selectOption("outcome");
-    await outline.getByRole("treeitem", { name: /New root cause/ }).first().click();
+    await outline
+      .getByRole("treeitem", { name: /New root cause/ })
+      .first()
+      .click();
     await page.getByLabel("Root cause").fill("Failed run capacitor");
     await page.getByLabel("Remedy").fill("Replace it with one of the same µF and an equal or higher voltage rating.");
-    await outline.getByRole("treeitem", { name: /New root cause/ }).first().click();
+    await outline
+      .getByRole("treeitem", { name: /New root cause/ })
+      .first()
+      .click();
     await page.getByLabel("Root cause").fill("Failed fan motor");
     await page.getByLabel("Remedy").fill("Replace the fan motor.");
     await waitForChecks(page, "No problems found.");
@@ -126,9 +143,12 @@ describe("authoring a tree in the browser", () => {
     await page.locator(".react-flow__node").nth(3).waitFor();
     await expect(page.locator(".react-flow__node").count()).resolves.toBe(4);
     await expect(page.locator(".react-flow__edge").count()).resolves.toBe(5);
-    const boxes = await page.locator(".react-flow__node").evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
+    const boxes = await page
+      .locator(".react-flow__node")
+      .evaluateAll((els) => els.map((e) => e.getBoundingClientRect().toJSON() as DOMRect));
     for (const [i, a] of boxes.entries())
-      for (const b of boxes.slice(i + 1)) expect(a.right <= b.left || b.right <= a.left || a.bottom <= b.top || b.bottom <= a.top, "two boxes overlap").toBe(true);
+      for (const b of boxes.slice(i + 1))
+        expect(a.right <= b.left || b.right <= a.left || a.bottom <= b.top || b.bottom <= a.top, "two boxes overlap").toBe(true);
     await page.screenshot({ path: screenshotPath("editor-canvas-as-placed-laptop") });
     // By keyboard: a box takes focus visibly, Enter opens its form.
     const box = page.locator('.react-flow__node[data-id="measure"]');
@@ -139,7 +159,9 @@ describe("authoring a tree in the browser", () => {
     await page.locator('.react-flow__node[data-id="question"]').focus();
     await page.keyboard.press("Tab");
     await page.keyboard.press("Shift+Tab");
-    await expect(page.locator('.react-flow__node[data-id="question"]').evaluate((el) => getComputedStyle(el).outlineStyle)).resolves.toBe("solid");
+    await expect(page.locator('.react-flow__node[data-id="question"]').evaluate((el) => getComputedStyle(el).outlineStyle)).resolves.toBe(
+      "solid",
+    );
     await page.keyboard.press(" ");
     await expect(page.getByLabel("Question to ask").inputValue()).resolves.toBe("Is the run capacitor bulging or leaking?");
     await page.screenshot({ path: screenshotPath("editor-canvas-keyboard-laptop") });
@@ -201,12 +223,16 @@ describe("authoring a tree in the browser", () => {
     await page.screenshot({ path: screenshotPath("editor-node-phone") });
     // Toggles and zoom buttons a finger can hit (WCAG 2.5.5: 44 × 44 px).
     await page.getByRole("tab", { name: "Outline" }).click();
-    const toggles = await outline.locator("li > button").evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
+    const toggles = await outline
+      .locator("li > button")
+      .evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
     expect(toggles.length).toBeGreaterThan(0);
     for (const [w, h] of toggles) expect(Math.min(w!, h!)).toBeGreaterThanOrEqual(44);
     await page.getByRole("tab", { name: "Canvas" }).click();
     await page.locator(".react-flow__node").first().waitFor();
-    const zoom = await page.locator(".react-flow__controls-button").evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
+    const zoom = await page
+      .locator(".react-flow__controls-button")
+      .evaluateAll((els) => els.map((e) => [e.getBoundingClientRect().width, e.getBoundingClientRect().height]));
     expect(zoom.length).toBeGreaterThan(0);
     for (const [w, h] of zoom) expect(Math.min(w!, h!)).toBeGreaterThanOrEqual(44);
     await page.screenshot({ path: screenshotPath("editor-canvas-phone") });
@@ -237,11 +263,15 @@ describe("two editors, images and the diff", () => {
     await differs.getByText("Single-fan rotisseries").waitFor();
     await a.screenshot({ path: screenshotPath("editor-conflict-laptop") });
     // The server still holds the first save.
-    const theirs = (await (await a.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as { tree: { equipment?: string } };
+    const theirs = (await (await a.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as {
+      tree: { equipment?: string };
+    };
     expect(theirs.tree.equipment).toBe("Two-fan rotisseries");
     await a.getByRole("button", { name: "Keep mine, replacing theirs" }).click();
     await a.getByText("All changes saved").waitFor();
-    const now = (await (await a.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as { tree: { equipment?: string } };
+    const now = (await (await a.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as {
+      tree: { equipment?: string };
+    };
     expect(now.tree.equipment).toBe("Single-fan rotisseries");
     await a.context().close();
     await b.context().close();
@@ -252,15 +282,26 @@ describe("two editors, images and the diff", () => {
     const { context, page } = await signedIn("lead@tinderbox.example");
     await page.goto(`${treeUrl}/edit`);
     await page.getByRole("button", { name: "Outline", pressed: false }).click();
-    await page.getByRole("tree", { name: "Outline of the draft" }).getByRole("treeitem", { name: /Run capacitor against its rating/ }).click();
+    await page
+      .getByRole("tree", { name: "Outline of the draft" })
+      .getByRole("treeitem", { name: /Run capacitor against its rating/ })
+      .click();
     await page.getByLabel("Add an image").setInputFiles({ name: "capacitor terminals.png", mimeType: "image/png", buffer: png });
     await page.getByText("Added capacitor terminals.png.", { exact: false }).waitFor();
-    await expect(page.getByLabel("Instructions and notes", { exact: true }).inputValue()).resolves.toMatch(/^!\[capacitor terminals\]\(\/trees\/[0-9a-f-]+\/images\/[0-9a-f-]+\)\n$/);
+    await expect(page.getByLabel("Instructions and notes", { exact: true }).inputValue()).resolves.toMatch(
+      /^!\[capacitor terminals\]\(\/trees\/[0-9a-f-]+\/images\/[0-9a-f-]+\)\n$/,
+    );
     await page.getByRole("button", { name: "Preview" }).click();
-    const img = page.getByRole("region", { name: "Instructions and notes as the technician sees it" }).getByRole("img", { name: "capacitor terminals" });
+    const img = page
+      .getByRole("region", { name: "Instructions and notes as the technician sees it" })
+      .getByRole("img", { name: "capacitor terminals" });
     await img.waitFor();
     // Loaded through the authorised image route: the 1×1 test image has a natural width of 1.
-    await page.waitForFunction((el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth === 1, await img.elementHandle(), { timeout: 10_000 });
+    await page.waitForFunction(
+      (el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth === 1,
+      await img.elementHandle(),
+      { timeout: 10_000 },
+    );
     await page.getByText("All changes saved").waitFor();
     await context.close();
   });
@@ -293,7 +334,9 @@ describe("two editors, images and the diff", () => {
     await form.getByRole("button", { name: "Add answer" }).click();
     await page.locator('[data-testid="rf__edge-cap-look|answer:can\'t tell"]').waitFor();
     await page.getByText("All changes saved").waitFor();
-    const saved = (await (await page.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as { tree: { nodes: { id: string; next?: { to: string }; answers?: { label: string; to: string }[] }[] } };
+    const saved = (await (await page.request.get(`${treeUrl.replace("/trees/", "/api/trees/")}/versions/draft`)).json()) as {
+      tree: { nodes: { id: string; next?: { to: string }; answers?: { label: string; to: string }[] }[] };
+    };
     expect(saved.tree.nodes.find((n) => n.id === "step")?.next).toEqual({ to: "motor-failed" });
     expect(saved.tree.nodes.find((n) => n.id === "cap-look")?.answers?.at(-1)).toEqual({ label: "can't tell", to: "step" });
     await page.screenshot({ path: screenshotPath("editor-canvas-connected-laptop") });
@@ -337,7 +380,13 @@ describe("the build keeps reactflow in the editor's lazy chunk", () => {
     // Which chunks import it: only the editor route's own chunk, and only with import().
     const importers = js.filter((f) => f !== holders[0] && readFileSync(`${assets}/${f}`, "utf8").includes(holders[0]!));
     expect(importers.map((f) => `/assets/${f}`)).toEqual([editor!.module]);
-    expect(readFileSync(`${assets}/${importers[0]}`, "utf8")).toMatch(new RegExp(`import\\([\`"']\\./${holders[0]!.replace(/[.-]/g, "\\$&")}[\`"']\\)`));
-    for (const [id, r] of Object.entries(build.assets.routes)) expect([r.module, ...(r.imports ?? [])].some((f) => f.endsWith(holders[0]!)), id).toBe(false);
+    expect(readFileSync(`${assets}/${importers[0]}`, "utf8")).toMatch(
+      new RegExp(`import\\([\`"']\\./${holders[0]!.replace(/[.-]/g, "\\$&")}[\`"']\\)`),
+    );
+    for (const [id, r] of Object.entries(build.assets.routes))
+      expect(
+        [r.module, ...(r.imports ?? [])].some((f) => f.endsWith(holders[0]!)),
+        id,
+      ).toBe(false);
   });
 });

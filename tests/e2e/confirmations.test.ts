@@ -52,7 +52,12 @@ describe("confirming a reading on the phone", () => {
     // The van's voltmeter (600 V range), the mV button, 208.
     const field = page.getByLabel("Reading", { exact: true });
     await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
-    await expect(page.getByText(/range up to 600 V/).first().isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByText(/range up to 600 V/)
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
     await field.fill("700");
     await page.getByText("above the top of this meter's 600 V range").waitFor();
     await snap(page, "over-range");
@@ -93,7 +98,12 @@ describe("confirming a reading on the phone", () => {
     // The server stored it as confirmed (run_steps.confirmed), judged as the phone showed.
     await expect.poll(async () => (await storedRun(runId)).view.steps.find((s) => s.node === "supply-voltage")?.confirmed).toBe(true);
     const { view } = await storedRun(runId);
-    expect(view.steps.find((s) => s.node === "supply-voltage")).toMatchObject({ typed: "208 mV", verdict: "low", confirmed: true, meter: { range: 600 } });
+    expect(view.steps.find((s) => s.node === "supply-voltage")).toMatchObject({
+      typed: "208 mV",
+      verdict: "low",
+      confirmed: true,
+      meter: { range: 600 },
+    });
 
     // Handed to a lead (the tree's low-supply end), the run's steps list it as confirmed, after a reload too.
     await page.getByRole("button", { name: "Send to a lead…" }).click();
@@ -102,7 +112,9 @@ describe("confirming a reading on the phone", () => {
     await page.reload();
     await page.getByRole("heading", { level: 1, name: /Waiting for a lead/ }).waitFor();
     await snap(page, "handed-over");
-    await expect(page.getByRole("region", { name: "Steps so far" }).getByRole("listitem").filter({ hasText: "Supply voltage" }).textContent()).resolves.toMatch(/0\.208 V — low.*\(confirmed as read\)/);
+    await expect(
+      page.getByRole("region", { name: "Steps so far" }).getByRole("listitem").filter({ hasText: "Supply voltage" }).textContent(),
+    ).resolves.toMatch(/0\.208 V — low.*\(confirmed as read\)/);
     await snap(page, "history");
     await context.close();
   });

@@ -18,7 +18,11 @@ beforeAll(async () => {
 afterAll(() => browser?.close());
 
 async function owner(size: "laptop" | "phone") {
-  const context = await browser.newContext(size === "laptop" ? { viewport: LAPTOP, acceptDownloads: true } : { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true, acceptDownloads: true });
+  const context = await browser.newContext(
+    size === "laptop"
+      ? { viewport: LAPTOP, acceptDownloads: true }
+      : { viewport: PHONE, deviceScaleFactor: 2, hasTouch: true, isMobile: true, acceptDownloads: true },
+  );
   const page = await context.newPage();
   await signInAs(page, baseUrl, "owner@tinderbox.example");
   await page.waitForURL(`${baseUrl}/overview`);
@@ -31,7 +35,9 @@ const rootCauses = (page: Page) => page.getByRole("region", { name: "Most common
 async function causeRows(page: Page): Promise<string[][]> {
   const table = rootCauses(page).getByRole("table");
   await table.waitFor();
-  return table.locator("tbody tr").evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll("th, td")].map((c) => c.textContent?.trim() ?? "")));
+  return table
+    .locator("tbody tr")
+    .evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll("th, td")].map((c) => c.textContent?.trim() ?? "")));
 }
 
 describe("the owner's overview", () => {
@@ -68,7 +74,10 @@ describe("the owner's overview", () => {
       await page.screenshot({ path: screenshotPath(`overview-${size}-rotisserie`), fullPage: size === "laptop" });
 
       // The CSV: exactly the rows of the table, same filters.
-      const [download] = await Promise.all([page.waitForEvent("download"), section.getByRole("link", { name: "Download CSV: Most common root causes" }).click()]);
+      const [download] = await Promise.all([
+        page.waitForEvent("download"),
+        section.getByRole("link", { name: "Download CSV: Most common root causes" }).click(),
+      ]);
       expect(download.suggestedFilename()).toMatch(/^root-causes_\d{4}-\d{2}-\d{2}_\d{4}-\d{2}-\d{2}\.csv$/);
       const csv = readFileSync((await download.path())!, "utf8").replace(/^\uFEFF/, "");
       const lines = csv.trimEnd().split("\r\n");
@@ -113,7 +122,9 @@ describe("the build keeps the chart library on the overview", () => {
     // visx marks what it draws with these class names.
     const holders = js.filter((f) => /visx-(bar|axis)/.test(readFileSync(`${assets}/${f}`, "utf8")));
     expect(holders.length).toBeGreaterThan(0);
-    const build = (await import(pathToFileURL(`${dir}/server/index.js`).href)) as { assets: { routes: Record<string, { module: string; imports?: string[] }> } };
+    const build = (await import(pathToFileURL(`${dir}/server/index.js`).href)) as {
+      assets: { routes: Record<string, { module: string; imports?: string[] }> };
+    };
     const routes = Object.entries(build.assets.routes);
     const loads = (id: string) => {
       const r = build.assets.routes[id]!;

@@ -93,7 +93,13 @@ describe("the runner keeps unsent steps through an outage and its error page", (
     await page.getByRole("heading", { level: 1, name: "The next reading is taken live" }).waitFor({ timeout: 15_000 });
     await page.screenshot({ path: screenshotPath("kept-runner-reopened-phone"), fullPage: true });
     await expect
-      .poll(async () => (await db().select({ seq: runSteps.seq, node: runSteps.nodeKey }).from(runSteps).where(eq(runSteps.runId, runId))).sort((a, z) => a.seq - z.seq), { timeout: 15_000 })
+      .poll(
+        async () =>
+          (await db().select({ seq: runSteps.seq, node: runSteps.nodeKey }).from(runSteps).where(eq(runSteps.runId, runId))).sort(
+            (a, z) => a.seq - z.seq,
+          ),
+        { timeout: 15_000 },
+      )
       .toEqual([
         { seq: 0, node: "lockout" },
         { seq: 1, node: "discharge-caps" },
@@ -119,7 +125,10 @@ describe("the editor keeps unsaved changes through an outage and its error page"
     await relay.down();
     await titleField.fill(`${title} (changed offline)`);
     await titleField.blur();
-    await page.getByText(/Not saved yet|Unsaved changes/).first().waitFor({ timeout: 10_000 });
+    await page
+      .getByText(/Not saved yet|Unsaved changes/)
+      .first()
+      .waitFor({ timeout: 10_000 });
 
     const res = await page.reload();
     expect(res?.status()).toBe(503);

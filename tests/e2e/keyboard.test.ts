@@ -43,7 +43,10 @@ describe("the keyboard alone", () => {
     await page.keyboard.type("The heat lamp over the display shelf stays dark");
     await page.keyboard.press("Enter");
     await page.waitForURL(/\/trees\/[0-9a-f-]{36}\/edit$/);
-    await page.getByText(/no nodes yet/).first().waitFor({ timeout: 15_000 });
+    await page
+      .getByText(/no nodes yet/)
+      .first()
+      .waitFor({ timeout: 15_000 });
 
     // A caution: added from the palette, focus lands in its title with the default selected.
     await tabTo(page, /^.?Add Caution/);
@@ -57,7 +60,9 @@ describe("the keyboard alone", () => {
     await choose(page, /^New question$/);
     await tabTo(page, /^Make it and connect/);
     await page.keyboard.press("Enter");
-    await expect.poll(() => page.evaluate(() => (document.activeElement as HTMLSelectElement).labels?.[0]?.textContent)).toBe("Next, go to");
+    await expect
+      .poll(() => page.evaluate(() => (document.activeElement as HTMLSelectElement).labels?.[0]?.textContent))
+      .toBe("Next, go to");
 
     // The question, opened from the outline (one Tab stop; arrows move; Enter opens).
     await tabTo(page, /^Outline$/, { back: true });
@@ -100,7 +105,9 @@ describe("the keyboard alone", () => {
     // Publish, with a change note.
     await tabTo(page, /^Publish…/, { back: true });
     await page.keyboard.press("Enter");
-    await expect.poll(() => page.evaluate(() => (document.activeElement as HTMLTextAreaElement).labels?.[0]?.textContent)).toMatch(/^What changed, and why/);
+    await expect
+      .poll(() => page.evaluate(() => (document.activeElement as HTMLTextAreaElement).labels?.[0]?.textContent))
+      .toMatch(/^What changed, and why/);
     await page.keyboard.type("First version: the lamp before the thermostat.");
     await tabTo(page, /^Publish version 1/);
     await page.keyboard.press("Enter");
@@ -215,7 +222,9 @@ describe("the keyboard alone", () => {
     await lp.waitForURL(`${baseUrl}/authoring`);
     await lp.goto(`${baseUrl}/escalations`);
     const item = lp.getByRole("listitem").filter({ hasText: "The lamp flickers with a new bulb" });
-    await expect(item.getByText(/stopped at “With the case switched on, does the heat lamp light\?” after 1 step$/).isVisible()).resolves.toBe(true);
+    await expect(
+      item.getByText(/stopped at “With the case switched on, does the heat lamp light\?” after 1 step$/).isVisible(),
+    ).resolves.toBe(true);
     await item.getByRole("button", { name: "Take it over" }).click();
     await lp.waitForURL(runUrl);
     await lead.close();

@@ -88,7 +88,14 @@ async function outbox(page: Page): Promise<{ kind: string; key: string; at: stri
         open.onsuccess = () => {
           const req = open.result.transaction("outbox").objectStore("outbox").getAll();
           req.onsuccess = () => {
-            resolve((req.result as { kind: string; key: string; at: string; state: string }[]).map(({ kind, key, at, state }) => ({ kind, key, at, state })));
+            resolve(
+              (req.result as { kind: string; key: string; at: string; state: string }[]).map(({ kind, key, at, state }) => ({
+                kind,
+                key,
+                at,
+                state,
+              })),
+            );
             open.result.close();
           };
         };
@@ -97,7 +104,8 @@ async function outbox(page: Page): Promise<{ kind: string; key: string; at: stri
   );
 }
 
-const stepsOf = (runId: string) => db().select().from(schema.runSteps).where(eq(schema.runSteps.runId, runId)).orderBy(asc(schema.runSteps.seq));
+const stepsOf = (runId: string) =>
+  db().select().from(schema.runSteps).where(eq(schema.runSteps.runId, runId)).orderBy(asc(schema.runSteps.seq));
 const photosOf = (runId: string) => db().select().from(schema.runPhotos).where(eq(schema.runPhotos.runId, runId));
 const runRow = async (runId: string) => (await db().select().from(schema.runs).where(eq(schema.runs.id, runId)))[0];
 
@@ -117,7 +125,12 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await atStep(page, "Disconnect and lock out power before opening the panel");
     // Nothing waits yet, but the runner says there is no signal and where what follows is kept.
     await page.getByText("No signal. This run is on this phone: what you enter is kept here and sent when there is signal.").waitFor();
-    await expect(page.getByRole("status").filter({ hasText: /^No signal$/ }).count()).resolves.toBe(1);
+    await expect(
+      page
+        .getByRole("status")
+        .filter({ hasText: /^No signal$/ })
+        .count(),
+    ).resolves.toBe(1);
     await snap(page, "reloaded-no-signal");
     await acknowledge(page, "Disconnect and lock out power before opening the panel");
     await page.getByText("1 step saved on this phone — it will be sent when there is signal.").waitFor();
@@ -129,7 +142,9 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await page.getByRole("radio", { name: /^Van 1 multimeter — AC volts, 600 V range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits", { exact: true }).waitFor();
-    await page.getByLabel("Add a photo to this step").setInputFiles({ name: "supply.png", mimeType: "image/png", buffer: Buffer.from(TINY_PNG) });
+    await page
+      .getByLabel("Add a photo to this step")
+      .setInputFiles({ name: "supply.png", mimeType: "image/png", buffer: Buffer.from(TINY_PNG) });
     await page.getByRole("img", { name: "Photo on this step" }).waitFor();
     await expect(page.getByText("on this phone", { exact: true }).isVisible()).resolves.toBe(true);
     await snap(page, "reading-and-photo-on-phone");
@@ -154,7 +169,12 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await again.getByText(waiting).waitFor();
     await expect(again.getByRole("button", { name: "Step 6 · 5 done" }).isVisible()).resolves.toBe(true);
     await again.getByRole("button", { name: "Step 6 · 5 done" }).click();
-    await expect(again.getByRole("region", { name: "Steps so far" }).getByText(/208 V — within 191–218 V/).isVisible()).resolves.toBe(true);
+    await expect(
+      again
+        .getByRole("region", { name: "Steps so far" })
+        .getByText(/208 V — within 191–218 V/)
+        .isVisible(),
+    ).resolves.toBe(true);
     await snap(again, "reopened-no-signal-history");
     await expect(outbox(again)).resolves.toEqual(kept);
     // Nothing reached the server meanwhile.
@@ -248,21 +268,35 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     const lp = await office.newPage();
     await signInAs(lp, baseUrl, "lead@tinderbox.example");
     await lp.waitForURL(`${baseUrl}/authoring`);
-    const took = await lp.evaluate((id) => fetch(`/api/runs/${id}/status`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ action: "take-over" }) }).then((r) => r.status), runId);
+    const took = await lp.evaluate(
+      (id) =>
+        fetch(`/api/runs/${id}/status`, {
+          method: "POST",
+          headers: { "content-type": "application/json" },
+          body: JSON.stringify({ action: "take-over" }),
+        }).then((r) => r.status),
+      runId,
+    );
     expect(took).toBe(200);
     await office.close();
 
     await context.setOffline(false);
     const refused = page.getByRole("alert").filter({ hasText: "Not accepted by the server" });
     await refused.waitFor({ timeout: 20_000 });
-    await expect(refused.textContent()).resolves.toContain("Only the technician holding this run can add steps. A lead can take it over first.");
+    await expect(refused.textContent()).resolves.toContain(
+      "Only the technician holding this run can add steps. A lead can take it over first.",
+    );
     // Who holds the run now comes first; the server's words follow; sending again would only be refused.
     await refused.getByText(/^\S+ \S+ took this run over while this phone had no signal, so these were not added to it\.$/).waitFor();
     await expect(refused.getByRole("button", { name: "Send again" }).count()).resolves.toBe(0);
     const rows = refused.getByRole("listitem");
     await expect(rows.count()).resolves.toBe(3);
-    await expect(rows.nth(0).textContent()).resolves.toMatch(/Caution acknowledged.*Discharge the fan-motor run capacitors with a rated tool/);
-    await expect(rows.nth(2).textContent()).resolves.toMatch(/Reading 207 V — not sent, it came after the one refused.*Supply voltage across L1–L2/);
+    await expect(rows.nth(0).textContent()).resolves.toMatch(
+      /Caution acknowledged.*Discharge the fan-motor run capacitors with a rated tool/,
+    );
+    await expect(rows.nth(2).textContent()).resolves.toMatch(
+      /Reading 207 V — not sent, it came after the one refused.*Supply voltage across L1–L2/,
+    );
     await expect(page.getByRole("status").filter({ hasText: "Not accepted" }).count()).resolves.toBe(1);
     await refused.scrollIntoViewIfNeeded();
     await snap(page, "not-accepted-after-take-over");
@@ -283,7 +317,10 @@ describe("offline field mode (390×844, Chromium offline)", () => {
     await page.goto(`${baseUrl}/calls`);
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.waitForURL(/\/login/);
-    const left = await page.evaluate(async () => ({ dbs: (await indexedDB.databases()).map((d) => d.name), user: localStorage.getItem("cluepath.phone.user") }));
+    const left = await page.evaluate(async () => ({
+      dbs: (await indexedDB.databases()).map((d) => d.name),
+      user: localStorage.getItem("cluepath.phone.user"),
+    }));
     expect(left.dbs).not.toContain(`cluepath-phone-${techId}`);
     expect(left.user).toBeNull();
     await context.close();

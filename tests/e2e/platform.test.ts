@@ -25,7 +25,14 @@ describe("health", () => {
     // A server pointed at a port where nothing listens.
     const port = await freePort();
     const child = spawn(process.execPath, ["server.js"], {
-      env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: "mysql://root@127.0.0.1:9/nowhere", NODE_ENV: "production", AUTH_SECRET: "x".repeat(40) },
+      env: {
+        ...process.env,
+        PORT: String(port),
+        HOST: "127.0.0.1",
+        DATABASE_URL: "mysql://root@127.0.0.1:9/nowhere",
+        NODE_ENV: "production",
+        AUTH_SECRET: "x".repeat(40),
+      },
       stdio: "ignore",
     });
     try {
@@ -54,7 +61,11 @@ describe("two app servers on one database", () => {
     const onSecond = await fetch(`${secondBaseUrl}/calls`, { headers: { cookie: header }, redirect: "manual" });
     expect(onSecond.status).toBe(200);
 
-    const out = await fetch(`${secondBaseUrl}/logout`, { method: "POST", headers: { cookie: header, origin: secondBaseUrl }, redirect: "manual" });
+    const out = await fetch(`${secondBaseUrl}/logout`, {
+      method: "POST",
+      headers: { cookie: header, origin: secondBaseUrl },
+      redirect: "manual",
+    });
     expect(out.status).toBe(302);
 
     await page.goto(`${baseUrl}/calls`);
@@ -111,7 +122,13 @@ describe("steps through two app servers (issue 14: each server keeps the run log
       method: "POST",
       redirect: "manual",
       headers: { cookie: lead, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ unitId: stableId("unit:larkspur-rotisserie"), symptom: "one fan slow (two servers)", priority: "normal", assignedTo: stableId("user:tech@tinderbox.example"), notes: "" }),
+      body: new URLSearchParams({
+        unitId: stableId("unit:larkspur-rotisserie"),
+        symptom: "one fan slow (two servers)",
+        priority: "normal",
+        assignedTo: stableId("user:tech@tinderbox.example"),
+        notes: "",
+      }),
     });
     expect(call.status).toBe(302);
     const callPath = call.headers.get("location");
@@ -163,5 +180,8 @@ async function signInCookie(url: string, email: string): Promise<string> {
     headers: { origin: url, "content-type": "application/x-www-form-urlencoded" },
     body: new URLSearchParams({ email, password: DEMO_PASSWORD }),
   });
-  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(";")[0])
+    .join("; ");
 }

@@ -144,8 +144,7 @@ function upload(field: string, fields: Record<string, string>) {
  * Gaps the sweep found that are filed and not fixed yet. They are left out of the checks above and
  * checked by the last test to still be gaps: when one is fixed, that test fails, and its line goes.
  */
-const KNOWN_GAPS: { pattern: string; role: Role; issue: string }[] = [
-];
+const KNOWN_GAPS: { pattern: string; role: Role; issue: string }[] = [];
 
 const WRITE_METHODS = ["POST", "PUT", "PATCH", "DELETE"] as const;
 
@@ -191,7 +190,19 @@ async function demoShopRecords(): Promise<Sample> {
       ref: "1",
       table: "parts",
     },
-    markers: [symptom, `sweep marker active call ${t}`, title, equipment, email, done.partNumber, customer.name, site.name, site.contactEmail, unit.serial, meter.name],
+    markers: [
+      symptom,
+      `sweep marker active call ${t}`,
+      title,
+      equipment,
+      email,
+      done.partNumber,
+      customer.name,
+      site.name,
+      site.contactEmail,
+      unit.serial,
+      meter.name,
+    ],
   };
 }
 
@@ -209,7 +220,8 @@ type Answer = { method: string; url: string; status: number; location: string | 
 
 /** Concrete URLs for a route: `:ref` as version 1 and as the draft; `.data` for a page's data. */
 function urlsOf(route: AppRoute, params: Record<string, string>, page: boolean): { path: string; names: "draft" | "version" }[] {
-  const fill = (ref: string) => route.pattern.replace(/:(\w+)/g, (_, n: string) => (n === "ref" ? ref : params[n] ?? `:${n}`)) + (QUERY[route.pattern] ?? "");
+  const fill = (ref: string) =>
+    route.pattern.replace(/:(\w+)/g, (_, n: string) => (n === "ref" ? ref : (params[n] ?? `:${n}`))) + (QUERY[route.pattern] ?? "");
   const refs = route.params.includes("ref") ? ["1", "draft"] : ["1"];
   const out: { path: string; names: "draft" | "version" }[] = [];
   for (const ref of refs) {
@@ -235,7 +247,8 @@ async function ask(t: Target, method: string, path: string, params: Record<strin
   if (method !== "GET") {
     // Same-origin, so the answer is about who asks, not about a cross-site request.
     Object.assign(headers, { origin: base, "sec-fetch-site": "same-origin" });
-    const made = BODY[t.route.pattern]?.(params) ?? (t.page ? { body: new URLSearchParams(), type: "application/x-www-form-urlencoded" } : json({}));
+    const made =
+      BODY[t.route.pattern]?.(params) ?? (t.page ? { body: new URLSearchParams(), type: "application/x-www-form-urlencoded" } : json({}));
     body = made.body;
     if (made.type) headers["content-type"] = made.type;
   }
@@ -275,7 +288,9 @@ async function all<T>(jobs: (() => Promise<T>)[], width = 6): Promise<T[]> {
 async function checksums(): Promise<string> {
   const conn = await mysql.createConnection({ uri: dbUrl });
   try {
-    const [tables] = await conn.query("SELECT table_name AS t FROM information_schema.tables WHERE table_schema = DATABASE() AND table_name NOT IN ('sessions', 'sign_in_attempts') ORDER BY 1");
+    const [tables] = await conn.query(
+      "SELECT table_name AS t FROM information_schema.tables WHERE table_schema = DATABASE() AND table_name NOT IN ('sessions', 'sign_in_attempts') ORDER BY 1",
+    );
     const names = (tables as { t: string }[]).map((r) => `\`${r.t}\``).join(", ");
     const [rows] = await conn.query(`CHECKSUM TABLE ${names}`);
     return JSON.stringify(rows);
@@ -288,7 +303,8 @@ function markersIn(a: Answer, markers: string[]): string[] {
   return markers.filter((m) => a.body.includes(m) || a.body.includes(JSON.stringify(m).slice(1, -1)));
 }
 
-const describeAnswer = (a: Answer) => `${a.method} ${a.url} → ${a.status}${a.location ? ` ${a.location}` : ""}: ${a.body.slice(0, 160).replace(/\s+/g, " ")}`;
+const describeAnswer = (a: Answer) =>
+  `${a.method} ${a.url} → ${a.status}${a.location ? ` ${a.location}` : ""}: ${a.body.slice(0, 160).replace(/\s+/g, " ")}`;
 
 // --- the sweep ------------------------------------------------------------------------------------
 
@@ -306,7 +322,13 @@ beforeAll(async () => {
       const page = typeof m.default === "function";
       // GET is answered by a loader or a page, every other method by the action. Methods without
       // a handler are asked too (POST for all of them): a refusal is what the sweep expects.
-      return { route, page, reads: page || typeof m.loader === "function", writes: typeof m.action === "function", methods: ["GET", ...(m.action ? WRITE_METHODS : ["POST"])] };
+      return {
+        route,
+        page,
+        reads: page || typeof m.loader === "function",
+        writes: typeof m.action === "function",
+        methods: ["GET", ...(m.action ? WRITE_METHODS : ["POST"])],
+      };
     });
   const users = {
     technician: "tech@tinderbox.example",
@@ -326,10 +348,17 @@ describe("route sweep from app/routes.ts", () => {
     expect(routes.length).toBeGreaterThan(40);
     for (const r of routes) {
       expect(build.routes[r.id], `${r.pattern} (${r.id}) is not in the build: run npm run build`).toBeDefined();
-      expect(PUBLIC[r.pattern] !== undefined || ACCESS[r.pattern] !== undefined, `${r.pattern} has no line in ACCESS or PUBLIC in tests/e2e/route-sweep.test.ts`).toBe(true);
+      expect(
+        PUBLIC[r.pattern] !== undefined || ACCESS[r.pattern] !== undefined,
+        `${r.pattern} has no line in ACCESS or PUBLIC in tests/e2e/route-sweep.test.ts`,
+      ).toBe(true);
     }
     // And no rule names a route that is gone.
-    for (const p of [...Object.keys(PUBLIC), ...Object.keys(ACCESS)]) expect(routes.some((r) => r.pattern === p), `${p} is no longer in app/routes.ts`).toBe(true);
+    for (const p of [...Object.keys(PUBLIC), ...Object.keys(ACCESS)])
+      expect(
+        routes.some((r) => r.pattern === p),
+        `${p} is no longer in app/routes.ts`,
+      ).toBe(true);
   });
 
   it("anonymous: every non-public route, every method, sends to sign-in (pages) or answers 401 (API), with no data and no change", async () => {
@@ -337,10 +366,14 @@ describe("route sweep from app/routes.ts", () => {
     const before = await checksums();
     const jobs = targets
       .filter((t) => PUBLIC[t.route.pattern] === undefined)
-      .flatMap((t) => urlsOf(t.route, params, t.page).flatMap(({ path }) => t.methods.map((m) => async () => ({ t, a: await ask(t, m, path, params) }))));
+      .flatMap((t) =>
+        urlsOf(t.route, params, t.page).flatMap(({ path }) => t.methods.map((m) => async () => ({ t, a: await ask(t, m, path, params) }))),
+      );
     const got = await all(jobs);
     const refused = (t: Target, a: Answer) =>
-      answers(t, a.method) ? a.status === 401 || a.status === 405 || (a.status === 302 && a.location?.startsWith("/login")) : FRAMEWORK_REFUSAL.includes(a.status);
+      answers(t, a.method)
+        ? a.status === 401 || a.status === 405 || (a.status === 302 && a.location?.startsWith("/login"))
+        : FRAMEWORK_REFUSAL.includes(a.status);
     const wrong = got.filter(({ t, a }) => !refused(t, a) || markersIn(a, markers).length > 0).map(({ a }) => describeAnswer(a));
     expect(wrong).toEqual([]);
     expect(got.length).toBeGreaterThan(100);
@@ -366,9 +399,18 @@ describe("route sweep from app/routes.ts", () => {
       ),
     );
     // Ids blanked, and what differs per response anyway (a page's CSP nonce).
-    const blank = (a: Answer, ids: Record<string, string>) => Object.values(ids).reduce((b, id) => b.replaceAll(id, ":id"), a.body).replace(/nonce="[^"]*"/g, 'nonce=""');
+    const blank = (a: Answer, ids: Record<string, string>) =>
+      Object.values(ids)
+        .reduce((b, id) => b.replaceAll(id, ":id"), a.body)
+        .replace(/nonce="[^"]*"/g, 'nonce=""');
     const wrong = pairs
-      .filter(({ theirs, nowhere }) => theirs.status !== nowhere.status || ![400, 403, 404, 405].includes(theirs.status) || blank(theirs, params) !== blank(nowhere, unknown) || markersIn(theirs, markers).length > 0)
+      .filter(
+        ({ theirs, nowhere }) =>
+          theirs.status !== nowhere.status ||
+          ![400, 403, 404, 405].includes(theirs.status) ||
+          blank(theirs, params) !== blank(nowhere, unknown) ||
+          markersIn(theirs, markers).length > 0,
+      )
       .map(({ who, theirs, nowhere }) => `${who}: ${describeAnswer(theirs)} — an unknown id: ${nowhere.status}`);
     expect(wrong).toEqual([]);
     expect(pairs.length).toBeGreaterThan(100);
@@ -384,7 +426,12 @@ describe("route sweep from app/routes.ts", () => {
       if (!rule) continue;
       for (const { path, names } of urlsOf(t.route, params, t.page)) {
         for (const m of t.methods) {
-          const allowed = m === "GET" ? (names === "draft" ? DRAFT_READERS.filter((r) => rule.read?.includes(r)) : (rule.read ?? [])) : (rule.write ?? []);
+          const allowed =
+            m === "GET"
+              ? names === "draft"
+                ? DRAFT_READERS.filter((r) => rule.read?.includes(r))
+                : (rule.read ?? [])
+              : (rule.write ?? []);
           for (const role of ALL) {
             if (allowed.includes(role)) continue;
             if (m !== "GET" && KNOWN_GAPS.some((g) => g.pattern === t.route.pattern && g.role === role)) continue;
@@ -394,8 +441,11 @@ describe("route sweep from app/routes.ts", () => {
       }
     }
     const got = await all(jobs);
-    const refused = (t: Target, a: Answer) => (answers(t, a.method) ? [403, 404, 405].includes(a.status) : FRAMEWORK_REFUSAL.includes(a.status));
-    const wrong = got.filter(({ t, answer: a }) => !refused(t, a) || markersIn(a, markers).length > 0).map(({ role, answer }) => `${role}: ${describeAnswer(answer)}`);
+    const refused = (t: Target, a: Answer) =>
+      answers(t, a.method) ? [403, 404, 405].includes(a.status) : FRAMEWORK_REFUSAL.includes(a.status);
+    const wrong = got
+      .filter(({ t, answer: a }) => !refused(t, a) || markersIn(a, markers).length > 0)
+      .map(({ role, answer }) => `${role}: ${describeAnswer(answer)}`);
     expect(wrong).toEqual([]);
     expect(got.length).toBeGreaterThan(100);
     expect(await checksums()).toBe(before);

@@ -75,7 +75,12 @@ async function tabTo(page: Page, stop: RegExp): Promise<string[]> {
       const bar = document.getElementById("run-tools")!;
       const label = el.closest("label");
       const name = `${el.getAttribute("role") ?? (el as HTMLInputElement).type ?? el.tagName} ${(label ?? el).textContent?.trim() ?? ""}`;
-      return { name, inBar: bar.contains(el), bottom: (label ?? el).getBoundingClientRect().bottom, barTop: bar.getBoundingClientRect().top };
+      return {
+        name,
+        inBar: bar.contains(el),
+        bottom: (label ?? el).getBoundingClientRect().bottom,
+        barTop: bar.getBoundingClientRect().top,
+      };
     });
     reached.push(f.name);
     if (!f.inBar) expect(f.bottom, `${f.name} is under the bottom bar`).toBeLessThanOrEqual(f.barTop);
@@ -92,7 +97,18 @@ function mailFor(subjectStart: string) {
   if (!dir) throw new Error("the browser tests need MAIL_CAPTURE_DIR (the SMTP catcher's folder)");
   return readdirSync(dir)
     .filter((f) => f.endsWith(".json"))
-    .map((f) => JSON.parse(readFileSync(join(dir, f), "utf8")) as { receivedAt: string; subject: string; to: string[]; text: string; html: string | null; shopId: string; attachments: { filename: string; contentType: string; size: number }[] })
+    .map(
+      (f) =>
+        JSON.parse(readFileSync(join(dir, f), "utf8")) as {
+          receivedAt: string;
+          subject: string;
+          to: string[];
+          text: string;
+          html: string | null;
+          shopId: string;
+          attachments: { filename: string; contentType: string; size: number }[];
+        },
+    )
     .filter((m) => m.receivedAt >= startedAt && m.subject.startsWith(subjectStart));
 }
 
@@ -135,7 +151,12 @@ describe("the phone runner (390×844)", () => {
     expect([...fontFiles]).toEqual([expect.stringMatching(/\/assets\/source-sans-3-latin-wght-normal-[\w-]+\.woff2$/)]);
     await page.getByLabel("Reading", { exact: true }).fill("208");
     await page.getByText("Within limits", { exact: true }).waitFor();
-    await expect(page.getByText(/208 V — within 191–218 V/).first().isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByText(/208 V — within 191–218 V/)
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
     await expectNoSeriousViolations(page, "the supply measurement with its verdict");
     // The verdict is a live region right under the field. With the phone's keyboard open (here the
     // window made 364 px shorter, as a keyboard that resizes the page does) it stays in view.
@@ -162,7 +183,12 @@ describe("the phone runner (390×844)", () => {
 
     // One fan slow: the single-fan walk (both fans' walk after "one slow, one stopped" is the engine's unit test).
     await atStep(page, "With the elements heating, do both convection fans run at full speed?");
-    await expect(page.getByLabel("Last reading").getByText(/208 V — within 191–218 V/).isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByLabel("Last reading")
+        .getByText(/208 V — within 191–218 V/)
+        .isVisible(),
+    ).resolves.toBe(true);
     await page.getByRole("button", { name: "Note", exact: true }).click();
     await page.getByLabel(/Note on/).fill("Left fan runs slow; right fan at full speed.");
     await page.getByRole("button", { name: "Save note" }).click();
@@ -192,12 +218,22 @@ describe("the phone runner (390×844)", () => {
     await page.getByRole("radio", { name: /^Van 1 multimeter — capacitance, 100 µF range/ }).check();
     await page.getByLabel("Reading", { exact: true }).fill("1.47");
     await page.getByText("Within limits", { exact: true }).waitFor();
-    await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF \(1\.5 µF ± 6 %/).first().isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByText(/1\.47 µF — within 1\.41–1\.59 µF \(1\.5 µF ± 6 %/)
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
     await page.getByRole("button", { name: "Save reading" }).scrollIntoViewIfNeeded();
     await snap(page, "cap-reading-uF");
     await page.getByRole("button", { name: "Save reading" }).click();
     await atStep(page, "With power locked out, does the slow fan's shaft spin freely by hand?");
-    await expect(page.getByLabel("Last reading").getByText(/1\.47 µF — within/).isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByLabel("Last reading")
+        .getByText(/1\.47 µF — within/)
+        .isVisible(),
+    ).resolves.toBe(true);
     await saved(page);
     await snap(page, "after-cap-reading");
 
@@ -207,7 +243,12 @@ describe("the phone runner (390×844)", () => {
     await page.getByLabel("Reading", { exact: true }).fill("1470");
     await page.getByRole("group", { name: "Unit of the reading" }).getByRole("radio", { name: "nF" }).click();
     await page.getByText("Within limits", { exact: true }).waitFor();
-    await expect(page.getByText(/1\.47 µF — within 1\.41–1\.59 µF/).first().isVisible()).resolves.toBe(true);
+    await expect(
+      page
+        .getByText(/1\.47 µF — within 1\.41–1\.59 µF/)
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
 
     // A photo of the capacitor, from the camera input.
     const file = page.getByLabel("Add a photo to this step");
@@ -277,7 +318,10 @@ describe("the phone runner (390×844)", () => {
 
   it("the report page shows the readings table with verdicts and limits, the photo and the cautions; prints without the toolbar", async () => {
     const { reportPath } = await finishedRun({ send: true });
-    for (const [size, viewport] of [["phone", PHONE], ["laptop", LAPTOP]] as const) {
+    for (const [size, viewport] of [
+      ["phone", PHONE],
+      ["laptop", LAPTOP],
+    ] as const) {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();
       await signInAs(page, baseUrl, "tech@tinderbox.example");
@@ -285,8 +329,12 @@ describe("the phone runner (390×844)", () => {
       await page.goto(`${baseUrl}${reportPath}`);
       const table = page.getByRole("table").filter({ hasText: "Meter accuracy" });
       await expect(table.getByRole("row").count()).resolves.toBe(3);
-      await expect(table.getByRole("row", { name: /Run capacitor against its rating/ }).textContent()).resolves.toMatch(/1470 nF \(1\.47 µF\).*Within limits.*1\.41–1\.59 µF/);
-      await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(true);
+      await expect(table.getByRole("row", { name: /Run capacitor against its rating/ }).textContent()).resolves.toMatch(
+        /1470 nF \(1\.47 µF\).*Within limits.*1\.41–1\.59 µF/,
+      );
+      await expect(page.getByText("Stored charge: Discharge the fan-motor run capacitors with a rated tool").isVisible()).resolves.toBe(
+        true,
+      );
       const img = page.getByRole("img", { name: "Photo at: Run capacitor against its rating" });
       await expect(img.evaluate((el) => (el as HTMLImageElement).naturalWidth)).resolves.toBe(1);
       // The report page is a page of its own (outside the shell): it has its own main landmark.
@@ -395,7 +443,9 @@ describe("the phone runner (390×844)", () => {
     await page.getByRole("button", { name: "Ask a lead to take over…" }).click();
     await page.getByRole("button", { name: "Send to a lead" }).click();
     await page.getByText("Give a reason in a few words.").waitFor();
-    await page.getByLabel("What should the lead look at?").fill("Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.");
+    await page
+      .getByLabel("What should the lead look at?")
+      .fill("Heat light flickers with the thermostat at maximum; looks like a loose lead at the panel.");
     await snap(page, "escalate-reason");
     await page.getByRole("button", { name: "Send to a lead" }).click();
     await page.getByText("Waiting for a lead").waitFor();
@@ -417,7 +467,9 @@ describe("the phone runner (390×844)", () => {
     await snap(lp, "escalations-phone", true);
     await escalation.getByRole("link", { name: "Read the run" }).click();
     await lp.waitForURL(griddleRun);
-    await expect(lp.getByRole("region", { name: "Steps so far" }).getByText("Hot plate and live terminals").isVisible()).resolves.toBe(true);
+    await expect(lp.getByRole("region", { name: "Steps so far" }).getByText("Hot plate and live terminals").isVisible()).resolves.toBe(
+      true,
+    );
     await lp.getByRole("button", { name: "Take over this run" }).click();
     await atStep(lp, "Turn the cold section's thermostat to maximum. Does its heat light come on?");
     await expect(lp.getByRole("navigation", { name: "Run tools" }).isVisible()).resolves.toBe(true);
@@ -442,7 +494,9 @@ describe("the phone runner (390×844)", () => {
 
     await page.goto(`${baseUrl}/equipment/${stableId("unit:larkspur-rotisserie")}`);
     await page.getByText("Failed fan motor — seized or dragging shaft").first().waitFor();
-    await expect(page.getByText(`1 × Convection fan motor, 208 V, same frame and rotation as the original (${partNumber})`).isVisible()).resolves.toBe(true);
+    await expect(
+      page.getByText(`1 × Convection fan motor, 208 V, same frame and rotation as the original (${partNumber})`).isVisible(),
+    ).resolves.toBe(true);
     await snap(page, "unit-history-laptop", true);
 
     await page.goto(`${baseUrl}/calls/new`);
@@ -470,4 +524,3 @@ describe("the phone runner (390×844)", () => {
     await context.close();
   });
 });
-

@@ -64,7 +64,9 @@ describe("no request stops the server (issue 9 item 1)", () => {
   it("answers 400 to a bad Host header, a path that is not a path, and malformed HTTP, and keeps serving", async () => {
     const port = Number(new URL(baseUrl).port);
     expect(await rawHttp(port, "GET /login HTTP/1.1\r\nHost: bad host name\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
-    expect(await rawHttp(port, "GET http://elsewhere.example/login HTTP/1.1\r\nHost: 127.0.0.1\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
+    expect(await rawHttp(port, "GET http://elsewhere.example/login HTTP/1.1\r\nHost: 127.0.0.1\r\nConnection: close\r\n\r\n")).toMatch(
+      /^HTTP\/1\.1 400 /,
+    );
     expect(await rawHttp(port, "GARBAGE\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
     // RFC 9112 §3.2: a request without Host is a 400.
     expect(await rawHttp(port, "GET /login HTTP/1.1\r\nConnection: close\r\n\r\n")).toMatch(/^HTTP\/1\.1 400 /);
@@ -104,7 +106,11 @@ describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prev
     expect(still.status).toBe(200);
 
     // From our own page (same-origin Fetch Metadata, or our Referer) it works and ends the session.
-    const out = await fetch(`${baseUrl}/logout`, { method: "POST", headers: { cookie, "sec-fetch-site": "same-origin" }, redirect: "manual" });
+    const out = await fetch(`${baseUrl}/logout`, {
+      method: "POST",
+      headers: { cookie, "sec-fetch-site": "same-origin" },
+      redirect: "manual",
+    });
     expect(out.status).toBe(302);
     const after = await fetch(`${baseUrl}/calls`, { headers: { cookie }, redirect: "manual" });
     expect(after.status).toBe(302);
@@ -119,7 +125,11 @@ describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prev
       redirect: "manual",
     });
     expect(ui.status).toBe(403);
-    const api = await fetch(`${baseUrl}/api/trees`, { method: "POST", headers: { cookie, referer: "https://elsewhere.example/" }, body: "{}" });
+    const api = await fetch(`${baseUrl}/api/trees`, {
+      method: "POST",
+      headers: { cookie, referer: "https://elsewhere.example/" },
+      body: "{}",
+    });
     expect(api.status).toBe(403);
     expect(await api.json()).toEqual({ error: "Cross-site requests are refused." });
   });
@@ -131,19 +141,33 @@ describe("state changes only from our own pages (issue 9 item 6; OWASP CSRF Prev
       ["/customers/new.data", JSON.stringify({ name: "x" }), "application/json"],
       ["/meters", "name=plain", "text/plain"],
     ] as const) {
-      const res = await fetch(`${baseUrl}${path}`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": type }, body, redirect: "manual" });
+      const res = await fetch(`${baseUrl}${path}`, {
+        method: "POST",
+        headers: { cookie, origin: baseUrl, "content-type": type },
+        body,
+        redirect: "manual",
+      });
       expect(res.status, path).toBe(415);
     }
     // No body type: an empty form, so the form's own field errors (a unit to choose, a symptom).
     const empty = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl }, redirect: "manual" });
     expect(empty.status).toBe(400);
-    const form = await fetch(`${baseUrl}/calls/new`, { method: "POST", headers: { cookie, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" }, body: "symptom=x", redirect: "manual" });
+    const form = await fetch(`${baseUrl}/calls/new`, {
+      method: "POST",
+      headers: { cookie, origin: baseUrl, "content-type": "application/x-www-form-urlencoded" },
+      body: "symptom=x",
+      redirect: "manual",
+    });
     expect(form.status).toBe(400);
   });
 
   it("a GET to an API route that only takes POST answers 405 JSON with Allow: POST (RFC 9110 §15.5.6)", async () => {
     const cookie = await signIn(baseUrl, "tech@tinderbox.example");
-    for (const path of ["/api/runs/00000000-0000-4000-8000-000000000000/steps", "/api/reports/00000000-0000-4000-8000-000000000000/send", "/api/trees/00000000-0000-4000-8000-000000000000/draft"]) {
+    for (const path of [
+      "/api/runs/00000000-0000-4000-8000-000000000000/steps",
+      "/api/reports/00000000-0000-4000-8000-000000000000/send",
+      "/api/trees/00000000-0000-4000-8000-000000000000/draft",
+    ]) {
       const res = await fetch(`${baseUrl}${path}`, { headers: { cookie } });
       expect(res.status, path).toBe(405);
       expect(res.headers.get("allow"), path).toBe("POST");
@@ -213,8 +237,12 @@ describe("page security headers (issue 9 item 8)", () => {
           await page.goto(`${baseUrl}${path}`);
           await page.waitForLoadState("networkidle");
           // Hydrated: React Router's client router is running (it only starts when its scripts ran).
-          await page.waitForFunction(() => Boolean((window as unknown as { __reactRouterRouteModules?: unknown }).__reactRouterRouteModules));
-          violations.push(...(await page.evaluate(() => (window as unknown as { __csp?: string[] }).__csp ?? [])).map((v) => `${path}: ${v}`));
+          await page.waitForFunction(() =>
+            Boolean((window as unknown as { __reactRouterRouteModules?: unknown }).__reactRouterRouteModules),
+          );
+          violations.push(
+            ...(await page.evaluate(() => (window as unknown as { __csp?: string[] }).__csp ?? [])).map((v) => `${path}: ${v}`),
+          );
         }
         await page.screenshot({ path: screenshotPath(`server-csp-${email.split("@")[0]}`) });
         await context.close();
@@ -246,16 +274,26 @@ describe("HSTS behind a TLS proxy, request ids and the request log (issue 9 item
 
   it("a same-origin POST behind the proxy is judged against the https origin the browser saw", async () => {
     const host = new URL(server.url).host;
-    const res = await fetch(`${server.url}/logout`, { method: "POST", headers: { "x-forwarded-proto": "https", origin: `https://${host}` }, redirect: "manual" });
+    const res = await fetch(`${server.url}/logout`, {
+      method: "POST",
+      headers: { "x-forwarded-proto": "https", origin: `https://${host}` },
+      redirect: "manual",
+    });
     expect(res.status).toBe(302);
-    const wrong = await fetch(`${server.url}/logout`, { method: "POST", headers: { "x-forwarded-proto": "https", origin: `http://${host}` }, redirect: "manual" });
+    const wrong = await fetch(`${server.url}/logout`, {
+      method: "POST",
+      headers: { "x-forwarded-proto": "https", origin: `http://${host}` },
+      redirect: "manual",
+    });
     expect(wrong.status).toBe(403);
   });
 
   it("logs one JSON line per request with method, route pattern, status, time and the id sent back; no secrets", async () => {
     const cookie = await signIn(server.url, "tech@tinderbox.example");
     const token = "invite-token-that-must-not-be-logged-7f3a";
-    const res = await fetch(`${server.url}/invite/${token}?code=query-secret-91`, { headers: { cookie, authorization: "Bearer header-secret-55" } });
+    const res = await fetch(`${server.url}/invite/${token}?code=query-secret-91`, {
+      headers: { cookie, authorization: "Bearer header-secret-55" },
+    });
     const id = res.headers.get("x-request-id");
     expect(id).toMatch(/^[0-9a-f-]{36}$/);
     // A trusted proxy's id is kept, so one id follows the request through both.
@@ -274,7 +312,8 @@ describe("HSTS behind a TLS proxy, request ids and the request log (issue 9 item
     const login = lines.find((l) => l.msg === "request" && l.method === "POST" && l.route === "/login");
     expect(login).toMatchObject({ status: 302 });
     const all = server.output();
-    for (const secret of [token, "query-secret-91", "header-secret-55", DEMO_PASSWORD, cookie.split("=")[1]!.slice(0, 40)]) expect(all).not.toContain(secret);
+    for (const secret of [token, "query-secret-91", "header-secret-55", DEMO_PASSWORD, cookie.split("=")[1]!.slice(0, 40)])
+      expect(all).not.toContain(secret);
   });
 });
 
@@ -308,7 +347,10 @@ describe("a database outage answers 503 and recovers without a restart (issue 9 
 
     const api = await fetch(`${server.url}/api/trees`, { headers: { cookie } });
     expect(api.status).toBe(503);
-    expect(await api.json()).toEqual({ error: "Cluepath can't reach its database; what you typed is kept — try again in a minute.", code: "db_unavailable" });
+    expect(await api.json()).toEqual({
+      error: "Cluepath can't reach its database; what you typed is kept — try again in a minute.",
+      code: "db_unavailable",
+    });
 
     // A page's form post answers the same page; a resource route's post (sign-out) the JSON.
     const form = await fetch(`${server.url}/calls/new`, {

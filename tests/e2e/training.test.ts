@@ -53,7 +53,9 @@ async function readAndCall(page: Page, title: string, shows: string, call: "Low"
   await expect(page.getByText(/out of limits|Within limits|Marginal — re-measure/).count()).resolves.toBe(0);
   if (name) {
     // As the phone shows it: the meter's value at the top, the reading and the calls under it.
-    await page.getByRole("region", { name: "The meter shows" }).evaluate((el) => window.scrollTo(0, el.getBoundingClientRect().top + window.scrollY - 110));
+    await page
+      .getByRole("region", { name: "The meter shows" })
+      .evaluate((el) => window.scrollTo(0, el.getBoundingClientRect().top + window.scrollY - 110));
     await snap(page, name);
   }
   await page.getByRole("button", { name: "Save the reading and my call" }).click();
@@ -68,7 +70,9 @@ describe("training: a scenario, a practice run on the phone, the review", () => 
     await snap(trainer, "trainer-home-empty", true);
 
     await trainer.getByRole("link", { name: "New scenario" }).click();
-    const tree = await trainer.locator("select[name=tree] option", { hasText: "Two-fan convection rotisserie heats unevenly" }).getAttribute("value");
+    const tree = await trainer
+      .locator("select[name=tree] option", { hasText: "Two-fan convection rotisserie heats unevenly" })
+      .getAttribute("value");
     await trainer.getByLabel("Tree").selectOption(tree!);
     await trainer.getByRole("button", { name: "Continue" }).click();
     await trainer.getByRole("heading", { name: "New practice scenario" }).waitFor();
@@ -80,7 +84,9 @@ describe("training: a scenario, a practice run on the phone, the review", () => 
     const step = (title: string) => trainer.getByRole("group", { name: new RegExp(title.replace(/[?()]/g, "\\$&")) });
     await step("Reading: Supply voltage across L1–L2").getByLabel("The meter shows").fill("208 V");
     const fans = step("Question: With the elements heating, do both convection fans run at full speed?");
-    await fans.getByLabel("What the trainee observes").fill("The left fan turns visibly slower than the right; its note is lower and the air at the left vents is weak.");
+    await fans
+      .getByLabel("What the trainee observes")
+      .fill("The left fan turns visibly slower than the right; its note is lower and the air at the left vents is weak.");
     await fans.getByLabel("Which answer that means").selectOption("one slow");
     await step("Rating: Rated capacitance of the slow fan's run capacitor").getByLabel("The label says").fill("1.5 µF");
     await step("Reading: Run capacitor against its rating").getByLabel("The meter shows").fill("1.31 µF");
@@ -127,10 +133,14 @@ describe("training: a scenario, a practice run on the phone, the review", () => 
     await readAndCall(tech, "Supply voltage across L1–L2", "208 V", "Within", "runner-supply-reading");
 
     await atStep(tech, "With the elements heating, do both convection fans run at full speed?");
-    await expect(tech.getByRole("region", { name: "On the unit you find" }).textContent()).resolves.toContain("The left fan turns visibly slower");
+    await expect(tech.getByRole("region", { name: "On the unit you find" }).textContent()).resolves.toContain(
+      "The left fan turns visibly slower",
+    );
     // The last reading shows the trainee's own call, not a verdict.
     await expect(tech.getByLabel("Last reading").textContent()).resolves.toContain("your call: within");
-    await tech.getByRole("region", { name: "On the unit you find" }).evaluate((el) => window.scrollTo(0, el.getBoundingClientRect().top + window.scrollY - 110));
+    await tech
+      .getByRole("region", { name: "On the unit you find" })
+      .evaluate((el) => window.scrollTo(0, el.getBoundingClientRect().top + window.scrollY - 110));
     await snap(tech, "runner-fans-question");
     await tech.getByRole("button", { name: "One slow", exact: true }).click();
     await acknowledge(tech, "Power down again and discharge the capacitor");
@@ -169,21 +179,31 @@ describe("training: a scenario, a practice run on the phone, the review", () => 
     await trainer.getByRole("heading", { name: /Priya Lindqvist’s practice/ }).waitFor();
     const short = await trainer.getByRole("region", { name: "In short" }).textContent();
     expect(short).toContain("First wrong turnStep 8: Run capacitor against its rating");
-    expect(short).toContain("Took within → With power locked out, does the slow fan's shaft spin freely by hand?; the reference took low → Failed run capacitor");
+    expect(short).toContain(
+      "Took within → With power locked out, does the slow fan's shaft spin freely by hand?; the reference took low → Failed run capacitor",
+    );
     const misjudged = await trainer.locator("section", { has: trainer.getByRole("heading", { name: "Misjudged readings" }) }).textContent();
     expect(misjudged).toContain("1.31 µF — the trainee called it within; Cluepath judged it low.");
     expect(misjudged).toContain("Limits 1.41–1.59 µF (1.5 µF ± 6 %) · meter ±(1 % + 2 counts) at 0.01 µF");
     const turnRow = trainer.getByRole("row", { name: "First wrong turn: Run capacitor against its rating" });
     await expect(turnRow.count()).resolves.toBe(1);
     await expect(trainer.getByRole("row", { name: /^Not needed by the reference: With power locked out/ }).count()).resolves.toBe(1);
-    await expect(trainer.getByRole("region", { name: "Cause reached" }).textContent()).resolves.toContain("Failed fan motor — weak winding — hidden fault: Failed run capacitor");
+    await expect(trainer.getByRole("region", { name: "Cause reached" }).textContent()).resolves.toContain(
+      "Failed fan motor — weak winding — hidden fault: Failed run capacitor",
+    );
     await snap(trainer, "review", true);
 
     await turnRow.getByText("Comment on this step").click();
-    await turnRow.getByLabel("Comment on Run capacitor against its rating").fill("1.31 µF is under the 1.41 µF lower limit: that is low, and a low capacitor is the fault. Check the reading against the expected range before you call it.");
+    await turnRow
+      .getByLabel("Comment on Run capacitor against its rating")
+      .fill(
+        "1.31 µF is under the 1.41 µF lower limit: that is low, and a low capacitor is the fault. Check the reading against the expected range before you call it.",
+      );
     await turnRow.getByRole("button", { name: "Add the comment" }).click();
     await trainer.getByText("Comment added.").waitFor();
-    await trainer.getByLabel("Overall note").fill("Good safe work on every caution. Slow down at the readings: compare each one with the limits shown.");
+    await trainer
+      .getByLabel("Overall note")
+      .fill("Good safe work on every caution. Slow down at the readings: compare each one with the limits shown.");
     await trainer.getByRole("button", { name: "Save the note and mark reviewed" }).click();
     await trainer.getByText(/The note is saved and the run marked reviewed/).waitFor();
     await snap(trainer, "review-commented", true);

@@ -53,7 +53,12 @@ async function entries(shopId: string | null, action?: AuditAction) {
   return db()
     .select()
     .from(auditEvents)
-    .where(and(shopId === null ? isNull(auditEvents.shopId) : eq(auditEvents.shopId, shopId), action ? eq(auditEvents.action, action) : undefined))
+    .where(
+      and(
+        shopId === null ? isNull(auditEvents.shopId) : eq(auditEvents.shopId, shopId),
+        action ? eq(auditEvents.action, action) : undefined,
+      ),
+    )
     .orderBy(desc(auditEvents.id));
 }
 
@@ -79,14 +84,32 @@ describe("versions published and retired", () => {
     const broken = smallTree(`Broken ${crypto.randomUUID().slice(0, 6)}`);
     broken.nodes = broken.nodes.filter((n) => n.id !== "motor-failed");
     const { treeId: brokenId } = await createDraftTree(a.people.lead, broken);
-    const refused = (await answer(treeEdit.action(routeArgs(post(cookies.lead!, `/trees/${brokenId}/edit`, { intent: "publish", revision: "1", changeNote: "First" }), { treeId: brokenId }, FROM)))) as {
+    const refused = (await answer(
+      treeEdit.action(
+        routeArgs(
+          post(cookies.lead!, `/trees/${brokenId}/edit`, { intent: "publish", revision: "1", changeNote: "First" }),
+          { treeId: brokenId },
+          FROM,
+        ),
+      ),
+    )) as {
       init: { status: number };
     };
     expect(refused.init.status).toBe(422);
-    expect((await entries(a.shopId, "version.published")).filter((e) => (e.details as { treeId?: string }).treeId === brokenId)).toEqual([]);
+    expect((await entries(a.shopId, "version.published")).filter((e) => (e.details as { treeId?: string }).treeId === brokenId)).toEqual(
+      [],
+    );
 
     const { treeId, title } = await publishedTree();
-    const ok = (await answer(treeEdit.action(routeArgs(post(cookies.lead!, `/trees/${treeId}/edit`, { intent: "publish", revision: "1", changeNote: "First cut" }), { treeId }, FROM)))) as Response;
+    const ok = (await answer(
+      treeEdit.action(
+        routeArgs(
+          post(cookies.lead!, `/trees/${treeId}/edit`, { intent: "publish", revision: "1", changeNote: "First cut" }),
+          { treeId },
+          FROM,
+        ),
+      ),
+    )) as Response;
     expect(ok.status).toBe(302);
     const [entry] = (await entries(a.shopId, "version.published")).filter((e) => (e.details as { treeId?: string }).treeId === treeId);
     expect(entry).toMatchObject({
@@ -102,25 +125,54 @@ describe("versions published and retired", () => {
   it("retiring through the tree page records who retired which version", async () => {
     const { treeId, title } = await publishedTree();
     await publishDraft(a.people.lead, treeId, 1, "First");
-    await answer(treePage.action(routeArgs(post(cookies.owner!, `/trees/${treeId}`, { intent: "retire", number: "1" }), { treeId }, ELSEWHERE)));
+    await answer(
+      treePage.action(routeArgs(post(cookies.owner!, `/trees/${treeId}`, { intent: "retire", number: "1" }), { treeId }, ELSEWHERE)),
+    );
     const [entry] = (await entries(a.shopId, "version.retired")).filter((e) => (e.details as { treeId?: string }).treeId === treeId);
-    expect(entry).toMatchObject({ actorId: a.people.owner.userId, address: ELSEWHERE.clientAddress, summary: `Retired ‘${title}’ version 1` });
+    expect(entry).toMatchObject({
+      actorId: a.people.owner.userId,
+      address: ELSEWHERE.clientAddress,
+      summary: `Retired ‘${title}’ version 1`,
+    });
   });
 });
 
 describe("invitations sent, accepted and withdrawn", () => {
   it("the owner's invitation, the newcomer accepting it, and a withdrawn one are each recorded", async () => {
     const email = `newcomer.${crypto.randomUUID().slice(0, 6)}@wrenfield.example`;
-    const invited = (await answer(peoplePage.action(routeArgs(post(cookies.owner!, "/people", { intent: "invite", email, role: "technician" }), {}, FROM)))) as { ok: boolean; link: string };
+    const invited = (await answer(
+      peoplePage.action(routeArgs(post(cookies.owner!, "/people", { intent: "invite", email, role: "technician" }), {}, FROM)),
+    )) as { ok: boolean; link: string };
     expect(invited.ok).toBe(true);
     const [sent] = await entries(a.shopId, "invitation.sent");
-    expect(sent).toMatchObject({ actorId: a.people.owner.userId, address: FROM.clientAddress, subjectType: "invitation", summary: `Invited ${email} as Technician` });
+    expect(sent).toMatchObject({
+      actorId: a.people.owner.userId,
+      address: FROM.clientAddress,
+      subjectType: "invitation",
+      summary: `Invited ${email} as Technician`,
+    });
 
     const token = invited.link.split("/invite/")[1]!;
-    const joined = (await answer(invitePage.action(routeArgs(new Request(`http://localhost/invite/${token}`, { method: "POST", body: new URLSearchParams({ name: "Nell Ashby", password: FRESH_PASSWORD }) }), { token }, ELSEWHERE)))) as Response;
+    const joined = (await answer(
+      invitePage.action(
+        routeArgs(
+          new Request(`http://localhost/invite/${token}`, {
+            method: "POST",
+            body: new URLSearchParams({ name: "Nell Ashby", password: FRESH_PASSWORD }),
+          }),
+          { token },
+          ELSEWHERE,
+        ),
+      ),
+    )) as Response;
     expect(joined.status).toBe(302);
     const [accepted] = await entries(a.shopId, "invitation.accepted");
-    expect(accepted).toMatchObject({ actorEmail: email, address: ELSEWHERE.clientAddress, subjectId: sent!.subjectId, details: { role: "technician", newAccount: true } });
+    expect(accepted).toMatchObject({
+      actorEmail: email,
+      address: ELSEWHERE.clientAddress,
+      subjectId: sent!.subjectId,
+      details: { role: "technician", newAccount: true },
+    });
     expect(accepted!.actorId).not.toBeNull();
 
     const other = `later.${crypto.randomUUID().slice(0, 6)}@wrenfield.example`;
@@ -130,7 +182,9 @@ describe("invitations sent, accepted and withdrawn", () => {
     const [withdrawn] = await entries(a.shopId, "invitation.withdrawn");
     expect(withdrawn).toMatchObject({ actorId: a.people.owner.userId, subjectId: inv!.id, summary: `Withdrew the invitation of ${other}` });
     // Withdrawing it again is refused and records nothing more.
-    const again = (await answer(peoplePage.action(routeArgs(post(cookies.owner!, "/people", { intent: "revoke", id: inv!.id }), {}, FROM)))) as Response;
+    const again = (await answer(
+      peoplePage.action(routeArgs(post(cookies.owner!, "/people", { intent: "revoke", id: inv!.id }), {}, FROM)),
+    )) as Response;
     expect(again.status).toBe(404);
     expect(await entries(a.shopId, "invitation.withdrawn")).toHaveLength(1);
   });
@@ -140,7 +194,13 @@ describe("take-overs and reports sent", () => {
   async function runOnCall() {
     const { treeId } = await publishedTree();
     await publishDraft(a.people.lead, treeId, 1, "First");
-    const call = await createCall(a.people.lead, { unitId: a.unitId, symptom: "fryer won't heat", priority: "high", assignedTo: a.people.technician.userId, notes: null });
+    const call = await createCall(a.people.lead, {
+      unitId: a.unitId,
+      symptom: "fryer won't heat",
+      priority: "high",
+      assignedTo: a.people.technician.userId,
+      notes: null,
+    });
     const { runId } = await startRun(a.people.technician, { treeId, callId: call.id });
     return { runId, call };
   }
@@ -163,12 +223,28 @@ describe("take-overs and reports sent", () => {
   it("e-mailing a report is recorded with the number and the recipient; sending again at once is refused (429) and records nothing", async () => {
     const { runId } = await runOnCall();
     await postStep(a.people.technician, runId, { key: crypto.randomUUID(), entry: { type: "answer", node: "cap-look", answer: "yes" } });
-    const { reportId, number } = await recordOutcome(a.people.technician, runId, { action: "Replaced the run capacitor.", minutes: 25, parts: [] });
+    const { reportId, number } = await recordOutcome(a.people.technician, runId, {
+      action: "Replaced the run capacitor.",
+      minutes: 25,
+      parts: [],
+    });
     const send = () =>
-      sendReportApi.action(routeArgs(requestWith(cookies.tech!, `/api/reports/${reportId}/send`, { method: "POST", headers: { origin: "http://localhost" } }), { reportId }, FROM)) as Promise<Response>;
+      sendReportApi.action(
+        routeArgs(
+          requestWith(cookies.tech!, `/api/reports/${reportId}/send`, { method: "POST", headers: { origin: "http://localhost" } }),
+          { reportId },
+          FROM,
+        ),
+      ) as Promise<Response>;
     expect((await send()).status).toBe(200);
     const [entry] = await entries(a.shopId, "report.sent");
-    expect(entry).toMatchObject({ actorId: a.people.technician.userId, address: FROM.clientAddress, subjectType: "report", subjectId: reportId, details: { number, to: expect.stringMatching(/@wrenfield\.example$/) } });
+    expect(entry).toMatchObject({
+      actorId: a.people.technician.userId,
+      address: FROM.clientAddress,
+      subjectType: "report",
+      subjectId: reportId,
+      details: { number, to: expect.stringMatching(/@wrenfield\.example$/) },
+    });
     const again = await send();
     expect(again.status).toBe(429);
     expect(await again.json()).toMatchObject({ error: expect.stringMatching(/can be sent again in \d+ minutes?/), code: "sent-recently" });
@@ -178,7 +254,11 @@ describe("take-overs and reports sent", () => {
 
 describe("sign-ins and refused sign-ins", () => {
   const login = (email: string, password: string, context = FROM) =>
-    answer(loginPage.action(routeArgs(new Request("http://localhost/login", { method: "POST", body: new URLSearchParams({ email, password }) }), {}, context)));
+    answer(
+      loginPage.action(
+        routeArgs(new Request("http://localhost/login", { method: "POST", body: new URLSearchParams({ email, password }) }), {}, context),
+      ),
+    );
 
   it("a sign-in is recorded in the account's shop with its address", async () => {
     const res = (await login(a.people.trainer.email, FRESH_PASSWORD)) as Response;
@@ -195,7 +275,12 @@ describe("sign-ins and refused sign-ins", () => {
     expect(res.init.status).toBe(401);
     for (const shopId of [a.shopId, b.shopId]) {
       const [entry] = (await entries(shopId, "sign-in.refused")).filter((e) => e.subjectId === a.people.lead.userId);
-      expect(entry, shopId).toMatchObject({ actorId: null, actorEmail: a.people.lead.email, address: ELSEWHERE.clientAddress, details: { reason: "wrong password" } });
+      expect(entry, shopId).toMatchObject({
+        actorId: null,
+        actorEmail: a.people.lead.email,
+        address: ELSEWHERE.clientAddress,
+        details: { reason: "wrong password" },
+      });
     }
     const nobody = `nobody.${crypto.randomUUID().slice(0, 6)}@wrenfield.example`;
     await login(nobody, "whatever-it-is-here", ELSEWHERE);
@@ -206,8 +291,13 @@ describe("sign-ins and refused sign-ins", () => {
 });
 
 describe("the owner's /audit page", () => {
-  type Page = { entries: { id: number; summary: string; action: string; who: string; address: string | null }[]; nextBefore: number | null; people: { id: string }[] };
-  const load = async (cookie: string, query = "") => (await auditPage.loader(routeArgs(requestWith(cookie, `/audit${query}`)))) as unknown as Page;
+  type Page = {
+    entries: { id: number; summary: string; action: string; who: string; address: string | null }[];
+    nextBefore: number | null;
+    people: { id: string }[];
+  };
+  const load = async (cookie: string, query = "") =>
+    (await auditPage.loader(routeArgs(requestWith(cookie, `/audit${query}`)))) as unknown as Page;
 
   it("shows the owner's own shop only, newest first, and filters by action, person and period", async () => {
     const mine = await load(cookies.owner!);
@@ -235,7 +325,14 @@ describe("the owner's /audit page", () => {
 
   it("pages a long trail: each page newest first, no entry twice, none skipped", async () => {
     // More than two pages' worth, written by the trail's own writer.
-    for (let i = 0; i < 110; i++) await recordAudit({ shopId: a.shopId, actorId: a.people.lead.userId, action: "sign-in.succeeded", summary: `Sign-in ${i} for paging`, address: FROM.clientAddress });
+    for (let i = 0; i < 110; i++)
+      await recordAudit({
+        shopId: a.shopId,
+        actorId: a.people.lead.userId,
+        action: "sign-in.succeeded",
+        summary: `Sign-in ${i} for paging`,
+        address: FROM.clientAddress,
+      });
     const all = await entries(a.shopId);
     const seen: number[] = [];
     let query = "";
@@ -264,7 +361,8 @@ describe("the owner's /audit page", () => {
         if (statSync(path).isDirectory()) walk(path);
         else if (/\.(ts|tsx)$/.test(name)) {
           const text = readFileSync(path, "utf8");
-          if (/\.(update|delete)\(\s*auditEvents\b/.test(text) || /(UPDATE|DELETE\s+FROM)\s+`?audit_events/i.test(text)) offenders.push(path);
+          if (/\.(update|delete)\(\s*auditEvents\b/.test(text) || /(UPDATE|DELETE\s+FROM)\s+`?audit_events/i.test(text))
+            offenders.push(path);
         }
       }
     };

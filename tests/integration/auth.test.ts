@@ -21,7 +21,9 @@ function loginRequest(email: string, password: string) {
 }
 
 async function postLogin(email: string, password: string, addr: string) {
-  const res = await Promise.resolve(loginAction(routeArgs(loginRequest(email, password), {}, { clientAddress: addr }))).catch((e: unknown) => e);
+  const res = await Promise.resolve(loginAction(routeArgs(loginRequest(email, password), {}, { clientAddress: addr }))).catch(
+    (e: unknown) => e,
+  );
   // data() results carry { data, init }; a redirect is a thrown Response.
   if (res instanceof Response) return { status: res.status, body: null, headers: res.headers };
   const d = res as { data: { formError?: string }; init: { status: number } };
@@ -63,7 +65,9 @@ describe("sign-in answers", () => {
     const ok = await postLogin(TECH, DEMO_PASSWORD, address());
     expect(ok.status).toBe(302);
     expect(ok.headers!.get("location")).toBe("/calls");
-    expect(ok.headers!.getSetCookie().some((c) => c.startsWith("authjs.session-token=") && /HttpOnly/i.test(c) && /SameSite=Lax/i.test(c))).toBe(true);
+    expect(
+      ok.headers!.getSetCookie().some((c) => c.startsWith("authjs.session-token=") && /HttpOnly/i.test(c) && /SameSite=Lax/i.test(c)),
+    ).toBe(true);
   });
 
   it("every sign-in opens a new session (a fresh session id, never a reused one)", async () => {
@@ -127,6 +131,8 @@ describe("sign-out", () => {
   });
 
   it("a cookie signed with another secret is not accepted", async () => {
-    expect(await getUser(new Request("http://localhost/", { headers: { cookie: "authjs.session-token=eyJhbGciOiJkaXIi.forged" } }))).toBeNull();
+    expect(
+      await getUser(new Request("http://localhost/", { headers: { cookie: "authjs.session-token=eyJhbGciOiJkaXIi.forged" } })),
+    ).toBeNull();
   });
 });

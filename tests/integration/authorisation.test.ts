@@ -74,7 +74,8 @@ beforeAll(async () => {
   ({ treeId: publishedTreeId } = await drafts.createPublishedTree(lead, smallTree(`Authorisation ${tag()}`), "For the authorisation test"));
 });
 
-const newCall = async () => (await calls.createCall(lead, { unitId, symptom: "fan hums", priority: "normal", assignedTo: tech.userId, notes: null })).id;
+const newCall = async () =>
+  (await calls.createCall(lead, { unitId, symptom: "fan hums", priority: "normal", assignedTo: tech.userId, notes: null })).id;
 const newRun = async (callId?: string) => (await start.startRun(tech, { treeId: publishedTreeId, callId })).runId;
 const step = () => ({ key: crypto.randomUUID(), entry: { type: "answer" as const, node: "cap-look", answer: "no" } });
 const runAtOutcome = async () => {
@@ -83,7 +84,8 @@ const runAtOutcome = async () => {
   await steps.postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "answer", node: "cap-look", answer: "yes" } });
   return runId;
 };
-const report = async () => (await lifecycle.recordOutcome(tech, await runAtOutcome(), { action: "Replaced the capacitor.", minutes: 30, parts: [] })).reportId;
+const report = async () =>
+  (await lifecycle.recordOutcome(tech, await runAtOutcome(), { action: "Replaced the capacitor.", minutes: 30, parts: [] })).reportId;
 const runWithPhoto = async () => {
   const runId = await newRun();
   return { runId, photoId: (await photos.addPhoto(tech, runId, { key: crypto.randomUUID(), node: "cap-look", bytes: TINY_PNG })).photo.id };
@@ -108,7 +110,15 @@ const practiceDone = async () => {
   await practice.finishPractice(tech, p.runId);
   return p;
 };
-const meterInput = { name: `Bench meter ${tag()}`, quantity: "voltage" as const, unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 };
+const meterInput = {
+  name: `Bench meter ${tag()}`,
+  quantity: "voltage" as const,
+  unit: "V",
+  rangeMax: 600,
+  resolution: 0.1,
+  percent: 1,
+  counts: 3,
+};
 const site = { name: "Back kitchen", address: "1 Mill Row", contactName: "A. Person", contactEmail: "a@bakery.example" };
 const unit = { category: "oven" as const, make: "Brenmoor", model: "EO-4", serial: "X1", installedOn: null };
 const nothing = async () => undefined;
@@ -125,12 +135,24 @@ type Row = {
   call: (ctx: Ctx) => Promise<() => Promise<unknown>>;
 };
 
-function row<A>(fn: unknown, action: Action, arrange: () => Promise<A>, act: (ctx: Ctx, a: A) => Promise<unknown>, opts: { label?: string; heldByTechnician?: boolean } = {}): Row {
+function row<A>(
+  fn: unknown,
+  action: Action,
+  arrange: () => Promise<A>,
+  act: (ctx: Ctx, a: A) => Promise<unknown>,
+  opts: { label?: string; heldByTechnician?: boolean } = {},
+): Row {
   const name = (fn as { name?: string }).name ?? "?";
-  return { fn, action, label: opts.label ? `${name} (${opts.label})` : name, heldByTechnician: opts.heldByTechnician, call: async (ctx) => {
-    const a = await arrange();
-    return () => act(ctx, a);
-  } };
+  return {
+    fn,
+    action,
+    label: opts.label ? `${name} (${opts.label})` : name,
+    heldByTechnician: opts.heldByTechnician,
+    call: async (ctx) => {
+      const a = await arrange();
+      return () => act(ctx, a);
+    },
+  };
 }
 
 const held = { heldByTechnician: true };
@@ -143,15 +165,23 @@ const ROWS: Row[] = [
   row(calls.getCall, "calls.view", newCall, (c, id) => calls.getCall(c, id)),
   row(calls.assignablePeople, "calls.view", nothing, (c) => calls.assignablePeople(c)),
   row(calls.callFormChoices, "calls.write", nothing, (c) => calls.callFormChoices(c)),
-  row(calls.createCall, "calls.write", nothing, (c) => calls.createCall(c, { unitId, symptom: "no heat", priority: "low", assignedTo: null, notes: null })),
-  row(calls.updateCall, "calls.write", newCall, (c, id) => calls.updateCall(c, id, { unitId, symptom: "no heat at all", priority: "high", assignedTo: null, notes: null, status: "open" })),
-  row(calls.suggestTrees, "trees.view", nothing, (c) => calls.suggestTrees(c, { category: "rotisserie", make: "Vantor", model: "RCF-2208" }, "fan hums")),
+  row(calls.createCall, "calls.write", nothing, (c) =>
+    calls.createCall(c, { unitId, symptom: "no heat", priority: "low", assignedTo: null, notes: null }),
+  ),
+  row(calls.updateCall, "calls.write", newCall, (c, id) =>
+    calls.updateCall(c, id, { unitId, symptom: "no heat at all", priority: "high", assignedTo: null, notes: null, status: "open" }),
+  ),
+  row(calls.suggestTrees, "trees.view", nothing, (c) =>
+    calls.suggestTrees(c, { category: "rotisserie", make: "Vantor", model: "RCF-2208" }, "fan hums"),
+  ),
   row(calls.callsOfUnit, "calls.view", nothing, (c) => calls.callsOfUnit(c, unitId)),
   // customers, sites, units
   row(equipment.getCustomer, "equipment.view", nothing, (c) => equipment.getCustomer(c, customerId)),
   row(equipment.getSite, "equipment.view", nothing, (c) => equipment.getSite(c, siteId)),
   row(equipment.getUnit, "equipment.view", nothing, (c) => equipment.getUnit(c, unitId)),
-  row(equipment.unitRatings, "equipment.view", nothing, (c) => equipment.unitRatings(c, { category: "rotisserie", nameplate: { rated_uf: { value: 1.5, unit: "µF" } } })),
+  row(equipment.unitRatings, "equipment.view", nothing, (c) =>
+    equipment.unitRatings(c, { category: "rotisserie", nameplate: { rated_uf: { value: 1.5, unit: "µF" } } }),
+  ),
   row(equipment.listUnits, "equipment.view", nothing, (c) => equipment.listUnits(c)),
   row(equipment.searchUnits, "equipment.view", nothing, (c) => equipment.searchUnits(c, { q: "rotisserie" })),
   row(equipment.listCustomers, "equipment.view", nothing, (c) => equipment.listCustomers(c, "Larkspur")),
@@ -161,22 +191,63 @@ const ROWS: Row[] = [
   row(equipment.shopCounts, "shop.overview", nothing, (c) => equipment.shopCounts(c)),
   // owner insights
   row(insights.overview, "shop.overview", nothing, (c) => insights.overview(c, parseFilters(new URLSearchParams("period=30")).filters)),
-  row(insights.overviewTable, "shop.overview", nothing, (c) => insights.overviewTable(c, parseFilters(new URLSearchParams("period=30")).filters, "parts")),
-  row(insights.runQuery, "shop.overview", nothing, (c) => insights.runQuery(c, "rootCauses", parseFilters(new URLSearchParams("period=30")).filters)),
+  row(insights.overviewTable, "shop.overview", nothing, (c) =>
+    insights.overviewTable(c, parseFilters(new URLSearchParams("period=30")).filters, "parts"),
+  ),
+  row(insights.runQuery, "shop.overview", nothing, (c) =>
+    insights.runQuery(c, "rootCauses", parseFilters(new URLSearchParams("period=30")).filters),
+  ),
   row(insights.filterOptions, "shop.overview", nothing, (c) => insights.filterOptions(c, {})),
   row(foundHere.foundHereBefore, "runs.view", publishedTree, (c, t) => foundHere.foundHereBefore(c, { versionId: t.versionId })),
-  row(equipment.createCustomer, "equipment.write", nothing, (c) => equipment.createCustomer(c, { name: `Quarry Bakery ${tag()}`, phone: null })),
-  row(equipment.updateCustomer, "equipment.write", () => equipment.createCustomer(lead, { name: `Mill Cafe ${tag()}`, phone: null }), (c, id) => equipment.updateCustomer(c, id, { name: "Mill Cafe", phone: "555-0100" })),
-  row(equipment.createSite, "equipment.write", () => equipment.createCustomer(lead, { name: `Ford Diner ${tag()}`, phone: null }), (c, id) => equipment.createSite(c, id, site)),
-  row(equipment.updateSite, "equipment.write", async () => equipment.createSite(lead, await equipment.createCustomer(lead, { name: `Weir Inn ${tag()}`, phone: null }), site), (c, id) => equipment.updateSite(c, id, { ...site, name: "Front kitchen" })),
+  row(equipment.createCustomer, "equipment.write", nothing, (c) =>
+    equipment.createCustomer(c, { name: `Quarry Bakery ${tag()}`, phone: null }),
+  ),
+  row(
+    equipment.updateCustomer,
+    "equipment.write",
+    () => equipment.createCustomer(lead, { name: `Mill Cafe ${tag()}`, phone: null }),
+    (c, id) => equipment.updateCustomer(c, id, { name: "Mill Cafe", phone: "555-0100" }),
+  ),
+  row(
+    equipment.createSite,
+    "equipment.write",
+    () => equipment.createCustomer(lead, { name: `Ford Diner ${tag()}`, phone: null }),
+    (c, id) => equipment.createSite(c, id, site),
+  ),
+  row(
+    equipment.updateSite,
+    "equipment.write",
+    async () => equipment.createSite(lead, await equipment.createCustomer(lead, { name: `Weir Inn ${tag()}`, phone: null }), site),
+    (c, id) => equipment.updateSite(c, id, { ...site, name: "Front kitchen" }),
+  ),
   row(equipment.createUnit, "equipment.write", nothing, (c) => equipment.createUnit(c, siteId, unit)),
-  row(equipment.updateUnit, "equipment.write", () => equipment.createUnit(lead, siteId, unit), (c, id) => equipment.updateUnit(c, id, { ...unit, serial: "X2" })),
+  row(
+    equipment.updateUnit,
+    "equipment.write",
+    () => equipment.createUnit(lead, siteId, unit),
+    (c, id) => equipment.updateUnit(c, id, { ...unit, serial: "X2" }),
+  ),
   // meters
   row(meters.listMeters, "meters.view", nothing, (c) => meters.listMeters(c)),
-  row(meters.getMeter, "meters.view", () => meters.createMeter(lead, meterInput), (c, id) => meters.getMeter(c, id)),
+  row(
+    meters.getMeter,
+    "meters.view",
+    () => meters.createMeter(lead, meterInput),
+    (c, id) => meters.getMeter(c, id),
+  ),
   row(meters.createMeter, "meters.manage", nothing, (c) => meters.createMeter(c, meterInput)),
-  row(meters.updateMeter, "meters.manage", () => meters.createMeter(lead, meterInput), (c, id) => meters.updateMeter(c, id, { ...meterInput, percent: 0.5 })),
-  row(meters.setMeterRetired, "meters.manage", () => meters.createMeter(lead, meterInput), (c, id) => meters.setMeterRetired(c, id, true)),
+  row(
+    meters.updateMeter,
+    "meters.manage",
+    () => meters.createMeter(lead, meterInput),
+    (c, id) => meters.updateMeter(c, id, { ...meterInput, percent: 0.5 }),
+  ),
+  row(
+    meters.setMeterRetired,
+    "meters.manage",
+    () => meters.createMeter(lead, meterInput),
+    (c, id) => meters.setMeterRetired(c, id, true),
+  ),
   // the shop
   row(shop.shopTimeZone, "shop.view", nothing, (c) => shop.shopTimeZone(c)),
   row(outbox.listOutbox, "outbox.view", nothing, (c) => outbox.listOutbox(c)),
@@ -184,40 +255,125 @@ const ROWS: Row[] = [
   row(people.listMembers, "people.manage", nothing, (c) => people.listMembers(c)),
   row(people.listOpenInvitations, "people.manage", nothing, (c) => people.listOpenInvitations(c)),
   row(people.invite, "people.manage", nothing, (c) => people.invite(c, `new-${tag()}@tinderbox.example`, "technician")),
-  row(people.sendInvitationMail, "people.manage", nothing, (c) => people.sendInvitationMail(c, `new-${tag()}@tinderbox.example`, "trainer", "http://localhost/invite/x")),
-  row(people.revokeInvitation, "people.manage", () => people.invite(owner, `w-${tag()}@tinderbox.example`, "lead"), (c, inv) => people.revokeInvitation(c, inv.id)),
-  row(members.setMemberRole, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberRole(c, p.ctx.userId, "lead")),
-  row(members.setMemberActive, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.setMemberActive(c, p.ctx.userId, false)),
-  row(members.resetMemberSignIn, "people.manage", () => newPerson(shopId, "technician"), (c, p) => members.resetMemberSignIn(c, p.ctx.userId, (t) => `http://localhost/reset-password/${t}`)),
+  row(people.sendInvitationMail, "people.manage", nothing, (c) =>
+    people.sendInvitationMail(c, `new-${tag()}@tinderbox.example`, "trainer", "http://localhost/invite/x"),
+  ),
+  row(
+    people.revokeInvitation,
+    "people.manage",
+    () => people.invite(owner, `w-${tag()}@tinderbox.example`, "lead"),
+    (c, inv) => people.revokeInvitation(c, inv.id),
+  ),
+  row(
+    members.setMemberRole,
+    "people.manage",
+    () => newPerson(shopId, "technician"),
+    (c, p) => members.setMemberRole(c, p.ctx.userId, "lead"),
+  ),
+  row(
+    members.setMemberActive,
+    "people.manage",
+    () => newPerson(shopId, "technician"),
+    (c, p) => members.setMemberActive(c, p.ctx.userId, false),
+  ),
+  row(
+    members.resetMemberSignIn,
+    "people.manage",
+    () => newPerson(shopId, "technician"),
+    (c, p) => members.resetMemberSignIn(c, p.ctx.userId, (t) => `http://localhost/reset-password/${t}`),
+  ),
   // everyone's own account (the demo people keep their names and passwords: each change is undone)
   row(account.getAccount, "account.self", nothing, (c) => account.getAccount(c, { sessionId: "none" })),
-  row(account.renameSelf, "account.self", nothing, async (c) => account.renameSelf(c, { name: (await account.getAccount(c, { sessionId: "none" })).name })),
+  row(account.renameSelf, "account.self", nothing, async (c) =>
+    account.renameSelf(c, { name: (await account.getAccount(c, { sessionId: "none" })).name }),
+  ),
   row(account.changePassword, "account.self", nothing, async (c) => {
     const caller = { sessionId: "none", address: address() };
     await account.changePassword(c, caller, { currentPassword: DEMO_PASSWORD, newPassword: "a passing pass phrase" });
     await account.changePassword(c, caller, { currentPassword: "a passing pass phrase", newPassword: DEMO_PASSWORD });
   }),
-  row(account.endMySessions, "account.self", nothing, (c) => account.endMySessions(c, { sessionId: "none", address: address() }, { allButThis: true })),
+  row(account.endMySessions, "account.self", nothing, (c) =>
+    account.endMySessions(c, { sessionId: "none", address: address() }, { allButThis: true }),
+  ),
   // runs
   row(start.startRun, "runs.start", nothing, (c) => start.startRun(c, { treeId: publishedTreeId })),
   row(kit.fieldKit, "calls.mine", nothing, (c) => kit.fieldKit(c)),
-  row(view.getRunView, "runs.view", () => newRun(), (c, runId) => view.getRunView(c, runId)),
-  row(steps.postStep, "runs.step", () => newRun(), (c, runId) => steps.postStep(c, runId, step()), held),
-  row(notes.addNote, "runs.note", () => newRun(), (c, runId) => notes.addNote(c, runId, { key: crypto.randomUUID(), node: "cap-look", text: "Capacitor top is domed." }), held),
-  row(photos.addPhoto, "runs.photo", () => newRun(), (c, runId) => photos.addPhoto(c, runId, { key: crypto.randomUUID(), node: "cap-look", bytes: TINY_PNG }), held),
+  row(
+    view.getRunView,
+    "runs.view",
+    () => newRun(),
+    (c, runId) => view.getRunView(c, runId),
+  ),
+  row(
+    steps.postStep,
+    "runs.step",
+    () => newRun(),
+    (c, runId) => steps.postStep(c, runId, step()),
+    held,
+  ),
+  row(
+    notes.addNote,
+    "runs.note",
+    () => newRun(),
+    (c, runId) => notes.addNote(c, runId, { key: crypto.randomUUID(), node: "cap-look", text: "Capacitor top is domed." }),
+    held,
+  ),
+  row(
+    photos.addPhoto,
+    "runs.photo",
+    () => newRun(),
+    (c, runId) => photos.addPhoto(c, runId, { key: crypto.randomUUID(), node: "cap-look", bytes: TINY_PNG }),
+    held,
+  ),
   row(photos.deletePhoto, "runs.photo", runWithPhoto, (c, r) => photos.deletePhoto(c, r.photoId), held),
   row(photos.getPhotoFile, "runs.view", runWithPhoto, (c, r) => photos.getPhotoFile(c, r.photoId)),
   row(photos.photosWithBytes, "reports.view", runWithPhoto, (c, r) => photos.photosWithBytes(c, r.runId)),
-  row(lifecycle.changeRunStatus, "runs.pause", () => newRun(), (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "pause" }), { ...held, label: "pause" }),
-  row(lifecycle.changeRunStatus, "runs.pause", async () => {
-    const runId = await newRun();
-    await lifecycle.changeRunStatus(tech, runId, { action: "pause" });
-    return runId;
-  }, (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "resume" }), { ...held, label: "resume" }),
-  row(lifecycle.changeRunStatus, "runs.escalate", () => newRun(), (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "escalate", reason: "Burnt smell at the terminal block." }), { ...held, label: "escalate" }),
-  row(lifecycle.changeRunStatus, "runs.abandon", () => newRun(), (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "abandon", reason: "Customer cancelled the visit." }), { ...held, label: "abandon" }),
-  row(lifecycle.changeRunStatus, "runs.take-over", () => newRun(), (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "take-over" }), { ...held, label: "take over" }),
-  row(lifecycle.recordOutcome, "runs.outcome", runAtOutcome, (c, runId) => lifecycle.recordOutcome(c, runId, { action: "Replaced the run capacitor.", minutes: 40, parts: [] }), held),
+  row(
+    lifecycle.changeRunStatus,
+    "runs.pause",
+    () => newRun(),
+    (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "pause" }),
+    { ...held, label: "pause" },
+  ),
+  row(
+    lifecycle.changeRunStatus,
+    "runs.pause",
+    async () => {
+      const runId = await newRun();
+      await lifecycle.changeRunStatus(tech, runId, { action: "pause" });
+      return runId;
+    },
+    (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "resume" }),
+    { ...held, label: "resume" },
+  ),
+  row(
+    lifecycle.changeRunStatus,
+    "runs.escalate",
+    () => newRun(),
+    (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "escalate", reason: "Burnt smell at the terminal block." }),
+    { ...held, label: "escalate" },
+  ),
+  row(
+    lifecycle.changeRunStatus,
+    "runs.abandon",
+    () => newRun(),
+    (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "abandon", reason: "Customer cancelled the visit." }),
+    { ...held, label: "abandon" },
+  ),
+  row(
+    lifecycle.changeRunStatus,
+    "runs.take-over",
+    () => newRun(),
+    (c, runId) => lifecycle.changeRunStatus(c, runId, { action: "take-over" }),
+    { ...held, label: "take over" },
+  ),
+  row(
+    lifecycle.recordOutcome,
+    "runs.outcome",
+    runAtOutcome,
+    (c, runId) => lifecycle.recordOutcome(c, runId, { action: "Replaced the run capacitor.", minutes: 40, parts: [] }),
+    held,
+  ),
   row(queries.listOpenEscalations, "escalations.view", nothing, (c) => queries.listOpenEscalations(c)),
   row(queries.countOpenEscalations, "escalations.view", nothing, (c) => queries.countOpenEscalations(c)),
   row(queries.runsOfCall, "runs.view", newCall, (c, callId) => queries.runsOfCall(c, callId)),
@@ -226,24 +382,37 @@ const ROWS: Row[] = [
   row(reports.sendReport, "reports.send", report, (c, id) => reports.sendReport(c, id, reportMailHtml)),
   // training
   row(scenarios.scenarioFormChoices, "training.write", nothing, (c) => scenarios.scenarioFormChoices(c, publishedTreeId)),
-  row(scenarios.createScenario, "training.write", nothing, (c) => scenarios.createScenario(c, publishedTreeId, scenarioFields("Domed capacitor", "cap-failed", SMALL_WORLD))),
-  row(scenarios.updateScenario, "training.write", scenario, (c, id) => scenarios.updateScenario(c, id, scenarioFields("Domed capacitor, renamed", "cap-failed", SMALL_WORLD))),
-  row(scenarios.copyScenario, "training.write", async () => {
-    const id = await scenario();
-    const draft = await drafts.startDraft(lead, publishedTreeId);
-    const { revision } = await drafts.replaceDraftContent(lead, draft.versionId, smallTree(`Authorisation copy ${tag()}`), 1);
-    await publish.publishDraft(lead, publishedTreeId, revision, "A newer version to copy onto");
-    return id;
-  }, (c, id) => scenarios.copyScenario(c, id)),
+  row(scenarios.createScenario, "training.write", nothing, (c) =>
+    scenarios.createScenario(c, publishedTreeId, scenarioFields("Domed capacitor", "cap-failed", SMALL_WORLD)),
+  ),
+  row(scenarios.updateScenario, "training.write", scenario, (c, id) =>
+    scenarios.updateScenario(c, id, scenarioFields("Domed capacitor, renamed", "cap-failed", SMALL_WORLD)),
+  ),
+  row(
+    scenarios.copyScenario,
+    "training.write",
+    async () => {
+      const id = await scenario();
+      const draft = await drafts.startDraft(lead, publishedTreeId);
+      const { revision } = await drafts.replaceDraftContent(lead, draft.versionId, smallTree(`Authorisation copy ${tag()}`), 1);
+      await publish.publishDraft(lead, publishedTreeId, revision, "A newer version to copy onto");
+      return id;
+    },
+    (c, id) => scenarios.copyScenario(c, id),
+  ),
   row(scenarios.getScenario, "training.write", scenario, (c, id) => scenarios.getScenario(c, id)),
   row(scenarios.listScenarios, "training.summary", nothing, (c) => scenarios.listScenarios(c)),
-  row(practice.assignScenario, "training.write", scenario, (c, id) => practice.assignScenario(c, id, { trainees: [tech.userId], dueOn: "2026-12-31" })),
+  row(practice.assignScenario, "training.write", scenario, (c, id) =>
+    practice.assignScenario(c, id, { trainees: [tech.userId], dueOn: "2026-12-31" }),
+  ),
   row(practice.withdrawAssignment, "training.write", assignment, (c, id) => practice.withdrawAssignment(c, id)),
   row(practice.myPractice, "training.practice", nothing, (c) => practice.myPractice(c)),
   row(practice.startPractice, "training.practice", assignment, (c, id) => practice.startPractice(c, id)),
   row(practice.finishPractice, "runs.outcome", practiceAtEnd, (c, p) => practice.finishPractice(c, p.runId), held),
   row(reviews.getPracticeReview, "training.review", practiceDone, (c, p) => reviews.getPracticeReview(c, p.runId)),
-  row(reviews.addComment, "training.review", practiceDone, (c, p) => reviews.addComment(c, p.runId, { seq: 0, text: "Good: the domed top was enough to call it." })),
+  row(reviews.addComment, "training.review", practiceDone, (c, p) =>
+    reviews.addComment(c, p.runId, { seq: 0, text: "Good: the domed top was enough to call it." }),
+  ),
   row(reviews.saveReview, "training.review", practiceDone, (c, p) => reviews.saveReview(c, p.runId, { note: "Quick and right." })),
   row(summary.trainingBoard, "training.summary", nothing, (c) => summary.trainingBoard(c)),
   row(summary.traineeProgress, "training.summary", nothing, (c) => summary.traineeProgress(c)),
@@ -253,27 +422,46 @@ const ROWS: Row[] = [
   row(versions.getTree, "trees.view", publishedTree, (c, t) => versions.getTree(c, t.treeId)),
   row(versions.loadVersion, "trees.view", publishedTree, (c, t) => versions.loadVersion(c, t.versionId), { label: "a published version" }),
   row(versions.loadVersion, "trees.author", publishedWithDraft, (c, t) => versions.loadVersion(c, t.draftId), { label: "the draft" }),
-  row(versions.loadTreeVersion, "trees.view", publishedTree, (c, t) => versions.loadTreeVersion(c, t.treeId, 1), { label: "a published version" }),
-  row(versions.loadTreeVersion, "trees.author", publishedWithDraft, (c, t) => versions.loadTreeVersion(c, t.treeId, "draft"), { label: "the draft" }),
-  row(versions.diffVersions, "trees.view", publishedTree, (c, t) => versions.diffVersions(c, t.treeId, 1, 1), { label: "published versions" }),
-  row(versions.diffVersions, "trees.author", publishedWithDraft, (c, t) => versions.diffVersions(c, t.treeId, 1, "draft"), { label: "with the draft" }),
-  row(transfer.exportVersion, "trees.view", publishedTree, (c, t) => transfer.exportVersion(c, t.treeId, 1), { label: "a published version" }),
-  row(transfer.exportVersion, "trees.author", publishedWithDraft, (c, t) => transfer.exportVersion(c, t.treeId, "draft"), { label: "the draft" }),
+  row(versions.loadTreeVersion, "trees.view", publishedTree, (c, t) => versions.loadTreeVersion(c, t.treeId, 1), {
+    label: "a published version",
+  }),
+  row(versions.loadTreeVersion, "trees.author", publishedWithDraft, (c, t) => versions.loadTreeVersion(c, t.treeId, "draft"), {
+    label: "the draft",
+  }),
+  row(versions.diffVersions, "trees.view", publishedTree, (c, t) => versions.diffVersions(c, t.treeId, 1, 1), {
+    label: "published versions",
+  }),
+  row(versions.diffVersions, "trees.author", publishedWithDraft, (c, t) => versions.diffVersions(c, t.treeId, 1, "draft"), {
+    label: "with the draft",
+  }),
+  row(transfer.exportVersion, "trees.view", publishedTree, (c, t) => transfer.exportVersion(c, t.treeId, 1), {
+    label: "a published version",
+  }),
+  row(transfer.exportVersion, "trees.author", publishedWithDraft, (c, t) => transfer.exportVersion(c, t.treeId, "draft"), {
+    label: "the draft",
+  }),
   row(transfer.importTree, "trees.author", nothing, (c) => transfer.importTree(c, serializeTree(smallTree(`Imported ${tag()}`)))),
   row(drafts.createPublishedTree, "trees.author", nothing, (c) => drafts.createPublishedTree(c, smallTree(`Seeded ${tag()}`), "First")),
   row(drafts.createDraftTree, "trees.author", nothing, (c) => drafts.createDraftTree(c, smallTree(`New ${tag()}`))),
   row(drafts.startDraft, "trees.author", publishedTree, (c, t) => drafts.startDraft(c, t.treeId)),
-  row(drafts.replaceDraftContent, "trees.author", draftTree, (c, t) => drafts.replaceDraftContent(c, t.versionId, smallTree(`Saved ${tag()}`), 1)),
+  row(drafts.replaceDraftContent, "trees.author", draftTree, (c, t) =>
+    drafts.replaceDraftContent(c, t.versionId, smallTree(`Saved ${tag()}`), 1),
+  ),
   row(drafts.discardDraft, "trees.author", publishedWithDraft, (c, t) => drafts.discardDraft(c, t.treeId)),
   row(editor.openEditor, "trees.author", draftTree, (c, t) => editor.openEditor(c, t.treeId)),
   row(publish.validateDraft, "trees.author", draftTree, (c, t) => publish.validateDraft(c, t.treeId)),
   row(publish.publishDraft, "trees.author", draftTree, (c, t) => publish.publishDraft(c, t.treeId, 1, "First version")),
   row(publish.retireVersion, "trees.author", publishedTree, (c, t) => publish.retireVersion(c, t.treeId, 1)),
   row(images.addTreeImage, "trees.author", draftTree, (c, t) => images.addTreeImage(c, t.treeId, TINY_PNG, "diagram.png")),
-  row(images.getTreeImage, "trees.view", async () => {
-    const { treeId } = await draftTree();
-    return { treeId, imageId: (await images.addTreeImage(lead, treeId, TINY_PNG, "diagram.png")).id };
-  }, (c, t) => images.getTreeImage(c, t.treeId, t.imageId)),
+  row(
+    images.getTreeImage,
+    "trees.view",
+    async () => {
+      const { treeId } = await draftTree();
+      return { treeId, imageId: (await images.addTreeImage(lead, treeId, TINY_PNG, "diagram.png")).id };
+    },
+    (c, t) => images.getTreeImage(c, t.treeId, t.imageId),
+  ),
 ];
 
 /** Model functions that take no caller: the token in an invitation or reset link is the key (or the e-mail asked for). */
@@ -303,7 +491,11 @@ describe("every model function decides who may, from the caller's role", () => {
         });
       } else {
         const before = await rowCounts();
-        await expect(call(), `${ctx.role} may not`).rejects.toMatchObject({ kind: "forbidden", status: 403, message: POLICY[action].refusal });
+        await expect(call(), `${ctx.role} may not`).rejects.toMatchObject({
+          kind: "forbidden",
+          status: 403,
+          message: POLICY[action].refusal,
+        });
         expect(await rowCounts(), `${ctx.role}'s refused call wrote nothing`).toEqual(before);
       }
     }
@@ -317,7 +509,8 @@ describe("every model function decides who may, from the caller's role", () => {
       // Files named _*.server.ts are the models' own helpers: they take no caller of their own.
       if (/\/_[^/]+$/.test(path)) continue;
       for (const [name, value] of Object.entries(mod)) {
-        if (typeof value === "function" && !covered.has(value) && !WITHOUT_CALLER.has(value)) missing.push(`${path.replace("../../", "")}: ${name}`);
+        if (typeof value === "function" && !covered.has(value) && !WITHOUT_CALLER.has(value))
+          missing.push(`${path.replace("../../", "")}: ${name}`);
       }
     }
     expect(missing).toEqual([]);

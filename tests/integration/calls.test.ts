@@ -40,7 +40,14 @@ async function thrown(p: unknown): Promise<Response> {
 describe("the call form", () => {
   it("an empty symptom and no unit come back with an error beside each field and what was typed", async () => {
     const { cookie } = await cookieFor("lead@tinderbox.example");
-    const res = (await callFormAction(routeArgs(requestWith(cookie, "/calls/new", { method: "POST", body: form({ unitId: "", symptom: "", priority: "high", assignedTo: "", notes: "left side pale" }) })))) as unknown as {
+    const res = (await callFormAction(
+      routeArgs(
+        requestWith(cookie, "/calls/new", {
+          method: "POST",
+          body: form({ unitId: "", symptom: "", priority: "high", assignedTo: "", notes: "left side pale" }),
+        }),
+      ),
+    )) as unknown as {
       data: { values: Record<string, string>; errors: Record<string, string> };
       init: { status: number };
     };
@@ -52,7 +59,16 @@ describe("the call form", () => {
 
   it("a valid call is opened with the shop's next number and lands on its page; the other shop gets a 404 there", async () => {
     const { cookie } = await cookieFor("lead@tinderbox.example");
-    const res = await thrown(callFormAction(routeArgs(requestWith(cookie, "/calls/new", { method: "POST", body: form({ unitId: rotisserie, symptom: "door gasket torn", priority: "low", assignedTo: tech.userId, notes: "" }) }))));
+    const res = await thrown(
+      callFormAction(
+        routeArgs(
+          requestWith(cookie, "/calls/new", {
+            method: "POST",
+            body: form({ unitId: rotisserie, symptom: "door gasket torn", priority: "low", assignedTo: tech.userId, notes: "" }),
+          }),
+        ),
+      ),
+    );
     expect(res.status).toBe(302);
     const callId = res.headers.get("location")!.split("/").pop()!;
     const call = await getCall(lead, callId);
@@ -64,7 +80,13 @@ describe("the call form", () => {
   });
 
   it("search finds calls by number and words; filters narrow by priority and assignee", async () => {
-    const made = await createCall(lead, { unitId: rotisserie, symptom: "spit motor grinding noise", priority: "urgent", assignedTo: null, notes: null });
+    const made = await createCall(lead, {
+      unitId: rotisserie,
+      symptom: "spit motor grinding noise",
+      priority: "urgent",
+      assignedTo: null,
+      notes: null,
+    });
     expect((await listCalls(lead, { q: String(made.number), status: "active" })).map((c) => c.id)).toEqual([made.id]);
     expect((await listCalls(lead, { q: "grinding" })).map((c) => c.id)).toContain(made.id);
     expect((await listCalls(lead, { priority: "urgent", assigned: "unassigned" })).map((c) => c.id)).toContain(made.id);
@@ -73,7 +95,11 @@ describe("the call form", () => {
   });
 
   it("suggests the unit's category first, the tree sharing the reported words on top", async () => {
-    const list = await suggestTrees(lead, { category: "rotisserie", make: "Vantor", model: "RCF-2208 two-fan convection rotisserie" }, "heats unevenly");
+    const list = await suggestTrees(
+      lead,
+      { category: "rotisserie", make: "Vantor", model: "RCF-2208 two-fan convection rotisserie" },
+      "heats unevenly",
+    );
     expect(list[0]).toMatchObject({ title: "Two-fan convection rotisserie heats unevenly", sameCategory: true, fits: true });
     expect(list[0]!.score).toBeGreaterThanOrEqual(2);
     expect(list.findIndex((t) => !t.sameCategory)).toBeGreaterThan(0);
@@ -92,7 +118,11 @@ describe("the call form", () => {
     expect(convection.score).toBeGreaterThan(0);
     expect(list.filter((t) => t.fits)).toEqual([]);
     // The same words on a convection oven: the tree fits, first.
-    const conv = await suggestTrees(lead, { category: "oven", make: "Brenmoor", model: "CO-10 electric convection oven" }, "slow to preheat");
+    const conv = await suggestTrees(
+      lead,
+      { category: "oven", make: "Brenmoor", model: "CO-10 electric convection oven" },
+      "slow to preheat",
+    );
     expect(conv[0]).toMatchObject({ title: "Electric convection oven slow to preheat", fits: true, kindsShared: 2 });
   });
 });
@@ -103,11 +133,33 @@ describe("customers, sites and units", () => {
     const name = `Quarry Lane Bakery ${tag}`;
     const serial = `QL-${tag}`;
     const customerId = await createCustomer(lead, { name, phone: null });
-    await expect(createSite(otherOwner, customerId, { name: "Back kitchen", address: "1 Mill Row", contactName: "A. Person", contactEmail: "a@bakery.example" })).rejects.toMatchObject({ kind: "not-found" });
-    const siteId = await createSite(lead, customerId, { name: "Back kitchen", address: "1 Mill Row", contactName: "A. Person", contactEmail: "a@bakery.example" });
-    await expect(createUnit(otherOwner, siteId, { category: "oven", make: "Brenmoor", model: "EO-4", serial: "X1", installedOn: null })).rejects.toMatchObject({ kind: "not-found" });
-    const unitId = await createUnit(lead, siteId, { category: "oven", make: "Brenmoor", model: "EO-4", serial: "X1", installedOn: "2023-02-01" });
-    await expect(updateUnit(otherOwner, unitId, { category: "oven", make: "x", model: "x", serial: "x", installedOn: null })).rejects.toMatchObject({ kind: "not-found" });
+    await expect(
+      createSite(otherOwner, customerId, {
+        name: "Back kitchen",
+        address: "1 Mill Row",
+        contactName: "A. Person",
+        contactEmail: "a@bakery.example",
+      }),
+    ).rejects.toMatchObject({ kind: "not-found" });
+    const siteId = await createSite(lead, customerId, {
+      name: "Back kitchen",
+      address: "1 Mill Row",
+      contactName: "A. Person",
+      contactEmail: "a@bakery.example",
+    });
+    await expect(
+      createUnit(otherOwner, siteId, { category: "oven", make: "Brenmoor", model: "EO-4", serial: "X1", installedOn: null }),
+    ).rejects.toMatchObject({ kind: "not-found" });
+    const unitId = await createUnit(lead, siteId, {
+      category: "oven",
+      make: "Brenmoor",
+      model: "EO-4",
+      serial: "X1",
+      installedOn: "2023-02-01",
+    });
+    await expect(
+      updateUnit(otherOwner, unitId, { category: "oven", make: "x", model: "x", serial: "x", installedOn: null }),
+    ).rejects.toMatchObject({ kind: "not-found" });
     await updateUnit(lead, unitId, { category: "oven", make: "Brenmoor", model: "EO-4", serial, installedOn: "2023-02-01" });
     expect((await getUnit(lead, unitId)).unit.serial).toBe(serial);
     expect((await listCustomers(lead, "Quarry Lane Bakery")).map((c) => [c.name, c.sites])).toContainEqual([name, 1]);
@@ -121,20 +173,63 @@ describe("customers, sites and units", () => {
 
 describe("meters", () => {
   it("a unit that doesn't measure the chosen quantity, a missing accuracy and a resolution coarser than the range are refused beside their fields", () => {
-    const wrongUnit = meterInput.safeParse({ name: "Clamp", quantity: "current", unit: "V", rangeMax: "400", resolution: "0.1", percent: "2", counts: "3" });
-    expect(wrongUnit.error?.issues.map((i) => [i.path.join("."), i.message])).toEqual([["unit", "“V” isn't a unit of a current; try A, mA, µA."]]);
-    const missing = meterInput.safeParse({ name: "Clamp", quantity: "current", unit: "A", rangeMax: "400", resolution: "0.1", percent: "", counts: "3" });
+    const wrongUnit = meterInput.safeParse({
+      name: "Clamp",
+      quantity: "current",
+      unit: "V",
+      rangeMax: "400",
+      resolution: "0.1",
+      percent: "2",
+      counts: "3",
+    });
+    expect(wrongUnit.error?.issues.map((i) => [i.path.join("."), i.message])).toEqual([
+      ["unit", "“V” isn't a unit of a current; try A, mA, µA."],
+    ]);
+    const missing = meterInput.safeParse({
+      name: "Clamp",
+      quantity: "current",
+      unit: "A",
+      rangeMax: "400",
+      resolution: "0.1",
+      percent: "",
+      counts: "3",
+    });
     expect(missing.error?.issues.map((i) => [i.path.join("."), i.message])).toEqual([["percent", "Enter the % of reading as a number."]]);
-    const coarse = meterInput.safeParse({ name: "Odd", quantity: "voltage", unit: "V", rangeMax: "2", resolution: "5", percent: "1", counts: "1" });
+    const coarse = meterInput.safeParse({
+      name: "Odd",
+      quantity: "voltage",
+      unit: "V",
+      rangeMax: "2",
+      resolution: "5",
+      percent: "1",
+      counts: "1",
+    });
     expect(coarse.error?.issues[0]?.path).toEqual(["resolution"]);
   });
 
   it("leads add meters; technicians can't (403); the list is per shop", async () => {
-    const id = await createMeter(lead, { name: `Bench clamp ${crypto.randomUUID().slice(0, 4)}`, quantity: "current", unit: "A", rangeMax: 400, resolution: 0.1, percent: 2, counts: 5 });
+    const id = await createMeter(lead, {
+      name: `Bench clamp ${crypto.randomUUID().slice(0, 4)}`,
+      quantity: "current",
+      unit: "A",
+      rangeMax: 400,
+      resolution: 0.1,
+      percent: 2,
+      counts: 5,
+    });
     expect((await listMeters(lead)).map((m) => m.id)).toContain(id);
     expect((await listMeters(otherOwner)).map((m) => m.id)).not.toContain(id);
     const t = await cookieFor("tech@tinderbox.example");
-    const res = await thrown(metersAction(routeArgs(requestWith(t.cookie, "/meters", { method: "POST", body: form({ name: "x", quantity: "voltage", unit: "V", rangeMax: "1", resolution: "0.1", percent: "1", counts: "1" }) }))));
+    const res = await thrown(
+      metersAction(
+        routeArgs(
+          requestWith(t.cookie, "/meters", {
+            method: "POST",
+            body: form({ name: "x", quantity: "voltage", unit: "V", rangeMax: "1", resolution: "0.1", percent: "1", counts: "1" }),
+          }),
+        ),
+      ),
+    );
     expect(res.status).toBe(403);
   });
 });

@@ -55,7 +55,11 @@ const ENGINE_COLUMNS: Record<keyof typeof TEXT_CAPS, { column: string; prefix?: 
   equipment: [{ column: "tree_versions.equipment" }],
   nodeTitle: [{ column: "tree_nodes.title" }, { column: "runs.root_cause" }],
   // An answer is the branch key "answer:<label>", and the step row keeps the label and the branch.
-  answer: [{ column: "tree_branches.branch_key", prefix: "answer:".length }, { column: "run_steps.answer" }, { column: "run_steps.branch", prefix: "answer:".length }],
+  answer: [
+    { column: "tree_branches.branch_key", prefix: "answer:".length },
+    { column: "run_steps.answer" },
+    { column: "run_steps.branch", prefix: "answer:".length },
+  ],
   remedy: [{ column: "tree_nodes.data" }],
   part: [{ column: "tree_nodes.data" }],
   reason: [{ column: "tree_nodes.data" }],
@@ -80,7 +84,9 @@ function strings(s: ZodLike, path: string, out: { path: string; max: number | nu
   const def = s._zod.def;
   switch (def.type) {
     case "string": {
-      const checks = ((def.checks as ZodLike[] | undefined) ?? []).map((c) => c._zod.def as { check?: string; maximum?: number; format?: string });
+      const checks = ((def.checks as ZodLike[] | undefined) ?? []).map(
+        (c) => c._zod.def as { check?: string; maximum?: number; format?: string },
+      );
       const max = checks.find((c) => c.check === "max_length")?.maximum ?? null;
       const format = (def.format as string | undefined) ?? checks.find((c) => c.check === "string_format")?.format;
       out.push({ path, max, format });
@@ -135,7 +141,7 @@ const MODEL_COLUMNS: Record<string, string[]> = {
   "outcomeInput.parts.description": ["run_parts.description"],
   "noteInput.node": ["run_notes.node_key"],
   "noteInput.text": ["run_notes.text"],
-  "nodeKey": ["run_steps.node_key"],
+  nodeKey: ["run_steps.node_key"],
   "stepPayload.entry.node": ["run_steps.node_key"],
   "stepPayload.entry.answer": ["run_steps.answer"],
   "stepPayload.entry.reading": ["run_steps.typed"],
@@ -149,7 +155,11 @@ const MODEL_COLUMNS: Record<string, string[]> = {
 
 describe("every text of the models' schemas fits its column", () => {
   const modules = import.meta.glob<Record<string, unknown>>("../../app/models/**/*.server.ts", { eager: true });
-  const found = Object.values(modules).flatMap((mod) => Object.entries(mod).filter(([, v]) => isZod(v)).flatMap(([name, v]) => strings(v as ZodLike, name).map((s) => ({ ...s, path: s.path }))));
+  const found = Object.values(modules).flatMap((mod) =>
+    Object.entries(mod)
+      .filter(([, v]) => isZod(v))
+      .flatMap(([name, v]) => strings(v as ZodLike, name).map((s) => ({ ...s, path: s.path }))),
+  );
   // Leaves of the same path (options of a union) all must fit.
   const texts = found.filter((s) => s.format !== "uuid" && s.format !== "datetime");
 
@@ -192,7 +202,11 @@ describe("autosave at and over the caps (through the API)", () => {
     const { cookie } = await cookieFor("lead@tinderbox.example");
     return (await apiTreeDraft.action(
       routeArgs(
-        requestWith(cookie, `/api/trees/${treeId}/draft`, { method: "POST", headers: { origin: "http://localhost", "content-type": "application/json" }, body: JSON.stringify({ versionId, revision: 1, tree, layout: {} }) }),
+        requestWith(cookie, `/api/trees/${treeId}/draft`, {
+          method: "POST",
+          headers: { origin: "http://localhost", "content-type": "application/json" },
+          body: JSON.stringify({ versionId, revision: 1, tree, layout: {} }),
+        }),
         { treeId },
       ),
     )) as Response;
@@ -227,7 +241,10 @@ describe("autosave at and over the caps (through the API)", () => {
       ["tree.equipment", (t) => (t.equipment = "E".repeat(TEXT_CAPS.equipment + 1))],
       ["tree.description", (t) => (t.description = "D".repeat(TEXT_CAPS.body + 1))],
       ["tree.nodes[0].title", (t) => (t.nodes[0]!.title = "Q".repeat(TEXT_CAPS.nodeTitle + 1))],
-      ["tree.nodes[0].answers[0].label", (t) => ((t.nodes[0] as { answers: { label: string }[] }).answers[0]!.label = "y".repeat(TEXT_CAPS.answer + 1))],
+      [
+        "tree.nodes[0].answers[0].label",
+        (t) => ((t.nodes[0] as { answers: { label: string }[] }).answers[0]!.label = "y".repeat(TEXT_CAPS.answer + 1)),
+      ],
       ["tree.nodes[2].remedy", (t) => ((t.nodes[2] as { remedy: string }).remedy = "R".repeat(TEXT_CAPS.remedy + 1))],
     ];
     for (const [field, change] of over) {
@@ -249,7 +266,12 @@ describe("autosave at and over the caps (through the API)", () => {
 describe("route forms with caps of their own", () => {
   it("an invitation's name over users.name's 120 characters is a form error, not a database error", async () => {
     expect(capacity("users.name")).toBe(120);
-    const res = (await invite.action(routeArgs(new Request("http://localhost/invite/x", { method: "POST", body: new URLSearchParams({ name: "N".repeat(121), password: "x" }) }), { token: "x" }))) as unknown as {
+    const res = (await invite.action(
+      routeArgs(
+        new Request("http://localhost/invite/x", { method: "POST", body: new URLSearchParams({ name: "N".repeat(121), password: "x" }) }),
+        { token: "x" },
+      ),
+    )) as unknown as {
       init: { status: number };
       data: { errors: Record<string, string> };
     };

@@ -28,17 +28,30 @@ const lead: Ctx = { shopId: shop, userId: stableId("user:lead@tinderbox.example"
 const voltMeter = stableId("meter:van1-volts");
 
 async function runAtSupply(): Promise<string> {
-  const call = await createCall(lead, { unitId: stableId("unit:larkspur-rotisserie"), symptom: "heats unevenly", priority: "normal", assignedTo: tech.userId, notes: null });
+  const call = await createCall(lead, {
+    unitId: stableId("unit:larkspur-rotisserie"),
+    symptom: "heats unevenly",
+    priority: "normal",
+    assignedTo: tech.userId,
+    notes: null,
+  });
   const { runId } = await startRun(tech, { treeId: stableId("tree:rotisserie-uneven-heat.md"), callId: call.id });
-  for (const node of ["lockout", "discharge-caps", "live-test"]) await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "acknowledge", node } });
+  for (const node of ["lockout", "discharge-caps", "live-test"])
+    await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "acknowledge", node } });
   return runId;
 }
 
 async function poster(runId: string) {
   const { cookie } = await cookieFor("tech@tinderbox.example");
   return async (body: { key: string; entry: StepInput["entry"]; meterId?: string | null }) => {
-    const init = { method: "POST", headers: { origin: "http://localhost", "content-type": "application/json" }, body: JSON.stringify(body) };
-    const res = (await Promise.resolve(stepsAction(routeArgs(requestWith(cookie, `/api/runs/${runId}/steps`, init), { runId }))).catch((e: Response) => e)) as Response;
+    const init = {
+      method: "POST",
+      headers: { origin: "http://localhost", "content-type": "application/json" },
+      body: JSON.stringify(body),
+    };
+    const res = (await Promise.resolve(stepsAction(routeArgs(requestWith(cookie, `/api/runs/${runId}/steps`, init), { runId }))).catch(
+      (e: Response) => e,
+    )) as Response;
     return { status: res.status, json: (await res.json()) as Record<string, unknown> & { step?: Record<string, unknown> } };
   };
 }
@@ -90,21 +103,30 @@ describe("an implausible reading is asked about, then stored as confirmed", () =
   it("a plausible reading is never asked about, and is stored unconfirmed even when sent with confirmed:true", async () => {
     const runId = await runAtSupply();
     const key = crypto.randomUUID();
-    const plain = await postStep(tech, runId, { key, entry: { type: "reading", node: "supply-voltage", reading: "208 V", confirmed: true }, meterId: voltMeter });
+    const plain = await postStep(tech, runId, {
+      key,
+      entry: { type: "reading", node: "supply-voltage", reading: "208 V", confirmed: true },
+      meterId: voltMeter,
+    });
     expect(plain.step).toMatchObject({ confirmed: false, verdict: "within" });
     expect(await storedConfirmed(runId, key)).toBe(false);
   });
 
   it("the report shows a confirmed reading as confirmed, on the page and in the e-mail", async () => {
     const runId = await runAtSupply();
-    const step = (entry: StepInput["entry"], meterId: string | null = null) => postStep(tech, runId, { key: crypto.randomUUID(), entry, meterId });
+    const step = (entry: StepInput["entry"], meterId: string | null = null) =>
+      postStep(tech, runId, { key: crypto.randomUUID(), entry, meterId });
     await step({ type: "reading", node: "supply-voltage", reading: "208 V" }, voltMeter);
     await step({ type: "answer", node: "fans", answer: "one slow" });
     await step({ type: "acknowledge", node: "cap-lockout" });
     await step({ type: "nameplate", node: "cap-rating", value: "1.5 µF" });
     // A bare 1470 on the µF step is 1470 µF; 1470 nF = 1.47 µF is inside 1.5 µF ± 6 %
     // (REFERENCES.md: motor-run capacitors, common practice), so the engine asks.
-    await expect(step({ type: "reading", node: "cap-measure", reading: "1470" })).rejects.toMatchObject({ status: 422, code: "needs-confirmation", details: { confirm: { suggestion: "1470 nF" } } });
+    await expect(step({ type: "reading", node: "cap-measure", reading: "1470" })).rejects.toMatchObject({
+      status: 422,
+      code: "needs-confirmation",
+      details: { confirm: { suggestion: "1470 nF" } },
+    });
     const cap = await step({ type: "reading", node: "cap-measure", reading: "1470", confirmed: true });
     expect(cap.step).toMatchObject({ confirmed: true, verdict: "high", to: "cap-failed" });
     const done = await recordOutcome(tech, runId, { action: "Replaced the run capacitor.", minutes: 30, parts: [] });
@@ -122,25 +144,51 @@ describe("an implausible reading is asked about, then stored as confirmed", () =
 describe("the chosen shop meter's range", () => {
   it("a reading above the van voltmeter's 600 V range is refused and stores nothing; OL on it counts as high", async () => {
     const runId = await runAtSupply();
-    const over = await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "reading", node: "supply-voltage", reading: "700 V" }, meterId: voltMeter }).catch((e) => e);
+    const over = await postStep(tech, runId, {
+      key: crypto.randomUUID(),
+      entry: { type: "reading", node: "supply-voltage", reading: "700 V" },
+      meterId: voltMeter,
+    }).catch((e) => e);
     expect(over).toMatchObject({ status: 422, code: "reading" });
     expect(over.message).toMatch(/above the top of this meter's 600 V range/);
 
     // A meter shows overload above its selected range (meter makers' manuals; common practice):
     // with 600 V at the top and 218 V the step's upper limit, OL is high.
-    const ol = await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "reading", node: "supply-voltage", reading: "OL" }, meterId: voltMeter });
+    const ol = await postStep(tech, runId, {
+      key: crypto.randomUUID(),
+      entry: { type: "reading", node: "supply-voltage", reading: "OL" },
+      meterId: voltMeter,
+    });
     expect(ol.step).toMatchObject({ verdict: "high", typed: "OL", to: "high-supply" });
     expect(ol.step.message).toMatch(/overload \(above its 600 V range\)/);
     expect(ol.step.meter).toMatchObject({ range: 600 });
   });
 
   it("on a meter added to the shop with a 200 V range, OL can't say whether 191–218 V holds: switch range", async () => {
-    const small = await createMeter(lead, { name: `Clamp meter 200 V ${crypto.randomUUID().slice(0, 4)}`, quantity: "voltage", unit: "V", rangeMax: 200, resolution: 0.1, percent: 1.5, counts: 5 });
+    const small = await createMeter(lead, {
+      name: `Clamp meter 200 V ${crypto.randomUUID().slice(0, 4)}`,
+      quantity: "voltage",
+      unit: "V",
+      rangeMax: 200,
+      resolution: 0.1,
+      percent: 1.5,
+      counts: 5,
+    });
     const runId = await runAtSupply();
-    const ol = await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "reading", node: "supply-voltage", reading: "OL" }, meterId: small }).catch((e) => e);
+    const ol = await postStep(tech, runId, {
+      key: crypto.randomUUID(),
+      entry: { type: "reading", node: "supply-voltage", reading: "OL" },
+      meterId: small,
+    }).catch((e) => e);
     expect(ol).toMatchObject({ status: 422 });
     expect(ol.message).toMatch(/above its 200 V range.*switch to a higher range/);
     // 205 V is above that meter's range too: it can't have shown it.
-    await expect(postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "reading", node: "supply-voltage", reading: "205 V" }, meterId: small })).rejects.toThrow(/200 V range/);
+    await expect(
+      postStep(tech, runId, {
+        key: crypto.randomUUID(),
+        entry: { type: "reading", node: "supply-voltage", reading: "205 V" },
+        meterId: small,
+      }),
+    ).rejects.toThrow(/200 V range/);
   });
 });

@@ -37,20 +37,31 @@ beforeAll(async () => {
 
 /** A run of the small tree held by the technician, standing at its "failed capacitor" outcome. */
 async function runAtOutcome() {
-  const call = await createCall(s.people.lead, { unitId: s.unitId, symptom: "fan hums", priority: "normal", assignedTo: s.people.technician.userId, notes: null });
+  const call = await createCall(s.people.lead, {
+    unitId: s.unitId,
+    symptom: "fan hums",
+    priority: "normal",
+    assignedTo: s.people.technician.userId,
+    notes: null,
+  });
   const { runId } = await startRun(s.people.technician, { treeId, callId: call.id });
   await postStep(s.people.technician, runId, { key: crypto.randomUUID(), entry: { type: "answer", node: "cap-look", answer: "yes" } });
   return runId;
 }
 
 const json = (who: string, path: string, body: unknown) =>
-  requestWith(cookie[who]!, path, { method: "POST", headers: { origin: "http://localhost", "content-type": "application/json" }, body: JSON.stringify(body) });
+  requestWith(cookie[who]!, path, {
+    method: "POST",
+    headers: { origin: "http://localhost", "content-type": "application/json" },
+    body: JSON.stringify(body),
+  });
 
 describe("the outcome takes numbers only as numbers", () => {
-  const send = (runId: string, body: unknown) => outcomeApi.action(routeArgs(json("technician", `/api/runs/${runId}/outcome`, body), { runId })) as Promise<Response>;
+  const send = (runId: string, body: unknown) =>
+    outcomeApi.action(routeArgs(json("technician", `/api/runs/${runId}/outcome`, body), { runId })) as Promise<Response>;
   const part = { partNumber: "RC-15", description: "Motor-run capacitor 1.5 µF", quantity: 1 };
 
-  it("minutes: true, minutes: \"30\", quantity: true and quantity: \"2\" are refused (400) naming the field; the run stays open", async () => {
+  it('minutes: true, minutes: "30", quantity: true and quantity: "2" are refused (400) naming the field; the run stays open', async () => {
     const runId = await runAtOutcome();
     for (const [body, field] of [
       [{ action: "Replaced the capacitor.", minutes: true, parts: [] }, "minutes"],
@@ -80,12 +91,25 @@ describe("a photo names a step of the run's tree", () => {
       form.set("key", crypto.randomUUID());
       form.set("node", node);
       form.set("photo", new Blob([TINY_PNG], { type: "image/png" }), "cap.png");
-      return photosApi.action(routeArgs(requestWith(cookie.technician!, `/api/runs/${runId}/photos`, { method: "POST", headers: { origin: "http://localhost" }, body: form }), { runId })) as Promise<Response>;
+      return photosApi.action(
+        routeArgs(
+          requestWith(cookie.technician!, `/api/runs/${runId}/photos`, {
+            method: "POST",
+            headers: { origin: "http://localhost" },
+            body: form,
+          }),
+          { runId },
+        ),
+      ) as Promise<Response>;
     };
     const refused = await upload("not-a-step-here");
     expect(refused.status).toBe(422);
     expect(await refused.json()).toEqual({ error: "That step is not in this run's tree." });
-    const note = (await notesApi.action(routeArgs(json("technician", `/api/runs/${runId}/notes`, { key: crypto.randomUUID(), node: "not-a-step-here", text: "x" }), { runId }))) as Response;
+    const note = (await notesApi.action(
+      routeArgs(json("technician", `/api/runs/${runId}/notes`, { key: crypto.randomUUID(), node: "not-a-step-here", text: "x" }), {
+        runId,
+      }),
+    )) as Response;
     expect(note.status).toBe(422);
     const [rows] = await db().select({ n: count() }).from(runPhotos).where(eq(runPhotos.runId, runId));
     expect(rows!.n).toBe(0);
@@ -95,7 +119,8 @@ describe("a photo names a step of the run's tree", () => {
 });
 
 describe("e-mailing a customer's report", () => {
-  const send = (who: string, reportId: string) => sendApi.action(routeArgs(json(who, `/api/reports/${reportId}/send`, {}), { reportId })) as Promise<Response>;
+  const send = (who: string, reportId: string) =>
+    sendApi.action(routeArgs(json(who, `/api/reports/${reportId}/send`, {}), { reportId })) as Promise<Response>;
 
   it("is for the roles that work calls: the trainer is refused (403) and nothing goes out", async () => {
     const { reportId } = await recordOutcome(s.people.technician, await runAtOutcome(), { action: "Replaced it.", minutes: 20, parts: [] });
@@ -114,7 +139,10 @@ describe("e-mailing a customer's report", () => {
       // At once: refused, whoever asks.
       statuses.push((await send("technician", reportId)).status);
       // The clock moves on past the pause (the row's last sending set back, as time would).
-      await db().update(reports).set({ sentAt: new Date(Date.now() - (REPORT_SENDING.minutesBetween + 1) * 60_000) }).where(eq(reports.id, reportId));
+      await db()
+        .update(reports)
+        .set({ sentAt: new Date(Date.now() - (REPORT_SENDING.minutesBetween + 1) * 60_000) })
+        .where(eq(reports.id, reportId));
     }
     expect(statuses).toEqual([...Array(REPORT_SENDING.perDay).fill([200, 429]).flat(), 429, 429]);
     const last = await send("owner", reportId);
@@ -138,13 +166,19 @@ describe("text with a lone UTF-16 surrogate", () => {
   it("a note with one is stored normalised, and its identical retry replays instead of a 422", async () => {
     const runId = await runAtOutcome();
     const key = crypto.randomUUID();
-    const post = () => notesApi.action(routeArgs(json("technician", `/api/runs/${runId}/notes`, { key, node: "cap-look", text }), { runId })) as Promise<Response>;
+    const post = () =>
+      notesApi.action(
+        routeArgs(json("technician", `/api/runs/${runId}/notes`, { key, node: "cap-look", text }), { runId }),
+      ) as Promise<Response>;
     const first = await post();
     expect(first.status).toBe(200);
     const retry = await post();
     expect(retry.status).toBe(200);
     expect(((await retry.json()) as { note: { id: string } }).note.id).toBe(((await first.json()) as { note: { id: string } }).note.id);
-    const stored = await db().select({ text: runNotes.text }).from(runNotes).where(and(eq(runNotes.runId, runId), eq(runNotes.idempotencyKey, key)));
+    const stored = await db()
+      .select({ text: runNotes.text })
+      .from(runNotes)
+      .where(and(eq(runNotes.runId, runId), eq(runNotes.idempotencyKey, key)));
     expect(stored).toEqual([{ text: "Terminal \ufffd scorched" }]);
   });
 });

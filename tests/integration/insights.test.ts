@@ -38,41 +38,95 @@ const treeFile = (name: string) => {
   return parsed.tree;
 };
 
-type Shop = { id: string; owner: Ctx; lead: Ctx; tech1: Ctx; tech2: Ctx; trainer: Ctx; emails: Record<string, string>; units: Record<string, string>; trees: Record<string, { treeId: string; versionId: string }> };
+type Shop = {
+  id: string;
+  owner: Ctx;
+  lead: Ctx;
+  tech1: Ctx;
+  tech2: Ctx;
+  trainer: Ctx;
+  emails: Record<string, string>;
+  units: Record<string, string>;
+  trees: Record<string, { treeId: string; versionId: string }>;
+};
 
 /** A fresh invented shop with people, two customers, three units and the rotisserie and griddle trees. */
-async function makeShop(name: string, unitSpecs: { key: string; category: string; make: string; model: string; customer: number }[]): Promise<Shop> {
+async function makeShop(
+  name: string,
+  unitSpecs: { key: string; category: string; make: string; model: string; customer: number }[],
+): Promise<Shop> {
   const id = crypto.randomUUID();
-  await db().insert(shops).values({ id, name, town: "Ashgrove", settings: { timeZone: "America/Chicago" } });
+  await db()
+    .insert(shops)
+    .values({ id, name, town: "Ashgrove", settings: { timeZone: "America/Chicago" } });
   const people: Record<string, Ctx> = {};
   const emails: Record<string, string> = {};
   for (const role of ["owner", "lead", "tech1", "tech2", "trainer"] as const) {
     const userId = crypto.randomUUID();
     emails[role] = `${role}-${tag}-${id.slice(0, 4)}@ashgrove.example`;
-    await db().insert(users).values({ id: userId, email: emails[role]!, name: `${role} ${tag}`, passwordHash: "x" });
+    await db()
+      .insert(users)
+      .values({ id: userId, email: emails[role]!, name: `${role} ${tag}`, passwordHash: "x" });
     const r = role.startsWith("tech") ? "technician" : role;
-    await db().insert(memberships).values({ shopId: id, userId, role: r as Ctx["role"] });
+    await db()
+      .insert(memberships)
+      .values({ shopId: id, userId, role: r as Ctx["role"] });
     people[role] = { shopId: id, userId, role: r as Ctx["role"] };
   }
   const customerIds = [crypto.randomUUID(), crypto.randomUUID()];
   const siteIds = [crypto.randomUUID(), crypto.randomUUID()];
   for (const i of [0, 1]) {
-    await db().insert(customers).values({ id: customerIds[i], shopId: id, name: `Customer ${i + 1} ${tag}` });
-    await db().insert(sites).values({ id: siteIds[i], shopId: id, customerId: customerIds[i]!, name: `Site ${i + 1}`, address: "1 Test Row", contactName: "Manager", contactEmail: "m@ashgrove.example" });
+    await db()
+      .insert(customers)
+      .values({ id: customerIds[i], shopId: id, name: `Customer ${i + 1} ${tag}` });
+    await db()
+      .insert(sites)
+      .values({
+        id: siteIds[i],
+        shopId: id,
+        customerId: customerIds[i]!,
+        name: `Site ${i + 1}`,
+        address: "1 Test Row",
+        contactName: "Manager",
+        contactEmail: "m@ashgrove.example",
+      });
   }
   const units: Record<string, string> = {};
   for (const u of unitSpecs) {
     const unitId = crypto.randomUUID();
     await db()
       .insert(equipmentUnits)
-      .values({ id: unitId, shopId: id, siteId: siteIds[u.customer]!, category: u.category as never, make: u.make, model: u.model, serial: `S-${u.key}`, nameplate: {} });
+      .values({
+        id: unitId,
+        shopId: id,
+        siteId: siteIds[u.customer]!,
+        category: u.category as never,
+        make: u.make,
+        model: u.model,
+        serial: `S-${u.key}`,
+        nameplate: {},
+      });
     units[u.key] = unitId;
   }
   const trees: Shop["trees"] = {};
-  for (const [key, file] of [["rot", "rotisserie-uneven-heat.md"], ["grd", "griddle-section-no-heat.md"]] as const) {
+  for (const [key, file] of [
+    ["rot", "rotisserie-uneven-heat.md"],
+    ["grd", "griddle-section-no-heat.md"],
+  ] as const) {
     trees[key] = await createPublishedTree(people.lead!, treeFile(file), "for the insights test");
   }
-  return { id, owner: people.owner!, lead: people.lead!, tech1: people.tech1!, tech2: people.tech2!, trainer: people.trainer!, emails, units, trees, ...{ customers: customerIds, sites: siteIds } } as Shop & { customers: string[]; sites: string[] };
+  return {
+    id,
+    owner: people.owner!,
+    lead: people.lead!,
+    tech1: people.tech1!,
+    tech2: people.tech2!,
+    trainer: people.trainer!,
+    emails,
+    units,
+    trees,
+    ...{ customers: customerIds, sites: siteIds },
+  } as Shop & { customers: string[]; sites: string[] };
 }
 
 const at = (iso: string) => vi.setSystemTime(new Date(iso));
@@ -92,7 +146,13 @@ async function steps(ctx: Ctx, runId: string, start: string, entries: Entry[], f
 
 async function call(shop: Shop, unit: string, openedAt: string) {
   at(openedAt);
-  const c = await createCall(shop.lead, { unitId: shop.units[unit]!, symptom: "test call", priority: "normal", assignedTo: null, notes: null });
+  const c = await createCall(shop.lead, {
+    unitId: shop.units[unit]!,
+    symptom: "test call",
+    priority: "normal",
+    assignedTo: null,
+    notes: null,
+  });
   return c.id;
 }
 
@@ -111,7 +171,11 @@ async function finish(ctx: Ctx, runId: string, when: string, input: OutcomeInput
 const ack = (node: string): Entry => ({ type: "acknowledge", node });
 const CAUTIONS: Entry[] = [ack("lockout"), ack("discharge-caps"), ack("live-test")];
 const SUPPLY_OK: Entry = { type: "reading", node: "supply-voltage", reading: "208 V" };
-const TO_CAP: Entry[] = [{ type: "answer", node: "fans", answer: "one slow" }, ack("cap-lockout"), { type: "nameplate", node: "cap-rating", value: "1.5 µF" }];
+const TO_CAP: Entry[] = [
+  { type: "answer", node: "fans", answer: "one slow" },
+  ack("cap-lockout"),
+  { type: "nameplate", node: "cap-rating", value: "1.5 µF" },
+];
 // 1.5 µF ± 6 % → 1.41–1.59 µF (REFERENCES.md, motor-run capacitors: common practice); 1.30 µF is low.
 const CAP_LOW: Entry = { type: "reading", node: "cap-measure", reading: "1.30 µF" };
 const CAP_OK: Entry = { type: "reading", node: "cap-measure", reading: "1.47 µF" };
@@ -142,7 +206,15 @@ describe("the overview on a hand-built shop", () => {
     // Steps at +60…+660 s (the undo is one of them) → 660 s = 11 min.
     calls.K2 = await call(shop, "B", "2026-11-10T14:00:00Z");
     const r2 = await start(shop.tech1, rot!.treeId, "2026-11-10T16:00:00Z", calls.K2);
-    await steps(shop.tech1, r2, "2026-11-10T16:00:00Z", [...CAUTIONS, SUPPLY_OK, ...TO_CAP, CAP_LOW, { type: "undo" }, CAP_OK, { type: "answer", node: "shaft-free", answer: "stiff, gritty or seized" }]);
+    await steps(shop.tech1, r2, "2026-11-10T16:00:00Z", [
+      ...CAUTIONS,
+      SUPPLY_OK,
+      ...TO_CAP,
+      CAP_LOW,
+      { type: "undo" },
+      CAP_OK,
+      { type: "answer", node: "shaft-free", answer: "stiff, gritty or seized" },
+    ]);
     await finish(shop.tech1, r2, "2026-11-10T17:00:00Z", {
       action: "Replaced the motor and the wheel",
       minutes: 90,
@@ -172,15 +244,26 @@ describe("the overview on a hand-built shop", () => {
     const r4 = await start(shop.tech2, grd!.treeId, "2026-10-15T14:00:00Z", calls.K4);
     await steps(shop.tech2, r4, "2026-10-15T14:00:00Z", [ack("hot-plate")]);
     at("2026-10-15T14:10:00Z");
-    expect(await changeRunStatus(shop.tech2, r4, { action: "abandon", reason: "No access to the panel today" })).toEqual({ status: "abandoned" });
+    expect(await changeRunStatus(shop.tech2, r4, { action: "abandon", reason: "No access to the panel today" })).toEqual({
+      status: "abandoned",
+    });
     const r5 = await start(shop.tech2, grd!.treeId, "2026-10-16T14:00:00Z", calls.K4);
     await steps(shop.tech2, r5, "2026-10-16T14:00:00Z", [ack("hot-plate"), { type: "answer", node: "heat-light", answer: "no" }]);
-    await finish(shop.tech2, r5, "2026-10-16T14:40:00Z", { action: "Thermostat replaced", minutes: 30, parts: [{ partNumber: "@A1", description: "=1+2 thermostat", quantity: 1 }] });
+    await finish(shop.tech2, r5, "2026-10-16T14:40:00Z", {
+      action: "Thermostat replaced",
+      minutes: 30,
+      parts: [{ partNumber: "@A1", description: "=1+2 thermostat", quantity: 1 }],
+    });
 
     // R6 — a practice run by the trainer's trainee (tech1): a capacitor too, never counted.
     const r6 = await start(shop.tech1, rot!.treeId, "2026-11-25T15:00:00Z", undefined, true);
     // In practice the trainee makes their own call on each reading, and the run is finished, not closed with an outcome.
-    await steps(shop.tech1, r6, "2026-11-25T15:00:00Z", [...CAUTIONS, { ...SUPPLY_OK, call: "within" }, ...TO_CAP, { ...CAP_LOW, call: "low" }] as Entry[]);
+    await steps(shop.tech1, r6, "2026-11-25T15:00:00Z", [
+      ...CAUTIONS,
+      { ...SUPPLY_OK, call: "within" },
+      ...TO_CAP,
+      { ...CAP_LOW, call: "low" },
+    ] as Entry[]);
     at("2026-11-25T15:30:00Z");
     await finishPractice(shop.tech1, r6);
     vi.useRealTimers();
@@ -239,11 +322,40 @@ describe("the overview on a hand-built shop", () => {
     expect(quantileSeq([2, 8, 11, 36], 0.9)).toBeCloseTo(28.5, 10);
     expect(quantileSeq([45, 90, 120], 0.9)).toBeCloseTo(114, 10);
     const rows = o.tables["time-by-tree"].rows;
-    expect(rows[0]).toEqual({ tree: "All trees", runs: 4, diagnoseMedian: 9.5, diagnoseP90: expect.closeTo(28.5, 9), jobMedian: 67.5, jobP90: expect.closeTo(111, 9) });
-    expect(rows[1]).toEqual({ tree: "Two-fan convection rotisserie heats unevenly", runs: 3, diagnoseMedian: 11, diagnoseP90: expect.closeTo(31, 9), jobMedian: 90, jobP90: expect.closeTo(114, 9) });
-    expect(rows[2]).toEqual({ tree: "Electric griddle section does not heat", runs: 1, diagnoseMedian: 2, diagnoseP90: 2, jobMedian: 30, jobP90: 30 });
+    expect(rows[0]).toEqual({
+      tree: "All trees",
+      runs: 4,
+      diagnoseMedian: 9.5,
+      diagnoseP90: expect.closeTo(28.5, 9),
+      jobMedian: 67.5,
+      jobP90: expect.closeTo(111, 9),
+    });
+    expect(rows[1]).toEqual({
+      tree: "Two-fan convection rotisserie heats unevenly",
+      runs: 3,
+      diagnoseMedian: 11,
+      diagnoseP90: expect.closeTo(31, 9),
+      jobMedian: 90,
+      jobP90: expect.closeTo(114, 9),
+    });
+    expect(rows[2]).toEqual({
+      tree: "Electric griddle section does not heat",
+      runs: 1,
+      diagnoseMedian: 2,
+      diagnoseP90: 2,
+      jobMedian: 30,
+      jobP90: 30,
+    });
     expect(o.tables["time-by-equipment"].rows).toEqual([
-      { category: "rotisserie", equipment: "Vantor RCF-A", runs: 2, diagnoseMedian: 22, diagnoseP90: expect.closeTo(33.2, 9), jobMedian: 82.5, jobP90: expect.closeTo(112.5, 9) },
+      {
+        category: "rotisserie",
+        equipment: "Vantor RCF-A",
+        runs: 2,
+        diagnoseMedian: 22,
+        diagnoseP90: expect.closeTo(33.2, 9),
+        jobMedian: 82.5,
+        jobP90: expect.closeTo(112.5, 9),
+      },
       { category: "griddle", equipment: "Hobbern FG-1", runs: 1, diagnoseMedian: 2, diagnoseP90: 2, jobMedian: 30, jobP90: 30 },
       { category: "rotisserie", equipment: "Vantor RCF-B", runs: 1, diagnoseMedian: 11, diagnoseP90: 11, jobMedian: 90, jobP90: 90 },
     ]);
@@ -271,7 +383,14 @@ describe("the overview on a hand-built shop", () => {
     // reading (R3's 185 V) was taken back by the lead's undo, so the supply step never read out of
     // limits and is not listed.
     expect(o.tables["readings-out-of-limits"].rows).toEqual([
-      { step: "Run capacitor against its rating", tree: "Two-fan convection rotisserie heats unevenly", readings: 3, out: 2, share: 2 / 3, marginal: 0 },
+      {
+        step: "Run capacitor against its rating",
+        tree: "Two-fan convection rotisserie heats unevenly",
+        readings: 3,
+        out: 2,
+        share: 2 / 3,
+        marginal: 0,
+      },
     ]);
     expect(o.tables["hand-offs"].rows).toEqual([
       { tree: "Two-fan convection rotisserie heats unevenly", runs: 3, handed: 1, share: 1 / 3 },
@@ -283,7 +402,9 @@ describe("the overview on a hand-built shop", () => {
     // Last 30 days end Mon 30 Nov: from 1 Nov 00:00 in Chicago — October's K4 drops out.
     expect((await get("period=30")).totals).toEqual({ ended: 3, handed: 1, done: 3, diagnoseMedian: 11, calls: 3, fixed: 2 });
     expect((await get("period=90&category=griddle")).totals).toMatchObject({ ended: 2, done: 1, calls: 1, fixed: 0 });
-    expect((await get("period=90&make=Vantor&model=RCF-B")).tables["root-causes"].rows).toEqual([{ cause: "Failed fan motor — seized or dragging shaft", runs: 1, share: 1 }]);
+    expect((await get("period=90&make=Vantor&model=RCF-B")).tables["root-causes"].rows).toEqual([
+      { cause: "Failed fan motor — seized or dragging shaft", runs: 1, share: 1 },
+    ]);
     expect((await get(`period=90&tree=${shop.trees.grd!.treeId}`)).totals.ended).toBe(2);
     expect((await get(`period=90&customer=${shop.customers[1]}`)).totals.ended).toBe(2);
     expect((await get(`period=90&customer=${shop.customers[0]}&site=${shop.sites[0]}`)).totals.ended).toBe(3);
@@ -298,7 +419,11 @@ describe("the overview on a hand-built shop", () => {
     expect((await overview(shop.lead, year, NOW)).totals.ended).toBeGreaterThan(0);
     await expect(overview(shop.tech1, year, NOW)).rejects.toMatchObject({ kind: "forbidden", status: 403 });
     await expect(overview(shop.trainer, year, NOW)).rejects.toMatchObject({ kind: "forbidden", status: 403 });
-    const demo = await overview({ shopId: stableId(DEMO_SHOP.key), userId: stableId("user:owner@tinderbox.example"), role: "owner" }, year, NOW);
+    const demo = await overview(
+      { shopId: stableId(DEMO_SHOP.key), userId: stableId("user:owner@tinderbox.example"), role: "owner" },
+      year,
+      NOW,
+    );
     expect(demo.tables.parts.rows.map((r) => r.partNumber)).not.toContain("@A1");
     expect(demo.options.customers.map((c) => c.id)).not.toContain(shop.customers[0]);
   });
@@ -307,7 +432,9 @@ describe("the overview on a hand-built shop", () => {
     const table = await overviewTable(shop.owner, year, "parts", NOW);
     const { cookie } = await cookieFor(shop.emails.owner!);
     // The route resolves "90 days" against today, so ask for the same range by dates.
-    const res = await csvLoader(routeArgs(requestWith(cookie, "/api/insights/csv/parts?period=range&from=2026-09-02&to=2026-11-30"), { table: "parts" }));
+    const res = await csvLoader(
+      routeArgs(requestWith(cookie, "/api/insights/csv/parts?period=range&from=2026-09-02&to=2026-11-30"), { table: "parts" }),
+    );
     expect(res.status).toBe(200);
     expect(res.headers.get("content-type")).toBe("text/csv; charset=utf-8");
     expect(res.headers.get("content-disposition")).toBe('attachment; filename="parts_2026-09-02_2026-11-30.csv"');
@@ -325,14 +452,22 @@ describe("the overview on a hand-built shop", () => {
     );
     expect(text.split("\r\n").length - 2).toBe(table.table.rows.length);
     // Filters apply to the CSV as to the page.
-    const griddle = await csvLoader(routeArgs(requestWith(cookie, "/api/insights/csv/root-causes?period=range&from=2026-09-02&to=2026-11-30&category=griddle"), { table: "root-causes" }));
+    const griddle = await csvLoader(
+      routeArgs(requestWith(cookie, "/api/insights/csv/root-causes?period=range&from=2026-09-02&to=2026-11-30&category=griddle"), {
+        table: "root-causes",
+      }),
+    );
     expect(await griddle.text()).toBe("Root cause,Runs,Share\r\nSection thermostat not closing,1,100.0 %\r\n");
     // Unknown table: a JSON 404; a technician: 403.
-    const missing = await csvLoader(routeArgs(requestWith(cookie, "/api/insights/csv/salaries"), { table: "salaries" })).catch((e: Response) => e);
+    const missing = await csvLoader(routeArgs(requestWith(cookie, "/api/insights/csv/salaries"), { table: "salaries" })).catch(
+      (e: Response) => e,
+    );
     expect(missing.status).toBe(404);
     expect(await missing.json()).toEqual({ error: "There is no such table on the overview." });
     const tech = await cookieFor(shop.emails.tech1!);
-    const refused = await csvLoader(routeArgs(requestWith(tech.cookie, "/api/insights/csv/parts"), { table: "parts" })).catch((e: Response) => e);
+    const refused = await csvLoader(routeArgs(requestWith(tech.cookie, "/api/insights/csv/parts"), { table: "parts" })).catch(
+      (e: Response) => e,
+    );
     expect(refused.status).toBe(403);
   });
 
@@ -399,7 +534,13 @@ describe("found here before", () => {
 
   it(`shows nothing below ${FOUND_HERE_MIN_RUNS} completed runs of the tree, then counts each run's last answer at every step`, async () => {
     const before = await foundHereBefore(shop.tech2, { versionId: griddle(shop).versionId, unitId: shop.units.H });
-    expect(before).toMatchObject({ threshold: 10, treeRuns: 9, shown: false, steps: [], causes: { make: "Hobbern", model: "FG-48", runs: 9, shown: false, outcomes: [] } });
+    expect(before).toMatchObject({
+      threshold: 10,
+      treeRuns: 9,
+      shown: false,
+      steps: [],
+      causes: { make: "Hobbern", model: "FG-48", runs: 9, shown: false, outcomes: [] },
+    });
 
     vi.useFakeTimers({ toFake: ["Date"] });
     await run(shop, "B", "no", 12);
@@ -408,9 +549,23 @@ describe("found here before", () => {
     expect(ten.treeRuns).toBe(10);
     expect(ten.shown).toBe(true);
     expect(ten.steps).toEqual([
-      { node: "coil-ohms", runs: 4, branches: [{ branch: "low", label: "low", runs: 3 }, { branch: "high", label: "high", runs: 1 }] },
+      {
+        node: "coil-ohms",
+        runs: 4,
+        branches: [
+          { branch: "low", label: "low", runs: 3 },
+          { branch: "high", label: "high", runs: 1 },
+        ],
+      },
       { node: "contactor-pulls", runs: 4, branches: [{ branch: "answer:no", label: "no", runs: 4 }] },
-      { node: "heat-light", runs: 10, branches: [{ branch: "answer:no", label: "no", runs: 6 }, { branch: "answer:yes", label: "yes", runs: 4 }] },
+      {
+        node: "heat-light",
+        runs: 10,
+        branches: [
+          { branch: "answer:no", label: "no", runs: 6 },
+          { branch: "answer:yes", label: "yes", runs: 4 },
+        ],
+      },
     ]);
     expect(stepSentence(ten.steps[2]!)).toBe("10 earlier runs at this step: 6 no · 4 yes");
     // Only 9 of them on this make and model: still below the threshold for causes.
@@ -420,7 +575,16 @@ describe("found here before", () => {
     await run(shop, "H", "no", 13);
     vi.useRealTimers();
     const eleven = (await foundHereBefore(shop.tech2, { versionId: griddle(shop).versionId, unitId: shop.units.H, node: "heat-light" }))!;
-    expect(eleven.steps).toEqual([{ node: "heat-light", runs: 11, branches: [{ branch: "answer:no", label: "no", runs: 7 }, { branch: "answer:yes", label: "yes", runs: 4 }] }]);
+    expect(eleven.steps).toEqual([
+      {
+        node: "heat-light",
+        runs: 11,
+        branches: [
+          { branch: "answer:no", label: "no", runs: 7 },
+          { branch: "answer:yes", label: "yes", runs: 4 },
+        ],
+      },
+    ]);
     expect(eleven.causes).toEqual({
       make: "Hobbern",
       model: "FG-48",
@@ -444,12 +608,19 @@ describe("found here before", () => {
     const bad = await foundHereLoader(routeArgs(url("?version=nope"))).catch((e: Response) => e);
     expect(bad.status).toBe(400);
     expect(await bad.json()).toEqual({ error: "Name the tree version with ?version=<its id>." });
-    const foreign = await foundHereLoader(routeArgs(url(`?version=${stableId("tree-version:griddle-section-no-heat.md:1")}`))).catch((e: Response) => e);
+    const foreign = await foundHereLoader(routeArgs(url(`?version=${stableId("tree-version:griddle-section-no-heat.md:1")}`))).catch(
+      (e: Response) => e,
+    );
     expect(foreign.status).toBe(404);
     const res = await foundHereLoader(routeArgs(url(`?version=${griddle(shop).versionId}&unit=${shop.units.B}&node=heat-light`)));
     expect(res.status).toBe(200);
     const body = await res.json();
-    expect(body).toMatchObject({ threshold: 10, treeRuns: 11, shown: true, causes: { make: "Brenmoor", model: "EG-36", runs: 1, shown: false } });
+    expect(body).toMatchObject({
+      threshold: 10,
+      treeRuns: 11,
+      shown: true,
+      causes: { make: "Brenmoor", model: "EG-36", runs: 1, shown: false },
+    });
     expect(body.steps[0].runs).toBe(11);
   });
 });

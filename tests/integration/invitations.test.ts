@@ -3,7 +3,15 @@ import { stableId } from "../../db/seed";
 import { closeDb } from "../../app/lib/db.server";
 import type { Ctx } from "../../app/lib/context";
 import { capturedMail } from "../../app/lib/mail.server";
-import { acceptInvitation, findInvitation, invite, listMembers, listOpenInvitations, revokeInvitation, sendInvitationMail } from "../../app/models/people.server";
+import {
+  acceptInvitation,
+  findInvitation,
+  invite,
+  listMembers,
+  listOpenInvitations,
+  revokeInvitation,
+  sendInvitationMail,
+} from "../../app/models/people.server";
 import { loadSession, signIn } from "../../app/lib/sign-in.server";
 
 afterAll(() => closeDb());
@@ -51,7 +59,10 @@ describe("invitations", () => {
 
   it("someone with an account confirms with their own password", async () => {
     const { token } = await invite(otherOwner, "tech@tinderbox.example", "technician");
-    await expect(acceptInvitation(token, { password: "wrong password here" })).rejects.toMatchObject({ kind: "invalid", fields: { password: "That password doesn't match your existing account." } });
+    await expect(acceptInvitation(token, { password: "wrong password here" })).rejects.toMatchObject({
+      kind: "invalid",
+      fields: { password: "That password doesn't match your existing account." },
+    });
     expect(await findInvitation(token)).not.toBeNull();
   });
 });

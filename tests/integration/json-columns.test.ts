@@ -18,9 +18,13 @@ describe("JSON columns on MariaDB", () => {
     const siteId = crypto.randomUUID();
     const unitId = crypto.randomUUID();
     await db().insert(customers).values({ id: customerId, shopId, name: "C" });
-    await db().insert(sites).values({ id: siteId, shopId, customerId, name: "S", address: "A", contactName: "N", contactEmail: "n@x.example" });
+    await db()
+      .insert(sites)
+      .values({ id: siteId, shopId, customerId, name: "S", address: "A", contactName: "N", contactEmail: "n@x.example" });
     const nameplate = { supply: { value: 208, unit: "V" }, fanCapacitor: { value: 1.5, unit: "µF" } };
-    await db().insert(equipmentUnits).values({ id: unitId, shopId, siteId, category: "rotisserie", make: "M", model: "X", serial: "1", nameplate });
+    await db()
+      .insert(equipmentUnits)
+      .values({ id: unitId, shopId, siteId, category: "rotisserie", make: "M", model: "X", serial: "1", nameplate });
     const [unit] = await db().select().from(equipmentUnits).where(eq(equipmentUnits.id, unitId));
     expect(unit!.nameplate).toEqual(nameplate);
     expect(unit!.nameplate.fanCapacitor?.value).toBe(1.5);
@@ -28,7 +32,9 @@ describe("JSON columns on MariaDB", () => {
 
   it("the database itself refuses text that is not JSON (the CHECK constraint holds)", async () => {
     await expect(
-      pool().query("INSERT INTO shops (id, name, town, settings, created_at) VALUES (?, 'Bad', 'X', 'not json', NOW(3))", [crypto.randomUUID()]),
+      pool().query("INSERT INTO shops (id, name, town, settings, created_at) VALUES (?, 'Bad', 'X', 'not json', NOW(3))", [
+        crypto.randomUUID(),
+      ]),
     ).rejects.toThrow(/CONSTRAINT|check/i);
   });
 });

@@ -59,30 +59,52 @@ describe("a run started on the phone", () => {
     const callId = await newCall();
     const id = crypto.randomUUID();
     await startRun(tech, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId });
-    await expect(startRun(tech, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId: await newCall() })).rejects.toMatchObject({ status: 422, code: "key-reused" });
-    await expect(startRun(lead, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId })).rejects.toMatchObject({ status: 422, code: "key-reused" });
+    await expect(
+      startRun(tech, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId: await newCall() }),
+    ).rejects.toMatchObject({ status: 422, code: "key-reused" });
+    await expect(startRun(lead, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId })).rejects.toMatchObject({
+      status: 422,
+      code: "key-reused",
+    });
     await expect(startRun(otherTech, { runId: id, treeId: rotisserieTree })).rejects.toMatchObject({ status: 422 });
     // Another phone-made run on a call that already has one in progress: the usual conflict.
-    await expect(startRun(tech, { runId: crypto.randomUUID(), treeId: rotisserieTree, versionId: rotisserieV1, callId })).rejects.toMatchObject({ status: 409, code: "run-open" });
+    await expect(
+      startRun(tech, { runId: crypto.randomUUID(), treeId: rotisserieTree, versionId: rotisserieV1, callId }),
+    ).rejects.toMatchObject({ status: 409, code: "run-open" });
   });
 
   it("walks the version the phone had even when a newer one is published; never a draft", async () => {
     const parsed = parseTree(readFileSync("trees/rotisserie-uneven-heat.md", "utf8"));
     if (!parsed.ok) throw new Error("starter tree does not parse");
-    const { treeId, versionId: v1 } = await createPublishedTree(lead, { ...parsed.tree, title: `Offline pinning ${crypto.randomUUID().slice(0, 8)}` }, "test");
+    const { treeId, versionId: v1 } = await createPublishedTree(
+      lead,
+      { ...parsed.tree, title: `Offline pinning ${crypto.randomUUID().slice(0, 8)}` },
+      "test",
+    );
     const draft = await startDraft(lead, treeId);
     const saved = await replaceDraftContent(lead, draft.versionId, { ...parsed.tree, title: "Second" }, 1);
     await publishDraft(lead, treeId, saved.revision, "test: a later version");
     const r = await startRun(tech, { runId: crypto.randomUUID(), treeId, versionId: v1 });
     expect(r.versionId).toBe(v1);
-    const { treeId: draftTree, versionId: draftVersion } = await createDraftTree(lead, smallTree(`Offline draft ${crypto.randomUUID().slice(0, 8)}`));
-    await expect(startRun(tech, { runId: crypto.randomUUID(), treeId: draftTree, versionId: draftVersion })).rejects.toMatchObject({ status: 409, code: "unpublished" });
+    const { treeId: draftTree, versionId: draftVersion } = await createDraftTree(
+      lead,
+      smallTree(`Offline draft ${crypto.randomUUID().slice(0, 8)}`),
+    );
+    await expect(startRun(tech, { runId: crypto.randomUUID(), treeId: draftTree, versionId: draftVersion })).rejects.toMatchObject({
+      status: 409,
+      code: "unpublished",
+    });
   });
 
   it("a phone clock far off (a month back, or ahead) is not believed: the server's time is used", async () => {
     for (const at of [new Date(Date.now() - 30 * 86_400_000), new Date(Date.now() + 3_600_000)]) {
       const before = Date.now();
-      const { runId } = await startRun(tech, { runId: crypto.randomUUID(), treeId: rotisserieTree, versionId: rotisserieV1, startedAt: at });
+      const { runId } = await startRun(tech, {
+        runId: crypto.randomUUID(),
+        treeId: rotisserieTree,
+        versionId: rotisserieV1,
+        startedAt: at,
+      });
       const [row] = await db().select().from(runs).where(eq(runs.id, runId));
       expect(row!.startedAt.getTime()).toBeGreaterThanOrEqual(before - 1000);
     }
@@ -91,7 +113,9 @@ describe("a run started on the phone", () => {
   it("two tries of the same start at the same moment make one run; both answer with it", async () => {
     const callId = await newCall();
     const id = crypto.randomUUID();
-    const both = await Promise.all([0, 1].map(() => startRun(tech, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId })));
+    const both = await Promise.all(
+      [0, 1].map(() => startRun(tech, { runId: id, treeId: rotisserieTree, versionId: rotisserieV1, callId })),
+    );
     expect(both.map((b) => b.runId)).toEqual([id, id]);
     expect(both.map((b) => b.replayed).sort()).toEqual([false, true]);
     expect(await db().select().from(runs).where(eq(runs.callId, callId))).toHaveLength(1);
@@ -102,7 +126,15 @@ describe("a run started on the phone", () => {
     const callId = await newCall();
     const body = { id: crypto.randomUUID(), treeId: rotisserieTree, versionId: rotisserieV1, callId, at: new Date().toISOString() };
     const post = (b: unknown, headers: Record<string, string> = {}) =>
-      startAction(routeArgs(requestWith(cookie, "/api/runs", { method: "POST", headers: { "content-type": "application/json", origin: "http://localhost", ...headers }, body: JSON.stringify(b) })));
+      startAction(
+        routeArgs(
+          requestWith(cookie, "/api/runs", {
+            method: "POST",
+            headers: { "content-type": "application/json", origin: "http://localhost", ...headers },
+            body: JSON.stringify(b),
+          }),
+        ),
+      );
     const a = await post(body);
     expect(a.status).toBe(201);
     const b = await post(body);
@@ -122,9 +154,17 @@ describe("the phone's clock", () => {
     const now = Date.now();
     const [stepAt, noteAt, photoAt] = [20, 19, 18].map((min) => new Date(now - min * 60_000).toISOString());
     await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "acknowledge", node: "lockout" }, at: stepAt });
-    const note = await addNote(tech, runId, { key: crypto.randomUUID(), node: "lockout", text: "Disconnect is in the back corridor.", at: noteAt });
+    const note = await addNote(tech, runId, {
+      key: crypto.randomUUID(),
+      node: "lockout",
+      text: "Disconnect is in the back corridor.",
+      at: noteAt,
+    });
     const photo = await addPhoto(tech, runId, { key: crypto.randomUUID(), node: "lockout", bytes: TINY_PNG, at: photoAt });
-    const [s] = await db().select().from(runSteps).where(and(eq(runSteps.runId, runId), eq(runSteps.seq, 0)));
+    const [s] = await db()
+      .select()
+      .from(runSteps)
+      .where(and(eq(runSteps.runId, runId), eq(runSteps.seq, 0)));
     const [n] = await db().select().from(runNotes).where(eq(runNotes.idempotencyKey, note.note.key));
     const [p] = await db().select().from(runPhotos).where(eq(runPhotos.id, photo.photo.id));
     expect([s!.clientAt!.toISOString(), n!.clientAt!.toISOString(), p!.clientAt!.toISOString()]).toEqual([stepAt, noteAt, photoAt]);

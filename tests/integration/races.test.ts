@@ -89,12 +89,17 @@ describe("the same photo uploaded twice at once (item 3)", () => {
     const before = new Set(await objectKeys(prefix));
     const key = crypto.randomUUID();
     const before1 = writeTxRetries();
-    const results = await Promise.all(Array.from({ length: 10 }, () => settle(addPhoto(tech, runId, { key, node: "lockout", bytes: TINY_PNG }))));
+    const results = await Promise.all(
+      Array.from({ length: 10 }, () => settle(addPhoto(tech, runId, { key, node: "lockout", bytes: TINY_PNG }))),
+    );
     expect(crashes(results)).toEqual([]);
     const answers = results.map((r) => (r as { ok: { replayed: boolean; photo: { id: string } } }).ok);
     expect(answers.filter((a) => !a.replayed)).toHaveLength(1);
     expect(new Set(answers.map((a) => a.photo.id)).size).toBe(1);
-    const [rows] = await db().select({ n: count() }).from(runPhotos).where(and(eq(runPhotos.runId, runId), eq(runPhotos.idempotencyKey, key)));
+    const [rows] = await db()
+      .select({ n: count() })
+      .from(runPhotos)
+      .where(and(eq(runPhotos.runId, runId), eq(runPhotos.idempotencyKey, key)));
     expect(rows!.n).toBe(1);
     // The losers' objects were removed: exactly one new object, the stored photo's.
     const added = (await objectKeys(prefix)).filter((k) => !before.has(k));
@@ -125,12 +130,25 @@ describe("numbers people say, under concurrent creation (item 12)", () => {
       const post = (i: number) =>
         settle(
           newCall.action(
-            routeArgs(requestWith(cookie, "/calls/new", { method: "POST", body: new URLSearchParams({ unitId: rotisserie, symptom: `${tag} call ${i}`, priority: "normal", assignedTo: "", notes: "" }) })),
+            routeArgs(
+              requestWith(cookie, "/calls/new", {
+                method: "POST",
+                body: new URLSearchParams({
+                  unitId: rotisserie,
+                  symptom: `${tag} call ${i}`,
+                  priority: "normal",
+                  assignedTo: "",
+                  notes: "",
+                }),
+              }),
+            ),
           ) as Promise<unknown>,
         );
       const results = await Promise.all(Array.from({ length: n }, (_, i) => post(i)));
       // The action answers a redirect to the new call on success.
-      const statuses = results.map((r) => ("ok" in r && r.ok instanceof Response ? r.ok.status : "crashed" in r ? String(r.crashed) : JSON.stringify(r)));
+      const statuses = results.map((r) =>
+        "ok" in r && r.ok instanceof Response ? r.ok.status : "crashed" in r ? String(r.crashed) : JSON.stringify(r),
+      );
       expect(statuses).toEqual(Array(n).fill(302));
       const rows = await db()
         .select({ number: serviceCalls.number })
@@ -144,7 +162,9 @@ describe("numbers people say, under concurrent creation (item 12)", () => {
 
   it("a new shop's first eight calls, made at once, are numbered 1001 to 1008", async () => {
     const fresh = await freshShop();
-    const made = await Promise.all(Array.from({ length: 8 }, (_, i) => createCall(fresh.ctx, { ...callInput(`first calls ${i}`), unitId: fresh.unitId })));
+    const made = await Promise.all(
+      Array.from({ length: 8 }, (_, i) => createCall(fresh.ctx, { ...callInput(`first calls ${i}`), unitId: fresh.unitId })),
+    );
     expect(made.map((m) => m.number).sort()).toEqual([1001, 1002, 1003, 1004, 1005, 1006, 1007, 1008]);
   });
 
@@ -158,7 +178,9 @@ describe("numbers people say, under concurrent creation (item 12)", () => {
         await postStep(tech, runId, { key: crypto.randomUUID(), entry: { type: "answer", node: "cap-look", answer: "yes" } });
         runIds.push(runId);
       }
-      const results = await Promise.all(runIds.map((runId) => settle(recordOutcome(tech, runId, { action: "Replaced the run capacitor.", minutes: 30, parts: [] }))));
+      const results = await Promise.all(
+        runIds.map((runId) => settle(recordOutcome(tech, runId, { action: "Replaced the run capacitor.", minutes: 30, parts: [] }))),
+      );
       expect(crashes(results)).toEqual([]);
       const numbers = results.map((r) => (r as { ok: { number: number } }).ok.number).sort((a, z) => a - z);
       expect(new Set(numbers).size).toBe(n);

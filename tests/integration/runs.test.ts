@@ -158,14 +158,25 @@ describe("run lifecycle", () => {
 
   it("refuses what the engine refuses (unreadable reading, wrong step, wrong dimension) and stores nothing", async () => {
     const { runId } = await newRun();
-    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "fans" }))).rejects.toMatchObject({ kind: "rejected", status: 422, code: "wrong-node" });
+    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "fans" }))).rejects.toMatchObject({
+      kind: "rejected",
+      status: 422,
+      code: "wrong-node",
+    });
     await ok(tech, runId, step({ type: "acknowledge", node: "lockout" }));
     await ok(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }));
     await ok(tech, runId, step({ type: "acknowledge", node: "live-test" }));
-    await expect(postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "about two hundred" }))).rejects.toMatchObject({ status: 422, code: "reading" });
-    await expect(postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 µF" }))).rejects.toMatchObject({ status: 422, code: "reading" });
+    await expect(
+      postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "about two hundred" })),
+    ).rejects.toMatchObject({ status: 422, code: "reading" });
+    await expect(postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 µF" }))).rejects.toMatchObject({
+      status: 422,
+      code: "reading",
+    });
     // A capacitance meter cannot judge a voltage.
-    await expect(postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 V" }, { meterId: capMeter }))).rejects.toMatchObject({ status: 422, code: "meter" });
+    await expect(
+      postStep(tech, runId, step({ type: "reading", node: "supply-voltage", reading: "208 V" }, { meterId: capMeter })),
+    ).rejects.toMatchObject({ status: 422, code: "meter" });
     expect(await stepCount(runId)).toBe(3);
   });
 
@@ -191,7 +202,11 @@ describe("idempotent step POST", () => {
     expect(second.step).toEqual(first.step);
     expect(await stepCount(runId)).toBe(1);
 
-    await expect(postStep(tech, runId, { key, entry: { type: "acknowledge", node: "discharge-caps" } })).rejects.toMatchObject({ kind: "rejected", status: 422, code: "key-reused" });
+    await expect(postStep(tech, runId, { key, entry: { type: "acknowledge", node: "discharge-caps" } })).rejects.toMatchObject({
+      kind: "rejected",
+      status: 422,
+      code: "key-reused",
+    });
     expect(await stepCount(runId)).toBe(1);
   });
 
@@ -201,7 +216,11 @@ describe("idempotent step POST", () => {
     const post = (body: unknown, origin = "http://localhost") =>
       stepsAction(
         routeArgs(
-          requestWith(cookie, `/api/runs/${runId}/steps`, { method: "POST", headers: { origin, "content-type": "application/json" }, body: JSON.stringify(body) }),
+          requestWith(cookie, `/api/runs/${runId}/steps`, {
+            method: "POST",
+            headers: { origin, "content-type": "application/json" },
+            body: JSON.stringify(body),
+          }),
           { runId },
         ),
       ) as Promise<Response>;
@@ -217,7 +236,9 @@ describe("idempotent step POST", () => {
     const r3 = await post({ ...body, entry: { type: "continue", node: "lockout" } });
     expect(r3.status).toBe(422);
     expect((await r3.json()).error).toMatch(/already used/);
-    const cross = await Promise.resolve(post({ key: crypto.randomUUID(), entry: { type: "acknowledge", node: "discharge-caps" } }, "https://elsewhere.example")).catch((e: Response) => e);
+    const cross = await Promise.resolve(
+      post({ key: crypto.randomUUID(), entry: { type: "acknowledge", node: "discharge-caps" } }, "https://elsewhere.example"),
+    ).catch((e: Response) => e);
     expect(cross.status).toBe(403);
     expect(await stepCount(runId)).toBe(1);
   });
@@ -307,16 +328,62 @@ describe("the run view", () => {
     expect(view.steps.some((s) => s.limitsText === "1.41–1.59 µF")).toBe(true);
 
     const notes = await db().select().from(runNotes).where(eq(runNotes.runId, runId)).orderBy(asc(runNotes.createdAt));
-    expect(view.notes).toEqual(notes.map((n) => ({ id: n.id, key: n.idempotencyKey, node: n.nodeKey, text: n.text, author: "Priya Lindqvist", createdAt: n.createdAt.toISOString() })));
+    expect(view.notes).toEqual(
+      notes.map((n) => ({
+        id: n.id,
+        key: n.idempotencyKey,
+        node: n.nodeKey,
+        text: n.text,
+        author: "Priya Lindqvist",
+        createdAt: n.createdAt.toISOString(),
+      })),
+    );
     const photos = await db().select().from(runPhotos).where(eq(runPhotos.runId, runId));
-    expect(view.photos).toEqual(photos.map((p) => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: `/api/photos/${p.id}`, bytes: p.bytes, createdAt: p.createdAt.toISOString() })));
-    const shopMeters = await db().select().from(meters).where(and(eq(meters.shopId, shopA), isNull(meters.retiredAt))).orderBy(asc(meters.name), asc(meters.id));
-    expect(view.meters).toEqual(shopMeters.map((m) => ({ id: m.id, name: m.name, quantity: m.quantity, unit: m.unit, rangeMax: m.rangeMax, resolution: m.resolution, percent: m.percent, counts: m.counts })));
+    expect(view.photos).toEqual(
+      photos.map((p) => ({
+        id: p.id,
+        key: p.idempotencyKey,
+        node: p.nodeKey,
+        url: `/api/photos/${p.id}`,
+        bytes: p.bytes,
+        createdAt: p.createdAt.toISOString(),
+      })),
+    );
+    const shopMeters = await db()
+      .select()
+      .from(meters)
+      .where(and(eq(meters.shopId, shopA), isNull(meters.retiredAt)))
+      .orderBy(asc(meters.name), asc(meters.id));
+    expect(view.meters).toEqual(
+      shopMeters.map((m) => ({
+        id: m.id,
+        name: m.name,
+        quantity: m.quantity,
+        unit: m.unit,
+        rangeMax: m.rangeMax,
+        resolution: m.resolution,
+        percent: m.percent,
+        counts: m.counts,
+      })),
+    );
     const [esc] = await db().select().from(escalations).where(eq(escalations.runId, runId));
-    expect(view.escalation).toEqual({ id: esc!.id, reason: "Want a second opinion on the capacitor.", raisedBy: "Priya Lindqvist", raisedAt: esc!.raisedAt.toISOString(), takenBy: "Teodor Vance", fromTree: false });
+    expect(view.escalation).toEqual({
+      id: esc!.id,
+      reason: "Want a second opinion on the capacitor.",
+      raisedBy: "Priya Lindqvist",
+      raisedAt: esc!.raisedAt.toISOString(),
+      takenBy: "Teodor Vance",
+      fromTree: false,
+    });
     const [call] = await db().select().from(serviceCalls).where(eq(serviceCalls.id, callId));
     expect(view.call).toEqual({ id: callId, number: call!.number, symptom: call!.symptom, priority: call!.priority });
-    expect(view.unit).toMatchObject({ id: rotisserie, category: "rotisserie", nameplate: expect.any(Object), site: expect.any(String), customer: expect.any(String) });
+    expect(view.unit).toMatchObject({
+      id: rotisserie,
+      category: "rotisserie",
+      nameplate: expect.any(Object),
+      site: expect.any(String),
+      customer: expect.any(String),
+    });
     expect(view.run.technician.id).toBe(lead.userId);
     expect(view.run.startedBy.id).toBe(tech.userId);
     expect(view.timeZone).toMatch(/\//);
@@ -368,7 +435,11 @@ describe("version pinning", () => {
     // Version 2 tightens the supply range.
     const v2: Tree = {
       ...v1,
-      nodes: v1.nodes.map((n) => (n.id === "supply-voltage" && n.kind === "measurement" ? { ...n, limits: { kind: "range", min: { value: 200 }, max: { value: 215 } } } : n)),
+      nodes: v1.nodes.map((n) =>
+        n.id === "supply-voltage" && n.kind === "measurement"
+          ? { ...n, limits: { kind: "range", min: { value: 200 }, max: { value: 215 } } }
+          : n,
+      ),
     };
     const v2Id = await publishNextVersion(treeId, v2);
 
@@ -385,7 +456,9 @@ describe("version pinning", () => {
     expect(later.versionId).toBe(v2Id);
     const laterView = (await getRunView(tech, later.runId))!;
     expect(laterView.version.number).toBe(2);
-    expect(laterView.tree.nodes.find((n) => n.id === "supply-voltage")).toMatchObject({ limits: { kind: "range", min: { value: 200 }, max: { value: 215 } } });
+    expect(laterView.tree.nodes.find((n) => n.id === "supply-voltage")).toMatchObject({
+      limits: { kind: "range", min: { value: 200 }, max: { value: 215 } },
+    });
   });
 });
 
@@ -393,9 +466,14 @@ describe("escalation, take-over and abandoning", () => {
   it("a technician escalates with a reason; the lead sees it, reads the run and takes it over; the technician can no longer add steps", async () => {
     const { callId, runId } = await newRun();
     await ok(tech, runId, step({ type: "acknowledge", node: "lockout" }));
-    expect(await changeRunStatus(tech, runId, { action: "escalate", reason: "Burnt smell at the terminal block; want a second opinion." })).toEqual({ status: "escalated" });
+    expect(
+      await changeRunStatus(tech, runId, { action: "escalate", reason: "Burnt smell at the terminal block; want a second opinion." }),
+    ).toEqual({ status: "escalated" });
     expect((await getCall(tech, callId))?.call.status).toBe("escalated");
-    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }))).rejects.toMatchObject({ kind: "conflict", status: 409 });
+    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }))).rejects.toMatchObject({
+      kind: "conflict",
+      status: 409,
+    });
 
     const open = await listOpenEscalations(lead);
     const mine = open.find((e) => e.runId === runId);
@@ -407,7 +485,10 @@ describe("escalation, take-over and abandoning", () => {
     expect(await changeRunStatus(lead, runId, { action: "take-over" })).toEqual({ status: "active" });
     expect((await listOpenEscalations(lead)).some((e) => e.runId === runId)).toBe(false);
     expect((await getRunView(lead, runId))?.viewer.holds).toBe(true);
-    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }))).rejects.toMatchObject({ kind: "forbidden", status: 403 });
+    await expect(postStep(tech, runId, step({ type: "acknowledge", node: "discharge-caps" }))).rejects.toMatchObject({
+      kind: "forbidden",
+      status: 403,
+    });
     await ok(lead, runId, step({ type: "acknowledge", node: "discharge-caps" }));
     expect((await getCall(tech, callId))?.call.status).toBe("in_progress");
   });
@@ -415,7 +496,9 @@ describe("escalation, take-over and abandoning", () => {
   it("abandoning needs a reason, closes the run and reopens the call for another run", async () => {
     const { callId, runId } = await newRun();
     await expect(startRun(tech, { treeId: rotisserieTree, callId })).rejects.toMatchObject({ kind: "conflict", details: { runId } });
-    expect(await changeRunStatus(tech, runId, { action: "abandon", reason: "Customer cancelled; unit switched off for the day." })).toEqual({ status: "abandoned" });
+    expect(await changeRunStatus(tech, runId, { action: "abandon", reason: "Customer cancelled; unit switched off for the day." })).toEqual(
+      { status: "abandoned" },
+    );
     expect((await getRunView(tech, runId))?.run.abandonReason).toMatch(/Customer cancelled/);
     expect((await getCall(tech, callId))?.call.status).toBe("open");
     expect((await startRun(tech, { treeId: rotisserieTree, callId })).runId).not.toBe(runId);
@@ -462,13 +545,22 @@ async function walkToOutcomeWithPhoto() {
   const photo = await addPhoto(tech, runId, { key: crypto.randomUUID(), node: "cap-measure", bytes: TINY_PNG });
   expect(photo.replayed).toBe(false);
   await ok(tech, runId, step({ type: "answer", node: "shaft-free", answer: "spins freely and coasts" }));
-  const done = await recordOutcome(tech, runId, { action: "Replaced the fan motor.", minutes: 60, parts: [{ partNumber: "FM-208-R", description: "Convection fan motor, 208 V", quantity: 1 }] });
+  const done = await recordOutcome(tech, runId, {
+    action: "Replaced the fan motor.",
+    minutes: 60,
+    parts: [{ partNumber: "FM-208-R", description: "Convection fan motor, 208 V", quantity: 1 }],
+  });
   return { callId, runId, reportId: done.reportId };
 }
 
 describe("photo uploads", () => {
   const s3 = () =>
-    new S3Client({ endpoint: env().S3_ENDPOINT, region: env().S3_REGION, forcePathStyle: true, credentials: { accessKeyId: env().S3_ACCESS_KEY_ID, secretAccessKey: env().S3_SECRET_ACCESS_KEY } });
+    new S3Client({
+      endpoint: env().S3_ENDPOINT,
+      region: env().S3_REGION,
+      forcePathStyle: true,
+      credentials: { accessKeyId: env().S3_ACCESS_KEY_ID, secretAccessKey: env().S3_SECRET_ACCESS_KEY },
+    });
   async function objectsOfShop(): Promise<number> {
     const res = await s3().send(new ListObjectsV2Command({ Bucket: env().S3_BUCKET, Prefix: `${shopA}/run-photos/` }));
     return res.KeyCount ?? 0;
@@ -489,7 +581,10 @@ describe("photo uploads", () => {
     const [row] = await db().select().from(runPhotos).where(eq(runPhotos.id, r.photo.id));
     expect(row?.objectKey).toMatch(new RegExp(`^${shopA}/run-photos/[0-9a-f-]{36}\\.png$`));
     expect(row?.contentType).toBe("image/png");
-    expect(await addPhoto(tech, runId, { key, node: "lockout", bytes: TINY_PNG })).toMatchObject({ replayed: true, photo: { id: r.photo.id } });
+    expect(await addPhoto(tech, runId, { key, node: "lockout", bytes: TINY_PNG })).toMatchObject({
+      replayed: true,
+      photo: { id: r.photo.id },
+    });
     expect(await objectsOfShop()).toBe(before + 1);
   });
 
@@ -504,7 +599,10 @@ describe("photo uploads", () => {
     // A PNG signature with one byte changed is not a PNG.
     const broken = TINY_PNG.slice();
     broken[1] = 0x51;
-    await expect(addPhoto(tech, runId, { key: crypto.randomUUID(), node: "lockout", bytes: broken })).rejects.toMatchObject({ kind: "wrong-type", status: 415 });
+    await expect(addPhoto(tech, runId, { key: crypto.randomUUID(), node: "lockout", bytes: broken })).rejects.toMatchObject({
+      kind: "wrong-type",
+      status: 415,
+    });
     expect([await objectsOfShop(), await photoRows(runId)]).toEqual(before);
   });
 
@@ -512,14 +610,21 @@ describe("photo uploads", () => {
     const before = [await objectsOfShop(), await photoRows(runId)];
     const big = new Uint8Array(MAX_IMAGE_BYTES + 1);
     big.set(TINY_PNG);
-    await expect(addPhoto(tech, runId, { key: crypto.randomUUID(), node: "lockout", bytes: big })).rejects.toMatchObject({ kind: "too-large", status: 413 });
+    await expect(addPhoto(tech, runId, { key: crypto.randomUUID(), node: "lockout", bytes: big })).rejects.toMatchObject({
+      kind: "too-large",
+      status: 413,
+    });
 
     const { cookie } = await cookieFor("tech@tinderbox.example");
     const form = new FormData();
     form.set("key", crypto.randomUUID());
     form.set("node", "lockout");
     form.set("photo", new Blob([big], { type: "image/png" }), "big.png");
-    const res = (await photosAction(routeArgs(requestWith(cookie, `/api/runs/${runId}/photos`, { method: "POST", headers: { origin: "http://localhost" }, body: form }), { runId }))) as Response;
+    const res = (await photosAction(
+      routeArgs(requestWith(cookie, `/api/runs/${runId}/photos`, { method: "POST", headers: { origin: "http://localhost" }, body: form }), {
+        runId,
+      }),
+    )) as Response;
     expect(res.status).toBe(413);
     expect((await res.json()).error).toMatch(/larger than 10 MB/);
 
@@ -527,7 +632,12 @@ describe("photo uploads", () => {
     wrong.set("key", crypto.randomUUID());
     wrong.set("node", "lockout");
     wrong.set("photo", new Blob([new TextEncoder().encode("%PDF-1.7 not an image")], { type: "image/png" }), "scan.png");
-    const res2 = (await photosAction(routeArgs(requestWith(cookie, `/api/runs/${runId}/photos`, { method: "POST", headers: { origin: "http://localhost" }, body: wrong }), { runId }))) as Response;
+    const res2 = (await photosAction(
+      routeArgs(
+        requestWith(cookie, `/api/runs/${runId}/photos`, { method: "POST", headers: { origin: "http://localhost" }, body: wrong }),
+        { runId },
+      ),
+    )) as Response;
     expect(res2.status).toBe(415);
     expect([await objectsOfShop(), await photoRows(runId)]).toEqual(before);
   });
@@ -558,8 +668,12 @@ describe("the service report by e-mail", () => {
 describe("calls", () => {
   it("a call must name one of the shop's own units and people", async () => {
     const foreignUnit = stableId("unit:pellham-fryer");
-    await expect(createCall(lead, { unitId: foreignUnit, symptom: "no heat", priority: "normal", assignedTo: null, notes: null })).rejects.toMatchObject({ kind: "invalid", fields: { unitId: "Choose one of your shop's units." } });
-    await expect(createCall(lead, { unitId: rotisserie, symptom: "no heat", priority: "normal", assignedTo: otherTech.userId, notes: null })).rejects.toMatchObject({ kind: "invalid", fields: { assignedTo: "Choose a technician or lead of your shop." } });
+    await expect(
+      createCall(lead, { unitId: foreignUnit, symptom: "no heat", priority: "normal", assignedTo: null, notes: null }),
+    ).rejects.toMatchObject({ kind: "invalid", fields: { unitId: "Choose one of your shop's units." } });
+    await expect(
+      createCall(lead, { unitId: rotisserie, symptom: "no heat", priority: "normal", assignedTo: otherTech.userId, notes: null }),
+    ).rejects.toMatchObject({ kind: "invalid", fields: { assignedTo: "Choose a technician or lead of your shop." } });
     const made = await createCall(lead, { unitId: rotisserie, symptom: "no heat", priority: "normal", assignedTo: null, notes: null });
     expect(made.number).toBeGreaterThan(1000);
   });

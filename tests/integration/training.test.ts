@@ -50,7 +50,11 @@ const rotisserie: Tree = (() => {
 let treeId: string;
 beforeAll(async () => {
   // A copy of the starter tree of our own, so other test files' publishing never moves it.
-  ({ treeId } = await createPublishedTree(lead, { ...rotisserie, title: `Training rotisserie ${crypto.randomUUID().slice(0, 6)}` }, "For the training tests"));
+  ({ treeId } = await createPublishedTree(
+    lead,
+    { ...rotisserie, title: `Training rotisserie ${crypto.randomUUID().slice(0, 6)}` },
+    "For the training tests",
+  ));
 });
 
 /** Cautions, 208 V, one fan slow, the rating: the walk to the capacitor as practice steps. */
@@ -85,19 +89,26 @@ describe("the scenario check is the gate", () => {
     const s = await getScenario(trainer, made.id);
     expect(s.check.ok).toBe(false);
     expect(s.check.findings[0]).toMatchObject({ code: "script-leads-elsewhere", nodeId: "cap-measure" });
-    expect(s.check.findings[0]!.message).toMatch(/^At Measurement ‘Run capacitor against its rating’ the scripted reading 1\.47 µF is within 1\.41–1\.59 µF, which leads to Question ‘With power locked out, does the slow fan's shaft spin freely by hand\?’/);
+    expect(s.check.findings[0]!.message).toMatch(
+      /^At Measurement ‘Run capacitor against its rating’ the scripted reading 1\.47 µF is within 1\.41–1\.59 µF, which leads to Question ‘With power locked out, does the slow fan's shaft spin freely by hand\?’/,
+    );
     const [stored] = await db().select().from(trainingScenarios).where(eq(trainingScenarios.id, made.id));
     expect(stored!.checkStatus).toBe("failing");
     await expect(assignScenario(trainer, made.id, { trainees: [tech.userId], dueOn: null })).rejects.toMatchObject({
       kind: "rejected",
       status: 422,
       code: "script",
-      message: expect.stringMatching(/^This scenario can't be assigned until its check passes\. At Measurement ‘Run capacitor against its rating’/),
+      message: expect.stringMatching(
+        /^This scenario can't be assigned until its check passes\. At Measurement ‘Run capacitor against its rating’/,
+      ),
     });
     // Fixed (the meter shows 1.31 µF), it passes and can be assigned.
     await updateScenario(trainer, made.id, scenarioFields("Weak capacitor", "cap-failed", WEAK_CAP_WORLD));
     expect((await getScenario(trainer, made.id)).check.ok).toBe(true);
-    await expect(assignScenario(trainer, made.id, { trainees: [tech.userId], dueOn: "2026-12-20" })).resolves.toEqual({ assigned: 1, already: 0 });
+    await expect(assignScenario(trainer, made.id, { trainees: [tech.userId], dueOn: "2026-12-20" })).resolves.toEqual({
+      assigned: 1,
+      already: 0,
+    });
     await expect(assignScenario(trainer, made.id, { trainees: [tech.userId], dueOn: null })).resolves.toEqual({ assigned: 0, already: 1 });
   });
 
@@ -105,13 +116,19 @@ describe("the scenario check is the gate", () => {
     const { "cap-rating": _, ...missing } = WEAK_CAP_WORLD;
     const a = await getScenario(trainer, await newScenario(trainer, treeId, "cap-failed", missing));
     expect(a.check.findings.map((f) => [f.code, f.nodeId])).toEqual([["script-missing", "cap-rating"]]);
-    const b = await getScenario(trainer, await newScenario(trainer, treeId, "cap-failed", { ...WEAK_CAP_WORLD, "supply-voltage": { kind: "measurement", shows: "208 ohms" } }));
+    const b = await getScenario(
+      trainer,
+      await newScenario(trainer, treeId, "cap-failed", { ...WEAK_CAP_WORLD, "supply-voltage": { kind: "measurement", shows: "208 ohms" } }),
+    );
     expect(b.check.findings.map((f) => [f.code, f.nodeId])).toContainEqual(["script-value", "supply-voltage"]);
   });
 
   it("only technicians of the shop are assigned; only untaken assignments are withdrawn", async () => {
     const id = await newScenario(trainer, treeId, "cap-failed", WEAK_CAP_WORLD);
-    await expect(assignScenario(trainer, id, { trainees: [lead.userId], dueOn: null })).rejects.toMatchObject({ kind: "invalid", fields: { trainees: "Choose technicians of your shop." } });
+    await expect(assignScenario(trainer, id, { trainees: [lead.userId], dueOn: null })).rejects.toMatchObject({
+      kind: "invalid",
+      fields: { trainees: "Choose technicians of your shop." },
+    });
     await expect(assignScenario(trainer, id, { trainees: [otherTech.userId], dueOn: null })).rejects.toMatchObject({ kind: "invalid" });
     const assignmentId = await assigned(trainer, tech, id);
     await startPractice(tech, assignmentId);
@@ -139,18 +156,34 @@ describe("a practice run follows the trainee's call", () => {
 
     await walkToCapacitor(tech, runId);
     // A reading without the trainee's call is refused and stores nothing.
-    await expect(postStep(tech, runId, practiceStep({ type: "reading", node: "cap-measure", reading: "1.31 µF" }))).rejects.toMatchObject({ kind: "rejected", status: 422, code: "wrong-entry" });
+    await expect(postStep(tech, runId, practiceStep({ type: "reading", node: "cap-measure", reading: "1.31 µF" }))).rejects.toMatchObject({
+      kind: "rejected",
+      status: 422,
+      code: "wrong-entry",
+    });
     const wrong = await postStep(tech, runId, practiceStep({ type: "reading", node: "cap-measure", reading: "1.31 µF", call: "within" }));
     expect(wrong.step).toMatchObject({ verdict: "low", call: "within", to: "shaft-free" });
     expect(wrong.run.currentNode).toBe("shaft-free");
-    const [row] = await db().select().from(runSteps).where(and(eq(runSteps.runId, runId), eq(runSteps.seq, wrong.step.seq)));
+    const [row] = await db()
+      .select()
+      .from(runSteps)
+      .where(and(eq(runSteps.runId, runId), eq(runSteps.seq, wrong.step.seq)));
     expect(row).toMatchObject({ verdict: "low", call: "within", branch: "within", limitsLo: 1.41, limitsHi: 1.59 });
     const end = await postStep(tech, runId, practiceStep({ type: "answer", node: "shaft-free", answer: "spins freely and coasts" }));
     expect(end.run).toMatchObject({ endKind: "outcome", currentNode: null });
 
     // No report and no lead for a practice run.
-    await expect(recordOutcome(tech, runId, { action: "Replaced the motor.", minutes: 30, parts: [{ partNumber: "", description: "Fan motor", quantity: 1 }] })).rejects.toMatchObject({ kind: "conflict", code: "practice" });
-    await expect(changeRunStatus(tech, runId, { action: "escalate", reason: "Not sure about the motor." })).rejects.toMatchObject({ kind: "conflict", code: "practice" });
+    await expect(
+      recordOutcome(tech, runId, {
+        action: "Replaced the motor.",
+        minutes: 30,
+        parts: [{ partNumber: "", description: "Fan motor", quantity: 1 }],
+      }),
+    ).rejects.toMatchObject({ kind: "conflict", code: "practice" });
+    await expect(changeRunStatus(tech, runId, { action: "escalate", reason: "Not sure about the motor." })).rejects.toMatchObject({
+      kind: "conflict",
+      code: "practice",
+    });
     await expect(changeRunStatus(lead, runId, { action: "take-over" })).rejects.toMatchObject({ kind: "conflict", code: "practice" });
 
     await expect(finishPractice(tech, runId)).resolves.toEqual({ status: "done" });
@@ -163,7 +196,14 @@ describe("a practice run follows the trainee's call", () => {
 
     // The review.
     const r = await getPracticeReview(trainer, runId);
-    expect(r.review.firstWrongTurn).toMatchObject({ node: "cap-measure", index: 7, trainee: "within", reference: "low", traineeTo: "shaft-free", referenceTo: "cap-failed" });
+    expect(r.review.firstWrongTurn).toMatchObject({
+      node: "cap-measure",
+      index: 7,
+      trainee: "within",
+      reference: "low",
+      traineeTo: "shaft-free",
+      referenceTo: "cap-failed",
+    });
     expect(r.review.misjudged).toHaveLength(1);
     expect(r.review.misjudged[0]).toMatchObject({ node: "cap-measure", call: "within", undone: false });
     expect(r.review.misjudged[0]!.verdict).toMatchObject({ verdict: "low", limits: { text: "1.41–1.59 µF" } });
@@ -181,9 +221,16 @@ describe("a practice run follows the trainee's call", () => {
 
     const mine = (await myPractice(tech)).items.find((i) => i.runId === runId)!;
     expect(mine.state).toBe("reviewed");
-    expect(mine.result).toEqual({ reached: "Failed fan motor — weak winding", endKind: "outcome", fault: "Failed run capacitor", right: false });
+    expect(mine.result).toEqual({
+      reached: "Failed fan motor — weak winding",
+      endKind: "outcome",
+      fault: "Failed run capacitor",
+      right: false,
+    });
     expect(mine.review?.note).toBe("Check the reading against the limits before you call it.");
-    expect(mine.comments.map((c) => [c.step, c.text])).toEqual([["Run capacitor against its rating", "1.31 µF is under 1.41 µF: that is low. Replace the capacitor."]]);
+    expect(mine.comments.map((c) => [c.step, c.text])).toEqual([
+      ["Run capacitor against its rating", "1.31 µF is under 1.41 µF: that is low. Replace the capacitor."],
+    ]);
 
     // The trainee's figures: one run, not at the right fault, one misjudged reading.
     const me = (await traineeProgress(owner)).find((p) => p.id === tech.userId)!;
@@ -200,7 +247,9 @@ describe("a practice run follows the trainee's call", () => {
   it("a call on a real run's reading is refused, and a real run is not a practice one", async () => {
     const { runId } = await startRun(tech, { treeId });
     for (const node of ["lockout", "discharge-caps", "live-test"]) await postStep(tech, runId, practiceStep({ type: "acknowledge", node }));
-    await expect(postStep(tech, runId, practiceStep({ type: "reading", node: "supply-voltage", reading: "208 V", call: "within" }))).rejects.toMatchObject({ kind: "rejected", code: "not-practice" });
+    await expect(
+      postStep(tech, runId, practiceStep({ type: "reading", node: "supply-voltage", reading: "208 V", call: "within" })),
+    ).rejects.toMatchObject({ kind: "rejected", code: "not-practice" });
     await expect(getPracticeReview(trainer, runId)).rejects.toMatchObject({ kind: "not-found", status: 404 });
     await expect(finishPractice(tech, runId)).rejects.toMatchObject({ kind: "conflict", code: "not-practice" });
   });
@@ -211,11 +260,18 @@ describe("a scenario never changes under a practice run", () => {
     const id = await newScenario(trainer, treeId, "cap-failed", WEAK_CAP_WORLD);
     const assignmentId = await assigned(trainer, tech, id);
     await startPractice(tech, assignmentId);
-    await expect(updateScenario(trainer, id, scenarioFields("Changed", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject({ kind: "conflict", code: "locked" });
+    await expect(updateScenario(trainer, id, scenarioFields("Changed", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject({
+      kind: "conflict",
+      code: "locked",
+    });
     await expect(copyScenario(trainer, id)).rejects.toMatchObject({ kind: "conflict", code: "newest" });
 
     const draft = await startDraft(lead, treeId);
-    const changed = { ...rotisserie, title: "Training rotisserie, v2", nodes: rotisserie.nodes.map((n) => (n.id === "fan-direction" ? { ...n, title: "Do both fans turn the marked way?" } : n)) };
+    const changed = {
+      ...rotisserie,
+      title: "Training rotisserie, v2",
+      nodes: rotisserie.nodes.map((n) => (n.id === "fan-direction" ? { ...n, title: "Do both fans turn the marked way?" } : n)),
+    };
     const { revision } = await replaceDraftContent(lead, draft.versionId, changed, 1);
     await publishDraft(lead, treeId, revision, "Shorter question");
     const copy = await copyScenario(trainer, id);
@@ -227,9 +283,15 @@ describe("a scenario never changes under a practice run", () => {
     const listed = (await listScenarios(trainer)).map((x) => x.id);
     expect(listed).toContain(copy.id);
     expect(listed).not.toContain(id);
-    await expect(assignScenario(trainer, id, { trainees: [tech.userId], dueOn: null })).rejects.toMatchObject({ kind: "conflict", code: "retired" });
+    await expect(assignScenario(trainer, id, { trainees: [tech.userId], dueOn: null })).rejects.toMatchObject({
+      kind: "conflict",
+      code: "retired",
+    });
     // The run already taken stays on the original and its version.
-    const original = await db().select().from(trainingScenarios).where(and(eq(trainingScenarios.id, id), isNull(trainingScenarios.retiredAt)));
+    const original = await db()
+      .select()
+      .from(trainingScenarios)
+      .where(and(eq(trainingScenarios.id, id), isNull(trainingScenarios.retiredAt)));
     expect(original).toEqual([]);
   });
 });
@@ -241,7 +303,9 @@ describe("shops are kept apart", () => {
     const { runId } = await startPractice(tech, assignmentId);
     const notFound = { kind: "not-found", status: 404 };
     await expect(getScenario(otherOwner, scenarioId)).rejects.toMatchObject(notFound);
-    await expect(updateScenario(otherOwner, scenarioId, scenarioFields("Theirs", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject(notFound);
+    await expect(updateScenario(otherOwner, scenarioId, scenarioFields("Theirs", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject(
+      notFound,
+    );
     await expect(copyScenario(otherOwner, scenarioId)).rejects.toMatchObject(notFound);
     await expect(assignScenario(otherOwner, scenarioId, { trainees: [otherTech.userId], dueOn: null })).rejects.toMatchObject(notFound);
     await expect(withdrawAssignment(otherOwner, assignmentId)).rejects.toMatchObject(notFound);
@@ -250,7 +314,9 @@ describe("shops are kept apart", () => {
     await expect(addComment(otherOwner, runId, { seq: 0, text: "Not ours" })).rejects.toMatchObject(notFound);
     await expect(finishPractice(otherTech, runId)).rejects.toMatchObject(notFound);
     await expect(getRunView(otherTech, runId)).rejects.toMatchObject(notFound);
-    await expect(createScenario(otherOwner, treeId, scenarioFields("On their tree", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject(notFound);
+    await expect(createScenario(otherOwner, treeId, scenarioFields("On their tree", "cap-failed", WEAK_CAP_WORLD))).rejects.toMatchObject(
+      notFound,
+    );
     expect((await listScenarios(otherOwner)).map((s) => s.id)).not.toContain(scenarioId);
     const board = await trainingBoard(otherOwner);
     expect(board.assignments.map((a) => a.id)).not.toContain(assignmentId);

@@ -93,12 +93,21 @@ describe("drafts and publishing", () => {
     const r = await publishDraft(lead, treeId, 1, "  First version for the deli rotisseries  ");
     expect(r).toEqual({ number: 1, versionId });
     const before = await contentRows(versionId);
-    expect(before.version).toMatchObject({ state: "published", number: 1, changeNote: "First version for the deli rotisseries", openDraftOf: null, publishedBy: lead.userId });
+    expect(before.version).toMatchObject({
+      state: "published",
+      number: 1,
+      changeNote: "First version for the deli rotisseries",
+      openDraftOf: null,
+      publishedBy: lead.userId,
+    });
     expect(before.nodes).toBe(4);
 
     expect(() => assertDraft(before.version)).toThrow(expect.objectContaining({ kind: "gone" }));
     const changed = { ...smallTree("Changed title"), nodes: [] };
-    await expect(replaceDraftContent(lead, versionId, changed, before.version.revision)).rejects.toMatchObject({ kind: "gone", status: 410 });
+    await expect(replaceDraftContent(lead, versionId, changed, before.version.revision)).rejects.toMatchObject({
+      kind: "gone",
+      status: 410,
+    });
     const after = await contentRows(versionId);
     expect(after).toEqual(before);
   });
@@ -134,9 +143,16 @@ describe("drafts and publishing", () => {
     expect(await startDraft(lead, treeId)).toEqual({ versionId: d.versionId, existing: true });
     // Unchanged, it would only repeat version 1: the gate says so.
     expect((await validateDraft(lead, treeId)).sameAs).toBe(1);
-    await expect(publishDraft(lead, treeId, 1, "Nothing new")).rejects.toMatchObject({ kind: "conflict", code: "unchanged", details: { sameAs: 1 } });
+    await expect(publishDraft(lead, treeId, 1, "Nothing new")).rejects.toMatchObject({
+      kind: "conflict",
+      code: "unchanged",
+      details: { sameAs: 1 },
+    });
 
-    const edited: Tree = { ...tree, nodes: tree.nodes.map((n) => (n.id === "motor-failed" ? { ...n, title: "Failed fan motor windings" } : n)) };
+    const edited: Tree = {
+      ...tree,
+      nodes: tree.nodes.map((n) => (n.id === "motor-failed" ? { ...n, title: "Failed fan motor windings" } : n)),
+    };
     expect(await replaceDraftContent(lead, d.versionId, edited, 1)).toMatchObject({ revision: 2 });
     expect((await loadVersion(lead, versionId)).tree).toEqual(tree);
     const p = await publishDraft(lead, treeId, 2, "Name the windings");
@@ -155,7 +171,10 @@ describe("drafts and publishing", () => {
     const [a, b] = await Promise.all([startDraft(lead, treeId), startDraft(owner, treeId)]);
     expect(a.versionId).toBe(b.versionId);
     expect([a.existing, b.existing].sort()).toEqual([false, true]);
-    const [drafts] = await db().select({ n: count() }).from(treeVersions).where(and(eq(treeVersions.treeId, treeId), eq(treeVersions.state, "draft")));
+    const [drafts] = await db()
+      .select({ n: count() })
+      .from(treeVersions)
+      .where(and(eq(treeVersions.treeId, treeId), eq(treeVersions.state, "draft")));
     expect(drafts!.n).toBe(1);
   });
 
@@ -174,8 +193,15 @@ describe("drafts and publishing", () => {
     expect((await contentRows(versionId)).version.state).toBe("draft");
 
     expect(await replaceDraftContent(lead, versionId, smallTree(broken.title), 1)).toMatchObject({ revision: 2 });
-    await expect(publishDraft(lead, treeId, 1, "Stale")).rejects.toMatchObject({ kind: "conflict", code: "stale", details: { revision: 2 } });
-    await expect(publishDraft(lead, treeId, 2, "   ")).rejects.toMatchObject({ kind: "invalid", fields: { changeNote: expect.any(String) } });
+    await expect(publishDraft(lead, treeId, 1, "Stale")).rejects.toMatchObject({
+      kind: "conflict",
+      code: "stale",
+      details: { revision: 2 },
+    });
+    await expect(publishDraft(lead, treeId, 2, "   ")).rejects.toMatchObject({
+      kind: "invalid",
+      fields: { changeNote: expect.any(String) },
+    });
     expect(await publishDraft(lead, treeId, 2, "Fixed")).toMatchObject({ number: 1 });
   });
 
@@ -185,8 +211,19 @@ describe("drafts and publishing", () => {
     const { treeId, versionId } = await createDraftTree(lead, broken);
     const { cookie } = await cookieFor("lead@tinderbox.example");
     const post = (revision: number) =>
-      treeEdit.action(routeArgs(requestWith(cookie, `/trees/${treeId}/edit`, { method: "POST", body: new URLSearchParams({ intent: "publish", revision: String(revision), changeNote: "First" }) }), { treeId }));
-    const refused = (await post(1)) as unknown as { data: { message: string; details: { findings: { message: string }[] } }; init: { status: number } };
+      treeEdit.action(
+        routeArgs(
+          requestWith(cookie, `/trees/${treeId}/edit`, {
+            method: "POST",
+            body: new URLSearchParams({ intent: "publish", revision: String(revision), changeNote: "First" }),
+          }),
+          { treeId },
+        ),
+      );
+    const refused = (await post(1)) as unknown as {
+      data: { message: string; details: { findings: { message: string }[] } };
+      init: { status: number };
+    };
     expect(refused.init.status).toBe(422);
     expect(refused.data.details.findings.some((f) => f.message.includes("motor-failed"))).toBe(true);
     await replaceDraftContent(lead, versionId, smallTree(broken.title), 1);
@@ -199,8 +236,12 @@ describe("drafts and publishing", () => {
 describe("a new tree", () => {
   it("the form checks title and symptom with the engine's rules, then makes a tree whose only version is an empty draft", async () => {
     const { cookie } = await cookieFor("lead@tinderbox.example");
-    const post = (fields: Record<string, string>) => answer(treeNew.action(routeArgs(requestWith(cookie, "/trees/new", { method: "POST", body: new URLSearchParams(fields) }))));
-    const bad = (await post({ title: "  ", category: "fryer", symptom: "Two\nlines" })) as { data: { errors: Record<string, string> }; init: { status: number } };
+    const post = (fields: Record<string, string>) =>
+      answer(treeNew.action(routeArgs(requestWith(cookie, "/trees/new", { method: "POST", body: new URLSearchParams(fields) }))));
+    const bad = (await post({ title: "  ", category: "fryer", symptom: "Two\nlines" })) as {
+      data: { errors: Record<string, string> };
+      init: { status: number };
+    };
     expect(bad.init.status).toBe(400);
     expect(bad.data.errors.title).toMatch(/Give the tree a title/);
     expect(bad.data.errors.symptom).toMatch(/one line/);
@@ -209,11 +250,23 @@ describe("a new tree", () => {
     const treeId = /^\/trees\/([0-9a-f-]{36})\/edit$/.exec(ok.headers.get("location") ?? "")?.[1];
     expect(treeId).toBeDefined();
     const draft = await loadTreeVersion(lead, treeId!, "draft");
-    expect(draft.tree).toEqual({ title: "Fryer won't light", category: "fryer", symptom: "The pilot won't stay lit", start: "start", nodes: [] });
+    expect(draft.tree).toEqual({
+      title: "Fryer won't light",
+      category: "fryer",
+      symptom: "The pilot won't stay lit",
+      start: "start",
+      nodes: [],
+    });
     expect((await getTree(lead, treeId!)).versions.map((v) => v.state)).toEqual(["draft"]);
     // A technician can't make one.
     const tech = (await cookieFor("tech@tinderbox.example")).cookie;
-    const refused = (await answer(treeNew.action(routeArgs(requestWith(tech, "/trees/new", { method: "POST", body: new URLSearchParams({ title: "x", category: "fryer", symptom: "y" }) }))))) as Response;
+    const refused = (await answer(
+      treeNew.action(
+        routeArgs(
+          requestWith(tech, "/trees/new", { method: "POST", body: new URLSearchParams({ title: "x", category: "fryer", symptom: "y" }) }),
+        ),
+      ),
+    )) as Response;
     expect(refused.status).toBe(403);
   });
 });
@@ -223,7 +276,10 @@ describe("autosave with optimistic concurrency", () => {
     const { treeId, versionId } = await createDraftTree(lead, smallTree());
     const mine = smallTree("Version from the lead");
     const theirs = smallTree("Version from the owner");
-    const [a, b] = await Promise.allSettled([replaceDraftContent(lead, versionId, mine, 1), replaceDraftContent(owner, versionId, theirs, 1)]);
+    const [a, b] = await Promise.allSettled([
+      replaceDraftContent(lead, versionId, mine, 1),
+      replaceDraftContent(owner, versionId, theirs, 1),
+    ]);
     const results = [a, b];
     const won = results.filter((r) => r.status === "fulfilled");
     const lost = results.filter((r) => r.status === "rejected");
@@ -272,10 +328,25 @@ describe("autosave with optimistic concurrency", () => {
     const tech = (await cookieFor("tech@tinderbox.example")).cookie;
     const body = (tree: unknown) => JSON.stringify({ versionId, revision: 1, tree, layout: {} });
     const post = (c: string, headers: Record<string, string>, b: string) =>
-      answer(apiTreeDraft.action(routeArgs(requestWith(c, `/api/trees/${treeId}/draft`, { method: "POST", headers: { "content-type": "application/json", ...headers }, body: b }), { treeId })));
+      answer(
+        apiTreeDraft.action(
+          routeArgs(
+            requestWith(c, `/api/trees/${treeId}/draft`, {
+              method: "POST",
+              headers: { "content-type": "application/json", ...headers },
+              body: b,
+            }),
+            { treeId },
+          ),
+        ),
+      );
     expect(((await post(cookie, { origin: "https://elsewhere.example" }, body(smallTree()))) as Response).status).toBe(403);
     expect(((await post(tech, { origin: "http://localhost" }, body(smallTree()))) as Response).status).toBe(403);
-    const bad = (await post(cookie, { origin: "http://localhost" }, body({ ...smallTree(), nodes: [{ id: "Not An Id", kind: "step", title: "x" }] }))) as Response;
+    const bad = (await post(
+      cookie,
+      { origin: "http://localhost" },
+      body({ ...smallTree(), nodes: [{ id: "Not An Id", kind: "step", title: "x" }] }),
+    )) as Response;
     expect(bad.status).toBe(400);
     expect((await loadTreeVersion(lead, treeId, "draft"))?.version.revision).toBe(1);
   });
@@ -343,7 +414,15 @@ describe("retire, discard, diff", () => {
       nodes: [
         ...tree.nodes
           .filter((n) => n.id !== "motor-failed")
-          .map((n) => (n.kind === "measurement" ? { ...n, limits: { kind: "range" as const, min: { value: 1.41 }, max: { value: 1.59 } }, branches: { ...n.branches, within: { to: "motor-worn" } } } : n)),
+          .map((n) =>
+            n.kind === "measurement"
+              ? {
+                  ...n,
+                  limits: { kind: "range" as const, min: { value: 1.41 }, max: { value: 1.59 } },
+                  branches: { ...n.branches, within: { to: "motor-worn" } },
+                }
+              : n,
+          ),
         { id: "motor-worn", kind: "outcome", title: "Worn fan motor bearings", remedy: "Replace the motor.", parts: ["Fan motor"] },
       ],
     };
@@ -367,7 +446,9 @@ describe("import and export", () => {
   const starter = readFileSync("trees/rotisserie-uneven-heat.md", "utf8");
 
   it("a file that doesn't parse saves nothing, and the errors carry line numbers", async () => {
-    const broken = starter.replace("- category: rotisserie", "- category: toaster").replace("- limits: 191 V to 218 V", "- limits: somewhere near 208");
+    const broken = starter
+      .replace("- category: rotisserie", "- category: toaster")
+      .replace("- limits: 191 V to 218 V", "- limits: somewhere near 208");
     const counts = async () => {
       const [[t], [v], [n]] = await Promise.all([
         db().select({ n: count() }).from(trees),
@@ -412,7 +493,11 @@ describe("import and export", () => {
     const { treeId } = await publishedTree();
     const into = await importTree(lead, starter, { into: treeId });
     expect(into).toMatchObject({ treeId });
-    await expect(importTree(lead, starter, { into: treeId })).rejects.toMatchObject({ kind: "conflict", code: "draft-open", details: { draftOf: treeId } });
+    await expect(importTree(lead, starter, { into: treeId })).rejects.toMatchObject({
+      kind: "conflict",
+      code: "draft-open",
+      details: { draftOf: treeId },
+    });
     expect((await getTree(lead, treeId)).draft?.basedOnNumber).toBe(1);
   });
 
@@ -430,7 +515,13 @@ describe("import and export", () => {
     expect(await res.text()).toBe(file.text);
     // A technician can't download a draft.
     await startDraft(lead, treeId);
-    expect(((await answer(treeExport.loader(routeArgs(requestWith(cookie, `/trees/${treeId}/versions/draft/export`), { treeId, ref: "draft" })))) as Response).status).toBe(403);
+    expect(
+      (
+        (await answer(
+          treeExport.loader(routeArgs(requestWith(cookie, `/trees/${treeId}/versions/draft/export`), { treeId, ref: "draft" })),
+        )) as Response
+      ).status,
+    ).toBe(403);
   });
 });
 
@@ -473,14 +564,22 @@ describe("the library", () => {
 });
 
 describe("images in step bodies", () => {
-  const png = Uint8Array.from(atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="), (c) => c.charCodeAt(0));
+  const png = Uint8Array.from(
+    atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="),
+    (c) => c.charCodeAt(0),
+  );
 
   it("an image is stored by content, served to the shop with its name, and refused when it isn't an image", async () => {
     const { treeId } = await createDraftTree(lead, smallTree());
     const { cookie } = await cookieFor("lead@tinderbox.example");
     const form = new FormData();
     form.append("photo", new File([png], "wiring diagram.png", { type: "application/octet-stream" }));
-    const res = (await apiTreeImages.action(routeArgs(requestWith(cookie, `/api/trees/${treeId}/images`, { method: "POST", headers: { origin: "http://localhost" }, body: form }), { treeId }))) as Response;
+    const res = (await apiTreeImages.action(
+      routeArgs(
+        requestWith(cookie, `/api/trees/${treeId}/images`, { method: "POST", headers: { origin: "http://localhost" }, body: form }),
+        { treeId },
+      ),
+    )) as Response;
     expect(res.status).toBe(201);
     const up = (await res.json()) as { id: string; url: string; filename: string };
     expect(up.url).toBe(`/trees/${treeId}/images/${up.id}`);
@@ -490,7 +589,10 @@ describe("images in step bodies", () => {
     expect(img.headers.get("content-disposition")).toBe('inline; filename="wiring diagram.png"');
     expect(new Uint8Array(await img.arrayBuffer())).toEqual(png);
 
-    await expect(addTreeImage(lead, treeId, new TextEncoder().encode("<svg onload=alert(1)>"), "x.svg")).rejects.toMatchObject({ kind: "wrong-type", status: 415 });
+    await expect(addTreeImage(lead, treeId, new TextEncoder().encode("<svg onload=alert(1)>"), "x.svg")).rejects.toMatchObject({
+      kind: "wrong-type",
+      status: 415,
+    });
   });
 });
 
@@ -498,7 +600,10 @@ describe("another shop's tree is a 404 on every route", () => {
   it("pages, downloads, images and the API all answer 404 to the other shop — and 200 to the tree's own shop", async () => {
     const { treeId } = await publishedTree();
     const draft = await startDraft(lead, treeId);
-    const png = Uint8Array.from(atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="), (c) => c.charCodeAt(0));
+    const png = Uint8Array.from(
+      atob("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg=="),
+      (c) => c.charCodeAt(0),
+    );
     const image = await addTreeImage(lead, treeId, png, "part.png");
     const other = (await cookieFor("owner@pellham.example")).cookie;
     const own = (await cookieFor("owner@tinderbox.example")).cookie;
@@ -506,24 +611,55 @@ describe("another shop's tree is a 404 on every route", () => {
     const json = { origin: "http://localhost", "content-type": "application/json" };
     const calls: [string, (cookie: string) => unknown][] = [
       ["tree page", (c) => treePage.loader(routeArgs(requestWith(c, `/trees/${treeId}`), p))],
-      ["tree page action", (c) => treePage.action(routeArgs(requestWith(c, `/trees/${treeId}`, { method: "POST", body: new URLSearchParams({ intent: "retire", number: "1" }) }), p))],
+      [
+        "tree page action",
+        (c) =>
+          treePage.action(
+            routeArgs(
+              requestWith(c, `/trees/${treeId}`, { method: "POST", body: new URLSearchParams({ intent: "retire", number: "1" }) }),
+              p,
+            ),
+          ),
+      ],
       ["version page", (c) => treeVersionPage.loader(routeArgs(requestWith(c, `/trees/${treeId}/versions/1`), { ...p, ref: "1" }))],
       ["draft page", (c) => treeVersionPage.loader(routeArgs(requestWith(c, `/trees/${treeId}/versions/draft`), { ...p, ref: "draft" }))],
       ["diff page", (c) => treeDiffPage.loader(routeArgs(requestWith(c, `/trees/${treeId}/diff?from=1&to=draft`), p))],
       ["editor", (c) => treeEdit.loader(routeArgs(requestWith(c, `/trees/${treeId}/edit`), p))],
-      ["publish", (c) => treeEdit.action(routeArgs(requestWith(c, `/trees/${treeId}/edit`, { method: "POST", body: new URLSearchParams({ intent: "publish", revision: "1", changeNote: "x" }) }), p))],
+      [
+        "publish",
+        (c) =>
+          treeEdit.action(
+            routeArgs(
+              requestWith(c, `/trees/${treeId}/edit`, {
+                method: "POST",
+                body: new URLSearchParams({ intent: "publish", revision: "1", changeNote: "x" }),
+              }),
+              p,
+            ),
+          ),
+      ],
       ["export", (c) => treeExport.loader(routeArgs(requestWith(c, `/trees/${treeId}/versions/1/export`), { ...p, ref: "1" }))],
       ["image", (c) => treeImage.loader(routeArgs(requestWith(c, image.url), { ...p, imageId: image.id }))],
       ["api tree", (c) => apiTree.loader(routeArgs(requestWith(c, `/api/trees/${treeId}`), p))],
       ["api version", (c) => apiTreeVersion.loader(routeArgs(requestWith(c, `/api/trees/${treeId}/versions/1`), { ...p, ref: "1" }))],
-      ["api draft read", (c) => apiTreeVersion.loader(routeArgs(requestWith(c, `/api/trees/${treeId}/versions/draft`), { ...p, ref: "draft" }))],
+      [
+        "api draft read",
+        (c) => apiTreeVersion.loader(routeArgs(requestWith(c, `/api/trees/${treeId}/versions/draft`), { ...p, ref: "draft" })),
+      ],
       ["api validation", (c) => apiTreeValidation.loader(routeArgs(requestWith(c, `/api/trees/${treeId}/validation`), p))],
       ["api diff", (c) => apiTreeDiff.loader(routeArgs(requestWith(c, `/api/trees/${treeId}/diff?from=1&to=draft`), p))],
       [
         "api autosave",
         (c) =>
           apiTreeDraft.action(
-            routeArgs(requestWith(c, `/api/trees/${treeId}/draft`, { method: "POST", headers: json, body: JSON.stringify({ versionId: draft.versionId, revision: 1, tree: smallTree(), layout: {} }) }), p),
+            routeArgs(
+              requestWith(c, `/api/trees/${treeId}/draft`, {
+                method: "POST",
+                headers: json,
+                body: JSON.stringify({ versionId: draft.versionId, revision: 1, tree: smallTree(), layout: {} }),
+              }),
+              p,
+            ),
           ),
       ],
       [
@@ -531,7 +667,12 @@ describe("another shop's tree is a 404 on every route", () => {
         (c) => {
           const f = new FormData();
           f.append("photo", new File([png], "x.png"));
-          return apiTreeImages.action(routeArgs(requestWith(c, `/api/trees/${treeId}/images`, { method: "POST", headers: { origin: "http://localhost" }, body: f }), p));
+          return apiTreeImages.action(
+            routeArgs(
+              requestWith(c, `/api/trees/${treeId}/images`, { method: "POST", headers: { origin: "http://localhost" }, body: f }),
+              p,
+            ),
+          );
         },
       ],
       [
@@ -550,7 +691,9 @@ describe("another shop's tree is a 404 on every route", () => {
       expect(status, name).toBe(404);
     }
     // The same reads succeed for the tree's own shop (so the 404s above are about the shop).
-    for (const [name, call] of calls.filter(([n]) => !["tree page action", "publish", "api autosave", "api image upload", "import into"].includes(n))) {
+    for (const [name, call] of calls.filter(
+      ([n]) => !["tree page action", "publish", "api autosave", "api image upload", "import into"].includes(n),
+    )) {
       const r = await answer(call(own));
       const status = r instanceof Response ? r.status : 200;
       expect(status, name).toBe(200);

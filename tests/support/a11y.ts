@@ -14,7 +14,12 @@ export type AxeViolation = { id: string; impact: string | null; help: string; no
  */
 export async function axeViolations(page: Page): Promise<AxeViolation[]> {
   const result = await new AxeBuilder({ page }).analyze();
-  return result.violations.map((v) => ({ id: v.id, impact: v.impact ?? null, help: v.help, nodes: v.nodes.map((n) => ({ target: n.target.map(String) })) }));
+  return result.violations.map((v) => ({
+    id: v.id,
+    impact: v.impact ?? null,
+    help: v.help,
+    nodes: v.nodes.map((n) => ({ target: n.target.map(String) })),
+  }));
 }
 
 /** Fails the test on any serious or critical axe violation on the page, naming each with where it is. */
@@ -37,7 +42,14 @@ export async function smallTargets(page: Page): Promise<string[]> {
       const box = el.closest("label") ?? el;
       const r = box.getBoundingClientRect();
       const style = getComputedStyle(box);
-      if (r.width === 0 || r.height === 0 || style.visibility === "hidden" || style.clip === "rect(0px, 0px, 0px, 0px)" || style.clipPath === "inset(50%)") continue;
+      if (
+        r.width === 0 ||
+        r.height === 0 ||
+        style.visibility === "hidden" ||
+        style.clip === "rect(0px, 0px, 0px, 0px)" ||
+        style.clipPath === "inset(50%)"
+      )
+        continue;
       if (el.tagName === "A" && getComputedStyle(el).display === "inline") {
         // Inside a sentence: the nearest block around the link has words besides links and buttons.
         let block: HTMLElement = el.parentElement ?? el;
@@ -46,7 +58,10 @@ export async function smallTargets(page: Page): Promise<string[]> {
         copy.querySelectorAll("a, button, .sr-only").forEach((x) => x.remove());
         if (/[\p{L}\p{N}]{2}/u.test(copy.textContent ?? "")) continue;
       }
-      if (r.width < 44 || r.height < 44) out.push(`${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`);
+      if (r.width < 44 || r.height < 44)
+        out.push(
+          `${el.tagName.toLowerCase()} “${(el.textContent || el.getAttribute("aria-label") || "").trim().slice(0, 40)}” ${Math.round(r.width)}×${Math.round(r.height)}`,
+        );
     }
     return out;
   });

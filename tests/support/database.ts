@@ -64,7 +64,10 @@ export async function freshSeededDatabase(url: string): Promise<void> {
 }
 
 async function baseTables(c: mysql.Connection, db: string): Promise<string[]> {
-  const [rows] = await c.query("SELECT table_name AS t FROM information_schema.tables WHERE table_schema = ? AND table_type = 'BASE TABLE' ORDER BY 1", [db]);
+  const [rows] = await c.query(
+    "SELECT table_name AS t FROM information_schema.tables WHERE table_schema = ? AND table_type = 'BASE TABLE' ORDER BY 1",
+    [db],
+  );
   return (rows as { t: string }[]).map((r) => r.t);
 }
 
@@ -108,7 +111,9 @@ export async function resetFromTemplate(templateUrl: string, workName: string): 
 /** Drops the databases named `<prefix>…` (the work copies of a template). */
 export async function dropDatabasesStartingWith(url: string, prefix: string): Promise<void> {
   await onServer(url, async (c) => {
-    const [rows] = await c.query("SELECT schema_name AS n FROM information_schema.schemata WHERE schema_name LIKE ?", [`${prefix.replace(/_/g, "\\_")}%`]);
+    const [rows] = await c.query("SELECT schema_name AS n FROM information_schema.schemata WHERE schema_name LIKE ?", [
+      `${prefix.replace(/_/g, "\\_")}%`,
+    ]);
     for (const { n } of rows as { n: string }[]) {
       assertThrowaway(n);
       await c.query(`DROP DATABASE IF EXISTS \`${n}\``);
@@ -127,7 +132,10 @@ export async function tablesOf(url: string): Promise<string[]> {
 /** Column names of each table of a database. */
 export async function columnsOf(url: string): Promise<Map<string, string[]>> {
   return onServer(url, async (c) => {
-    const [rows] = await c.query("SELECT table_name AS t, column_name AS c FROM information_schema.columns WHERE table_schema = ? ORDER BY table_name, ordinal_position", [databaseName(url)]);
+    const [rows] = await c.query(
+      "SELECT table_name AS t, column_name AS c FROM information_schema.columns WHERE table_schema = ? ORDER BY table_name, ordinal_position",
+      [databaseName(url)],
+    );
     const out = new Map<string, string[]>();
     for (const { t, c: col } of rows as { t: string; c: string }[]) out.set(t, [...(out.get(t) ?? []), col]);
     return out;

@@ -38,7 +38,8 @@ export default async function setup(project: TestProject) {
   const dbUrl = process.env.E2E_DATABASE_URL;
   if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test and `npm run test:e2e` set it; see DEVELOPERS.md).");
   const buildDir = process.env.BUILD_DIR ?? "build";
-  if (!existsSync(`${buildDir}/server/index.js`)) throw new Error(`Browser tests need a build in ${buildDir}/: run \`npm run build\` first.`);
+  if (!existsSync(`${buildDir}/server/index.js`))
+    throw new Error(`Browser tests need a build in ${buildDir}/: run \`npm run build\` first.`);
   await freshSeededDatabase(dbUrl);
 
   const children: ChildProcess[] = [];
@@ -47,7 +48,15 @@ export default async function setup(project: TestProject) {
     const port = await freePort();
     let output = "";
     const child = spawn(process.execPath, ["server.js"], {
-      env: { ...process.env, PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: dbUrl, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET },
+      env: {
+        ...process.env,
+        PORT: String(port),
+        HOST: "127.0.0.1",
+        DATABASE_URL: dbUrl,
+        NODE_ENV: "production",
+        SECURE_COOKIES: "0",
+        AUTH_SECRET,
+      },
       stdio: ["ignore", "pipe", "pipe"],
     });
     child.stdout?.on("data", (d) => (output += d));

@@ -50,7 +50,10 @@ export async function freshCall(unit: keyof typeof DEMO_UNITS, symptom: string):
  * The four-node capacitor tree (tests/support/trees.ts) published as version 1 under `title`.
  * With `draft`, an open draft follows it: a copy of version 1, or what `draft` makes of it.
  */
-export async function publishedTree(title: string, draft?: true | ((v1: Tree) => Tree)): Promise<{ treeId: string; path: string; draftId: string | null }> {
+export async function publishedTree(
+  title: string,
+  draft?: true | ((v1: Tree) => Tree),
+): Promise<{ treeId: string; path: string; draftId: string | null }> {
   const v1 = smallTree(title);
   const { treeId } = await createPublishedTree(lead, v1, "Fixture: version 1");
   if (!draft) return { treeId, path: `/trees/${treeId}`, draftId: null };
@@ -118,5 +121,14 @@ export async function finishedRun(opts: { send?: boolean; symptom?: string } = {
     ],
   });
   if (opts.send) await sendReport(tech, done.reportId, reportMailHtml);
-  return { callId, runId, path, photoId: photo.photo.id, reportId: done.reportId, reportPath: `/reports/${done.reportId}`, reportNumber: reportNumber(done.number), partNumber };
+  return {
+    callId,
+    runId,
+    path,
+    photoId: photo.photo.id,
+    reportId: done.reportId,
+    reportPath: `/reports/${done.reportId}`,
+    reportNumber: reportNumber(done.number),
+    partNumber,
+  };
 }

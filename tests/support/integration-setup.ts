@@ -6,7 +6,8 @@ import { databaseName, dropDatabasesStartingWith, freshSeededDatabase } from "./
 
 export default async function setup(project: TestProject) {
   const url = process.env.DATABASE_URL;
-  if (!url) throw new Error("Integration tests need DATABASE_URL (scripts/test starts a throwaway MariaDB and sets it; see DEVELOPERS.md).");
+  if (!url)
+    throw new Error("Integration tests need DATABASE_URL (scripts/test starts a throwaway MariaDB and sets it; see DEVELOPERS.md).");
   const workPrefix = `${databaseName(url)}_w`;
   await dropDatabasesStartingWith(url, workPrefix);
   await freshSeededDatabase(url);

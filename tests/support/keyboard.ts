@@ -21,7 +21,11 @@ function focusedName(page: Page): Promise<string> {
  * Presses Tab (Shift+Tab with `back`) until the focused control's name matches (and its role, when
  * given: a tree view is one Tab stop, whichever item it is on); throws with what it passed.
  */
-export async function tabTo(page: Page, name: RegExp, { back = false, max = 150, role }: { back?: boolean; max?: number; role?: string } = {}): Promise<void> {
+export async function tabTo(
+  page: Page,
+  name: RegExp,
+  { back = false, max = 150, role }: { back?: boolean; max?: number; role?: string } = {},
+): Promise<void> {
   const passed: string[] = [];
   for (let i = 0; i < max; i++) {
     await page.keyboard.press(back ? "Shift+Tab" : "Tab");

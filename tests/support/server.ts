@@ -15,7 +15,16 @@ export async function startServer(env: Record<string, string>): Promise<Started>
   const port = await freePort();
   let output = "";
   const child = spawn(process.execPath, ["server.js"], {
-    env: { ...process.env, HOST: "127.0.0.1", PORT: String(port), DATABASE_URL: process.env.E2E_DATABASE_URL!, NODE_ENV: "production", SECURE_COOKIES: "0", AUTH_SECRET: SERVER_TEST_SECRET, ...env },
+    env: {
+      ...process.env,
+      HOST: "127.0.0.1",
+      PORT: String(port),
+      DATABASE_URL: process.env.E2E_DATABASE_URL!,
+      NODE_ENV: "production",
+      SECURE_COOKIES: "0",
+      AUTH_SECRET: SERVER_TEST_SECRET,
+      ...env,
+    },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout!.on("data", (d) => (output += d));

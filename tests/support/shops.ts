@@ -19,7 +19,9 @@ export type FreshShop = {
 
 export async function freshShop(label = crypto.randomUUID().slice(0, 8)): Promise<FreshShop> {
   const shopId = crypto.randomUUID();
-  await db().insert(shops).values({ id: shopId, name: `Test shop ${label}`, town: "Wrenfield", settings: { timeZone: "UTC" } });
+  await db()
+    .insert(shops)
+    .values({ id: shopId, name: `Test shop ${label}`, town: "Wrenfield", settings: { timeZone: "UTC" } });
   const passwordHash = await hashPassword(FRESH_PASSWORD);
   const people = {} as FreshShop["people"];
   for (const role of ["owner", "lead", "technician", "trainer"] as const) {
@@ -32,7 +34,18 @@ export async function freshShop(label = crypto.randomUUID().slice(0, 8)): Promis
   }
   const owner = people.owner;
   const customerId = await createCustomer(owner, { name: `Customer ${label}`, phone: null });
-  const siteId = await createSite(owner, customerId, { name: "Kitchen", address: "2 Mill Row, Wrenfield", contactName: "Site contact", contactEmail: `kitchen.${label}@wrenfield.example` });
-  const unitId = await createUnit(owner, siteId, { category: "fryer", make: "Testmake", model: "F-40", serial: `S-${label}`, installedOn: null });
+  const siteId = await createSite(owner, customerId, {
+    name: "Kitchen",
+    address: "2 Mill Row, Wrenfield",
+    contactName: "Site contact",
+    contactEmail: `kitchen.${label}@wrenfield.example`,
+  });
+  const unitId = await createUnit(owner, siteId, {
+    category: "fryer",
+    make: "Testmake",
+    model: "F-40",
+    serial: `S-${label}`,
+    installedOn: null,
+  });
   return { shopId, ctx: owner, people, siteId, unitId };
 }

@@ -6,7 +6,12 @@ import { env } from "../../app/lib/env.server";
 let client: S3Client | undefined;
 function s3(): S3Client {
   const e = env();
-  return (client ??= new S3Client({ endpoint: e.S3_ENDPOINT, region: e.S3_REGION, forcePathStyle: true, credentials: { accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY } }));
+  return (client ??= new S3Client({
+    endpoint: e.S3_ENDPOINT,
+    region: e.S3_REGION,
+    forcePathStyle: true,
+    credentials: { accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY },
+  }));
 }
 
 export async function objectKeys(prefix: string): Promise<string[]> {

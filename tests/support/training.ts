@@ -17,18 +17,36 @@ export const WEAK_CAP_WORLD: World = {
   fans: { kind: "question", observation: "The left fan turns slower than the right and its note is lower.", answer: "one slow" },
   "cap-rating": { kind: "nameplate", label: "1.5 µF" },
   "cap-measure": { kind: "measurement", shows: "1.31 µF" },
-  "shaft-free": { kind: "question", observation: "The fan wheel turns smoothly by hand and coasts for a moment.", answer: "spins freely and coasts" },
+  "shaft-free": {
+    kind: "question",
+    observation: "The fan wheel turns smoothly by hand and coasts for a moment.",
+    answer: "spins freely and coasts",
+  },
 };
 
 /** The small tree (tests/support/trees.ts): a domed capacitor means the failed-capacitor outcome. */
-export const SMALL_WORLD: World = { "cap-look": { kind: "question", observation: "The capacitor's top is domed and oily.", answer: "yes" } };
+export const SMALL_WORLD: World = {
+  "cap-look": { kind: "question", observation: "The capacitor's top is domed and oily.", answer: "yes" },
+};
 
 /** A scenario through the form's own schema, as the page submits it. */
 export function scenarioFields(name: string, fault: string, world: World) {
-  return scenarioForm.parse({ name, complaint: "The fan hums and the birds come out pale on one side.", unitText: "Two-fan rotisserie at the deli counter", fault, ...worldToForm(world) });
+  return scenarioForm.parse({
+    name,
+    complaint: "The fan hums and the birds come out pale on one side.",
+    unitText: "Two-fan rotisserie at the deli counter",
+    fault,
+    ...worldToForm(world),
+  });
 }
 
-export async function newScenario(ctx: Ctx, treeId: string, fault: string, world: World, name = `Practice ${crypto.randomUUID().slice(0, 6)}`) {
+export async function newScenario(
+  ctx: Ctx,
+  treeId: string,
+  fault: string,
+  world: World,
+  name = `Practice ${crypto.randomUUID().slice(0, 6)}`,
+) {
   return (await createScenario(ctx, treeId, scenarioFields(name, fault, world))).id;
 }
 

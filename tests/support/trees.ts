@@ -23,7 +23,15 @@ export function smallTree(title = "Fan hums but won't turn"): Tree {
     symptom: "The convection fan hums but does not turn",
     start: "cap-look",
     nodes: [
-      { id: "cap-look", kind: "question", title: "Is the run capacitor bulging or leaking?", answers: [{ label: "yes", to: "cap-failed" }, { label: "no", to: "cap-measure" }] },
+      {
+        id: "cap-look",
+        kind: "question",
+        title: "Is the run capacitor bulging or leaking?",
+        answers: [
+          { label: "yes", to: "cap-failed" },
+          { label: "no", to: "cap-measure" },
+        ],
+      },
       {
         id: "cap-measure",
         kind: "measurement",
@@ -33,7 +41,13 @@ export function smallTree(title = "Fan hums but won't turn"): Tree {
         limits: { kind: "nominal", nominal: { value: 1.5 }, tolerance: { kind: "percent", plus: 6, minus: 6 } },
         branches: { low: { to: "cap-failed" }, within: { to: "motor-failed" }, high: { to: "cap-failed" } },
       },
-      { id: "cap-failed", kind: "outcome", title: "Failed run capacitor", remedy: "Replace it with one of the same µF and voltage rating.", parts: ["Motor-run capacitor"] },
+      {
+        id: "cap-failed",
+        kind: "outcome",
+        title: "Failed run capacitor",
+        remedy: "Replace it with one of the same µF and voltage rating.",
+        parts: ["Motor-run capacitor"],
+      },
       { id: "motor-failed", kind: "outcome", title: "Failed fan motor", remedy: "Replace the fan motor.", parts: [] },
     ],
   };

@@ -48,7 +48,13 @@ export function BodyField({ label, initial, hint, onText, upload }: Props) {
         <button type="button" className="btn-quiet min-h-11 px-3 text-base" aria-pressed={tab === "write"} onClick={() => setTab("write")}>
           Write
         </button>
-        <button type="button" className="btn-quiet min-h-11 px-3 text-base" aria-pressed={tab === "preview"} aria-controls={tab === "preview" ? previewId : undefined} onClick={() => setTab("preview")}>
+        <button
+          type="button"
+          className="btn-quiet min-h-11 px-3 text-base"
+          aria-pressed={tab === "preview"}
+          aria-controls={tab === "preview" ? previewId : undefined}
+          onClick={() => setTab("preview")}
+        >
           Preview
         </button>
         {upload && (

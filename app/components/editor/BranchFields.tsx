@@ -77,7 +77,15 @@ export function TargetSelect({ label, tree, value, newKind = null, allowNone = t
 /** Focus the select inside `wrap` once the screen has settled. */
 const focusSelect = (wrap: HTMLElement | null) => requestAnimationFrame(() => wrap?.querySelector("select")?.focus());
 
-type BranchTargetProps = { label: string; tree: Tree; node: TreeNode; branchKey: string; value: string | undefined; hint?: string; dispatch: (a: DraftAction) => void };
+type BranchTargetProps = {
+  label: string;
+  tree: Tree;
+  node: TreeNode;
+  branchKey: string;
+  value: string | undefined;
+  hint?: string;
+  dispatch: (a: DraftAction) => void;
+};
 
 /**
  * Where one branch leads. An existing node is linked at once; a "New …" option only asks, and
@@ -110,7 +118,11 @@ function BranchTarget({ label, tree, node, branchKey, value, hint, dispatch }: B
         }}
       />
       {pending && (
-        <div role="group" aria-label={`Make a new ${KIND_LABEL[pending].toLowerCase()}`} className="flex flex-wrap items-center gap-2 rounded-lg bg-copper-soft p-2">
+        <div
+          role="group"
+          aria-label={`Make a new ${KIND_LABEL[pending].toLowerCase()}`}
+          className="flex flex-wrap items-center gap-2 rounded-lg bg-copper-soft p-2"
+        >
           <p className="basis-full text-base">
             A new {KIND_LABEL[pending].toLowerCase()} will be made, and {branchWords(branchKey)} connected to it.
           </p>
@@ -153,9 +165,22 @@ export function BranchField({ tree, node, branchKey, label, branch, dispatch, hi
   );
 }
 
-function RecheckFields({ tree, node, branchKey, branch, dispatch }: { tree: Tree; node: TreeNode; branchKey: string; branch: Branch; dispatch: (a: DraftAction) => void }) {
+function RecheckFields({
+  tree,
+  node,
+  branchKey,
+  branch,
+  dispatch,
+}: {
+  tree: Tree;
+  node: TreeNode;
+  branchKey: string;
+  branch: Branch;
+  dispatch: (a: DraftAction) => void;
+}) {
   const [maxRaw, setMaxRaw] = useState(String(branch.recheck?.max ?? 2));
-  const set = (recheck: Branch["recheck"] | null) => dispatch({ type: "set-branch", from: node.id, key: branchKey, to: branch.to, recheck });
+  const set = (recheck: Branch["recheck"] | null) =>
+    dispatch({ type: "set-branch", from: node.id, key: branchKey, to: branch.to, recheck });
   const r = branch.recheck;
   const maxError = r && !/^[1-9]\d?$/.test(maxRaw.trim()) ? "Enter how many times, from 1 to 99." : null;
   return (
@@ -196,7 +221,15 @@ function RecheckFields({ tree, node, branchKey, branch, dispatch }: { tree: Tree
 }
 
 /** A question's answers: label, where each leads, order; and a row to add one. */
-export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extract<TreeNode, { kind: "question" }>; dispatch: (a: DraftAction) => void }) {
+export function AnswersField({
+  tree,
+  node,
+  dispatch,
+}: {
+  tree: Tree;
+  node: Extract<TreeNode, { kind: "question" }>;
+  dispatch: (a: DraftAction) => void;
+}) {
   const [label, setLabel] = useState("");
   const [target, setTarget] = useState<{ to: string } | { kind: NodeKind } | null>(null);
   const [error, setError] = useState<string | null>(null);
@@ -247,9 +280,22 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
         {node.answers.map((a, i) => (
           <li key={keys.current[i]} className="space-y-2 rounded-lg border border-rule p-3" data-branch={`answer:${a.label}`}>
             <AnswerLabel node={node} index={i} onRename={(l) => update(node.answers.map((x, j) => (j === i ? { ...x, label: l } : x)))} />
-            <BranchTarget label={`‘${a.label}’ leads to`} tree={tree} node={node} branchKey={`answer:${a.label}`} value={a.to} dispatch={dispatch} />
+            <BranchTarget
+              label={`‘${a.label}’ leads to`}
+              tree={tree}
+              node={node}
+              branchKey={`answer:${a.label}`}
+              value={a.to}
+              dispatch={dispatch}
+            />
             <div className="flex flex-wrap gap-2">
-              <button type="button" className="btn-quiet min-h-11 px-3 text-base" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ‘${a.label}’ up`}>
+              <button
+                type="button"
+                className="btn-quiet min-h-11 px-3 text-base"
+                disabled={i === 0}
+                onClick={() => move(i, -1)}
+                aria-label={`Move ‘${a.label}’ up`}
+              >
                 Up
               </button>
               <button
@@ -261,7 +307,17 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
               >
                 Down
               </button>
-              <button type="button" className="btn-quiet min-h-11 px-3 text-base text-out" onClick={() => update(node.answers.filter((_, j) => j !== i), keys.current.filter((_, j) => j !== i))} aria-label={`Remove the answer ‘${a.label}’`}>
+              <button
+                type="button"
+                className="btn-quiet min-h-11 px-3 text-base text-out"
+                onClick={() =>
+                  update(
+                    node.answers.filter((_, j) => j !== i),
+                    keys.current.filter((_, j) => j !== i),
+                  )
+                }
+                aria-label={`Remove the answer ‘${a.label}’`}
+              >
                 Remove
               </button>
             </div>
@@ -291,7 +347,9 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
           allowNone={false}
           onPick={setTarget}
         />
-        {target && "kind" in target && <p className="text-sm text-ink-soft">A new {KIND_LABEL[target.kind].toLowerCase()} will be made for it.</p>}
+        {target && "kind" in target && (
+          <p className="text-sm text-ink-soft">A new {KIND_LABEL[target.kind].toLowerCase()} will be made for it.</p>
+        )}
         {error && (
           <p className="field-error" role="alert">
             {error}
@@ -305,7 +363,15 @@ export function AnswersField({ tree, node, dispatch }: { tree: Tree; node: Extra
   );
 }
 
-function AnswerLabel({ node, index, onRename }: { node: Extract<TreeNode, { kind: "question" }>; index: number; onRename: (label: string) => void }) {
+function AnswerLabel({
+  node,
+  index,
+  onRename,
+}: {
+  node: Extract<TreeNode, { kind: "question" }>;
+  index: number;
+  onRename: (label: string) => void;
+}) {
   const [raw, setRaw] = useState(node.answers[index]!.label);
   const [error, setError] = useState<string | null>(null);
   return (
@@ -317,7 +383,11 @@ function AnswerLabel({ node, index, onRename }: { node: Extract<TreeNode, { kind
       onChange={(e) => {
         setRaw(e.target.value);
         const l = e.target.value.trim();
-        const err = !l ? "An answer can't be empty." : node.answers.some((a, j) => j !== index && a.label === l) ? `There is already an answer ‘${l}’.` : null;
+        const err = !l
+          ? "An answer can't be empty."
+          : node.answers.some((a, j) => j !== index && a.label === l)
+            ? `There is already an answer ‘${l}’.`
+            : null;
         setError(err);
         if (!err) onRename(l);
       }}

@@ -51,7 +51,9 @@ export function slotsOf(n: TreeNode): Slot[] {
       return [...n.answers.map((a) => ({ key: `answer:${a.label}`, label: a.label })), { key: ADD_ANSWER, label: "+ answer" }];
     case "measurement": {
       const possible = possibleVerdicts(n.limits, n.acceptance === "guarded");
-      return (["low", "within", "high", "marginal"] as const).filter((v) => possible.includes(v) || n.branches[v]).map((v) => ({ key: v, label: v }));
+      return (["low", "within", "high", "marginal"] as const)
+        .filter((v) => possible.includes(v) || n.branches[v])
+        .map((v) => ({ key: v, label: v }));
     }
     case "step":
     case "caution":
@@ -76,16 +78,34 @@ const Box = memo(function Box({ data, selected }: NodeProps<BoxData>) {
         </span>
         <span className="font-semibold">{KIND_LABEL[node.kind]}</span>
         {start && <span className="rounded bg-copper-soft px-1 text-xs font-semibold text-copper-dark">first</span>}
-        {errors > 0 && <span className="ml-auto rounded bg-out-soft px-1 text-xs font-semibold text-out">{errors} error{errors === 1 ? "" : "s"}</span>}
-        {!errors && warnings > 0 && <span className="ml-auto rounded bg-marginal-soft px-1 text-xs font-semibold text-marginal">{warnings} warning{warnings === 1 ? "" : "s"}</span>}
+        {errors > 0 && (
+          <span className="ml-auto rounded bg-out-soft px-1 text-xs font-semibold text-out">
+            {errors} error{errors === 1 ? "" : "s"}
+          </span>
+        )}
+        {!errors && warnings > 0 && (
+          <span className="ml-auto rounded bg-marginal-soft px-1 text-xs font-semibold text-marginal">
+            {warnings} warning{warnings === 1 ? "" : "s"}
+          </span>
+        )}
       </div>
       <p className="line-clamp-2 px-2 py-1 text-sm leading-snug">{node.title}</p>
       {slots.length > 0 && (
         <div className="flex justify-around gap-1 px-1 pb-2 pt-1">
           {slots.map((s) => (
             <div key={s.key} className="relative flex flex-col items-center">
-              <span className={`max-w-20 truncate rounded px-1 text-xs ${s.key === ADD_ANSWER ? "text-ink-soft" : "bg-paper font-semibold"}`}>{s.label}</span>
-              <Handle id={s.key} type="source" position={Position.Bottom} className="!-bottom-3 !h-3 !w-3 !border-2 !border-card !bg-copper" title={`Drag to connect ‘${s.label}’`} />
+              <span
+                className={`max-w-20 truncate rounded px-1 text-xs ${s.key === ADD_ANSWER ? "text-ink-soft" : "bg-paper font-semibold"}`}
+              >
+                {s.label}
+              </span>
+              <Handle
+                id={s.key}
+                type="source"
+                position={Position.Bottom}
+                className="!-bottom-3 !h-3 !w-3 !border-2 !border-card !bg-copper"
+                title={`Drag to connect ‘${s.label}’`}
+              />
             </div>
           ))}
         </div>
@@ -108,7 +128,13 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
         selected: n.id === selected,
         // No aria-label: the box's name is its visible text (kind, marks, title, branches), so what
         // a screen reader says is what a sighted user reads (axe: label-content-name-mismatch).
-        data: { node: n, slots: slotsOf(n), start: n.id === tree.start, errors: marks.get(n.id)?.errors ?? 0, warnings: marks.get(n.id)?.warnings ?? 0 },
+        data: {
+          node: n,
+          slots: slotsOf(n),
+          start: n.id === tree.start,
+          errors: marks.get(n.id)?.errors ?? 0,
+          warnings: marks.get(n.id)?.warnings ?? 0,
+        },
       })),
     [tree, placed, selected, marks],
   );
@@ -144,7 +170,9 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
       setNodes((nds) => applyNodeChanges(changes, nds));
       // A box moved with the arrow keys (selected, focused) is saved like one dragged with the mouse.
       const moved: Layout = {};
-      for (const c of changes) if (c.type === "position" && c.position && c.dragging === false) moved[c.id] = { x: Math.round(c.position.x), y: Math.round(c.position.y) };
+      for (const c of changes)
+        if (c.type === "position" && c.position && c.dragging === false)
+          moved[c.id] = { x: Math.round(c.position.x), y: Math.round(c.position.y) };
       if (Object.keys(moved).length) dispatch({ type: "move", positions: moved });
     },
     [dispatch],
@@ -187,7 +215,11 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
         <button type="button" className="btn-quiet min-h-11 px-3 text-base shadow-sm" onClick={rearrange}>
           Arrange automatically
         </button>
-        <button type="button" className="btn-quiet min-h-11 px-3 text-base shadow-sm" onClick={() => flow.fitView({ padding: 0.15, duration: 200 })}>
+        <button
+          type="button"
+          className="btn-quiet min-h-11 px-3 text-base shadow-sm"
+          onClick={() => flow.fitView({ padding: 0.15, duration: 200 })}
+        >
           Show all
         </button>
         {edgeSelected && (
@@ -211,7 +243,9 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
         onNodesChange={onNodesChange}
         onConnect={onConnect}
         onNodeClick={(_, n) => onOpen(n.id)}
-        onNodeDragStop={(_, n) => dispatch({ type: "move", positions: { [n.id]: { x: Math.round(n.position.x), y: Math.round(n.position.y) } } })}
+        onNodeDragStop={(_, n) =>
+          dispatch({ type: "move", positions: { [n.id]: { x: Math.round(n.position.x), y: Math.round(n.position.y) } } })
+        }
         onEdgeClick={(_, e) => setEdgeSelected(e)}
         onPaneClick={() => setEdgeSelected(null)}
         deleteKeyCode={null}
@@ -228,7 +262,17 @@ function Flow({ tree, layout, selected, marks, dispatch, onOpen }: CanvasProps) 
   );
 }
 
-function NewAnswer({ pending, tree, dispatch, onDone }: { pending: { from: string; to: string }; tree: Tree; dispatch: (a: DraftAction) => void; onDone: () => void }) {
+function NewAnswer({
+  pending,
+  tree,
+  dispatch,
+  onDone,
+}: {
+  pending: { from: string; to: string };
+  tree: Tree;
+  dispatch: (a: DraftAction) => void;
+  onDone: () => void;
+}) {
   const [label, setLabel] = useState("");
   const from = tree.nodes.find((n) => n.id === pending.from);
   const to = tree.nodes.find((n) => n.id === pending.to);
@@ -247,7 +291,14 @@ function NewAnswer({ pending, tree, dispatch, onDone }: { pending: { from: strin
       <p className="text-base">
         A new answer to ‘{from?.title}’, leading to ‘{to?.title}’.
       </p>
-      <Field label="Answer text" name="answer-text" autoFocus value={label} onChange={(e) => setLabel(e.target.value)} error={taken ? "That answer is already there." : undefined} />
+      <Field
+        label="Answer text"
+        name="answer-text"
+        autoFocus
+        value={label}
+        onChange={(e) => setLabel(e.target.value)}
+        error={taken ? "That answer is already there." : undefined}
+      />
       <div className="flex gap-2">
         <button className="btn-primary min-h-11 px-3 text-base" disabled={!label.trim() || taken}>
           Add answer

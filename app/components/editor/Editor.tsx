@@ -54,7 +54,14 @@ export function Editor(props: EditorProps) {
   const upload = (file: File) => uploadImage(treeId, file);
 
   const tab = (p: Pane, label: ReactNode) => (
-    <button type="button" role="tab" aria-selected={pane === p} aria-controls={`pane-${p}`} className={`min-h-12 flex-1 rounded-lg px-2 text-base font-semibold ${pane === p ? "bg-copper-soft text-copper-dark" : "text-ink"}`} onClick={() => setPane(p)}>
+    <button
+      type="button"
+      role="tab"
+      aria-selected={pane === p}
+      aria-controls={`pane-${p}`}
+      className={`min-h-12 flex-1 rounded-lg px-2 text-base font-semibold ${pane === p ? "bg-copper-soft text-copper-dark" : "text-ink"}`}
+      onClick={() => setPane(p)}
+    >
       {label}
     </button>
   );
@@ -67,7 +74,15 @@ export function Editor(props: EditorProps) {
 
   return (
     <div className="flex min-h-dvh flex-col lg:h-dvh">
-      <EditorHeader treeId={treeId} tree={state.tree} nextNumber={props.nextNumber} basedOn={props.basedOn} save={save} blocked={blocked} publishError={props.publishError} />
+      <EditorHeader
+        treeId={treeId}
+        tree={state.tree}
+        nextNumber={props.nextNumber}
+        basedOn={props.basedOn}
+        save={save}
+        blocked={blocked}
+        publishError={props.publishError}
+      />
       <SaveProblems save={save} conflict={conflict} tree={state.tree} timeZone={props.timeZone} />
       <KeptDraftOffer kept={kept} tree={state.tree} />
 
@@ -79,17 +94,31 @@ export function Editor(props: EditorProps) {
       </div>
 
       <main className="grid min-h-0 flex-1 lg:grid-cols-[17rem_minmax(0,1fr)_27rem]">
-        <aside id="pane-checks" className={`${pane === "checks" ? "block" : "hidden"} space-y-6 overflow-y-auto p-3 lg:block lg:border-r lg:border-rule`}>
+        <aside
+          id="pane-checks"
+          className={`${pane === "checks" ? "block" : "hidden"} space-y-6 overflow-y-auto p-3 lg:block lg:border-r lg:border-rule`}
+        >
           <Findings findings={checks.findings} tree={state.tree} stale={stale} onGo={(id) => view.open(id)} />
           <div className="hidden lg:block">
             <Palette onAdd={view.add} />
           </div>
         </aside>
 
-        <section id={`pane-${centerView}`} tabIndex={-1} aria-label={centerView === "canvas" ? "Canvas" : "Outline"} className={`${showCenter ? "flex" : "hidden"} min-h-0 flex-col outline-none lg:flex`}>
+        <section
+          id={`pane-${centerView}`}
+          tabIndex={-1}
+          aria-label={centerView === "canvas" ? "Canvas" : "Outline"}
+          className={`${showCenter ? "flex" : "hidden"} min-h-0 flex-col outline-none lg:flex`}
+        >
           <div className="hidden gap-1 border-b border-rule px-3 py-2 lg:flex" role="group" aria-label="How to show the draft">
             {(["canvas", "outline"] as const).map((v) => (
-              <button key={v} type="button" aria-pressed={view.wideView === v} className={`min-h-11 rounded-lg px-3 font-semibold ${view.wideView === v ? "bg-copper-soft text-copper-dark" : ""}`} onClick={() => view.setWideView(v)}>
+              <button
+                key={v}
+                type="button"
+                aria-pressed={view.wideView === v}
+                className={`min-h-11 rounded-lg px-3 font-semibold ${view.wideView === v ? "bg-copper-soft text-copper-dark" : ""}`}
+                onClick={() => view.setWideView(v)}
+              >
                 {v === "canvas" ? "Canvas" : "Outline"}
               </button>
             ))}
@@ -106,7 +135,14 @@ export function Editor(props: EditorProps) {
               <SkipCanvas onSkip={skipCanvas} />
               {view.mounted ? (
                 <Suspense fallback={<p className="p-4 text-ink-soft">Loading the canvas…</p>}>
-                  <Canvas tree={state.tree} layout={state.layout} selected={state.selected} marks={marks} dispatch={view.act} onOpen={(id) => view.open(id)} />
+                  <Canvas
+                    tree={state.tree}
+                    layout={state.layout}
+                    selected={state.selected}
+                    marks={marks}
+                    dispatch={view.act}
+                    onOpen={(id) => view.open(id)}
+                  />
                 </Suspense>
               ) : (
                 <p className="p-4 text-ink-soft">Loading the canvas…</p>
@@ -115,7 +151,12 @@ export function Editor(props: EditorProps) {
           )}
         </section>
 
-        <aside id="pane-node" tabIndex={-1} aria-label={selectedNode ? "Node" : "Tree details"} className={`${pane === "node" ? "block" : "hidden"} overflow-y-auto border-rule p-3 outline-none lg:block lg:border-l`}>
+        <aside
+          id="pane-node"
+          tabIndex={-1}
+          aria-label={selectedNode ? "Node" : "Tree details"}
+          className={`${pane === "node" ? "block" : "hidden"} overflow-y-auto border-rule p-3 outline-none lg:block lg:border-l`}
+        >
           {selectedNode ? (
             <div className="space-y-3">
               <div className="flex flex-wrap gap-2">
@@ -150,7 +191,11 @@ export function Editor(props: EditorProps) {
 /** A skip link over the canvas, shown when it has keyboard focus. */
 function SkipCanvas({ onSkip }: { onSkip: () => void }) {
   return (
-    <button type="button" onClick={onSkip} className="sr-only z-20 rounded-lg bg-ink px-4 py-2 font-semibold text-white focus:not-sr-only focus:absolute focus:left-2 focus:top-14">
+    <button
+      type="button"
+      onClick={onSkip}
+      className="sr-only z-20 rounded-lg bg-ink px-4 py-2 font-semibold text-white focus:not-sr-only focus:absolute focus:left-2 focus:top-14"
+    >
       Skip the canvas: go to the node form
     </button>
   );

@@ -7,7 +7,17 @@ import { readKept, unsavedKey } from "~/lib/kept";
 import { downloadText } from "./download";
 import type { KeptDraft } from "./useKeptDraft";
 
-export function EditorError({ treeId, title, detail, again }: { treeId: string | undefined; title: string; detail: string; again: boolean }) {
+export function EditorError({
+  treeId,
+  title,
+  detail,
+  again,
+}: {
+  treeId: string | undefined;
+  title: string;
+  detail: string;
+  again: boolean;
+}) {
   // Read after hydration: the server never sees this browser's storage.
   const [kept, setKept] = useState<KeptDraft | null | undefined>(undefined);
   useEffect(() => setKept(treeId ? readKept<KeptDraft>(unsavedKey(treeId)) : null), [treeId]);
@@ -22,9 +32,25 @@ export function EditorError({ treeId, title, detail, again }: { treeId: string |
           </h2>
           <p>
             “{kept.tree.title}”, as it was at {new Date(kept.at).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}.{" "}
-            {again ? "Open the editor again to restore them, or download them as a tree file." : "Download them as a tree file to keep them."}
+            {again
+              ? "Open the editor again to restore them, or download them as a tree file."
+              : "Download them as a tree file to keep them."}
           </p>
-          <button type="button" className="btn-quiet" onClick={() => downloadText(`${kept.tree.title.toLowerCase().replace(/[^a-z0-9]+/g, "-").slice(0, 60) || "tree"}-unsaved.md`, serializeTree(kept.tree))}>
+          <button
+            type="button"
+            className="btn-quiet"
+            onClick={() =>
+              downloadText(
+                `${
+                  kept.tree.title
+                    .toLowerCase()
+                    .replace(/[^a-z0-9]+/g, "-")
+                    .slice(0, 60) || "tree"
+                }-unsaved.md`,
+                serializeTree(kept.tree),
+              )
+            }
+          >
             Download my changes (.md)
           </button>
         </section>

@@ -44,12 +44,22 @@ export function Findings({ findings, tree, stale, onGo }: Props) {
           {sorted.map((f, i) => {
             const node = f.nodeId ? tree.nodes.find((n) => n.id === f.nodeId) : undefined;
             return (
-              <li key={`${f.code}-${f.nodeId ?? ""}-${i}`} className={`rounded-lg border-l-4 bg-card p-2 ${f.severity === "error" ? "border-out" : "border-marginal"}`}>
+              <li
+                key={`${f.code}-${f.nodeId ?? ""}-${i}`}
+                className={`rounded-lg border-l-4 bg-card p-2 ${f.severity === "error" ? "border-out" : "border-marginal"}`}
+              >
                 <p className="text-base">
-                  <strong className={f.severity === "error" ? "text-out" : "text-marginal"}>{f.severity === "error" ? "Error" : "Warning"}:</strong> {inEditorWords(f, tree)}
+                  <strong className={f.severity === "error" ? "text-out" : "text-marginal"}>
+                    {f.severity === "error" ? "Error" : "Warning"}:
+                  </strong>{" "}
+                  {inEditorWords(f, tree)}
                 </p>
                 {node && (
-                  <button type="button" className="mt-1 inline-flex min-h-11 items-center text-left text-base font-semibold text-copper-dark underline underline-offset-2" onClick={() => onGo(node.id)}>
+                  <button
+                    type="button"
+                    className="mt-1 inline-flex min-h-11 items-center text-left text-base font-semibold text-copper-dark underline underline-offset-2"
+                    onClick={() => onGo(node.id)}
+                  >
                     Go to ‘{titles.get(node.id)}’
                   </button>
                 )}

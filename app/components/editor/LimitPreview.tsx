@@ -74,7 +74,9 @@ export function LimitPreview({ node, tree }: { node: MeasurementNode; tree: Tree
       <p id={resultId} aria-live="polite" className="min-h-7">
         {result &&
           (result.ok ? (
-            <span className={`inline-block rounded-md px-2 py-1 font-semibold ${VERDICT_STYLE[result.verdict.verdict]}`}>{result.verdict.preview}</span>
+            <span className={`inline-block rounded-md px-2 py-1 font-semibold ${VERDICT_STYLE[result.verdict.verdict]}`}>
+              {result.verdict.preview}
+            </span>
           ) : (
             <span className="font-semibold text-out">{result.message}</span>
           ))}

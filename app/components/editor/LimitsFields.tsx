@@ -2,7 +2,15 @@
 // checked against the engine's schema for a measurement before it reaches the draft.
 import { LETTER_PERCENT } from "~/engine/limits";
 import { QUANTITY_INFO } from "~/engine/units";
-import { TOLERANCE_LETTERS, type LimitValue, type Limits, type MeasurementNode, type Meter, type Tolerance, type ToleranceLetter } from "~/engine/types";
+import {
+  TOLERANCE_LETTERS,
+  type LimitValue,
+  type Limits,
+  type MeasurementNode,
+  type Meter,
+  type Tolerance,
+  type ToleranceLetter,
+} from "~/engine/types";
 import { Check, parseNumber, SelectField, TextField } from "./fields";
 
 type Try = (node: MeasurementNode) => string | null;
@@ -42,9 +50,29 @@ function withUnit<T extends { unit?: string }>(v: T, unit: string): T {
 }
 
 /** The optional unit of a value, a tolerance or a meter's resolution; blank means the reading's. */
-function UnitField<T extends { unit?: string }>({ label, of, readingUnit, suggestions, onValue }: { label: string; of: T; readingUnit: string; suggestions: readonly string[]; onValue: (v: T) => string | null }) {
+function UnitField<T extends { unit?: string }>({
+  label,
+  of,
+  readingUnit,
+  suggestions,
+  onValue,
+}: {
+  label: string;
+  of: T;
+  readingUnit: string;
+  suggestions: readonly string[];
+  onValue: (v: T) => string | null;
+}) {
   // Blank means the reading's own unit, which the placeholder shows.
-  return <TextField label={label} initial={of.unit ?? ""} placeholder={readingUnit} suggestions={suggestions} onText={(raw) => onValue(withUnit(of, raw))} />;
+  return (
+    <TextField
+      label={label}
+      initial={of.unit ?? ""}
+      placeholder={readingUnit}
+      suggestions={suggestions}
+      onText={(raw) => onValue(withUnit(of, raw))}
+    />
+  );
 }
 
 function LimitValueField({
@@ -71,7 +99,14 @@ function LimitValueField({
           { value: "number", label: "A number" },
           { value: "formula", label: "A formula over values recorded earlier" },
         ]}
-        onChange={(m) => onValue(withUnit<LimitValue>(m === "formula" ? { formula: "formula" in value ? value.formula : "rated_value" } : { value: 0 }, value.unit ?? ""))}
+        onChange={(m) =>
+          onValue(
+            withUnit<LimitValue>(
+              m === "formula" ? { formula: "formula" in value ? value.formula : "rated_value" } : { value: 0 },
+              value.unit ?? "",
+            ),
+          )
+        }
       />
       <div className="grid gap-2 sm:grid-cols-[1fr_7rem]" key={mode}>
         {mode === "number" ? (
@@ -98,7 +133,17 @@ function LimitValueField({
   );
 }
 
-function ToleranceFields({ tolerance, unit, unitSuggestions, onTolerance }: { tolerance: Tolerance; unit: string; unitSuggestions: readonly string[]; onTolerance: (t: Tolerance) => string | null }) {
+function ToleranceFields({
+  tolerance,
+  unit,
+  unitSuggestions,
+  onTolerance,
+}: {
+  tolerance: Tolerance;
+  unit: string;
+  unitSuggestions: readonly string[];
+  onTolerance: (t: Tolerance) => string | null;
+}) {
   const side = (which: "plus" | "minus") => (
     <TextField
       label={which === "plus" ? "Above the rated value by" : "Below the rated value by"}
@@ -127,7 +172,11 @@ function ToleranceFields({ tolerance, unit, unitSuggestions, onTolerance }: { to
           onTolerance(
             k === "letter"
               ? { kind: "letter", letter: "J" }
-              : { kind: k, plus: tolerance.kind === "letter" ? 0 : tolerance.plus, minus: tolerance.kind === "letter" ? 0 : tolerance.minus },
+              : {
+                  kind: k,
+                  plus: tolerance.kind === "letter" ? 0 : tolerance.plus,
+                  minus: tolerance.kind === "letter" ? 0 : tolerance.minus,
+                },
           )
         }
       />
@@ -155,7 +204,17 @@ function ToleranceFields({ tolerance, unit, unitSuggestions, onTolerance }: { to
   );
 }
 
-function MeterFields({ meter, unit, unitSuggestions, onMeter }: { meter: Meter; unit: string; unitSuggestions: readonly string[]; onMeter: (m: Meter) => string | null }) {
+function MeterFields({
+  meter,
+  unit,
+  unitSuggestions,
+  onMeter,
+}: {
+  meter: Meter;
+  unit: string;
+  unitSuggestions: readonly string[];
+  onMeter: (m: Meter) => string | null;
+}) {
   const num = (key: "percent" | "counts" | "resolution", label: string, hint?: string) => (
     <TextField
       label={label}
@@ -205,7 +264,12 @@ export function LimitsFields({ node, tryNode }: { node: MeasurementNode; tryNode
         {L.kind === "nominal" && (
           <>
             {valueField("Rated value", L.nominal, (nominal) => ({ ...L, nominal }))}
-            <ToleranceFields tolerance={L.tolerance} unit={node.unit} unitSuggestions={units} onTolerance={(tolerance) => setLimits({ ...L, tolerance })} />
+            <ToleranceFields
+              tolerance={L.tolerance}
+              unit={node.unit}
+              unitSuggestions={units}
+              onTolerance={(tolerance) => setLimits({ ...L, tolerance })}
+            />
           </>
         )}
       </div>
@@ -215,7 +279,9 @@ export function LimitsFields({ node, tryNode }: { node: MeasurementNode; tryNode
         checked={Boolean(node.meter)}
         onChange={(on) => tryNode(on ? { ...node, meter: { percent: 1, counts: 2, resolution: 0.1 } } : withoutMeter())}
       />
-      {node.meter && <MeterFields meter={node.meter} unit={node.unit} unitSuggestions={units} onMeter={(meter) => tryNode({ ...node, meter })} />}
+      {node.meter && (
+        <MeterFields meter={node.meter} unit={node.unit} unitSuggestions={units} onMeter={(meter) => tryNode({ ...node, meter })} />
+      )}
       <SelectField
         label="Judging readings near a limit"
         value={node.acceptance ?? "simple"}

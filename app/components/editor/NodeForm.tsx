@@ -5,7 +5,17 @@ import { useEffect, useId, useRef, useState } from "react";
 import { possibleVerdicts } from "~/engine/limits";
 import { NodeIdSchema, normaliseBody } from "~/engine/schema";
 import { QUANTITY_INFO, resolveUnit } from "~/engine/units";
-import { HAZARDS, QUANTITIES, VERDICTS, type Finding, type Hazard, type Quantity, type Tree, type TreeNode, type VerdictKind } from "~/engine/types";
+import {
+  HAZARDS,
+  QUANTITIES,
+  VERDICTS,
+  type Finding,
+  type Hazard,
+  type Quantity,
+  type Tree,
+  type TreeNode,
+  type VerdictKind,
+} from "~/engine/types";
 import { Field } from "~/components/Field";
 import { useAsk } from "~/components/useAsk";
 import { AnswersField, BranchField } from "./BranchFields";
@@ -34,7 +44,10 @@ const VERDICT_HINT: Record<VerdictKind, string> = {
   marginal: "Inside, but within the meter's accuracy of a limit (guarded acceptance).",
 };
 
-export const QUANTITY_OPTIONS = QUANTITIES.map((q) => ({ value: q, label: `${q.charAt(0).toUpperCase()}${q.slice(1)} (${QUANTITY_INFO[q].units.join(", ")})` }));
+export const QUANTITY_OPTIONS = QUANTITIES.map((q) => ({
+  value: q,
+  label: `${q.charAt(0).toUpperCase()}${q.slice(1)} (${QUANTITY_INFO[q].units.join(", ")})`,
+}));
 const HAZARD_OPTIONS = [{ value: "", label: "Not given" }, ...HAZARDS.map((h) => ({ value: h, label: h.replace("-", " ") }))];
 
 /** `node` with an optional text field set, or removed when blank. */
@@ -83,7 +96,11 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField, o
         {isStart ? (
           <span className="rounded-md bg-copper-soft px-2 py-1 text-sm font-semibold text-copper-dark">First node of the tree</span>
         ) : (
-          <button type="button" className="btn-quiet min-h-11 px-3 text-base" onClick={() => dispatch({ type: "tree-fields", fields: { start: node.id } })}>
+          <button
+            type="button"
+            className="btn-quiet min-h-11 px-3 text-base"
+            onClick={() => dispatch({ type: "tree-fields", fields: { start: node.id } })}
+          >
             Make this the first node
           </button>
         )}
@@ -91,7 +108,10 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField, o
       {findings.length > 0 && (
         <ul aria-label="Checks on this node" className="space-y-1">
           {findings.map((f, i) => (
-            <li key={i} className={`rounded-md px-3 py-2 text-base ${f.severity === "error" ? "bg-out-soft text-out" : "bg-marginal-soft text-marginal"}`}>
+            <li
+              key={i}
+              className={`rounded-md px-3 py-2 text-base ${f.severity === "error" ? "bg-out-soft text-out" : "bg-marginal-soft text-marginal"}`}
+            >
               <strong>{f.severity === "error" ? "Error: " : "Warning: "}</strong>
               {inEditorWords(f, tree)}
             </li>
@@ -115,7 +135,17 @@ export function NodeForm({ node, tree, dispatch, findings, upload, focusField, o
   );
 }
 
-function KindFields({ node, tree, tryNode, dispatch }: { node: TreeNode; tree: Tree; tryNode: (n: TreeNode) => string | null; dispatch: (a: DraftAction) => void }) {
+function KindFields({
+  node,
+  tree,
+  tryNode,
+  dispatch,
+}: {
+  node: TreeNode;
+  tree: Tree;
+  tryNode: (n: TreeNode) => string | null;
+  dispatch: (a: DraftAction) => void;
+}) {
   switch (node.kind) {
     case "question":
       return <AnswersField node={node} tree={tree} dispatch={dispatch} />;
@@ -123,7 +153,8 @@ function KindFields({ node, tree, tryNode, dispatch }: { node: TreeNode; tree: T
     case "nameplate": {
       // A unit of another quantity is replaced by the new quantity's usual one.
       const fits = (quantity: Quantity) => resolveUnit(node.unit, quantity)?.kind === QUANTITY_INFO[quantity].kind;
-      const setQuantity = (quantity: Quantity) => tryNode({ ...node, quantity, unit: fits(quantity) ? node.unit : QUANTITY_INFO[quantity].units[0]! } as TreeNode);
+      const setQuantity = (quantity: Quantity) =>
+        tryNode({ ...node, quantity, unit: fits(quantity) ? node.unit : QUANTITY_INFO[quantity].units[0]! } as TreeNode);
       return (
         <>
           <div className="grid gap-3 sm:grid-cols-[1fr_9rem]">
@@ -170,7 +201,12 @@ function KindFields({ node, tree, tryNode, dispatch }: { node: TreeNode; tree: T
     case "outcome":
       return (
         <>
-          <TextField label="Remedy" hint="What the technician does about it." initial={node.remedy} onText={(raw) => tryNode({ ...node, remedy: raw.trim() })} />
+          <TextField
+            label="Remedy"
+            hint="What the technician does about it."
+            initial={node.remedy}
+            onText={(raw) => tryNode({ ...node, remedy: raw.trim() })}
+          />
           <TextField
             label="Parts (one per line)"
             initial={node.parts.join("\n")}
@@ -189,7 +225,9 @@ function KindFields({ node, tree, tryNode, dispatch }: { node: TreeNode; tree: T
         </>
       );
     case "escalate":
-      return <TextField label="What the lead needs to know" initial={node.reason} onText={(raw) => tryNode({ ...node, reason: raw.trim() })} />;
+      return (
+        <TextField label="What the lead needs to know" initial={node.reason} onText={(raw) => tryNode({ ...node, reason: raw.trim() })} />
+      );
     default:
       return null;
   }
@@ -265,14 +303,24 @@ function IdField({ node, tree, dispatch }: { node: TreeNode; tree: Tree; dispatc
 }
 
 /** Delete asks first. Focus follows: onto "Keep it" when asked, back to the button when kept. */
-function DeleteNode({ node, dispatch, onDeleted }: { node: TreeNode; dispatch: (a: DraftAction) => void; onDeleted?: (node: TreeNode) => void }) {
+function DeleteNode({
+  node,
+  dispatch,
+  onDeleted,
+}: {
+  node: TreeNode;
+  dispatch: (a: DraftAction) => void;
+  onDeleted?: (node: TreeNode) => void;
+}) {
   const { asking, setAsking, asker: ask, answer: keep } = useAsk();
   const questionId = useId();
   return (
     <div className="border-t border-rule pt-3">
       {asking ? (
         <div role="group" aria-label="Confirm deleting this node" aria-describedby={questionId} className="space-y-2">
-          <p id={questionId}>Delete ‘{node.title}’? Branches that lead to it are disconnected; answers that lead to it keep their text and need a new target.</p>
+          <p id={questionId}>
+            Delete ‘{node.title}’? Branches that lead to it are disconnected; answers that lead to it keep their text and need a new target.
+          </p>
           <div className="flex gap-2">
             <button
               type="button"

@@ -166,7 +166,9 @@ export function Outline({ tree, selected, marks, onOpen }: Props) {
             ) : (
               <span className="inline-block size-11 shrink-0 lg:size-8" aria-hidden="true" />
             )}
-            {r.via !== null && <span className="shrink-0 rounded bg-paper px-1.5 py-0.5 text-sm font-semibold text-ink-soft">{r.via} →</span>}
+            {r.via !== null && (
+              <span className="shrink-0 rounded bg-paper px-1.5 py-0.5 text-sm font-semibold text-ink-soft">{r.via} →</span>
+            )}
             {r.loop && <span className="shrink-0 text-sm text-ink-soft">(re-check)</span>}
             <RowBody row={r} title={node?.title} kind={node?.kind} start={tree.start === r.nodeId && r.type === "node"} />
             {mark && mark.errors > 0 && (

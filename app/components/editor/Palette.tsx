@@ -20,7 +20,10 @@ export function Palette({ onAdd }: { onAdd: (kind: NodeKind) => void }) {
               title={KIND_HINT[k]}
               aria-describedby={`${id}-${k}`}
             >
-              <span aria-hidden="true" className="inline-flex size-7 shrink-0 items-center justify-center rounded border border-ink text-base">
+              <span
+                aria-hidden="true"
+                className="inline-flex size-7 shrink-0 items-center justify-center rounded border border-ink text-base"
+              >
                 {KIND_MARK[k]}
               </span>
               <span className="font-semibold">

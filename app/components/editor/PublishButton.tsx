@@ -8,7 +8,19 @@ import { inEditorWords } from "./finding-words";
 
 export type PublishError = { message: string; findings?: Finding[] };
 
-export function PublishButton({ blocked, nextNumber, revision, error, tree }: { blocked: string | null; nextNumber: number; revision: number; error?: PublishError; tree: Tree }) {
+export function PublishButton({
+  blocked,
+  nextNumber,
+  revision,
+  error,
+  tree,
+}: {
+  blocked: string | null;
+  nextNumber: number;
+  revision: number;
+  error?: PublishError;
+  tree: Tree;
+}) {
   const dialog = useRef<HTMLDialogElement>(null);
   const busy = useNavigation().state !== "idle";
   useEffect(() => {
@@ -16,13 +28,23 @@ export function PublishButton({ blocked, nextNumber, revision, error, tree }: { 
   }, [error]);
   return (
     <div className="flex flex-col items-end gap-1">
-      <button type="button" className="btn-primary min-h-11" disabled={blocked !== null} aria-describedby="publish-blocked" onClick={() => dialog.current?.showModal()}>
+      <button
+        type="button"
+        className="btn-primary min-h-11"
+        disabled={blocked !== null}
+        aria-describedby="publish-blocked"
+        onClick={() => dialog.current?.showModal()}
+      >
         Publish…
       </button>
       <p id="publish-blocked" className="max-w-64 text-right text-sm text-ink-soft">
         {blocked ?? `Ready to publish as version ${nextNumber}.`}
       </p>
-      <dialog ref={dialog} aria-labelledby="publish-heading" className="m-auto w-[min(34rem,92vw)] rounded-xl border border-rule p-0 backdrop:bg-ink/40">
+      <dialog
+        ref={dialog}
+        aria-labelledby="publish-heading"
+        className="m-auto w-[min(34rem,92vw)] rounded-xl border border-rule p-0 backdrop:bg-ink/40"
+      >
         <Form method="post" className="space-y-3 p-4">
           <h2 id="publish-heading" className="text-xl font-bold">
             Publish version {nextNumber}

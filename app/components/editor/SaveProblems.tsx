@@ -7,7 +7,17 @@ import type { Tree } from "~/engine/types";
 import type { Autosave } from "./useAutosave";
 import type { ConflictHandle } from "./useConflict";
 
-export function SaveProblems({ save, conflict: c, tree, timeZone }: { save: Autosave; conflict: ConflictHandle; tree: Tree; timeZone: string }) {
+export function SaveProblems({
+  save,
+  conflict: c,
+  tree,
+  timeZone,
+}: {
+  save: Autosave;
+  conflict: ConflictHandle;
+  tree: Tree;
+  timeZone: string;
+}) {
   const { status, problem, conflict } = save;
   const download = (
     <button type="button" className="btn-quiet" onClick={c.downloadMine}>
@@ -21,8 +31,8 @@ export function SaveProblems({ save, conflict: c, tree, timeZone }: { save: Auto
           {conflict.updatedByName ?? "Someone"} saved this draft at {atShop(conflict.updatedAt, timeZone, "time")}, while you were editing
         </h2>
         <p>
-          Nothing of yours was saved, and nothing of theirs was overwritten. Your changes are still on this screen. Compare the two, then keep yours (replacing theirs) or
-          take theirs (download yours first to re-apply what you need).
+          Nothing of yours was saved, and nothing of theirs was overwritten. Your changes are still on this screen. Compare the two, then
+          keep yours (replacing theirs) or take theirs (download yours first to re-apply what you need).
         </p>
         <div className="flex flex-wrap gap-2">
           {download}

@@ -23,14 +23,27 @@ export function TreeForm({ tree, dispatch, upload }: { tree: Tree; dispatch: (a:
         Tree details
       </h2>
       <TextField label="Title" initial={tree.title} onText={(raw) => tryFields({ title: raw.trim() })} />
-      <SelectField label="Equipment category" value={tree.category} options={CATEGORY_OPTIONS} onChange={(category) => tryFields({ category })} />
+      <SelectField
+        label="Equipment category"
+        value={tree.category}
+        options={CATEGORY_OPTIONS}
+        onChange={(category) => tryFields({ category })}
+      />
       <TextField label="Symptom the customer reports" initial={tree.symptom} onText={(raw) => tryFields({ symptom: raw.trim() })} />
-      <TextField label="Equipment covered (optional)" hint="Models or families this tree is for." initial={tree.equipment ?? ""} onText={(raw) => tryFields({ equipment: raw.trim() })} />
+      <TextField
+        label="Equipment covered (optional)"
+        hint="Models or families this tree is for."
+        initial={tree.equipment ?? ""}
+        onText={(raw) => tryFields({ equipment: raw.trim() })}
+      />
       {tree.nodes.length > 0 && (
         <SelectField
           label="First node"
           value={tree.nodes.some((n) => n.id === tree.start) ? tree.start : ""}
-          options={[...(tree.nodes.some((n) => n.id === tree.start) ? [] : [{ value: "", label: "Choose the first node…" }]), ...[...nodeOptionLabels(tree.nodes)].map(([value, label]) => ({ value, label }))]}
+          options={[
+            ...(tree.nodes.some((n) => n.id === tree.start) ? [] : [{ value: "", label: "Choose the first node…" }]),
+            ...[...nodeOptionLabels(tree.nodes)].map(([value, label]) => ({ value, label })),
+          ]}
           onChange={(start) => start && tryFields({ start })}
         />
       )}

@@ -18,12 +18,24 @@ export class SaveError extends Error {
 
 async function json<T>(res: Response): Promise<T> {
   const body = (await res.json().catch(() => ({}))) as T & { error?: string };
-  if (!res.ok) throw new SaveError(body.error ?? `The server answered ${res.status}.`, res.status, res.status === 409 ? (body as unknown as { conflict?: Conflict }).conflict : undefined);
+  if (!res.ok)
+    throw new SaveError(
+      body.error ?? `The server answered ${res.status}.`,
+      res.status,
+      res.status === 409 ? (body as unknown as { conflict?: Conflict }).conflict : undefined,
+    );
   return body;
 }
 
-export async function saveDraft(treeId: string, body: { versionId: string; revision: number; tree: Tree; layout: Layout }): Promise<SaveOk> {
-  const res = await fetch(`/api/trees/${treeId}/draft`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
+export async function saveDraft(
+  treeId: string,
+  body: { versionId: string; revision: number; tree: Tree; layout: Layout },
+): Promise<SaveOk> {
+  const res = await fetch(`/api/trees/${treeId}/draft`, {
+    method: "POST",
+    headers: { "content-type": "application/json" },
+    body: JSON.stringify(body),
+  });
   return json<SaveOk>(res);
 }
 
@@ -31,7 +43,9 @@ export async function fetchValidation(treeId: string): Promise<Validation> {
   return json<Validation>(await fetch(`/api/trees/${treeId}/validation`));
 }
 
-export async function fetchDraft(treeId: string): Promise<{ versionId: string; revision: number; tree: Tree; layout: Layout; updatedByName: string | null }> {
+export async function fetchDraft(
+  treeId: string,
+): Promise<{ versionId: string; revision: number; tree: Tree; layout: Layout; updatedByName: string | null }> {
   return json(await fetch(`/api/trees/${treeId}/versions/draft`));
 }
 

@@ -136,7 +136,10 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
       return changed(state, next);
     }
     case "add-node": {
-      const id = uniqueId(`${action.kind === "measurement" ? "measure" : action.kind}`, tree.nodes.map((n) => n.id));
+      const id = uniqueId(
+        `${action.kind === "measurement" ? "measure" : action.kind}`,
+        tree.nodes.map((n) => n.id),
+      );
       const node = newNode(action.kind, id, uniqueVariable(tree), newTitle(tree, action.kind));
       let nodes = [...tree.nodes, node];
       if (action.link) {
@@ -174,7 +177,12 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
         layout[to] = layout[from]!;
         delete layout[from];
       }
-      return changed(state, { ...tree, nodes, start: tree.start === from ? to : tree.start }, layout, state.selected === from ? to : state.selected);
+      return changed(
+        state,
+        { ...tree, nodes, start: tree.start === from ? to : tree.start },
+        layout,
+        state.selected === from ? to : state.selected,
+      );
     }
     case "delete-node": {
       const { id } = action;
@@ -208,6 +216,11 @@ export function draftReducer(state: DraftState, action: DraftAction): DraftState
     case "move":
       return changed(state, tree, { ...state.layout, ...action.positions });
     case "replace":
-      return { tree: action.tree, layout: action.layout, selected: action.tree.nodes.some((n) => n.id === state.selected) ? state.selected : null, change: state.change + 1 };
+      return {
+        tree: action.tree,
+        layout: action.layout,
+        selected: action.tree.nodes.some((n) => n.id === state.selected) ? state.selected : null,
+        change: state.change + 1,
+      };
   }
 }

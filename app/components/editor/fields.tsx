@@ -8,7 +8,9 @@ import { NodeSchema, TreeSchema } from "~/engine/schema";
 import type { Tree, TreeNode } from "~/engine/types";
 
 /** What the committer needs of a schema (the engine's are zod/mini). */
-type Schema = { safeParse(value: unknown): { success: true; data: unknown } | { success: false; error: { issues: readonly { message: string }[] } } };
+type Schema = {
+  safeParse(value: unknown): { success: true; data: unknown } | { success: false; error: { issues: readonly { message: string }[] } };
+};
 
 /** Checks a candidate against a schema; commits it when valid, else returns the message to show. */
 function committer<T>(schema: Schema, commit: (value: T) => void) {
@@ -55,7 +57,20 @@ type TextFieldProps = {
 };
 
 /** A text input or area that keeps what was typed and shows why a value isn't taken. */
-export function TextField({ label, initial, onText, hint, multiline, rows = 4, suggestions, inputMode, className, placeholder, value, onRaw }: TextFieldProps) {
+export function TextField({
+  label,
+  initial,
+  onText,
+  hint,
+  multiline,
+  rows = 4,
+  suggestions,
+  inputMode,
+  className,
+  placeholder,
+  value,
+  onRaw,
+}: TextFieldProps) {
   const listId = useId();
   const [raw, setRaw] = useState(initial);
   const [error, setError] = useState<string | null>(null);
@@ -123,11 +138,27 @@ export function SelectField<T extends string>({ label, value, options, onChange,
   );
 }
 
-export function Check({ label, checked, onChange, hint }: { label: string; checked: boolean; onChange: (v: boolean) => void; hint?: string }) {
+export function Check({
+  label,
+  checked,
+  onChange,
+  hint,
+}: {
+  label: string;
+  checked: boolean;
+  onChange: (v: boolean) => void;
+  hint?: string;
+}) {
   const id = useId();
   return (
     <div className="flex items-start gap-3">
-      <input id={id} type="checkbox" className="mt-1 size-6 shrink-0 accent-copper" checked={checked} onChange={(e) => onChange(e.target.checked)} />
+      <input
+        id={id}
+        type="checkbox"
+        className="mt-1 size-6 shrink-0 accent-copper"
+        checked={checked}
+        onChange={(e) => onChange(e.target.checked)}
+      />
       <label htmlFor={id} className="font-semibold">
         {label}
         {hint && <span className="block text-sm font-normal text-ink-soft">{hint}</span>}

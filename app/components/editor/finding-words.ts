@@ -29,7 +29,10 @@ export function inEditorWords(f: Finding, tree: Tree): string {
   switch (f.code) {
     case "missing-branch": {
       // The verdict is named in the engine's advice (‘- low → …’) or its wording (on a low reading).
-      const v = /‘- (low|within|high|marginal) →/.exec(f.message)?.[1] ?? /on an? (low|high|marginal) reading/.exec(f.message)?.[1] ?? (/within limits/.test(f.message) ? "within" : null);
+      const v =
+        /‘- (low|within|high|marginal) →/.exec(f.message)?.[1] ??
+        /on an? (low|high|marginal) reading/.exec(f.message)?.[1] ??
+        (/within limits/.test(f.message) ? "within" : null);
       if (!v) break;
       return `Connect ${branchWords(v)} of the ${name} to a node: a ${v === "within" ? "reading within limits" : `${v} reading`} has nowhere to go yet.`;
     }
@@ -44,7 +47,8 @@ export function inEditorWords(f: Finding, tree: Tree): string {
       if (node) return `The ${name} leads nowhere: choose its next node, or make it an outcome.`;
       break;
     case "unknown-target":
-      if (f.field && /re-check limit is reached/.test(f.message)) return `When the re-check limit of ${branchWords(f.field)} in the ${name} is reached, it goes to a node that no longer exists: choose another under “Then go to”.`;
+      if (f.field && /re-check limit is reached/.test(f.message))
+        return `When the re-check limit of ${branchWords(f.field)} in the ${name} is reached, it goes to a node that no longer exists: choose another under “Then go to”.`;
       if (f.field) return `${cap(branchWords(f.field))} of the ${name} leads to a node that no longer exists: choose where it leads.`;
       break;
     case "cycle": {

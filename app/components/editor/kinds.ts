@@ -35,7 +35,10 @@ export const KIND_MARK: Record<NodeKind, string> = {
   escalate: "↑",
 };
 
-export const CATEGORY_OPTIONS = CATEGORIES.map((c) => ({ value: c, label: c === "hot-holding" ? "Hot holding" : c.charAt(0).toUpperCase() + c.slice(1) }));
+export const CATEGORY_OPTIONS = CATEGORIES.map((c) => ({
+  value: c,
+  label: c === "hot-holding" ? "Hot holding" : c.charAt(0).toUpperCase() + c.slice(1),
+}));
 
 export function categoryLabel(c: string): string {
   return CATEGORY_OPTIONS.find((o) => o.value === c)?.label ?? c;
@@ -55,7 +58,15 @@ export function newNode(kind: NodeKind, id: string, variable = DEFAULT_VARIABLE,
     case "question":
       return { id, kind, title, answers: [] };
     case "measurement":
-      return { id, kind, title, quantity: "voltage", unit: "V", limits: { kind: "range", min: { value: 0 }, max: { value: 0 } }, branches: {} };
+      return {
+        id,
+        kind,
+        title,
+        quantity: "voltage",
+        unit: "V",
+        limits: { kind: "range", min: { value: 0 }, max: { value: 0 } },
+        branches: {},
+      };
     case "step":
       return { id, kind, title };
     case "caution":

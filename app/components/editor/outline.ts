@@ -49,7 +49,16 @@ export function outlineRows(tree: Tree): OutlineRow[] {
   const placed = new Set<string>();
   const rows: OutlineRow[] = [];
 
-  function visit(id: string, depth: number, parent: OutlineRow | null, via: string | null, viaKey: string | null, loop: boolean, key: string, detached: boolean) {
+  function visit(
+    id: string,
+    depth: number,
+    parent: OutlineRow | null,
+    via: string | null,
+    viaKey: string | null,
+    loop: boolean,
+    key: string,
+    detached: boolean,
+  ) {
     const node = byId.get(id);
     const base = { key, depth, parent: parent?.key ?? null, via, viaKey, nodeId: id, loop, children: 0, detached };
     if (parent) parent.children++;
@@ -75,7 +84,18 @@ export function outlineRows(tree: Tree): OutlineRow[] {
       if (it.branch) visit(it.branch.to, depth + 1, row, it.label, it.k, Boolean(it.branch.recheck), `${key}/${it.k}`, detached);
       else {
         row.children++;
-        rows.push({ key: `${key}/open:${it.k}`, depth: depth + 1, parent: key, via: it.label, viaKey: it.k, type: "open", nodeId: id, loop: false, children: 0, detached });
+        rows.push({
+          key: `${key}/open:${it.k}`,
+          depth: depth + 1,
+          parent: key,
+          via: it.label,
+          viaKey: it.k,
+          type: "open",
+          nodeId: id,
+          loop: false,
+          children: 0,
+          detached,
+        });
       }
     }
   }

@@ -42,7 +42,11 @@ export function useChecks(treeId: string, tree: Tree, save: Autosave, initial: {
   else if (checks.sameAs !== null) blocked = `Nothing has changed since version ${checks.sameAs} yet.`;
 
   /** Why the checks describe an older save than the screen, if they do. */
-  const stale = !checking ? null : status === "idle" || status === "saving" ? "Checking your latest changes…" : "These checks are for the last save; your latest changes aren't saved.";
+  const stale = !checking
+    ? null
+    : status === "idle" || status === "saving"
+      ? "Checking your latest changes…"
+      : "These checks are for the last save; your latest changes aren't saved.";
 
   return { checks, checking, marks, blocked, stale };
 }

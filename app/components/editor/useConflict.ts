@@ -10,7 +10,11 @@ import type { Autosave } from "./useAutosave";
 
 export function useConflict(treeId: string, state: DraftState, dispatch: Dispatch<DraftAction>, save: Autosave, onReplaced: () => void) {
   const { conflict, status } = save;
-  const theirs = useQuery({ queryKey: ["tree-draft", treeId, conflict?.revision], queryFn: () => fetchDraft(treeId), enabled: status === "conflict" });
+  const theirs = useQuery({
+    queryKey: ["tree-draft", treeId, conflict?.revision],
+    queryFn: () => fetchDraft(treeId),
+    enabled: status === "conflict",
+  });
   return {
     conflict,
     theirs: theirs.data,

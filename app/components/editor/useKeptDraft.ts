@@ -11,7 +11,15 @@ import type { Autosave } from "./useAutosave";
 
 export type KeptDraft = UnsavedDraft<Tree, Layout>;
 
-export function useKeptDraft(treeId: string, versionId: string, loaded: Tree, state: DraftState, save: Autosave, dispatch: Dispatch<DraftAction>, onReplaced: () => void) {
+export function useKeptDraft(
+  treeId: string,
+  versionId: string,
+  loaded: Tree,
+  state: DraftState,
+  save: Autosave,
+  dispatch: Dispatch<DraftAction>,
+  onReplaced: () => void,
+) {
   const key = unsavedKey(treeId);
   const [offer, setOffer] = useState<KeptDraft | null>(null);
   const [checked, setChecked] = useState(false);
@@ -30,7 +38,14 @@ export function useKeptDraft(treeId: string, versionId: string, loaded: Tree, st
   const { unsaved, savedRevision } = save;
   useEffect(() => {
     if (!checked || offer) return;
-    if (unsaved) writeKept(key, { versionId, revision: savedRevision, tree: state.tree, layout: state.layout, at: new Date().toISOString() } satisfies KeptDraft);
+    if (unsaved)
+      writeKept(key, {
+        versionId,
+        revision: savedRevision,
+        tree: state.tree,
+        layout: state.layout,
+        at: new Date().toISOString(),
+      } satisfies KeptDraft);
     else if (state.change > 0) forgetKept(key);
   }, [checked, offer, unsaved, savedRevision, state.change, state.tree, state.layout, key, versionId]);
 

@@ -28,7 +28,15 @@ export function ColumnChart({ data, label }: { data: ColumnDatum[]; label: strin
           ))}
           {data.map((d) =>
             d.value === null ? null : (
-              <Bar key={d.label} x={x(d.label)} y={y(d.value)} width={x.bandwidth()} height={innerH - y(d.value)} rx={2} className="fill-copper" />
+              <Bar
+                key={d.label}
+                x={x(d.label)}
+                y={y(d.value)}
+                width={x.bandwidth()}
+                height={innerH - y(d.value)}
+                rx={2}
+                className="fill-copper"
+              />
             ),
           )}
           <AxisLeft

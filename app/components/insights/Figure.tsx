@@ -15,7 +15,11 @@ export function DataTable({ table }: { table: Table }) {
         <thead className="border-b border-rule bg-paper text-sm">
           <tr>
             {table.columns.map((c) => (
-              <th key={c.key} scope="col" className={`px-3 py-2 font-semibold ${c.kind === "text" || c.kind === "month" ? "" : "text-right"}`}>
+              <th
+                key={c.key}
+                scope="col"
+                className={`px-3 py-2 font-semibold ${c.kind === "text" || c.kind === "month" ? "" : "text-right"}`}
+              >
                 {c.label}
               </th>
             ))}
@@ -30,7 +34,10 @@ export function DataTable({ table }: { table: Table }) {
                     {cellText(c.kind, row[c.key] ?? null)}
                   </th>
                 ) : (
-                  <td key={c.key} className={`px-3 py-2 ${c.kind === "text" || c.kind === "month" ? "" : "text-right tabular-nums whitespace-nowrap"}`}>
+                  <td
+                    key={c.key}
+                    className={`px-3 py-2 ${c.kind === "text" || c.kind === "month" ? "" : "text-right tabular-nums whitespace-nowrap"}`}
+                  >
                     {cellText(c.kind, row[c.key] ?? null)}
                   </td>
                 ),
@@ -52,7 +59,12 @@ export function Figure({ table, query, chart, children }: { table: Table; query:
           {table.title}
         </h3>
         {table.rows.length > 0 && (
-          <a href={csvHref(table, query)} download className="btn-quiet min-h-11 px-3 text-base" aria-label={`Download CSV: ${table.title}`}>
+          <a
+            href={csvHref(table, query)}
+            download
+            className="btn-quiet min-h-11 px-3 text-base"
+            aria-label={`Download CSV: ${table.title}`}
+          >
             Download CSV
           </a>
         )}

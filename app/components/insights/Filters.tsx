@@ -18,7 +18,15 @@ export type FilterChoices = {
 
 const PERIOD_LABEL = { "30": "30 days", "90": "90 days", "365": "365 days", range: "Dates" } as const;
 
-export function Filters({ filters, errors, options }: { filters: OverviewFilters; errors: Partial<Record<FilterKey, string>>; options: FilterChoices }) {
+export function Filters({
+  filters,
+  errors,
+  options,
+}: {
+  filters: OverviewFilters;
+  errors: Partial<Record<FilterKey, string>>;
+  options: FilterChoices;
+}) {
   const submit = useSubmit();
   // Only the filters in use go into the URL (without scripts the browser sends every field; that works too).
   const go = (form: HTMLFormElement) => {
@@ -50,7 +58,10 @@ export function Filters({ filters, errors, options }: { filters: OverviewFilters
         <legend className="field-label">Period</legend>
         <div className="flex flex-wrap gap-2">
           {(["30", "90", "365", "range"] as const).map((p) => (
-            <label key={p} className="flex min-h-12 cursor-pointer items-center gap-2 rounded-lg border border-rule bg-card px-3 has-[:checked]:border-copper has-[:checked]:bg-copper-soft">
+            <label
+              key={p}
+              className="flex min-h-12 cursor-pointer items-center gap-2 rounded-lg border border-rule bg-card px-3 has-[:checked]:border-copper has-[:checked]:bg-copper-soft"
+            >
               <input type="radio" name="period" value={p} defaultChecked={filters.period === p} className="size-5 accent-copper" />
               <span className="font-semibold">{p === "range" ? PERIOD_LABEL[p] : `Last ${PERIOD_LABEL[p]}`}</span>
             </label>
@@ -59,7 +70,9 @@ export function Filters({ filters, errors, options }: { filters: OverviewFilters
         {errors.period && <p className="field-error">{errors.period}</p>}
       </fieldset>
       {/* The two days show once "Dates" is picked (CSS :has, so it works before scripts load too). */}
-      <div className={`${errors.from || errors.to ? "grid" : "hidden"} gap-3 group-has-[input[value=range]:checked]/filters:grid sm:grid-cols-2 lg:grid-cols-4`}>
+      <div
+        className={`${errors.from || errors.to ? "grid" : "hidden"} gap-3 group-has-[input[value=range]:checked]/filters:grid sm:grid-cols-2 lg:grid-cols-4`}
+      >
         <Field label="First day" name="from" type="date" defaultValue={filters.from ?? ""} error={errors.from} />
         <Field label="Last day" name="to" type="date" defaultValue={filters.to ?? ""} error={errors.to} />
       </div>

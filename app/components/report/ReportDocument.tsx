@@ -43,14 +43,15 @@ export const REPORT_CSS = `
 }
 `;
 
-
 export function ReportDocument({ report: r, photoSrc }: { report: ReportData; photoSrc: (id: string) => string }) {
   const tz = r.shop.timeZone;
   return (
     <article className="rp">
       <header className="rp-head">
         <div>
-          <p className="rp-shop">{r.shop.name} · {r.shop.town}</p>
+          <p className="rp-shop">
+            {r.shop.name} · {r.shop.town}
+          </p>
           <h1>Service report {reportNumber(r.number)}</h1>
           <p className="rp-muted">
             {r.call ? `Call ${r.call.number} · ` : ""}
@@ -100,7 +101,9 @@ export function ReportDocument({ report: r, photoSrc }: { report: ReportData; ph
         {r.call && (
           <>
             <dt>Reported</dt>
-            <dd>“{r.call.symptom}” (call opened {atShop(r.call.openedAt, tz)})</dd>
+            <dd>
+              “{r.call.symptom}” (call opened {atShop(r.call.openedAt, tz)})
+            </dd>
           </>
         )}
         <dt>Procedure</dt>
@@ -244,8 +247,9 @@ export function ReportDocument({ report: r, photoSrc }: { report: ReportData; ph
       )}
 
       <p className="rp-foot">
-        {r.shop.footer ?? `${r.shop.name}, ${r.shop.town}.`} Readings were judged against the procedure's limits at the time of the visit, with the
-        meter accuracy shown. Gas and line-voltage work is for qualified technicians; local codes and the equipment maker's instructions govern.
+        {r.shop.footer ?? `${r.shop.name}, ${r.shop.town}.`} Readings were judged against the procedure's limits at the time of the visit,
+        with the meter accuracy shown. Gas and line-voltage work is for qualified technicians; local codes and the equipment maker's
+        instructions govern.
       </p>
     </article>
   );

@@ -4,7 +4,17 @@
 import { useEffect, useRef } from "react";
 import { useAsk } from "~/components/useAsk";
 
-export function SendAgain({ contact, pending, send, className = "" }: { contact: string; pending: boolean; send: () => void; className?: string }) {
+export function SendAgain({
+  contact,
+  pending,
+  send,
+  className = "",
+}: {
+  contact: string;
+  pending: boolean;
+  send: () => void;
+  className?: string;
+}) {
   const { asking, setAsking, asker, answer } = useAsk();
   const wasPending = useRef(false);
   useEffect(() => {

@@ -45,7 +45,19 @@ export function History({ run, onClose }: { run: RunHandle; onClose?: () => void
                 <span>{run.byId.get(s.node ?? "")?.title ?? s.node}</span>
                 <span className="shrink-0 font-normal text-ink-soft">{atShop(s.recordedAt, run.view.timeZone, "time")}</span>
               </p>
-              <p className={practice ? "" : s.verdict === "within" ? "text-within" : s.verdict === "marginal" ? "text-marginal" : s.verdict ? "text-out" : ""}>
+              <p
+                className={
+                  practice
+                    ? ""
+                    : s.verdict === "within"
+                      ? "text-within"
+                      : s.verdict === "marginal"
+                        ? "text-marginal"
+                        : s.verdict
+                          ? "text-out"
+                          : ""
+                }
+              >
                 {stepSummary(s, practice)}
                 {s.pending ? " · saving…" : ""}
                 {s.undone ? " (taken back)" : ""}

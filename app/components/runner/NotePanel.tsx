@@ -18,7 +18,9 @@ export function NotePanel({ run, node, onClose }: { run: RunHandle; node: TreeNo
       }}
     >
       <Labelled label={`Note on “${node.title}”`} labelClassName="text-lg">
-        {(control) => <textarea {...control} value={text} onChange={(e) => setText(e.target.value)} rows={3} className="field-input py-2" autoFocus />}
+        {(control) => (
+          <textarea {...control} value={text} onChange={(e) => setText(e.target.value)} rows={3} className="field-input py-2" autoFocus />
+        )}
       </Labelled>
       <PanelButtons go="Save note" disabled={!text.trim()} onCancel={onClose} />
     </form>

@@ -68,7 +68,9 @@ export function VerdictBox({ verdict, message }: { verdict: VerdictKind; message
     <div className={`rounded-xl border-2 p-3 ${s.box}`}>
       <p className="text-xl font-bold">{s.word}</p>
       <p className="text-lg font-semibold text-ink">{message}</p>
-      {verdict === "marginal" && <p className="mt-1 text-base text-ink">Too close to a limit to call: check the leads and measure again.</p>}
+      {verdict === "marginal" && (
+        <p className="mt-1 text-base text-ink">Too close to a limit to call: check the leads and measure again.</p>
+      )}
     </div>
   );
 }
@@ -149,7 +151,19 @@ export function Suggestions({ list, onPick }: { list: readonly string[] | undefi
  * What it would count as stays visible, so confirming is an informed choice (not in practice, where
  * the trainee makes their own call first).
  */
-export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { confirm: Confirmation; verdict?: Verdict; typed: string; onPick: (s: string) => void; onConfirm: () => void }) {
+export function ConfirmBox({
+  confirm,
+  verdict,
+  typed,
+  onPick,
+  onConfirm,
+}: {
+  confirm: Confirmation;
+  verdict?: Verdict;
+  typed: string;
+  onPick: (s: string) => void;
+  onConfirm: () => void;
+}) {
   return (
     <div className="space-y-3 rounded-xl border-2 border-marginal bg-marginal-soft p-3" role="group" aria-label="Check this reading">
       <p className="text-xl font-bold text-marginal">Check this reading</p>
@@ -164,7 +178,17 @@ export function ConfirmBox({ confirm, verdict, typed, onPick, onConfirm }: { con
 }
 
 /** One radio group (one Tab stop, arrow keys move) drawn as big buttons. */
-export function UnitButtons({ units, value, onChange, label }: { units: readonly string[]; value: string; onChange: (u: string) => void; label: string }) {
+export function UnitButtons({
+  units,
+  value,
+  onChange,
+  label,
+}: {
+  units: readonly string[];
+  value: string;
+  onChange: (u: string) => void;
+  label: string;
+}) {
   const name = useId();
   return (
     <fieldset>
@@ -172,7 +196,14 @@ export function UnitButtons({ units, value, onChange, label }: { units: readonly
       <div className="flex flex-wrap gap-2">
         {units.map((u) => (
           <label key={u} className="relative">
-            <input type="radio" name={name} value={u} checked={u === value} onChange={() => onChange(u)} className="peer absolute inset-0 h-full w-full cursor-pointer opacity-0" />
+            <input
+              type="radio"
+              name={name}
+              value={u}
+              checked={u === value}
+              onChange={() => onChange(u)}
+              className="peer absolute inset-0 h-full w-full cursor-pointer opacity-0"
+            />
             <span className="flex min-h-14 min-w-16 items-center justify-center rounded-lg border-2 border-rule bg-card px-4 text-xl font-bold text-ink peer-checked:border-ink peer-checked:bg-ink peer-checked:text-white peer-focus-visible:outline-3 peer-focus-visible:outline-offset-2 peer-focus-visible:outline-focus">
               {u}
             </span>
@@ -184,20 +215,41 @@ export function UnitButtons({ units, value, onChange, label }: { units: readonly
 }
 
 /** The meters a reading can be judged with, each with its whole name and accuracy (nothing cut off). */
-function MeterChoice({ node, offered, value, onChange }: { node: MeasurementNode; offered: MeterView[]; value: string; onChange: (id: string) => void }) {
+function MeterChoice({
+  node,
+  offered,
+  value,
+  onChange,
+}: {
+  node: MeasurementNode;
+  offered: MeterView[];
+  value: string;
+  onChange: (id: string) => void;
+}) {
   const name = useId();
   const options = [
     node.meter
       ? { id: "", title: "As the procedure assumes", detail: `Accuracy ${describeMeter(node.meter, node.unit)}` }
       : { id: "", title: "Not listed", detail: "The reading is judged as read." },
-    ...offered.map((m) => ({ id: m.id, title: m.name, detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}, range up to ${m.rangeMax} ${m.unit}` })),
+    ...offered.map((m) => ({
+      id: m.id,
+      title: m.name,
+      detail: `Accuracy ${describeMeter(meterAccuracy(m), m.unit)}, range up to ${m.rangeMax} ${m.unit}`,
+    })),
   ];
   return (
     <fieldset className="space-y-2">
       <legend className="field-label">Meter</legend>
       {options.map((o) => (
         <label key={o.id || "own"} className="relative block">
-          <input type="radio" name={name} value={o.id} checked={o.id === value} onChange={() => onChange(o.id)} className="peer absolute left-4 top-4 size-6 cursor-pointer accent-copper" />
+          <input
+            type="radio"
+            name={name}
+            value={o.id}
+            checked={o.id === value}
+            onChange={() => onChange(o.id)}
+            className="peer absolute left-4 top-4 size-6 cursor-pointer accent-copper"
+          />
           <span className="block min-h-14 cursor-pointer rounded-lg border-2 border-rule bg-card py-2 pl-14 pr-3 peer-checked:border-ink peer-focus-visible:outline-3 peer-focus-visible:outline-offset-2 peer-focus-visible:outline-focus">
             <span className="block text-lg font-semibold leading-snug">{o.title}</span>
             <span className="block text-base text-ink-soft">{o.detail}</span>
@@ -236,7 +288,10 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
   const [meterId, setMeterId] = useState(() => defaultMeter(run, node, offered));
   const chosen = offered.find((m) => m.id === meterId);
   const meter = chosen ? meterAccuracy(chosen) : node.meter;
-  const variables = useMemo(() => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])), [run.state.variables]);
+  const variables = useMemo(
+    () => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])),
+    [run.state.variables],
+  );
   const limits = computeLimits(node, variables);
   const reading = composeReading(typed.text, typed.unit);
   // The meter's range goes with its accuracy: a reading above it is refused, "OL" judged against it.
@@ -249,7 +304,13 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
     if (!reading) return refuse(setError, "Type the reading first.");
     // Asked, not refused: the question is already beside the field; say it aloud again.
     if (confirm && !confirmed) return announce(confirm.message, "assertive");
-    refuse(setError, run.submit(confirmed ? { type: "reading", node: node.id, reading, confirmed: true } : { type: "reading", node: node.id, reading }, chosen?.id ?? null));
+    refuse(
+      setError,
+      run.submit(
+        confirmed ? { type: "reading", node: node.id, reading, confirmed: true } : { type: "reading", node: node.id, reading },
+        chosen?.id ?? null,
+      ),
+    );
   }
 
   return (
@@ -260,7 +321,13 @@ export function MeasurementInput({ node, run }: { node: MeasurementNode; run: Ru
         {limits.ok && !limits.limits.fixed && <p className="text-base text-ink-soft">{limits.limits.derivation}</p>}
         {!limits.ok && <p className="field-error">{limits.message}</p>}
       </div>
-      <ValueField label="Reading" unitLabel="Unit of the reading" value={typed} problem={problem} suggestions={preview && !preview.ok ? preview.suggestions : undefined}>
+      <ValueField
+        label="Reading"
+        unitLabel="Unit of the reading"
+        value={typed}
+        problem={problem}
+        suggestions={preview && !preview.ok ? preview.suggestions : undefined}
+      >
         {preview?.ok &&
           (confirm ? (
             <ConfirmBox confirm={confirm} verdict={preview.verdict} typed={reading} onPick={typed.fill} onConfirm={() => save(true)} />
@@ -304,7 +371,13 @@ export function NameplateInput({ node, run }: { node: NameplateNode; run: RunHan
           </div>
         </div>
       )}
-      <ValueField label="Rated value" unitLabel="Unit of the rating" value={typed} problem={problem} suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}>
+      <ValueField
+        label="Rated value"
+        unitLabel="Unit of the rating"
+        value={typed}
+        problem={problem}
+        suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}
+      >
         {parsed?.ok && (
           <p className="text-lg">
             Understood as <strong>{ratingEcho(parsed, node.unit)}</strong>

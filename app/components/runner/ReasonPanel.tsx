@@ -4,7 +4,17 @@ import { Labelled } from "~/components/Field";
 import { PanelButtons } from "./PanelButtons";
 import type { RunHandle } from "./useRun";
 
-export function ReasonPanel({ run, kind, preset, onClose }: { run: RunHandle; kind: "escalate" | "abandon"; preset: string; onClose: () => void }) {
+export function ReasonPanel({
+  run,
+  kind,
+  preset,
+  onClose,
+}: {
+  run: RunHandle;
+  kind: "escalate" | "abandon";
+  preset: string;
+  onClose: () => void;
+}) {
   const [reason, setReason] = useState(preset);
   const [error, setError] = useState<string | null>(null);
   const words =
@@ -22,7 +32,16 @@ export function ReasonPanel({ run, kind, preset, onClose }: { run: RunHandle; ki
     >
       <h2 className="text-xl font-bold">{words.title}</h2>
       <Labelled label={words.label} error={error}>
-        {(control) => <textarea {...control} value={reason} onChange={(e) => (setReason(e.target.value), setError(null))} rows={3} className="field-input py-2" autoFocus />}
+        {(control) => (
+          <textarea
+            {...control}
+            value={reason}
+            onChange={(e) => (setReason(e.target.value), setError(null))}
+            rows={3}
+            className="field-input py-2"
+            autoFocus
+          />
+        )}
       </Labelled>
       <PanelButtons go={words.go} danger={kind === "abandon"} disabled={run.statusPending} onCancel={onClose} />
     </form>

@@ -36,7 +36,17 @@ function SaveState({ run }: { run: RunHandle }) {
   );
 }
 
-export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHandle; walking: boolean; historyOpen: boolean; onHistory: () => void }) {
+export function RunHeader({
+  run,
+  walking,
+  historyOpen,
+  onHistory,
+}: {
+  run: RunHandle;
+  walking: boolean;
+  historyOpen: boolean;
+  onHistory: () => void;
+}) {
   const { view } = run;
   const done = stepsDone(view.steps);
   const back = view.run.practice ? "/practice" : view.call ? `/calls/${view.call.id}` : "/";
@@ -47,7 +57,13 @@ export function RunHeader({ run, walking, historyOpen, onHistory }: { run: RunHa
           ← {view.run.practice ? "Practice" : view.call ? `Call ${view.call.number}` : "Back"}
         </a>
         {walking && (
-          <button type="button" onClick={onHistory} className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark" aria-expanded={historyOpen} title="Show the steps done">
+          <button
+            type="button"
+            onClick={onHistory}
+            className="min-h-12 rounded-lg px-2 text-base font-bold text-copper-dark"
+            aria-expanded={historyOpen}
+            title="Show the steps done"
+          >
             Step {done + 1} · <span className="underline">{done} done</span>
           </button>
         )}

@@ -41,7 +41,13 @@ function screenFor(run: RunHandle, setPanel: (p: Panel) => void): ReactNode {
   if (view.run.practice && state.finished) return <PracticeEndScreen run={run} />;
   if (state.finished?.kind === "outcome" && endNode?.kind === "outcome") return <OutcomeScreen node={endNode as OutcomeNode} run={run} />;
   if (state.finished)
-    return <HandOverScreen run={run} reason={state.finished.kind === "escalate" || state.finished.kind === "recheck-limit" ? state.finished.reason : ""} onEscalate={() => setPanel("escalate")} />;
+    return (
+      <HandOverScreen
+        run={run}
+        reason={state.finished.kind === "escalate" || state.finished.kind === "recheck-limit" ? state.finished.reason : ""}
+        onEscalate={() => setPanel("escalate")}
+      />
+    );
   if (current) return <StepScreen key={`${current.id}:${view.steps.length}`} node={current} run={run} />;
   return <Closed title="This procedure cannot run" detail={state.error ?? "The tree has no step to start from."} />;
 }
@@ -88,7 +94,12 @@ export function Runner({ initial, fromPhone = false }: { initial: RunView; fromP
 
   return (
     <div className="flex min-h-dvh flex-col bg-paper">
-      <RunHeader run={run} walking={walking && Boolean(current)} historyOpen={panel === "history"} onHistory={() => setPanel(panel === "history" ? null : "history")} />
+      <RunHeader
+        run={run}
+        walking={walking && Boolean(current)}
+        historyOpen={panel === "history"}
+        onHistory={() => setPanel(panel === "history" ? null : "history")}
+      />
       <main className="mx-auto w-full max-w-xl flex-1 space-y-4 px-4 pb-44 pt-3">
         <PhoneStatus run={run} />
         {run.error && (

@@ -21,7 +21,16 @@ export function itemLabel(item: OutboxItem, nodes: ReadonlyMap<string, TreeNode>
     case "step": {
       const e = item.entry;
       if (e.type === "undo") return "Undo of the step before";
-      const what = e.type === "reading" ? e.reading : e.type === "nameplate" ? e.value : e.type === "answer" ? e.answer : e.type === "acknowledge" ? "acknowledged" : "done";
+      const what =
+        e.type === "reading"
+          ? e.reading
+          : e.type === "nameplate"
+            ? e.value
+            : e.type === "answer"
+              ? e.answer
+              : e.type === "acknowledge"
+                ? "acknowledged"
+                : "done";
       return `${title(e.node)}: ${what}`;
     }
   }
@@ -49,7 +58,11 @@ export function RunnerError({ runId, title, detail, again }: { runId: string | u
               <li key={u.n}>{itemLabel(u, nodes)}</li>
             ))}
           </ol>
-          <p>{again ? `Open the run again: Cluepath sends ${kept.length === 1 ? "it" : "them"}, in order, as soon as it can.` : "They stay on this phone; a lead can help if the run can't be opened."}</p>
+          <p>
+            {again
+              ? `Open the run again: Cluepath sends ${kept.length === 1 ? "it" : "them"}, in order, as soon as it can.`
+              : "They stay on this phone; a lead can help if the run can't be opened."}
+          </p>
         </section>
       )}
       {ready && kept.length === 0 && <p className="text-ink-soft">Everything you entered in this run had reached Cluepath.</p>}

@@ -97,7 +97,11 @@ function InstructionScreen({ node, run }: { node: StepNode; run: RunHandle }) {
   return (
     <div className="space-y-4">
       <Markdown blocks={run.view.bodies[node.id]} className="text-lg" />
-      <button type="button" className="btn-primary min-h-16 w-full text-xl" onClick={() => refuse(run.submit({ type: "continue", node: node.id }))}>
+      <button
+        type="button"
+        className="btn-primary min-h-16 w-full text-xl"
+        onClick={() => refuse(run.submit({ type: "continue", node: node.id }))}
+      >
         Done — next step
       </button>
       {refusal}

@@ -18,10 +18,18 @@ export function StepExtras({ run, node }: { run: RunHandle; node: TreeNode }) {
           {photos.map((p) => (
             <a key={p.id} href={p.url} target="_blank" rel="noreferrer" className="relative block">
               <img src={p.url} alt="Photo on this step" className="h-24 w-24 rounded-lg border border-rule object-cover" />
-              {p.pending && <span className="absolute inset-x-0 bottom-0 rounded-b-lg bg-ink/75 px-1 text-center text-sm font-semibold text-card">on this phone</span>}
+              {p.pending && (
+                <span className="absolute inset-x-0 bottom-0 rounded-b-lg bg-ink/75 px-1 text-center text-sm font-semibold text-card">
+                  on this phone
+                </span>
+              )}
             </a>
           ))}
-          {run.photoUploading && <span className="flex h-24 w-24 items-center justify-center rounded-lg border-2 border-dashed border-rule text-base text-ink-soft">Saving photo…</span>}
+          {run.photoUploading && (
+            <span className="flex h-24 w-24 items-center justify-center rounded-lg border-2 border-dashed border-rule text-base text-ink-soft">
+              Saving photo…
+            </span>
+          )}
         </div>
       )}
     </section>

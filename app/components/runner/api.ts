@@ -19,7 +19,13 @@ async function send<T>(url: string, init: RequestInit): Promise<T> {
     throw new ApiError("No connection. Cluepath keeps trying.", 0, true);
   }
   const body = (await res.json().catch(() => ({}))) as { error?: string; code?: string };
-  if (!res.ok) throw new ApiError(body.error ?? `The server answered ${res.status}.`, res.status, res.status >= 500 || res.status === 408 || res.status === 429, body.code);
+  if (!res.ok)
+    throw new ApiError(
+      body.error ?? `The server answered ${res.status}.`,
+      res.status,
+      res.status >= 500 || res.status === 408 || res.status === 429,
+      body.code,
+    );
   return body as T;
 }
 
@@ -28,7 +34,11 @@ export function getJson<T>(url: string): Promise<T> {
 }
 
 export function postJson<T>(url: string, body: unknown): Promise<T> {
-  return send<T>(url, { method: "POST", headers: { "content-type": "application/json", accept: "application/json" }, body: JSON.stringify(body) });
+  return send<T>(url, {
+    method: "POST",
+    headers: { "content-type": "application/json", accept: "application/json" },
+    body: JSON.stringify(body),
+  });
 }
 
 export function postForm<T>(url: string, form: FormData): Promise<T> {

@@ -49,7 +49,10 @@ export function useRun(initial: RunView, fromPhone = false) {
 
   // A practice run follows the trainee's call on each reading (app/engine/training/practice.ts).
   const practice = view.run.practice;
-  const state = useMemo(() => (practice ? practiceReplay(view.tree, logOf(view.steps) as PracticeEntry[]) : replay(view.tree, logOf(view.steps))), [practice, view.tree, view.steps]);
+  const state = useMemo(
+    () => (practice ? practiceReplay(view.tree, logOf(view.steps) as PracticeEntry[]) : replay(view.tree, logOf(view.steps))),
+    [practice, view.tree, view.steps],
+  );
   const current: TreeNode | undefined = useMemo(() => view.tree.nodes.find((n) => n.id === state.current), [view.tree, state.current]);
   const byId = useMemo(() => new Map(view.tree.nodes.map((n) => [n.id, n])), [view.tree]);
 
@@ -68,7 +71,8 @@ export function useRun(initial: RunView, fromPhone = false) {
 
   /** Server-only writes wait until the phone has sent what it holds for the run, so they land after it. */
   async function afterQueue<T>(send: () => Promise<T>): Promise<T> {
-    if (phone && !(await phone.sent(id))) throw new ApiError("There is no signal. Steps are kept on this phone; do this when there is signal.", 0, false);
+    if (phone && !(await phone.sent(id)))
+      throw new ApiError("There is no signal. Steps are kept on this phone; do this when there is signal.", 0, false);
     return send();
   }
   const refresh = () => phone?.refreshRun(id);
@@ -112,8 +116,18 @@ export function useRun(initial: RunView, fromPhone = false) {
     current,
     byId,
     submit,
-    addNote: (node: string, text: string) => phone?.enqueue({ kind: "note", runId: id, key: uuid(), at: new Date().toISOString(), node, text }),
-    addPhoto: (node: string, file: File) => phone?.enqueue({ kind: "photo", runId: id, key: uuid(), at: new Date().toISOString(), node, photo: file, fileName: file.name || "photo.jpg" }),
+    addNote: (node: string, text: string) =>
+      phone?.enqueue({ kind: "note", runId: id, key: uuid(), at: new Date().toISOString(), node, text }),
+    addPhoto: (node: string, file: File) =>
+      phone?.enqueue({
+        kind: "photo",
+        runId: id,
+        key: uuid(),
+        at: new Date().toISOString(),
+        node,
+        photo: file,
+        fileName: file.name || "photo.jpg",
+      }),
     /** Photos show from the phone's copy at once; nothing to wait for on screen. */
     photoUploading: false,
     setStatus: status.mutateAsync,
@@ -127,7 +141,15 @@ export function useRun(initial: RunView, fromPhone = false) {
     /** Entries kept on the phone until there is signal. */
     waiting: offline ? queued.length : 0,
     /** What is only on this phone for this run, and what the server refused; see offline/PhoneStatus. */
-    phone: { items, queued, offline, sending: snap.sending, needsSignIn: snap.needsSignIn, retry: () => phone?.retry(id), discard: () => phone?.discard(id) },
+    phone: {
+      items,
+      queued,
+      offline,
+      sending: snap.sending,
+      needsSignIn: snap.needsSignIn,
+      retry: () => phone?.retry(id),
+      discard: () => phone?.discard(id),
+    },
     error,
     setError,
   };

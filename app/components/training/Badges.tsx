@@ -33,5 +33,9 @@ export function StateBadge({ state }: { state: AssignmentState }) {
 }
 
 export function CauseMark({ right }: { right: boolean }) {
-  return right ? <span className={`${pill} bg-within-soft text-within`}>✓ Right cause</span> : <span className={`${pill} bg-out-soft text-out`}>✗ Wrong cause</span>;
+  return right ? (
+    <span className={`${pill} bg-within-soft text-within`}>✓ Right cause</span>
+  ) : (
+    <span className={`${pill} bg-out-soft text-out`}>✗ Wrong cause</span>
+  );
 }

@@ -17,14 +17,31 @@ export function Section({ title, children }: { title: ReactNode; children: React
 export function Notice({ sent }: { sent: { ok: boolean; message: string } | undefined }) {
   if (!sent) return null;
   return (
-    <p role={sent.ok ? "status" : "alert"} className={`rounded-xl p-3 font-semibold ${sent.ok ? "bg-within-soft text-within" : "bg-out-soft text-out"}`}>
+    <p
+      role={sent.ok ? "status" : "alert"}
+      className={`rounded-xl p-3 font-semibold ${sent.ok ? "bg-within-soft text-within" : "bg-out-soft text-out"}`}
+    >
       {sent.message}
     </p>
   );
 }
 
 /** A table in a card, or the sentence that says why there is none. */
-export function CardTable({ empty, rows, minWidth = "min-w-[40rem]", head, children, caption }: { empty: string; rows: number; minWidth?: string; head: string[]; children: ReactNode; caption?: ReactNode }) {
+export function CardTable({
+  empty,
+  rows,
+  minWidth = "min-w-[40rem]",
+  head,
+  children,
+  caption,
+}: {
+  empty: string;
+  rows: number;
+  minWidth?: string;
+  head: string[];
+  children: ReactNode;
+  caption?: ReactNode;
+}) {
   if (rows === 0) return <p className="card text-ink-soft">{empty}</p>;
   return (
     // Focusable, so a keyboard can scroll a table wider than a phone (WCAG 2.1.1).

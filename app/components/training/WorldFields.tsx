@@ -19,19 +19,39 @@ function limitsText(node: MeasurementNode): string {
 
 const KIND_WORD = { question: "Question", measurement: "Reading", nameplate: "Rating" } as const;
 
-function StepFields({ node, values, set, errors }: { node: TreeNode; values: Record<string, string>; set: (k: string, v: string) => void; errors: Record<string, string | undefined> }) {
+function StepFields({
+  node,
+  values,
+  set,
+  errors,
+}: {
+  node: TreeNode;
+  values: Record<string, string>;
+  set: (k: string, v: string) => void;
+  errors: Record<string, string | undefined>;
+}) {
   const field = (part: "observation" | "answer" | "shows" | "label") => worldField(node.id, part);
-  const bind = (part: "observation" | "answer" | "shows" | "label") => ({ name: field(part), value: values[field(part)] ?? "", onChange: (e: { target: { value: string } }) => set(field(part), e.target.value) });
+  const bind = (part: "observation" | "answer" | "shows" | "label") => ({
+    name: field(part),
+    value: values[field(part)] ?? "",
+    onChange: (e: { target: { value: string } }) => set(field(part), e.target.value),
+  });
   return (
     <fieldset className="card space-y-3">
       <legend className="sr-only">{`${KIND_WORD[node.kind as keyof typeof KIND_WORD]}: ${node.title}`}</legend>
       <p aria-hidden className="text-base font-bold">
-        <span className="mr-2 text-sm font-semibold uppercase tracking-wide text-copper-dark">{KIND_WORD[node.kind as keyof typeof KIND_WORD]}</span>
+        <span className="mr-2 text-sm font-semibold uppercase tracking-wide text-copper-dark">
+          {KIND_WORD[node.kind as keyof typeof KIND_WORD]}
+        </span>
         {node.title}
       </p>
       {node.kind === "question" && (
         <div className="grid gap-3 md:grid-cols-[2fr_1fr]">
-          <Labelled label="What the trainee observes" hint="What they see, hear or feel — not the answer's words." error={errors[field("observation")]}>
+          <Labelled
+            label="What the trainee observes"
+            hint="What they see, hear or feel — not the answer's words."
+            error={errors[field("observation")]}
+          >
             {(c) => <textarea {...c} {...bind("observation")} rows={2} className="field-input py-2" />}
           </Labelled>
           <Labelled label="Which answer that means" error={errors[field("answer")]}>
@@ -49,7 +69,11 @@ function StepFields({ node, values, set, errors }: { node: TreeNode; values: Rec
         </div>
       )}
       {node.kind === "measurement" && (
-        <Labelled label="The meter shows" hint={`The value with its unit, in ${node.unit}. The step's limits: ${limitsText(node)}.`} error={errors[field("shows")]}>
+        <Labelled
+          label="The meter shows"
+          hint={`The value with its unit, in ${node.unit}. The step's limits: ${limitsText(node)}.`}
+          error={errors[field("shows")]}
+        >
           {(c) => <input {...c} {...bind("shows")} className="field-input max-w-xs" autoComplete="off" />}
         </Labelled>
       )}
@@ -62,7 +86,17 @@ function StepFields({ node, values, set, errors }: { node: TreeNode; values: Rec
   );
 }
 
-export function WorldFields({ tree, initial, errors, faultError }: { tree: Tree; initial: Record<string, string>; errors: Record<string, string | undefined>; faultError?: string }) {
+export function WorldFields({
+  tree,
+  initial,
+  errors,
+  faultError,
+}: {
+  tree: Tree;
+  initial: Record<string, string>;
+  errors: Record<string, string | undefined>;
+  faultError?: string;
+}) {
   const [values, setValues] = useState(initial);
   const set = (k: string, v: string) => setValues((old) => ({ ...old, [k]: v }));
   const fault = values.fault ?? "";
@@ -91,7 +125,9 @@ export function WorldFields({ tree, initial, errors, faultError }: { tree: Tree;
           {fault ? "On the way to the hidden fault" : "What the trainee finds at each step"}
         </h2>
         <p className="text-ink-soft">
-          {fault ? "Script each step the walk to the fault meets. Cautions and instructions need nothing: the trainee acknowledges them as on site." : "Choose the hidden fault first: the steps on the way to it come to the top."}
+          {fault
+            ? "Script each step the walk to the fault meets. Cautions and instructions need nothing: the trainee acknowledges them as on site."
+            : "Choose the hidden fault first: the steps on the way to it come to the top."}
         </p>
         {onWay.map((n) => (
           <StepFields key={n.id} node={n} values={values} set={set} errors={errors} />
@@ -99,8 +135,12 @@ export function WorldFields({ tree, initial, errors, faultError }: { tree: Tree;
       </section>
       {offWay.length > 0 && (
         <details className="space-y-3">
-          <summary className="min-h-12 cursor-pointer py-2 text-lg font-bold">Steps off the way to the fault ({offWay.length}) — optional</summary>
-          <p className="text-ink-soft">What a trainee who takes a wrong turn finds. Left blank, the phone says the practice gives nothing there.</p>
+          <summary className="min-h-12 cursor-pointer py-2 text-lg font-bold">
+            Steps off the way to the fault ({offWay.length}) — optional
+          </summary>
+          <p className="text-ink-soft">
+            What a trainee who takes a wrong turn finds. Left blank, the phone says the practice gives nothing there.
+          </p>
           {offWay.map((n) => (
             <StepFields key={n.id} node={n} values={values} set={set} errors={errors} />
           ))}

@@ -56,9 +56,7 @@ export interface SourceMap {
   nodes: NodeLines[];
 }
 
-export type ParseResult =
-  | { ok: true; tree: Tree; map: SourceMap }
-  | { ok: false; errors: ParseError[]; map: SourceMap };
+export type ParseResult = { ok: true; tree: Tree; map: SourceMap } | { ok: false; errors: ParseError[]; map: SourceMap };
 
 /** "line 14:3: expected …" */
 export function formatParseError(e: ParseError): string {
@@ -140,7 +138,11 @@ class Parser {
       items.push({ text: content, line: j + 1, col: l.indexOf(content) + 1 });
     }
     if (items.length && j < end && this.lines[j]!.trim() !== "") {
-      this.err(j + 1, 1, `expected a blank line after the fields (each field is one ‘- name: value’ line), got ‘${clip(this.lines[j]!.trim())}’`);
+      this.err(
+        j + 1,
+        1,
+        `expected a blank line after the fields (each field is one ‘- name: value’ line), got ‘${clip(this.lines[j]!.trim())}’`,
+      );
       while (j < end && this.lines[j]!.trim() !== "") j++;
     }
     const raw = this.lines.slice(j, end).join("\n");
@@ -156,7 +158,12 @@ class Parser {
     kindWord: string,
     items: Item[],
     lines: Record<string, number>,
-  ): { fields: Map<string, Item & { value: string; valueCol: number }>; parts: Item[]; branches: Map<string, { branch: Branch; item: Item }>; answers: { label: string; branch: Branch; item: Item }[] } {
+  ): {
+    fields: Map<string, Item & { value: string; valueCol: number }>;
+    parts: Item[];
+    branches: Map<string, { branch: Branch; item: Item }>;
+    answers: { label: string; branch: Branch; item: Item }[];
+  } {
     const fields = new Map<string, Item & { value: string; valueCol: number }>();
     const parts: Item[] = [];
     const branches = new Map<string, { branch: Branch; item: Item }>();
@@ -251,14 +258,17 @@ class Parser {
     return f;
   };
 
-  enumField<T extends string>(f: { value: string; line: number; valueCol: number } | undefined, allowed: readonly T[], what: string): T | undefined {
+  enumField<T extends string>(
+    f: { value: string; line: number; valueCol: number } | undefined,
+    allowed: readonly T[],
+    what: string,
+  ): T | undefined {
     if (!f) return undefined;
     if ((allowed as readonly string[]).includes(f.value)) return f.value as T;
     this.err(f.line, f.valueCol, `expected ${what} (${list(allowed)}), got ‘${clip(f.value)}’`);
     return undefined;
   }
 }
-
 
 const HEADING_LINE = /^(#{1,2})(?:[ \t]|$)/;
 const FENCE = /^ {0,3}(`{3,}|~{3,})(.*)$/;
@@ -335,7 +345,11 @@ function findHeadings(p: Parser): { line: number; depth: 1 | 2 }[] {
     for (let k = hi; k < hj; k++) {
       const h = heads[k]!;
       if (!seen.has(h.line)) {
-        p.err(h.line, 1, "Markdown reads this heading as part of the block above it (an HTML block left open?): add a blank line before it or close the block");
+        p.err(
+          h.line,
+          1,
+          "Markdown reads this heading as part of the block above it (an HTML block left open?): add a blank line before it or close the block",
+        );
       }
     }
     from = to;
@@ -437,13 +451,21 @@ export function parseTree(source: string): ParseResult {
           const v = need(fields, line, kind, id, "variable", "the name later formulas use, like rated_uf");
           if (v) node.variable = v.value;
         }
-        const unit = need(fields, line, kind, id, "unit", kind === "measurement" ? "the unit readings are shown in, like V or µF" : "the unit on the label, like µF or W");
+        const unit = need(
+          fields,
+          line,
+          kind,
+          id,
+          "unit",
+          kind === "measurement" ? "the unit readings are shown in, like V or µF" : "the unit on the label, like µF or W",
+        );
         const q = fields.get("quantity");
         let quantity: Quantity | undefined;
         if (q) quantity = p.enumField<Quantity>(q, QUANTITIES, "a quantity");
         else if (unit) {
           quantity = unitQuantity(unit.value) ?? undefined;
-          if (!quantity) p.err(unit.line, unit.valueCol, `can't tell what ‘${clip(unit.value)}’ measures: add ‘- quantity: …’ (${list(QUANTITIES)})`);
+          if (!quantity)
+            p.err(unit.line, unit.valueCol, `can't tell what ‘${clip(unit.value)}’ measures: add ‘- quantity: …’ (${list(QUANTITIES)})`);
         }
         if (quantity) node.quantity = quantity;
         if (unit) node.unit = unit.value;

@@ -114,7 +114,18 @@ class Cursor {
 }
 
 function isUnitToken(s: string): boolean {
-  return !/^[+\-−]/.test(s) && s !== "to" && s !== "letter" && s !== "/" && s !== "%" && s !== "±" && s !== "+/-" && s !== "+-" && !/^[+\-−]?[\d.]/.test(s) && !s.startsWith("`");
+  return (
+    !/^[+\-−]/.test(s) &&
+    s !== "to" &&
+    s !== "letter" &&
+    s !== "/" &&
+    s !== "%" &&
+    s !== "±" &&
+    s !== "+/-" &&
+    s !== "+-" &&
+    !/^[+\-−]?[\d.]/.test(s) &&
+    !s.startsWith("`")
+  );
 }
 
 function readValue(c: Cursor): LimitValue {
@@ -181,7 +192,10 @@ export function parseLimits(text: string): Limits {
     } else if (op.s === "letter") {
       const l = c.next();
       if (!l || !(TOLERANCE_LETTERS as readonly string[]).includes(l.s)) {
-        throw new SyntaxError_(`expected a tolerance letter (${TOLERANCE_LETTERS.join(", ")})${l ? `, got ‘${l.s}’` : ""}`, l?.at ?? text.length);
+        throw new SyntaxError_(
+          `expected a tolerance letter (${TOLERANCE_LETTERS.join(", ")})${l ? `, got ‘${l.s}’` : ""}`,
+          l?.at ?? text.length,
+        );
       }
       limits = { kind: "nominal", nominal: v, tolerance: { kind: "letter", letter: l.s as ToleranceLetter } };
     } else if (op.s === "±" || op.s === "+/-" || op.s === "+-") {
@@ -203,7 +217,8 @@ export function parseLimits(text: string): Limits {
       c.i--;
       const plus = readSide(c, "+");
       const slash = c.next();
-      if (!slash || slash.s !== "/") throw new SyntaxError_(`expected ‘/’ and the minus side, like ‘+5 % / -10 %’`, slash?.at ?? text.length);
+      if (!slash || slash.s !== "/")
+        throw new SyntaxError_(`expected ‘/’ and the minus side, like ‘+5 % / -10 %’`, slash?.at ?? text.length);
       const minus = readSide(c, "-");
       if ((plus.unit === "%") !== (minus.unit === "%") || (plus.unit !== "%" && plus.unit !== minus.unit)) {
         throw new SyntaxError_(`expected both sides in the same unit, like ‘+5 % / -10 %’`, minus.at);
@@ -236,7 +251,11 @@ export function formatMeter(m: Meter): string {
 
 const N = String.raw`[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?`;
 const METER = new RegExp(
-  String.raw`^(?:±|\+/-)\s*\(\s*(${N})\s*%\s*\+\s*(${N})\s*(?:counts?|digits?|dgts?|d)\s*\)\s*(?:at|@)\s*(${N})(?:\s*([^\s\d` + "`" + String.raw`][^\s` + "`" + String.raw`]*))?\s*$`,
+  String.raw`^(?:±|\+/-)\s*\(\s*(${N})\s*%\s*\+\s*(${N})\s*(?:counts?|digits?|dgts?|d)\s*\)\s*(?:at|@)\s*(${N})(?:\s*([^\s\d` +
+    "`" +
+    String.raw`][^\s` +
+    "`" +
+    String.raw`]*))?\s*$`,
 );
 
 export function parseMeter(text: string): Meter {

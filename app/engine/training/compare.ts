@@ -82,7 +82,16 @@ export interface UndoEntry {
 export interface PracticeReview {
   rows: ReviewRow[];
   /** The first step where the trainee's branch differs from the reference's. */
-  firstWrongTurn: { row: number; node: string; index: number; referenceIndex: number; trainee: string; reference: string; traineeTo: string | null; referenceTo: string | null } | null;
+  firstWrongTurn: {
+    row: number;
+    node: string;
+    index: number;
+    referenceIndex: number;
+    trainee: string;
+    reference: string;
+    traineeTo: string | null;
+    referenceTo: string | null;
+  } | null;
   misjudged: MisjudgedReading[];
   misread: { index: number; node: string; answer: string; scripted: string; undone: boolean }[];
   undos: UndoEntry[];
@@ -130,7 +139,8 @@ function lcs(a: readonly string[], b: readonly string[]): [number, number][] {
   const n = a.length;
   const m = b.length;
   const t: number[][] = Array.from({ length: n + 1 }, () => new Array<number>(m + 1).fill(0));
-  for (let i = n - 1; i >= 0; i--) for (let j = m - 1; j >= 0; j--) t[i]![j] = a[i] === b[j] ? t[i + 1]![j + 1]! + 1 : Math.max(t[i + 1]![j]!, t[i]![j + 1]!);
+  for (let i = n - 1; i >= 0; i--)
+    for (let j = m - 1; j >= 0; j--) t[i]![j] = a[i] === b[j] ? t[i + 1]![j + 1]! + 1 : Math.max(t[i + 1]![j]!, t[i]![j + 1]!);
   const pairs: [number, number][] = [];
   let i = 0;
   let j = 0;
@@ -163,8 +173,20 @@ export function reviewPractice(tree: Tree, script: Script, trainee: TraineeRun):
     const world = script.world[s.node];
     if (step.call && step.verdict && step.call !== step.verdict.verdict) step.misjudged = true;
     if (world?.kind === "question" && step.answer !== undefined && step.answer !== world.answer) step.misread = true;
-    if (world?.kind === "measurement" && node?.kind === "measurement" && step.verdict && !sameValue(step.verdict.reading.si, world.shows, node.quantity, node.unit)) step.mistyped = true;
-    if (world?.kind === "nameplate" && node?.kind === "nameplate" && s.nameplate && !sameValue(s.nameplate.si, world.label, node.quantity, node.unit)) step.mistyped = true;
+    if (
+      world?.kind === "measurement" &&
+      node?.kind === "measurement" &&
+      step.verdict &&
+      !sameValue(step.verdict.reading.si, world.shows, node.quantity, node.unit)
+    )
+      step.mistyped = true;
+    if (
+      world?.kind === "nameplate" &&
+      node?.kind === "nameplate" &&
+      s.nameplate &&
+      !sameValue(s.nameplate.si, world.label, node.quantity, node.unit)
+    )
+      step.mistyped = true;
     return step;
   };
 
@@ -175,20 +197,36 @@ export function reviewPractice(tree: Tree, script: Script, trainee: TraineeRun):
   const pair = (r: ReviewStep, t: ReviewStep & StepFlags) => {
     const kind: RowKind = r.branch === t.branch ? "same" : "turn";
     if (kind === "turn" && !firstWrongTurn)
-      firstWrongTurn = { row: rows.length, node: t.node, index: t.index, referenceIndex: r.index, trainee: t.branch, reference: r.branch, traineeTo: t.to, referenceTo: r.to };
+      firstWrongTurn = {
+        row: rows.length,
+        node: t.node,
+        index: t.index,
+        referenceIndex: r.index,
+        trainee: t.branch,
+        reference: r.branch,
+        traineeTo: t.to,
+        referenceTo: r.to,
+      };
     rows.push({ kind, node: t.node, trainee: t, reference: r });
   };
 
   // The shared start: the same node and the same branch, step for step.
   let k = 0;
-  while (k < ref.length && k < mine.length && ref[k]!.node === mine[k]!.node && ref[k]!.branch === mine[k]!.branch) pair(ref[k]!, mine[k++]!);
+  while (k < ref.length && k < mine.length && ref[k]!.node === mine[k]!.node && ref[k]!.branch === mine[k]!.branch)
+    pair(ref[k]!, mine[k++]!);
   if (k < ref.length && k < mine.length && ref[k]!.node === mine[k]!.node) pair(ref[k]!, mine[k++]!);
   // After the first wrong turn: aligned by node, unmatched steps on their own rows (the trainee's first).
   const restRef = ref.slice(k);
   const restMine = mine.slice(k);
   let i = 0;
   let j = 0;
-  for (const [a, b] of [...lcs(restRef.map((s) => s.node), restMine.map((s) => s.node)), [restRef.length, restMine.length] as [number, number]]) {
+  for (const [a, b] of [
+    ...lcs(
+      restRef.map((s) => s.node),
+      restMine.map((s) => s.node),
+    ),
+    [restRef.length, restMine.length] as [number, number],
+  ]) {
     for (; j < b; j++) rows.push({ kind: "trainee-only", node: restMine[j]!.node, trainee: restMine[j]! });
     for (; i < a; i++) rows.push({ kind: "reference-only", node: restRef[i]!.node, reference: restRef[i]! });
     if (a < restRef.length && b < restMine.length) pair(restRef[i++]!, restMine[j++]!);
@@ -203,7 +241,8 @@ export function reviewPractice(tree: Tree, script: Script, trainee: TraineeRun):
     const gone = undoneSet.has(index);
     if (gone) undone.push(f);
     if (f.misjudged) misjudged.push({ index, node: s.node, call: f.call!, verdict: f.verdict!, undone: gone });
-    if (f.misread) misread.push({ index, node: s.node, answer: f.answer!, scripted: (script.world[s.node] as { answer: string }).answer, undone: gone });
+    if (f.misread)
+      misread.push({ index, node: s.node, answer: f.answer!, scripted: (script.world[s.node] as { answer: string }).answer, undone: gone });
   }
 
   // Undo entries, each with the step it took back (replayed in order: a stack of standing steps).

@@ -44,7 +44,12 @@ function practiceTree(tree: Tree): Tree {
     // Every verdict is accepted (the trainee decides where to go), so a verdict the tree has no
     // branch for is still recorded.
     const measurement: MeasurementNode = { ...n, branches: Object.fromEntries(VERDICTS.map((v) => [v, { to: callId }])) };
-    const call: QuestionNode = { id: callId, kind: "question", title: n.title, answers: nodeBranches(n).map((b) => ({ ...b.branch, label: b.key })) };
+    const call: QuestionNode = {
+      id: callId,
+      kind: "question",
+      title: n.title,
+      answers: nodeBranches(n).map((b) => ({ ...b.branch, label: b.key })),
+    };
     nodes.push(measurement, call);
   }
   t = { ...tree, nodes };
@@ -80,7 +85,13 @@ export class PracticeRun {
     return this.run.apply(entry);
   }
 
-  private reject(index: number, entry: LogEntry, code: Rejection["code"], message: string, extra?: Pick<Rejection, "confirm" | "suggestions">): PracticeApply {
+  private reject(
+    index: number,
+    entry: LogEntry,
+    code: Rejection["code"],
+    message: string,
+    extra?: Pick<Rejection, "confirm" | "suggestions">,
+  ): PracticeApply {
     const rejection: Rejection = { index, entry, code, message, ...extra };
     this.rejected.push(rejection);
     return { ok: false, rejection };
@@ -108,7 +119,10 @@ export class PracticeRun {
     if (!judged.ok) {
       // What to ask about an implausible reading, or what was probably meant, goes with the refusal.
       const { confirm, suggestions } = judged.rejection;
-      return this.reject(index, entry, judged.rejection.code, judged.rejection.message, { ...(confirm ? { confirm } : {}), ...(suggestions ? { suggestions } : {}) });
+      return this.reject(index, entry, judged.rejection.code, judged.rejection.message, {
+        ...(confirm ? { confirm } : {}),
+        ...(suggestions ? { suggestions } : {}),
+      });
     }
     const node = this.byId.get(entry.node) as MeasurementNode;
     const calls = callsAt(node);
@@ -120,8 +134,14 @@ export class PracticeRun {
       const offered = calls.map((c) => `‘${c}’`).join(", ");
       if (!call) return this.reject(index, entry, "wrong-entry", `Make your own call on this reading (${offered}) before it is judged.`);
       const r = called!.ok ? null : called!.rejection;
-      if (r && r.code !== "unknown-answer") return this.reject(index, entry, r.code, r.message.replace(`Question ‘${node.title || node.id}’`, describeNode(node)));
-      return this.reject(index, entry, "unknown-answer", `‘${call}’ isn't a branch of ${describeNode(node)}; make your call from ${offered}.`);
+      if (r && r.code !== "unknown-answer")
+        return this.reject(index, entry, r.code, r.message.replace(`Question ‘${node.title || node.id}’`, describeNode(node)));
+      return this.reject(
+        index,
+        entry,
+        "unknown-answer",
+        `‘${call}’ isn't a branch of ${describeNode(node)}; make your call from ${offered}.`,
+      );
     }
     this.standing.push(true);
     return { ok: true, step: merge(judged.step!, called.step!, index, entry) };
@@ -161,7 +181,12 @@ export class PracticeRun {
     if (!f || f.kind !== "recheck-limit" || !isCallNode(f.node)) return f;
     const node = this.byId.get(measurementOf(f.node))!;
     const call = practiceTree(this.tree).nodes.find((n) => n.id === f.node)!;
-    return { ...f, node: node.id, branch: f.branch.replace(/^answer:/, ""), reason: f.reason.replace(describeNode(call), describeNode(node)) };
+    return {
+      ...f,
+      node: node.id,
+      branch: f.branch.replace(/^answer:/, ""),
+      reason: f.reason.replace(describeNode(call), describeNode(node)),
+    };
   }
 }
 

@@ -61,7 +61,9 @@ function entryFor(node: TreeNode, world: World): LogEntry | null {
     case "measurement": {
       const s = world[node.id];
       if (s?.kind !== "measurement") return null;
-      return node.meter ? { type: "reading", node: node.id, reading: s.shows, meter: node.meter } : { type: "reading", node: node.id, reading: s.shows };
+      return node.meter
+        ? { type: "reading", node: node.id, reading: s.shows, meter: node.meter }
+        : { type: "reading", node: node.id, reading: s.shows };
     }
     case "nameplate": {
       const s = world[node.id];
@@ -140,7 +142,8 @@ function title(tree: Tree, id: string | null | undefined): string {
 
 /** What the scripted entry at a step made of it, in words: "the reading 1.50 µF is within 1.41–1.59 µF". */
 function choiceWords(step: RunStep): string {
-  if (step.verdict) return `the scripted reading ${step.verdict.reading.text} is ${step.verdict.verdict}${step.verdict.verdict === "within" ? ` ${step.verdict.limits.text}` : ` (limits ${step.verdict.limits.text})`}`;
+  if (step.verdict)
+    return `the scripted reading ${step.verdict.reading.text} is ${step.verdict.verdict}${step.verdict.verdict === "within" ? ` ${step.verdict.limits.text}` : ` (limits ${step.verdict.limits.text})`}`;
   if (step.answer !== undefined) return `the scripted answer ‘${step.answer}’`;
   return "the step";
 }
@@ -151,26 +154,69 @@ function checkValues(tree: Tree, script: Script, add: (f: Finding) => void): voi
   for (const [id, s] of Object.entries(script.world)) {
     const node = byId.get(id);
     if (!node) {
-      add({ severity: "error", code: "script-unknown-step", nodeId: id, message: `The script speaks for ‘${id}’, which isn't a step of this version: remove it.` });
+      add({
+        severity: "error",
+        code: "script-unknown-step",
+        nodeId: id,
+        message: `The script speaks for ‘${id}’, which isn't a step of this version: remove it.`,
+      });
       continue;
     }
     const at = { nodeId: id };
     if (node.kind !== s.kind) {
-      add({ severity: "error", code: "script-kind", ...at, message: `${describeNode(node)} is not a ${s.kind} step: script it as what it is.` });
+      add({
+        severity: "error",
+        code: "script-kind",
+        ...at,
+        message: `${describeNode(node)} is not a ${s.kind} step: script it as what it is.`,
+      });
       continue;
     }
     if (s.kind === "question" && node.kind === "question") {
-      if (!s.observation.trim()) add({ severity: "error", code: "script-observation", ...at, field: "observation", message: `Say what the trainee sees at ${describeNode(node)}.` });
+      if (!s.observation.trim())
+        add({
+          severity: "error",
+          code: "script-observation",
+          ...at,
+          field: "observation",
+          message: `Say what the trainee sees at ${describeNode(node)}.`,
+        });
       else if (node.answers.some((a) => same(a.label, s.observation)))
-        add({ severity: "error", code: "script-gives-answer", ...at, field: "observation", message: `The observation at ${describeNode(node)} is an answer's own words: describe what the trainee sees, hears or feels instead.` });
+        add({
+          severity: "error",
+          code: "script-gives-answer",
+          ...at,
+          field: "observation",
+          message: `The observation at ${describeNode(node)} is an answer's own words: describe what the trainee sees, hears or feels instead.`,
+        });
       if (!node.answers.some((a) => a.label === s.answer))
-        add({ severity: "error", code: "script-answer", ...at, field: "answer", message: `‘${s.answer}’ isn't an answer to ${describeNode(node)}; the answers are ${node.answers.map((a) => `‘${a.label}’`).join(", ")}.` });
+        add({
+          severity: "error",
+          code: "script-answer",
+          ...at,
+          field: "answer",
+          message: `‘${s.answer}’ isn't an answer to ${describeNode(node)}; the answers are ${node.answers.map((a) => `‘${a.label}’`).join(", ")}.`,
+        });
     } else if (s.kind === "measurement" && node.kind === "measurement") {
       const p = parseReading(s.shows, node.quantity, node.unit);
-      if (!p.ok) add({ severity: "error", code: "script-value", ...at, field: "shows", message: `What the meter shows at ${describeNode(node)} doesn't read: ${p.message}` });
+      if (!p.ok)
+        add({
+          severity: "error",
+          code: "script-value",
+          ...at,
+          field: "shows",
+          message: `What the meter shows at ${describeNode(node)} doesn't read: ${p.message}`,
+        });
     } else if (s.kind === "nameplate" && node.kind === "nameplate") {
       const p = parseReading(s.label, node.quantity, node.unit);
-      if (!p.ok) add({ severity: "error", code: "script-value", ...at, field: "label", message: `What the label says at ${describeNode(node)} doesn't read: ${p.message}` });
+      if (!p.ok)
+        add({
+          severity: "error",
+          code: "script-value",
+          ...at,
+          field: "label",
+          message: `What the label says at ${describeNode(node)} doesn't read: ${p.message}`,
+        });
     }
   }
 }
@@ -206,7 +252,13 @@ export function checkScript(tree: Tree, script: Script): ScriptCheck {
   };
   const fault = tree.nodes.find((n) => n.id === script.fault);
   if (!fault || fault.kind !== "outcome") {
-    add({ severity: "error", code: "script-fault", message: fault ? `${describeNode(fault)} is not a root cause: choose an outcome as the hidden fault.` : "Choose the hidden fault: one of this version's outcomes." });
+    add({
+      severity: "error",
+      code: "script-fault",
+      message: fault
+        ? `${describeNode(fault)} is not a root cause: choose an outcome as the hidden fault.`
+        : "Choose the hidden fault: one of this version's outcomes.",
+    });
   }
   checkValues(tree, script, add);
   const walk = walkScript(tree, script.world);
@@ -214,7 +266,12 @@ export function checkScript(tree: Tree, script: Script): ScriptCheck {
   if (fault?.kind === "outcome") {
     const toward = nodesToward(tree, fault.id);
     if (!toward.has(tree.start)) {
-      add({ severity: "error", code: "script-fault-unreachable", nodeId: fault.id, message: `${describeNode(fault)} can't be reached from the start of this version.` });
+      add({
+        severity: "error",
+        code: "script-fault-unreachable",
+        nodeId: fault.id,
+        message: `${describeNode(fault)} can't be reached from the start of this version.`,
+      });
     } else if (walk.stoppedAt) {
       const node = tree.nodes.find((n) => n.id === walk.stoppedAt)!;
       // A step off the way to the fault that has no script: the turn away came first.
@@ -222,22 +279,45 @@ export function checkScript(tree: Tree, script: Script): ScriptCheck {
       if (away) add(away);
       else if (findings.some((f) => f.nodeId === node.id)) {
         // Already said: the scripted value itself is wrong.
-      } else if (walk.stoppedBy) add({ severity: "error", code: "script-refused", nodeId: node.id, message: `At ${describeNode(node)} the script can't go on: ${walk.stoppedBy}` });
+      } else if (walk.stoppedBy)
+        add({
+          severity: "error",
+          code: "script-refused",
+          nodeId: node.id,
+          message: `At ${describeNode(node)} the script can't go on: ${walk.stoppedBy}`,
+        });
       else
         add({
           severity: "error",
           code: "script-missing",
           nodeId: node.id,
-          field: node.kind === "question" ? "observation" : node.kind === "measurement" ? "shows" : node.kind === "nameplate" ? "label" : undefined,
+          field:
+            node.kind === "question"
+              ? "observation"
+              : node.kind === "measurement"
+                ? "shows"
+                : node.kind === "nameplate"
+                  ? "label"
+                  : undefined,
           message: `Nothing is scripted for ${describeNode(node)}, which is on the way to the hidden fault: ${node.kind === "question" ? "say what the trainee sees and which answer it means" : node.kind === "measurement" ? "say what the meter shows" : "say what the label says"}.`,
         });
     } else if (!(walk.end?.kind === "outcome" && walk.end.node === fault.id)) {
       const away = turnAway(tree, reference, toward);
-      const where = walk.end ? (walk.end.kind === "outcome" ? title(tree, walk.end.node) : walk.end.kind === "escalate" ? `a hand-over (${title(tree, walk.end.node)})` : `the re-check limit at ${title(tree, walk.end.node)}`) : "nowhere";
+      const where = walk.end
+        ? walk.end.kind === "outcome"
+          ? title(tree, walk.end.node)
+          : walk.end.kind === "escalate"
+            ? `a hand-over (${title(tree, walk.end.node)})`
+            : `the re-check limit at ${title(tree, walk.end.node)}`
+        : "nowhere";
       add(
         away
           ? { ...away, message: `${away.message} The script ends at ${where} instead of ${describeNode(fault)}.` }
-          : { severity: "error", code: "script-leads-elsewhere", message: `The script ends at ${where} instead of ${describeNode(fault)}.` },
+          : {
+              severity: "error",
+              code: "script-leads-elsewhere",
+              message: `The script ends at ${where} instead of ${describeNode(fault)}.`,
+            },
       );
     }
   }

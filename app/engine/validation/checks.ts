@@ -9,7 +9,15 @@ import { branchName, describeNode } from "../graph";
 import { DEFAULT_REASON, DEFAULT_REMEDY, isDefaultTitle } from "../defaults";
 import { type Add, type Edges, branchAt, slotCount, slotKey } from "./shared";
 
-const KIND_NOUN: Record<NodeKind, string> = { question: "question", measurement: "measurement", step: "step", caution: "caution", nameplate: "nameplate value", outcome: "root cause", escalate: "hand-over" };
+const KIND_NOUN: Record<NodeKind, string> = {
+  question: "question",
+  measurement: "measurement",
+  step: "step",
+  caution: "caution",
+  nameplate: "nameplate value",
+  outcome: "root cause",
+  escalate: "hand-over",
+};
 
 const VERDICT_WORD: Record<string, string> = {
   low: "a low reading",
@@ -17,7 +25,6 @@ const VERDICT_WORD: Record<string, string> = {
   high: "a high reading",
   marginal: "a marginal reading",
 };
-
 
 function checkUnit(node: TreeNode & { quantity: Quantity; unit: string }, i: number, add: Add): boolean {
   const r = resolveUnit(node.unit, node.quantity);
@@ -64,7 +71,13 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
     if (v.unit !== undefined) {
       const r = resolveUnit(v.unit, node.quantity);
       if (!r) {
-        add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `A limit of ${describeNode(node)} is in ‘${v.unit}’, which Cluepath doesn't know.` });
+        add({
+          severity: "error",
+          code: "unit-unknown",
+          ...at,
+          field: "limits",
+          message: `A limit of ${describeNode(node)} is in ‘${v.unit}’, which Cluepath doesn't know.`,
+        });
       } else if (display && (r.kind !== display.kind || r.absoluteTemperature !== display.absoluteTemperature)) {
         add({
           severity: "error",
@@ -75,12 +88,24 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         });
       } else if (display && "value" in v) {
         if (belowAbsoluteZero(v.value, r)) {
-          add({ severity: "error", code: "below-absolute-zero", ...at, field: "limits", message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.` });
+          add({
+            severity: "error",
+            code: "below-absolute-zero",
+            ...at,
+            field: "limits",
+            message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.`,
+          });
         } else x = convertQty(v.value, r.qty, display.qty);
       }
     } else if ("value" in v) {
       if (display && belowAbsoluteZero(v.value, display)) {
-        add({ severity: "error", code: "below-absolute-zero", ...at, field: "limits", message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.` });
+        add({
+          severity: "error",
+          code: "below-absolute-zero",
+          ...at,
+          field: "limits",
+          message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.`,
+        });
       } else x = v.value;
     }
     fixed.push(x);
@@ -99,7 +124,13 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           message: `${describeNode(node)} has its minimum above its maximum (${describeValue(L.min, node.unit)} to ${describeValue(L.max, node.unit)}): swap them.`,
         });
       } else if (a === b) {
-        add({ severity: "warning", code: "limits-zero-width", ...at, field: "limits", message: `${describeNode(node)} has the same minimum and maximum: no real reading will land exactly on it.` });
+        add({
+          severity: "warning",
+          code: "limits-zero-width",
+          ...at,
+          field: "limits",
+          message: `${describeNode(node)} has the same minimum and maximum: no real reading will land exactly on it.`,
+        });
       }
     }
   }
@@ -116,7 +147,13 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
         });
       }
       if (t.kind === "percent" && t.minus > 100) {
-        add({ severity: "warning", code: "tolerance-below-zero", ...at, field: "limits", message: `${describeNode(node)} allows more than −100 %, so its lower limit is below zero.` });
+        add({
+          severity: "warning",
+          code: "tolerance-below-zero",
+          ...at,
+          field: "limits",
+          message: `${describeNode(node)} allows more than −100 %, so its lower limit is below zero.`,
+        });
       }
       if (t.kind === "percent" && node.quantity === "temperature") {
         add({
@@ -130,7 +167,14 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
       if (t.kind === "absolute" && t.unit !== undefined) {
         const r = resolveUnit(t.unit, node.quantity, true);
         const d = resolveUnit(node.unit, node.quantity, true);
-        if (!r) add({ severity: "error", code: "unit-unknown", ...at, field: "limits", message: `The tolerance of ${describeNode(node)} is in ‘${t.unit}’, which Cluepath doesn't know.` });
+        if (!r)
+          add({
+            severity: "error",
+            code: "unit-unknown",
+            ...at,
+            field: "limits",
+            message: `The tolerance of ${describeNode(node)} is in ‘${t.unit}’, which Cluepath doesn't know.`,
+          });
         else if (d && r.kind !== d.kind) {
           add({
             severity: "error",
@@ -200,7 +244,13 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           : v === "high"
             ? "‘at least’ limits never read high"
             : "‘at most’ limits never read low";
-      add({ severity: "warning", code: "unused-branch", ...at, field: v, message: `${describeNode(node)} has a ‘${v}’ branch that is never taken: ${why}.` });
+      add({
+        severity: "warning",
+        code: "unused-branch",
+        ...at,
+        field: v,
+        message: `${describeNode(node)} has a ‘${v}’ branch that is never taken: ${why}.`,
+      });
     }
   }
 }
@@ -222,7 +272,6 @@ function checkFormula(src: string, node: TreeNode, i: number, field: string, add
 function describeValue(v: LimitValue, unit: string): string {
   return "formula" in v ? `\`${v.formula}\`` : `${v.value} ${v.unit ?? unit}`;
 }
-
 
 /** A variable's first recording node, with the quantity and unit it is recorded in. */
 export interface Definer {
@@ -297,7 +346,13 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
 
     // Titles: no editor placeholder left, and each node told apart from the others by its title.
     if (isDefaultTitle(n.title)) {
-      add({ severity: "error", code: "default-text", ...at(i), field: "title", message: `${nameOf(i)} still has the editor's placeholder title ‘${n.title}’: say what this ${KIND_NOUN[n.kind]} is.` });
+      add({
+        severity: "error",
+        code: "default-text",
+        ...at(i),
+        field: "title",
+        message: `${nameOf(i)} still has the editor's placeholder title ‘${n.title}’: say what this ${KIND_NOUN[n.kind]} is.`,
+      });
     }
     const same = duplicate[i] ? undefined : titled.get(n.title);
     if (same === undefined) {
@@ -312,22 +367,45 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
       });
     }
     if (n.kind === "outcome" && n.remedy === DEFAULT_REMEDY) {
-      add({ severity: "error", code: "default-text", ...at(i), field: "remedy", message: `${nameOf(i)} still has the editor's placeholder remedy ‘${DEFAULT_REMEDY}’: write what the technician should do.` });
+      add({
+        severity: "error",
+        code: "default-text",
+        ...at(i),
+        field: "remedy",
+        message: `${nameOf(i)} still has the editor's placeholder remedy ‘${DEFAULT_REMEDY}’: write what the technician should do.`,
+      });
     }
     if (n.kind === "escalate" && n.reason === DEFAULT_REASON) {
-      add({ severity: "error", code: "default-text", ...at(i), field: "reason", message: `${nameOf(i)} still has the editor's placeholder reason ‘${DEFAULT_REASON}’: write why a lead should take over.` });
+      add({
+        severity: "error",
+        code: "default-text",
+        ...at(i),
+        field: "reason",
+        message: `${nameOf(i)} still has the editor's placeholder reason ‘${DEFAULT_REASON}’: write why a lead should take over.`,
+      });
     }
 
     switch (n.kind) {
       case "question": {
         if (n.answers.length === 1) {
-          add({ severity: "error", code: "too-few-answers", ...at(i), message: `${nameOf(i)} has only one answer: a question needs two or more (or make it a step).` });
+          add({
+            severity: "error",
+            code: "too-few-answers",
+            ...at(i),
+            message: `${nameOf(i)} has only one answer: a question needs two or more (or make it a step).`,
+          });
         }
         for (let k = 1; k < n.answers.length; k++) {
           const label = n.answers[k]!.label;
           for (let j = 0; j < k; j++) {
             if (n.answers[j]!.label === label) {
-              add({ severity: "error", code: "duplicate-answer", ...at(i), field: `answer:${label}`, message: `${nameOf(i)} lists the answer ‘${label}’ twice.` });
+              add({
+                severity: "error",
+                code: "duplicate-answer",
+                ...at(i),
+                field: `answer:${label}`,
+                message: `${nameOf(i)} lists the answer ‘${label}’ twice.`,
+              });
               break;
             }
           }
@@ -348,7 +426,13 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
     if ((n.kind === "measurement" || n.kind === "nameplate") && n.variable !== undefined) {
       const variable = n.variable;
       if (isReservedName(variable)) {
-        add({ severity: "error", code: "variable-reserved", ...at(i), field: "variable", message: `${nameOf(i)} records ‘${variable}’, which is the name of a formula function: pick another name.` });
+        add({
+          severity: "error",
+          code: "variable-reserved",
+          ...at(i),
+          field: "variable",
+          message: `${nameOf(i)} records ‘${variable}’, which is the name of a formula function: pick another name.`,
+        });
       }
       const prev = definers.get(variable);
       if (!prev) definers.set(variable, { index: i, quantity: n.quantity, unit: n.unit });
@@ -392,7 +476,13 @@ export function checkNodes(tree: Tree, add: Add): NodeChecks {
         const r = branch.recheck;
         if (!Number.isInteger(r.max) || r.max < 1) {
           const key = slotKey(n, slot);
-          add({ severity: "error", code: "recheck-bound", ...at(i), field: key, message: `The re-check loop on ‘${branchName(key)}’ in ${nameOf(i)} needs a limit of 1 or more times.` });
+          add({
+            severity: "error",
+            code: "recheck-bound",
+            ...at(i),
+            field: key,
+            message: `The re-check loop on ‘${branchName(key)}’ in ${nameOf(i)} needs a limit of 1 or more times.`,
+          });
         }
         if (r.onExceed !== undefined) {
           const ex = index.get(r.onExceed);

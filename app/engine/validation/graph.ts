@@ -16,7 +16,14 @@ export interface Reached {
   all: Adjacency;
 }
 
-export function checkGraph(tree: Tree, duplicate: Uint8Array, start: number, E: Edges, missing: readonly MissingTarget[], add: Add): Reached {
+export function checkGraph(
+  tree: Tree,
+  duplicate: Uint8Array,
+  start: number,
+  E: Edges,
+  missing: readonly MissingTarget[],
+  add: Add,
+): Reached {
   const nodes = tree.nodes;
   const N = nodes.length;
   const all = adjacency(N, E.edgeFrom, E.edgeTo, () => true);
@@ -77,7 +84,14 @@ export function checkGraph(tree: Tree, duplicate: Uint8Array, start: number, E: 
  * the missing target's finding. Any other region is one warning at its first node, covering the
  * nodes behind it.
  */
-function unreachable(tree: Tree, all: Adjacency, reach: Uint8Array, duplicate: Uint8Array, missing: readonly MissingTarget[], add: Add): void {
+function unreachable(
+  tree: Tree,
+  all: Adjacency,
+  reach: Uint8Array,
+  duplicate: Uint8Array,
+  missing: readonly MissingTarget[],
+  add: Add,
+): void {
   const nodes = tree.nodes;
   const N = nodes.length;
   const indegree = new Int32Array(N);

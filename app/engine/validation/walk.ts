@@ -129,7 +129,12 @@ export interface Components {
  * `first` roots in order, then at every node not yet reached; `onSeen` sees each non-tree edge
  * as the search meets it (back edges included), for callers that want them.
  */
-export function components(g: Adjacency, N: number, first: readonly number[] = [], onSeen?: DfsVisitor["seen"]): Components & { walk: DepthFirst } {
+export function components(
+  g: Adjacency,
+  N: number,
+  first: readonly number[] = [],
+  onSeen?: DfsVisitor["seen"],
+): Components & { walk: DepthFirst } {
   const idx = new Int32Array(N);
   const low = new Int32Array(N);
   const onStack = new Uint8Array(N);

@@ -15,7 +15,10 @@ const id = z.string().regex(UUID);
 const day = z
   .string()
   .regex(DAY, "Use a date like 2026-03-09.")
-  .refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)) && new Date(`${d}T00:00:00Z`).toISOString().startsWith(d), "That date does not exist.");
+  .refine(
+    (d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)) && new Date(`${d}T00:00:00Z`).toISOString().startsWith(d),
+    "That date does not exist.",
+  );
 
 /** What the URL may carry. Values of the wrong shape are reported and left out, never a 500. */
 export type OverviewFilters = {
@@ -59,7 +62,11 @@ export function parseFilters(params: URLSearchParams): ParsedFilters {
     if (!value) continue;
     const r = fields[key].safeParse(value);
     if (r.success) raw[key] = r.data as string;
-    else errors[key] = key === "period" || key === "from" || key === "to" || key === "category" ? (r.error.issues[0]?.message ?? "Not understood.") : "Not understood; showing all.";
+    else
+      errors[key] =
+        key === "period" || key === "from" || key === "to" || key === "category"
+          ? (r.error.issues[0]?.message ?? "Not understood.")
+          : "Not understood; showing all.";
   }
   let period = (raw.period as Period | undefined) ?? (raw.from || raw.to ? "range" : DEFAULT_PERIOD);
   const filters: OverviewFilters = { period };

@@ -51,4 +51,3 @@ export function resolveScope(shopId: string, filters: OverviewFilters, timeZone:
   };
   return { shopId, filters, timeZone, start, end, firstDay: ymd(start), lastDay: ymd(new Date(end.getTime() - 1)), months };
 }
-

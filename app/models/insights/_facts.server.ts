@@ -3,7 +3,16 @@
 // statements for both, so "kept up to date" and "rebuilt" cannot drift apart; the tallies add
 // counts (ON DUPLICATE KEY UPDATE runs = runs + …), so a rebuild starts from empty tables.
 import { inArray, sql, type SQL } from "drizzle-orm";
-import { insightCauseTallies, insightKeys, insightParts, insightReadings, insightRuns, insightStepTallies, runs, shopCounters } from "../../../db/schema";
+import {
+  insightCauseTallies,
+  insightKeys,
+  insightParts,
+  insightReadings,
+  insightRuns,
+  insightStepTallies,
+  runs,
+  shopCounters,
+} from "../../../db/schema";
 import { db, writeTx, type Db, type Tx } from "../../lib/db.server";
 
 /** Which ended runs to summarise: some runs, one shop, or every shop. */
@@ -11,7 +20,13 @@ export type FactScope = { runIds: readonly string[] } | { shopId: string } | { a
 
 /** The scope as a condition on a run id column and a shop id column. */
 function inScope(scope: FactScope, runColumn: string, shopColumn: string): SQL {
-  if ("runIds" in scope) return scope.runIds.length ? sql`${sql.raw(runColumn)} IN (${sql.join(scope.runIds.map((id) => sql`${id}`), sql`, `)})` : sql`FALSE`;
+  if ("runIds" in scope)
+    return scope.runIds.length
+      ? sql`${sql.raw(runColumn)} IN (${sql.join(
+          scope.runIds.map((id) => sql`${id}`),
+          sql`, `,
+        )})`
+      : sql`FALSE`;
   if ("shopId" in scope) return sql`${sql.raw(shopColumn)} = ${scope.shopId}`;
   return sql`TRUE`;
 }
@@ -134,7 +149,10 @@ export async function recordNewCall(tx: Tx | Db, shopId: string, unitId: string,
 /** Writes the summary rows of runs that have just ended, inside the caller's transaction. Runs already summarised are skipped. */
 export async function writeRunFacts(tx: Tx | Db, runIds: readonly string[]): Promise<void> {
   if (!runIds.length) return;
-  const done = await tx.select({ runId: insightRuns.runId }).from(insightRuns).where(inArray(insightRuns.runId, [...runIds]));
+  const done = await tx
+    .select({ runId: insightRuns.runId })
+    .from(insightRuns)
+    .where(inArray(insightRuns.runId, [...runIds]));
   const seen = new Set(done.map((d) => d.runId));
   const fresh = runIds.filter((id) => !seen.has(id));
   if (!fresh.length) return;
@@ -149,9 +167,14 @@ export async function writeRunFacts(tx: Tx | Db, runIds: readonly string[]): Pro
  * that also number something take that number first, so the order is always counter, then queue.
  */
 async function queueForShops(tx: Tx | Db, runIds: readonly string[]): Promise<void> {
-  const shops = await tx.selectDistinct({ shopId: runs.shopId }).from(runs).where(inArray(runs.id, [...runIds]));
+  const shops = await tx
+    .selectDistinct({ shopId: runs.shopId })
+    .from(runs)
+    .where(inArray(runs.id, [...runIds]));
   for (const { shopId } of shops.sort((a, b) => a.shopId.localeCompare(b.shopId))) {
-    await tx.execute(sql`INSERT INTO ${shopCounters} (shop_id, name, last) VALUES (${shopId}, 'insights', 1) ON DUPLICATE KEY UPDATE last = last + 1`);
+    await tx.execute(
+      sql`INSERT INTO ${shopCounters} (shop_id, name, last) VALUES (${shopId}, 'insights', 1) ON DUPLICATE KEY UPDATE last = last + 1`,
+    );
   }
 }
 
@@ -182,13 +205,21 @@ export async function factsOf(shopId: string) {
     d.select().from(insightRuns).where(where(insightRuns)),
     d.select().from(insightReadings).where(where(insightReadings)),
     d.select().from(insightParts).where(where(insightParts)),
-    d.select().from(insightStepTallies).where(where(insightStepTallies)).orderBy(insightStepTallies.treeId, insightStepTallies.nodeKey, insightStepTallies.branch),
-    d.select().from(insightCauseTallies).where(where(insightCauseTallies)).orderBy(insightCauseTallies.treeId, insightCauseTallies.make, insightCauseTallies.model, insightCauseTallies.endNode),
+    d
+      .select()
+      .from(insightStepTallies)
+      .where(where(insightStepTallies))
+      .orderBy(insightStepTallies.treeId, insightStepTallies.nodeKey, insightStepTallies.branch),
+    d
+      .select()
+      .from(insightCauseTallies)
+      .where(where(insightCauseTallies))
+      .orderBy(insightCauseTallies.treeId, insightCauseTallies.make, insightCauseTallies.model, insightCauseTallies.endNode),
   ]);
   const names = new Map(keys.map((k) => [k.id, `${k.kind}:${k.name}`]));
   const spell = <T extends Record<string, unknown>>(row: T) =>
     Object.fromEntries(Object.entries(row).map(([k, v]) => [k, k.endsWith("K") && typeof v === "number" ? names.get(v) : v]));
-  const order = (a: Record<string, unknown>, b: Record<string, unknown>) => JSON.stringify(a) < JSON.stringify(b) ? -1 : 1;
+  const order = (a: Record<string, unknown>, b: Record<string, unknown>) => (JSON.stringify(a) < JSON.stringify(b) ? -1 : 1);
   return {
     keys: keys.map(({ id: _id, ...k }) => k).sort(order),
     runs: runRows.map(spell).sort(order),

@@ -1,12 +1,12 @@
 // The overview's queries over the summary rows (db/schema/insights.ts), one per group of tables,
 // with the filters resolved to the shop's keys. overview.server.ts authorises and calls them.
-import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
-import { treeNodes, trees, treeVersions } from "../../../db/schema";
+import { and, asc, eq, inArray, ne, sql } from "drizzle-orm";
+import { treeNodes, treeVersions } from "../../../db/schema";
 import { db } from "../../lib/db.server";
-import { type Scope } from "../../lib/insights/period";
 import { percentile } from "../../lib/insights/stats";
 import { share, type Row, type Table, type TableId } from "../../lib/insights/table";
 import { RETURN_WINDOW_DAYS } from "./_facts.server";
+import { equipmentLabel, keysOf, minutes, num, rows, TOP, treeLabel, treeTitles, where, type Key, type Keyed } from "./_scope.server";
 
 /** The trade's first-time fix, as the page states it. */
 export const FIRST_TIME_FIX_DEFINITION =
@@ -14,72 +14,7 @@ export const FIRST_TIME_FIX_DEFINITION =
   `was opened on the same unit in the ${RETURN_WINDOW_DAYS} days after. Calls are counted in the month they closed; ` +
   `calls closed in the last ${RETURN_WINDOW_DAYS} days can still lose their first-time fix.`;
 
-const TOP = 15;
-
-
-export type Keyed = Scope & { keys: FilterKeys };
-
-/** The filters' things as the shop's keys, looked up once so no scan runs a subquery per row. */
-type FilterKeys = { equipment: number[] | null; tree: number | null; customer: number | null; site: number | null; technician: number | null };
-
-export async function filterKeys(scope: Scope): Promise<FilterKeys> {
-  const f = scope.filters;
-  const shop = scope.shopId;
-  const one = async (kind: string, name: string | undefined) => {
-    if (!name) return null;
-    const [k] = await rows<{ id: number }>(sql`SELECT id FROM insight_keys WHERE shop_id = ${shop} AND kind = ${kind} AND name = ${name}`);
-    return k ? num(k.id) : 0;
-  };
-  const equipment = async () => {
-    if (!f.category && !f.make && !f.model) return null;
-    const eq: SQL[] = [sql`shop_id = ${shop}`, sql`kind = 'equipment'`];
-    if (f.category) eq.push(sql`category = ${f.category}`);
-    if (f.make) eq.push(sql`make = ${f.make}`);
-    if (f.model) eq.push(sql`model = ${f.model}`);
-    return (await rows<{ id: number }>(sql`SELECT id FROM insight_keys WHERE ${sql.join(eq, sql` AND `)}`)).map((k) => num(k.id));
-  };
-  const [e, tree, customer, site, technician] = await Promise.all([equipment(), one("tree", f.treeId), one("customer", f.customerId), one("site", f.siteId), one("technician", f.technicianId)]);
-  return { equipment: e, tree, customer, site, technician };
-}
-
-/** The filters as a condition on a summary table under alias `a` (f: runs, r: readings, p: parts). A thing never seen matches nothing. */
-function where(scope: Scope & { keys: FilterKeys }, a: string): SQL {
-  const c = (name: string) => sql.raw(`${a}.${name}`);
-  const k = scope.keys;
-  const parts: SQL[] = [sql`${c("shop_id")} = ${scope.shopId}`, sql`${c("ended_at")} >= ${scope.start}`, sql`${c("ended_at")} < ${scope.end}`];
-  if (k.equipment) parts.push(k.equipment.length ? sql`${c("equipment_k")} IN (${sql.join(k.equipment.map((n) => sql`${n}`), sql`, `)})` : sql`FALSE`);
-  if (k.tree !== null) parts.push(sql`${c("tree_k")} = ${k.tree}`);
-  if (k.customer !== null) parts.push(sql`${c("customer_k")} = ${k.customer}`);
-  if (k.site !== null) parts.push(sql`${c("site_k")} = ${k.site}`);
-  if (k.technician !== null) parts.push(sql`${c("technician_k")} = ${k.technician}`);
-  return sql.join(parts, sql` AND `);
-}
-
-async function rows<T>(query: SQL): Promise<T[]> {
-  const [result] = (await db().execute(query)) as unknown as [T[]];
-  return result;
-}
-
-export const num = (v: unknown) => Number(v ?? 0);
-const minutes = (seconds: number | null) => (seconds === null ? null : seconds / 60);
-
-type Key = { id: number; kind: string; name: string; category: string | null; make: string | null; model: string | null; a: string | null; b: string | null };
-
-/** The shop's keys by number, for labels (a few hundred rows at most; only the kinds asked for). */
-async function keysOf(shopId: string, ids: Iterable<unknown>): Promise<Map<number, Key>> {
-  const list = [...new Set([...ids].map(num))].filter((n) => n > 0);
-  if (!list.length) return new Map();
-  const found = await rows<Key>(sql`SELECT id, kind, name, category, make, model, a, b FROM insight_keys WHERE shop_id = ${shopId} AND id IN (${sql.join(list.map((n) => sql`${n}`), sql`, `)})`);
-  return new Map(found.map((k) => [num(k.id), k]));
-}
-
-async function treeTitles(shopId: string): Promise<Map<string, string>> {
-  const list = await db().select({ id: trees.id, title: trees.title }).from(trees).where(eq(trees.shopId, shopId));
-  return new Map(list.map((t) => [t.id, t.title]));
-}
-
-const equipmentLabel = (k: Key | undefined) => (k?.make || k?.model ? `${k.make} ${k.model}`.trim() : "No unit recorded");
-const treeLabel = (k: Key | undefined, titles: Map<string, string>) => (k ? (titles.get(k.name) ?? "(a removed tree)") : "(a removed tree)");
+export { filterKeys, num, type Keyed } from "./_scope.server";
 
 // --- the queries, one per figure ---------------------------------------------------------------
 
@@ -89,8 +24,13 @@ async function rootCauses(scope: Keyed): Promise<Table[]> {
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done'
     GROUP BY f.cause_k ORDER BY NULL`);
   const total = list.reduce((s, r) => s + num(r.n), 0);
-  const keys = await keysOf(scope.shopId, list.map((r) => r.k));
-  const sorted = list.map((r) => ({ cause: keys.get(num(r.k))?.name ?? "", runs: num(r.n) })).sort((a, b) => b.runs - a.runs || a.cause.localeCompare(b.cause));
+  const keys = await keysOf(
+    scope.shopId,
+    list.map((r) => r.k),
+  );
+  const sorted = list
+    .map((r) => ({ cause: keys.get(num(r.k))?.name ?? "", runs: num(r.n) }))
+    .sort((a, b) => b.runs - a.runs || a.cause.localeCompare(b.cause));
   return [
     {
       id: "root-causes",
@@ -118,7 +58,10 @@ async function firstTimeFix(scope: Keyed): Promise<Table[]> {
     SELECT ${bucket} AS month, f.equipment_k AS k, COUNT(*) AS calls, SUM(f.first_on_call AND NOT f.came_back) AS fixed
     FROM insight_runs f WHERE ${where(scope, "f")} AND f.status = 'done' AND f.on_call
     GROUP BY month, f.equipment_k ORDER BY NULL`);
-  const keys = await keysOf(scope.shopId, list.map((r) => r.k));
+  const keys = await keysOf(
+    scope.shopId,
+    list.map((r) => r.k),
+  );
   const byMonth = scope.months.map(() => ({ calls: 0, fixed: 0 }));
   const byUnit = new Map<number, { key: Key | undefined; calls: number; fixed: number }>();
   for (const r of list) {
@@ -142,14 +85,29 @@ async function firstTimeFix(scope: Keyed): Promise<Table[]> {
       title: "First-time-fix rate by month",
       caption: "Calls closed each month and how many were fixed first time.",
       columns: [{ key: "month", label: "Month", kind: "month" }, ...columns],
-      rows: scope.months.map((m, i) => ({ month: m.label, calls: byMonth[i]!.calls, fixed: byMonth[i]!.fixed, rate: share(byMonth[i]!.fixed, byMonth[i]!.calls) })),
+      rows: scope.months.map((m, i) => ({
+        month: m.label,
+        calls: byMonth[i]!.calls,
+        fixed: byMonth[i]!.fixed,
+        rate: share(byMonth[i]!.fixed, byMonth[i]!.calls),
+      })),
     },
     {
       id: "first-time-fix-by-equipment",
       title: "First-time-fix rate by equipment",
       caption: `Calls closed per make and model${equipment.length > TOP ? `: the ${TOP} with the most calls of ${equipment.length}` : ""}.`,
-      columns: [{ key: "category", label: "Category", kind: "text" }, { key: "equipment", label: "Make and model", kind: "text" }, ...columns],
-      rows: equipment.slice(0, TOP).map((u) => ({ category: u.key?.category ?? "", equipment: equipmentLabel(u.key), calls: u.calls, fixed: u.fixed, rate: share(u.fixed, u.calls) })),
+      columns: [
+        { key: "category", label: "Category", kind: "text" },
+        { key: "equipment", label: "Make and model", kind: "text" },
+        ...columns,
+      ],
+      rows: equipment.slice(0, TOP).map((u) => ({
+        category: u.key?.category ?? "",
+        equipment: equipmentLabel(u.key),
+        calls: u.calls,
+        fixed: u.fixed,
+        rate: share(u.fixed, u.calls),
+      })),
     },
   ];
 }
@@ -210,13 +168,18 @@ async function timeToDiagnose(scope: Keyed): Promise<Table[]> {
   const treeRows = [...byTree.entries()].map(([k, t]) => ({ tree: treeLabel(keys.get(k), titles), ...timeRow(t) }));
   treeRows.sort((a, b) => b.runs - a.runs || a.tree.localeCompare(b.tree));
   if (treeRows.length) treeRows.unshift({ tree: "All trees", ...timeRow(all) });
-  const unitRows = [...byUnit.entries()].map(([k, u]) => ({ category: keys.get(k)?.category ?? "", equipment: equipmentLabel(keys.get(k)), ...timeRow(u) }));
+  const unitRows = [...byUnit.entries()].map(([k, u]) => ({
+    category: keys.get(k)?.category ?? "",
+    equipment: equipmentLabel(keys.get(k)),
+    ...timeRow(u),
+  }));
   unitRows.sort((a, b) => b.runs - a.runs || a.equipment.localeCompare(b.equipment));
   return [
     {
       id: "time-by-tree",
       title: "Time to diagnose and on the job, by tree",
-      caption: "Completed runs. Time to diagnose runs from the start of the run to the step that reached the root cause; time on the job is what the technician recorded with the outcome. The first row is all trees together.",
+      caption:
+        "Completed runs. Time to diagnose runs from the start of the run to the step that reached the root cause; time on the job is what the technician recorded with the outcome. The first row is all trees together.",
       columns: [{ key: "tree", label: "Tree (symptom)", kind: "text" }, ...columns],
       rows: treeRows,
     },
@@ -224,7 +187,11 @@ async function timeToDiagnose(scope: Keyed): Promise<Table[]> {
       id: "time-by-equipment",
       title: "Time to diagnose and on the job, by equipment",
       caption: `The same times per make and model${unitRows.length > TOP ? `: the ${TOP} with the most runs of ${unitRows.length}` : ""}.`,
-      columns: [{ key: "category", label: "Category", kind: "text" }, { key: "equipment", label: "Make and model", kind: "text" }, ...columns],
+      columns: [
+        { key: "category", label: "Category", kind: "text" },
+        { key: "equipment", label: "Make and model", kind: "text" },
+        ...columns,
+      ],
       rows: unitRows.slice(0, TOP),
     },
   ];
@@ -247,7 +214,13 @@ async function parts(scope: Keyed): Promise<Table[]> {
   const pn = (k: number) => keys.get(k)?.a ?? "";
   const top = [...byPart.values()].sort((a, b) => b.qty - a.qty || desc(a.p).localeCompare(desc(b.p)));
   const perModel = list
-    .map((r) => ({ equipment: equipmentLabel(keys.get(num(r.e))), partNumber: pn(num(r.p)), description: desc(num(r.p)), quantity: num(r.qty), runs: num(r.runs) }))
+    .map((r) => ({
+      equipment: equipmentLabel(keys.get(num(r.e))),
+      partNumber: pn(num(r.p)),
+      description: desc(num(r.p)),
+      quantity: num(r.qty),
+      runs: num(r.runs),
+    }))
     .sort((a, b) => b.quantity - a.quantity || a.equipment.localeCompare(b.equipment) || a.description.localeCompare(b.description));
   return [
     {
@@ -288,13 +261,23 @@ async function readingsOutOfLimits(scope: Keyed): Promise<Table[]> {
     .filter((r) => r.out > 0)
     .sort((a, b) => b.out - a.out || b.out / b.n - a.out / a.n || a.k - b.k)
     .slice(0, TOP);
-  const keys = await keysOf(scope.shopId, top.map((r) => r.k));
-  const [titles, nodes] = await Promise.all([treeTitles(scope.shopId), stepTitles(scope.shopId, [...keys.values()].map((k) => k.a ?? ""))]);
+  const keys = await keysOf(
+    scope.shopId,
+    top.map((r) => r.k),
+  );
+  const [titles, nodes] = await Promise.all([
+    treeTitles(scope.shopId),
+    stepTitles(
+      scope.shopId,
+      [...keys.values()].map((k) => k.a ?? ""),
+    ),
+  ]);
   return [
     {
       id: "readings-out-of-limits",
       title: "Measurement steps most often out of limits",
-      caption: "Readings kept in ended runs (undone ones left out). Out of limits means low or high; marginal readings sat within the meter's accuracy of a limit.",
+      caption:
+        "Readings kept in ended runs (undone ones left out). Out of limits means low or high; marginal readings sat within the meter's accuracy of a limit.",
       columns: [
         { key: "step", label: "Measurement step", kind: "text" },
         { key: "tree", label: "Tree", kind: "text" },
@@ -305,7 +288,14 @@ async function readingsOutOfLimits(scope: Keyed): Promise<Table[]> {
       ],
       rows: top.map((r) => {
         const k = keys.get(r.k);
-        return { step: nodes.get(`${k?.a}\u0000${k?.b}`) ?? k?.b ?? "", tree: titles.get(k?.a ?? "") ?? "", readings: r.n, out: r.out, share: share(r.out, r.n), marginal: r.marginal };
+        return {
+          step: nodes.get(`${k?.a}\u0000${k?.b}`) ?? k?.b ?? "",
+          tree: titles.get(k?.a ?? "") ?? "",
+          readings: r.n,
+          out: r.out,
+          share: share(r.out, r.n),
+          marginal: r.marginal,
+        };
       }),
     },
   ];
@@ -318,7 +308,14 @@ async function stepTitles(shopId: string, treeIds: string[]): Promise<Map<string
     .select({ treeId: treeVersions.treeId, node: treeNodes.nodeKey, title: treeNodes.title })
     .from(treeNodes)
     .innerJoin(treeVersions, eq(treeVersions.id, treeNodes.versionId))
-    .where(and(eq(treeVersions.shopId, shopId), inArray(treeVersions.treeId, [...new Set(treeIds)]), ne(treeVersions.state, "draft"), eq(treeNodes.kind, "measurement")))
+    .where(
+      and(
+        eq(treeVersions.shopId, shopId),
+        inArray(treeVersions.treeId, [...new Set(treeIds)]),
+        ne(treeVersions.state, "draft"),
+        eq(treeNodes.kind, "measurement"),
+      ),
+    )
     .orderBy(asc(treeVersions.number));
   return new Map(list.map((n) => [`${n.treeId}\u0000${n.node}`, n.title]));
 }
@@ -331,8 +328,16 @@ async function handOffs(scope: Keyed): Promise<Table[]> {
       GROUP BY f.tree_k ORDER BY NULL`),
     treeTitles(scope.shopId),
   ]);
-  const keys = await keysOf(scope.shopId, list.map((r) => r.t));
-  const byTree = list.map((r) => ({ tree: treeLabel(keys.get(num(r.t)), titles), runs: num(r.n), handed: num(r.handed), share: share(num(r.handed), num(r.n)) }));
+  const keys = await keysOf(
+    scope.shopId,
+    list.map((r) => r.t),
+  );
+  const byTree = list.map((r) => ({
+    tree: treeLabel(keys.get(num(r.t)), titles),
+    runs: num(r.n),
+    handed: num(r.handed),
+    share: share(num(r.handed), num(r.n)),
+  }));
   byTree.sort((a, b) => b.handed - a.handed || b.runs - a.runs || a.tree.localeCompare(b.tree));
   return [
     {
@@ -350,7 +355,14 @@ async function handOffs(scope: Keyed): Promise<Table[]> {
   ];
 }
 
-export const QUERIES: Record<string, (scope: Keyed) => Promise<Table[]>> = { rootCauses, firstTimeFix, timeToDiagnose, parts, readingsOutOfLimits, handOffs };
+export const QUERIES: Record<string, (scope: Keyed) => Promise<Table[]>> = {
+  rootCauses,
+  firstTimeFix,
+  timeToDiagnose,
+  parts,
+  readingsOutOfLimits,
+  handOffs,
+};
 
 export const TABLE_QUERY: Record<TableId, keyof typeof QUERIES> = {
   "root-causes": "rootCauses",
@@ -363,4 +375,3 @@ export const TABLE_QUERY: Record<TableId, keyof typeof QUERIES> = {
   "readings-out-of-limits": "readingsOutOfLimits",
   "hand-offs": "handOffs",
 };
-

@@ -15,7 +15,10 @@ const BRANCH_ORDER = ["low", "within", "high", "marginal"];
  * For a version of one of the shop's trees (any version counts toward its tree), optionally one
  * step of it and the unit being worked on. Another shop's version or unit is not found.
  */
-export async function foundHereBefore(ctx: Ctx, input: { versionId: string; unitId?: string | null; node?: string | null }): Promise<FoundHere> {
+export async function foundHereBefore(
+  ctx: Ctx,
+  input: { versionId: string; unitId?: string | null; node?: string | null },
+): Promise<FoundHere> {
   authorize(ctx, "runs.view");
   const d = db();
   const [[version], unit] = await Promise.all([
@@ -42,7 +45,12 @@ export async function foundHereBefore(ctx: Ctx, input: { versionId: string; unit
       .where(input.node ? and(tree, eq(insightStepTallies.nodeKey, input.node)) : tree)
       .orderBy(asc(insightStepTallies.nodeKey)),
     d
-      .select({ make: insightCauseTallies.make, model: insightCauseTallies.model, node: insightCauseTallies.endNode, runs: insightCauseTallies.runs })
+      .select({
+        make: insightCauseTallies.make,
+        model: insightCauseTallies.model,
+        node: insightCauseTallies.endNode,
+        runs: insightCauseTallies.runs,
+      })
       .from(insightCauseTallies)
       .where(and(eq(insightCauseTallies.shopId, ctx.shopId), eq(insightCauseTallies.treeId, version.treeId))),
   ]);
@@ -57,7 +65,8 @@ export async function foundHereBefore(ctx: Ctx, input: { versionId: string; unit
       steps.set(r.node, s);
     }
     const rank = (b: string) => (BRANCH_ORDER.includes(b) ? BRANCH_ORDER.indexOf(b) : -1);
-    for (const s of steps.values()) s.branches.sort((a, b) => b.runs - a.runs || rank(a.branch) - rank(b.branch) || a.label.localeCompare(b.label));
+    for (const s of steps.values())
+      s.branches.sort((a, b) => b.runs - a.runs || rank(a.branch) - rank(b.branch) || a.label.localeCompare(b.label));
   }
   let causes: FoundHere["causes"] = null;
   if (unit) {
@@ -69,7 +78,9 @@ export async function foundHereBefore(ctx: Ctx, input: { versionId: string; unit
       model: unit.model,
       runs,
       shown: causesShown,
-      outcomes: causesShown ? same.map((r) => ({ node: r.node, runs: r.runs })).sort((a, b) => b.runs - a.runs || a.node.localeCompare(b.node)) : [],
+      outcomes: causesShown
+        ? same.map((r) => ({ node: r.node, runs: r.runs })).sort((a, b) => b.runs - a.runs || a.node.localeCompare(b.node))
+        : [],
     };
   }
   return { threshold: FOUND_HERE_MIN_RUNS, treeRuns, shown, steps: [...steps.values()], causes };

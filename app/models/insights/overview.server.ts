@@ -31,7 +31,11 @@ export async function filterOptions(ctx: Ctx, filters: Pick<OverviewFilters, "cu
       .from(equipmentUnits)
       .where(eq(equipmentUnits.shopId, ctx.shopId))
       .orderBy(asc(equipmentUnits.make), asc(equipmentUnits.model)),
-    d.select({ id: customers.id, name: customers.name }).from(customers).where(eq(customers.shopId, ctx.shopId)).orderBy(asc(customers.name)),
+    d
+      .select({ id: customers.id, name: customers.name })
+      .from(customers)
+      .where(eq(customers.shopId, ctx.shopId))
+      .orderBy(asc(customers.name)),
     filters.customerId
       ? d
           .select({ id: sites.id, name: sites.name })
@@ -81,7 +85,13 @@ export async function overview(ctx: Ctx, filters: OverviewFilters, now?: Date) {
       calls: sum("first-time-fix-by-month", "calls"),
       fixed: sum("first-time-fix-by-month", "fixed"),
     },
-    period: { start: scope.start.toISOString(), end: scope.end.toISOString(), firstDay: scope.firstDay, lastDay: scope.lastDay, timeZone: scope.timeZone },
+    period: {
+      start: scope.start.toISOString(),
+      end: scope.end.toISOString(),
+      firstDay: scope.firstDay,
+      lastDay: scope.lastDay,
+      timeZone: scope.timeZone,
+    },
     options,
     tables,
     definition: FIRST_TIME_FIX_DEFINITION,
@@ -89,7 +99,12 @@ export async function overview(ctx: Ctx, filters: OverviewFilters, now?: Date) {
 }
 
 /** One table of the overview with the filters applied: the rows a CSV download writes. */
-export async function overviewTable(ctx: Ctx, filters: OverviewFilters, id: TableId, now?: Date): Promise<{ table: Table; firstDay: string; lastDay: string }> {
+export async function overviewTable(
+  ctx: Ctx,
+  filters: OverviewFilters,
+  id: TableId,
+  now?: Date,
+): Promise<{ table: Table; firstDay: string; lastDay: string }> {
   authorize(ctx, "shop.overview");
   const scope = await scopeOf(ctx, filters, now);
   const tables = await QUERIES[TABLE_QUERY[id]]!(scope);

@@ -112,13 +112,18 @@ export async function stepByKey(tx: Tx, runId: string, key: string): Promise<Ste
 }
 
 /** A log entry as the replay needs it: what the engine reads, and the key and hash a retry is told by. */
-export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter" | "call" | "confirmed"> & { hash: string };
+export type LoggedEntry = Pick<StepView, "seq" | "key" | "type" | "node" | "answer" | "typed" | "meter" | "call" | "confirmed"> & {
+  hash: string;
+};
 
 /** The shop meter chosen, with its range: a reading above it is refused, "OL" judged against it. */
 export type MeterChoice = MeterView;
 
 export type LockedRun = {
-  run: Pick<typeof runs.$inferSelect, "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind" | "practice">;
+  run: Pick<
+    typeof runs.$inferSelect,
+    "id" | "versionId" | "technicianId" | "status" | "stepCount" | "currentNode" | "endKind" | "practice"
+  >;
   /** The log so far, in order; null when it was not asked for. */
   log: LoggedEntry[] | null;
   /** The shop meter asked for, or null when none was asked for or it is not the shop's. */
@@ -143,11 +148,24 @@ const LOG = jsonRows(
   sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`,
   sql`${runSteps.seq}`,
 );
-const METER = jsonObject({ id: meters.id, name: meters.name, quantity: meters.quantity, unit: meters.unit, rangeMax: meters.rangeMax, resolution: meters.resolution, percent: meters.percent, counts: meters.counts });
+const METER = jsonObject({
+  id: meters.id,
+  name: meters.name,
+  quantity: meters.quantity,
+  unit: meters.unit,
+  rangeMax: meters.rangeMax,
+  resolution: meters.resolution,
+  percent: meters.percent,
+  counts: meters.counts,
+});
 const RUN = sql`${runs.id} AS id, ${runs.versionId} AS versionId, ${runs.technicianId} AS technicianId, ${runs.status} AS status,
   ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind, ${runs.practice} AS practice`;
 
-type LockedRow = Omit<LockedRun["run"], "practice"> & { practice: number | boolean; log: LoggedEntry[] | string | null; meter: MeterChoice | string | null };
+type LockedRow = Omit<LockedRun["run"], "practice"> & {
+  practice: number | boolean;
+  log: LoggedEntry[] | string | null;
+  meter: MeterChoice | string | null;
+};
 
 /**
  * Locks one of the shop's runs for a step (SELECT … FOR UPDATE) and, in the same statement, reads
@@ -157,7 +175,9 @@ type LockedRow = Omit<LockedRun["run"], "practice"> & { practice: number | boole
  * serialised). Null when the run is not in the shop.
  */
 export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: string | null, withLog: boolean): Promise<LockedRun | null> {
-  const meter = meterId ? sql`(SELECT ${METER} FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = ${runs.shopId})` : sql`NULL`;
+  const meter = meterId
+    ? sql`(SELECT ${METER} FROM ${meters} WHERE ${meters.id} = ${meterId} AND ${meters.shopId} = ${runs.shopId})`
+    : sql`NULL`;
   const [rows] = (await tx.execute(
     sql`SELECT ${RUN}, ${withLog ? LOG : sql`NULL`} AS log, ${meter} AS meter FROM ${runs} WHERE ${runs.id} = ${runId} AND ${runs.shopId} = ${ctx.shopId} FOR UPDATE`,
   )) as unknown as [LockedRow[]];
@@ -169,6 +189,8 @@ export async function lockRunForStep(tx: Tx, ctx: Ctx, runId: string, meterId: s
 
 /** A locked run's log, read after the lock (lockRunForStep without it). */
 export async function readLog(tx: Tx, runId: string): Promise<LoggedEntry[]> {
-  const [rows] = (await tx.execute(sql`SELECT ${LOG} AS log FROM ${runs} WHERE ${runs.id} = ${runId}`)) as unknown as [{ log: LoggedEntry[] | string | null }[]];
+  const [rows] = (await tx.execute(sql`SELECT ${LOG} AS log FROM ${runs} WHERE ${runs.id} = ${runId}`)) as unknown as [
+    { log: LoggedEntry[] | string | null }[],
+  ];
   return fromJson(rows[0]?.log ?? null) ?? [];
 }

@@ -14,7 +14,16 @@ import { versionById } from "../trees/_content.server";
 /** A run is open while it can still take steps or be taken over. */
 export const OPEN: RunStatus[] = ["active", "paused", "escalated"];
 
-export type VersionContent = { shopId: string; versionId: string; treeId: string; number: number | null; title: string; tree: Tree; bodies: Record<string, MdBlock[]>; description: MdBlock[] };
+export type VersionContent = {
+  shopId: string;
+  versionId: string;
+  treeId: string;
+  number: number | null;
+  title: string;
+  tree: Tree;
+  bodies: Record<string, MdBlock[]>;
+  description: MdBlock[];
+};
 const versionCache = new Map<string, VersionContent>();
 
 /**

@@ -45,7 +45,15 @@ export async function fieldKit(ctx: Ctx, have: readonly string[] = []): Promise<
     for (const p of procedures) {
       if (kept.has(p.versionId) || versions[p.versionId]) continue;
       const v = await versionContent(ctx, p.versionId);
-      versions[p.versionId] = { id: v.versionId, treeId: v.treeId, number: v.number, title: v.title, tree: v.tree, bodies: v.bodies, description: v.description };
+      versions[p.versionId] = {
+        id: v.versionId,
+        treeId: v.treeId,
+        number: v.number,
+        title: v.title,
+        tree: v.tree,
+        bodies: v.bodies,
+        description: v.description,
+      };
     }
     if (c.openRun) {
       const view = await getRunView(ctx, c.openRun.id);

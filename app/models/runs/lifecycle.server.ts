@@ -16,8 +16,14 @@ import { recordRunFacts } from "../insights/_facts.server";
 export const statusInput = z.discriminatedUnion("action", [
   z.object({ action: z.literal("pause") }),
   z.object({ action: z.literal("resume") }),
-  z.object({ action: z.literal("abandon"), reason: z.string().trim().min(3, "Say why the run is abandoned.").max(500, "Keep it under 500 characters.") }),
-  z.object({ action: z.literal("escalate"), reason: z.string().trim().min(3, "Say what the lead should look at.").max(500, "Keep it under 500 characters.") }),
+  z.object({
+    action: z.literal("abandon"),
+    reason: z.string().trim().min(3, "Say why the run is abandoned.").max(500, "Keep it under 500 characters."),
+  }),
+  z.object({
+    action: z.literal("escalate"),
+    reason: z.string().trim().min(3, "Say what the lead should look at.").max(500, "Keep it under 500 characters."),
+  }),
   z.object({ action: z.literal("take-over") }),
 ]);
 export type StatusInput = z.infer<typeof statusInput>;
@@ -30,7 +36,9 @@ async function setCallStatus(tx: Tx, callId: string | null, status: "open" | "in
   await tx
     .update(serviceCalls)
     .set({ status, updatedAt: now, ...(status === "done" ? { closedAt: now } : {}) })
-    .where(and(eq(serviceCalls.id, callId), from ? inArray(serviceCalls.status, from as ("open" | "in_progress" | "escalated")[]) : undefined));
+    .where(
+      and(eq(serviceCalls.id, callId), from ? inArray(serviceCalls.status, from as ("open" | "in_progress" | "escalated")[]) : undefined),
+    );
 }
 
 async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
@@ -44,7 +52,9 @@ async function closeEscalations(tx: Tx, runId: string, takenBy?: string) {
 /** The take-over in the audit trail: whose run it was, on which call. */
 async function recordTakeOver(tx: Tx, ctx: Ctx, run: typeof runs.$inferSelect) {
   const [from] = await tx.select({ name: users.name }).from(users).where(eq(users.id, run.technicianId));
-  const [call] = run.callId ? await tx.select({ number: serviceCalls.number }).from(serviceCalls).where(eq(serviceCalls.id, run.callId)) : [];
+  const [call] = run.callId
+    ? await tx.select({ number: serviceCalls.number }).from(serviceCalls).where(eq(serviceCalls.id, run.callId))
+    : [];
   await recordAudit(
     {
       ...byCaller(ctx),
@@ -65,7 +75,11 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
     const run = (await lockRunAndCall(tx, ctx, runId)) ?? notFound("That run");
     const facts = { holder: run.technicianId === ctx.userId };
     const now = new Date();
-    const set = (patch: Partial<typeof runs.$inferInsert>) => tx.update(runs).set({ ...patch, updatedAt: now }).where(eq(runs.id, runId));
+    const set = (patch: Partial<typeof runs.$inferInsert>) =>
+      tx
+        .update(runs)
+        .set({ ...patch, updatedAt: now })
+        .where(eq(runs.id, runId));
     if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
     // A practice run stays the trainee's: no lead is called to it (escalations are real work).
     if (run.practice && (input.action === "escalate" || input.action === "take-over"))
@@ -123,13 +137,21 @@ export async function changeRunStatus(ctx: Ctx, runId: string, input: StatusInpu
 export const outcomeInput = z.object({
   action: z.string().trim().min(3, "Say what you did about it.").max(4000, "Keep it under 4000 characters."),
   // Numbers must be JSON numbers: `true` or "30" is refused, never coerced (issue 9 item 9).
-  minutes: z.number({ message: "Send the time on the job as a number of minutes." }).int("Whole minutes, please.").min(1, "At least 1 minute.").max(1440, "At most 24 hours (1440 minutes)."),
+  minutes: z
+    .number({ message: "Send the time on the job as a number of minutes." })
+    .int("Whole minutes, please.")
+    .min(1, "At least 1 minute.")
+    .max(1440, "At most 24 hours (1440 minutes)."),
   parts: z
     .array(
       z.object({
         partNumber: z.string().trim().max(60, "Keep the part number under 60 characters.").default(""),
         description: z.string().trim().min(1, "Describe the part.").max(300, "Keep it under 300 characters."),
-        quantity: z.number({ message: "Send each part's quantity as a number." }).int("A whole number.").min(1, "At least 1.").max(999, "At most 999."),
+        quantity: z
+          .number({ message: "Send each part's quantity as a number." })
+          .int("A whole number.")
+          .min(1, "At least 1.")
+          .max(999, "At most 999."),
       }),
     )
     .max(30, "At most 30 parts on one run."),
@@ -144,7 +166,11 @@ export type OutcomeInput = z.infer<typeof outcomeInput>;
 export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput): Promise<{ reportId: string; number: number }> {
   authorize(ctx, "runs.view");
   const existing = async () => {
-    const [r] = await db().select().from(reports).where(and(eq(reports.runId, runId), eq(reports.shopId, ctx.shopId))).limit(1);
+    const [r] = await db()
+      .select()
+      .from(reports)
+      .where(and(eq(reports.runId, runId), eq(reports.shopId, ctx.shopId)))
+      .limit(1);
     return r ? { reportId: r.id, number: r.number } : null;
   };
   const result = await writeTx(async (tx) => {
@@ -152,19 +178,40 @@ export async function recordOutcome(ctx: Ctx, runId: string, input: OutcomeInput
     if (run.status === "done") return null;
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
     // A practice run makes no report and closes no call: it is finished from the training model.
-    if (run.practice) throw new Refusal("conflict", "A practice run makes no service report: finish the practice instead.", { code: "practice" });
-    if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This run is not in progress.", { code: "closed" });
+    if (run.practice)
+      throw new Refusal("conflict", "A practice run makes no service report: finish the practice instead.", { code: "practice" });
+    if (run.status !== "active" && run.status !== "paused")
+      throw new Refusal("conflict", "This run is not in progress.", { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
     const outcome = nodeOf(content.tree, run.endNode);
-    if (run.endKind !== "outcome" || outcome?.kind !== "outcome") throw new Refusal("conflict", "The run has not reached a root cause yet.", { code: "not-at-outcome" });
+    if (run.endKind !== "outcome" || outcome?.kind !== "outcome")
+      throw new Refusal("conflict", "The run has not reached a root cause yet.", { code: "not-at-outcome" });
     const now = new Date();
     await tx
       .update(runs)
-      .set({ status: "done", rootCause: (outcome as OutcomeNode).title.slice(0, 300), actionTaken: input.action, minutesOnJob: input.minutes, completedAt: now, pausedAt: null, updatedAt: now })
+      .set({
+        status: "done",
+        rootCause: (outcome as OutcomeNode).title.slice(0, 300),
+        actionTaken: input.action,
+        minutesOnJob: input.minutes,
+        completedAt: now,
+        pausedAt: null,
+        updatedAt: now,
+      })
       .where(eq(runs.id, runId));
     await tx.delete(runParts).where(eq(runParts.runId, runId));
     if (input.parts.length) {
-      await tx.insert(runParts).values(input.parts.map((p, i) => ({ id: crypto.randomUUID(), runId, shopId: ctx.shopId, position: i, partNumber: p.partNumber, description: p.description, quantity: p.quantity })));
+      await tx.insert(runParts).values(
+        input.parts.map((p, i) => ({
+          id: crypto.randomUUID(),
+          runId,
+          shopId: ctx.shopId,
+          position: i,
+          partNumber: p.partNumber,
+          description: p.description,
+          quantity: p.quantity,
+        })),
+      );
     }
     await closeEscalations(tx, runId);
     await setCallStatus(tx, run.callId, "done");

@@ -31,16 +31,34 @@ export async function addNote(ctx: Ctx, runId: string, input: NoteInput): Promis
       .where(and(eq(runNotes.runId, runId), eq(runNotes.idempotencyKey, input.key)))
       .limit(1);
     const [me] = await tx.select({ name: users.name }).from(users).where(eq(users.id, ctx.userId));
-    const view = (n: typeof runNotes.$inferSelect): NoteView => ({ id: n.id, key: n.idempotencyKey, node: n.nodeKey, text: n.text, author: me?.name ?? "", createdAt: n.createdAt.toISOString() });
+    const view = (n: typeof runNotes.$inferSelect): NoteView => ({
+      id: n.id,
+      key: n.idempotencyKey,
+      node: n.nodeKey,
+      text: n.text,
+      author: me?.name ?? "",
+      createdAt: n.createdAt.toISOString(),
+    });
     if (existing) {
-      if (existing.text !== input.text || existing.nodeKey !== input.node) throw new Refusal("rejected", "This idempotency key was already used for a different note.", { code: "key-reused" });
+      if (existing.text !== input.text || existing.nodeKey !== input.node)
+        throw new Refusal("rejected", "This idempotency key was already used for a different note.", { code: "key-reused" });
       return { note: view(existing) };
     }
     authorize(ctx, "runs.note", { holder: run.technicianId === ctx.userId });
     if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
     const content = await versionContent(ctx, run.versionId, tx);
     if (!nodeOf(content.tree, input.node)) throw new Refusal("rejected", "That step is not in this run's tree.");
-    const note = { id: crypto.randomUUID(), runId, shopId: ctx.shopId, nodeKey: input.node, idempotencyKey: input.key, text: input.text, authorId: ctx.userId, clientAt: input.at ? new Date(input.at) : null, createdAt: new Date() };
+    const note = {
+      id: crypto.randomUUID(),
+      runId,
+      shopId: ctx.shopId,
+      nodeKey: input.node,
+      idempotencyKey: input.key,
+      text: input.text,
+      authorId: ctx.userId,
+      clientAt: input.at ? new Date(input.at) : null,
+      createdAt: new Date(),
+    };
     await tx.insert(runNotes).values(note);
     return { note: view(note) };
   });

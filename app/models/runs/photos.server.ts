@@ -19,11 +19,22 @@ export const photoFields = z.object({
   at: z.iso.datetime({ offset: true }).nullish(),
 });
 
-const view = (p: typeof runPhotos.$inferSelect): PhotoView => ({ id: p.id, key: p.idempotencyKey, node: p.nodeKey, url: photoUrl(p.id), bytes: p.bytes, createdAt: p.createdAt.toISOString() });
+const view = (p: typeof runPhotos.$inferSelect): PhotoView => ({
+  id: p.id,
+  key: p.idempotencyKey,
+  node: p.nodeKey,
+  url: photoUrl(p.id),
+  bytes: p.bytes,
+  createdAt: p.createdAt.toISOString(),
+});
 
 /** The stored photo under this key, as a replay; a refusal when the key was used for another photo. */
-function replayOf(existing: typeof runPhotos.$inferSelect, input: { node: string; bytes: Uint8Array }): { replayed: true; photo: PhotoView } {
-  if (existing.bytes !== input.bytes.byteLength || existing.nodeKey !== input.node) throw new Refusal("rejected", "This idempotency key was already used for a different photo.", { code: "key-reused" });
+function replayOf(
+  existing: typeof runPhotos.$inferSelect,
+  input: { node: string; bytes: Uint8Array },
+): { replayed: true; photo: PhotoView } {
+  if (existing.bytes !== input.bytes.byteLength || existing.nodeKey !== input.node)
+    throw new Refusal("rejected", "This idempotency key was already used for a different photo.", { code: "key-reused" });
   return { replayed: true, photo: view(existing) };
 }
 
@@ -41,7 +52,11 @@ async function photoByKey(runId: string, key: string) {
  * (`replayed`), also when both uploads arrive at once: the unique key decides which one is stored,
  * and the other's object is removed before it answers with the winner's photo.
  */
-export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; node: string; bytes: Uint8Array; at?: string | null }): Promise<{ replayed: boolean; photo: PhotoView }> {
+export async function addPhoto(
+  ctx: Ctx,
+  runId: string,
+  input: { key: string; node: string; bytes: Uint8Array; at?: string | null },
+): Promise<{ replayed: boolean; photo: PhotoView }> {
   authorize(ctx, "runs.view");
   const [run] = await db()
     .select({ id: runs.id, technicianId: runs.technicianId, status: runs.status, versionId: runs.versionId })
@@ -53,7 +68,8 @@ export async function addPhoto(ctx: Ctx, runId: string, input: { key: string; no
   if (existing) return replayOf(existing, input);
   authorize(ctx, "runs.photo", { holder: run.technicianId === ctx.userId });
   if (!OPEN.includes(run.status)) throw new Refusal("conflict", "This run is closed.", { code: "closed" });
-  if (!nodeOf((await versionContent(ctx, run.versionId)).tree, input.node)) throw new Refusal("rejected", "That step is not in this run's tree.");
+  if (!nodeOf((await versionContent(ctx, run.versionId)).tree, input.node))
+    throw new Refusal("rejected", "That step is not in this run's tree.");
   const check = await checkImage(input.bytes);
   const key = objectKey(ctx.shopId, "run-photos", check.ext);
   await putObject(key, input.bytes, check.mime);
@@ -105,7 +121,8 @@ export async function deletePhoto(ctx: Ctx, photoId: string): Promise<void> {
   const row = await photoRow(ctx, photoId);
   const [run] = await db().select({ technicianId: runs.technicianId, status: runs.status }).from(runs).where(eq(runs.id, row.runId));
   authorize(ctx, "runs.photo", { holder: run?.technicianId === ctx.userId });
-  if (!run || run.status === "done" || run.status === "abandoned") throw new Refusal("conflict", "This run is closed; its photos stay with its report.");
+  if (!run || run.status === "done" || run.status === "abandoned")
+    throw new Refusal("conflict", "This run is closed; its photos stay with its report.");
   await db().update(runPhotos).set({ deletedAt: new Date() }).where(eq(runPhotos.id, photoId));
   await deleteObject(row.objectKey).catch(() => undefined);
 }

@@ -2,7 +2,19 @@
 // with root causes, and the parts replaced on it).
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { alias } from "drizzle-orm/mysql-core";
-import { customers, equipmentUnits, escalations, reports, runParts, runs, runSteps, serviceCalls, sites, treeVersions, users } from "../../../db/schema";
+import {
+  customers,
+  equipmentUnits,
+  escalations,
+  reports,
+  runParts,
+  runs,
+  runSteps,
+  serviceCalls,
+  sites,
+  treeVersions,
+  users,
+} from "../../../db/schema";
 import type { Ctx } from "../../lib/context";
 import { db } from "../../lib/db.server";
 import { authorize } from "../../lib/policy";
@@ -45,7 +57,15 @@ export async function listOpenEscalations(ctx: Ctx) {
     ? await db()
         .select({ runId: runSteps.runId, type: runSteps.type, undone: runSteps.undone })
         .from(runSteps)
-        .where(and(eq(runSteps.shopId, ctx.shopId), inArray(runSteps.runId, rows.map((r) => r.runId))))
+        .where(
+          and(
+            eq(runSteps.shopId, ctx.shopId),
+            inArray(
+              runSteps.runId,
+              rows.map((r) => r.runId),
+            ),
+          ),
+        )
     : [];
   return Promise.all(
     rows.map(async (r) => {
@@ -58,7 +78,10 @@ export async function listOpenEscalations(ctx: Ctx) {
 
 export async function countOpenEscalations(ctx: Ctx): Promise<number> {
   authorize(ctx, "escalations.view");
-  const rows = await db().select({ id: escalations.id }).from(escalations).where(and(eq(escalations.shopId, ctx.shopId), isNull(escalations.closedAt)));
+  const rows = await db()
+    .select({ id: escalations.id })
+    .from(escalations)
+    .where(and(eq(escalations.shopId, ctx.shopId), isNull(escalations.closedAt)));
   return rows.length;
 }
 
@@ -108,7 +131,14 @@ export async function historyOfUnit(ctx: Ctx, unitId: string) {
       .where(and(eq(runs.shopId, ctx.shopId), eq(runs.unitId, unitId), eq(runs.practice, false)))
       .orderBy(desc(runs.startedAt)),
     db()
-      .select({ partNumber: runParts.partNumber, description: runParts.description, quantity: runParts.quantity, runId: runs.id, completedAt: runs.completedAt, callNumber: serviceCalls.number })
+      .select({
+        partNumber: runParts.partNumber,
+        description: runParts.description,
+        quantity: runParts.quantity,
+        runId: runs.id,
+        completedAt: runs.completedAt,
+        callNumber: serviceCalls.number,
+      })
       .from(runParts)
       .innerJoin(runs, eq(runs.id, runParts.runId))
       .leftJoin(serviceCalls, eq(serviceCalls.id, runs.callId))

@@ -50,7 +50,12 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<ReportData 
       .from(runSteps)
       .where(and(eq(runSteps.runId, run.id), eq(runSteps.undone, false)))
       .orderBy(asc(runSteps.seq)),
-    db().select({ note: runNotes, author: users.name }).from(runNotes).innerJoin(users, eq(users.id, runNotes.authorId)).where(eq(runNotes.runId, run.id)).orderBy(asc(runNotes.createdAt)),
+    db()
+      .select({ note: runNotes, author: users.name })
+      .from(runNotes)
+      .innerJoin(users, eq(users.id, runNotes.authorId))
+      .where(eq(runNotes.runId, run.id))
+      .orderBy(asc(runNotes.createdAt)),
     db()
       .select({ id: runPhotos.id, node: runPhotos.nodeKey })
       .from(runPhotos)
@@ -73,7 +78,9 @@ export async function getReport(ctx: Ctx, reportId: string): Promise<ReportData 
     sentAt: iso(report.sentAt),
     shop: { name: shop.name, town: shop.town, footer: shop.settings.reportFooter ?? null, timeZone: shop.settings.timeZone || "UTC" },
     call: c ? { number: c.number, symptom: c.symptom, openedAt: c.openedAt.toISOString() } : null,
-    unit: p ? { make: p.unit.make, model: p.unit.model, serial: p.unit.serial, category: p.unit.category, installedOn: p.unit.installedOn } : null,
+    unit: p
+      ? { make: p.unit.make, model: p.unit.model, serial: p.unit.serial, category: p.unit.category, installedOn: p.unit.installedOn }
+      : null,
     site: p ? { name: p.site.name, address: p.site.address, contactName: p.site.contactName, contactEmail: p.site.contactEmail } : null,
     customer: p?.customer.name ?? null,
     technician: row.technician,
@@ -129,10 +136,17 @@ function reportText(r: ReportData): string {
     ...(r.parts.length ? r.parts.map((p) => `  ${p.quantity} × ${p.description}${p.partNumber ? ` (${p.partNumber})` : ""}`) : ["  none"]),
     "",
     "Readings:",
-    ...(r.readings.length ? r.readings.map((x) => `  ${x.title}: ${x.reading}${x.confirmed ? ` ${CONFIRMED_NOTE}` : ""} — ${x.verdict ? VERDICT_WORD[x.verdict] : "—"}${x.limits ? ` (limits ${x.limits})` : ""}`) : ["  none"]),
+    ...(r.readings.length
+      ? r.readings.map(
+          (x) =>
+            `  ${x.title}: ${x.reading}${x.confirmed ? ` ${CONFIRMED_NOTE}` : ""} — ${x.verdict ? VERDICT_WORD[x.verdict] : "—"}${x.limits ? ` (limits ${x.limits})` : ""}`,
+        )
+      : ["  none"]),
     "",
     "Safety precautions taken:",
-    ...(r.cautions.length ? r.cautions.map((c) => `  ${c.hazard ? `${HAZARD_WORD[c.hazard] ?? c.hazard}: ` : ""}${c.title}`) : ["  none called for"]),
+    ...(r.cautions.length
+      ? r.cautions.map((c) => `  ${c.hazard ? `${HAZARD_WORD[c.hazard] ?? c.hazard}: ` : ""}${c.title}`)
+      : ["  none called for"]),
     r.photos.length ? `\n${r.photos.length} photo${r.photos.length === 1 ? "" : "s"} attached.` : "",
   ];
   return lines.filter((l, i, all) => l !== "" || (all[i - 1] ?? "") !== "").join("\n");
@@ -166,17 +180,32 @@ async function claimSending(ctx: Ctx, reportId: string, now: Date): Promise<{ re
     if (!row) notFound("That report");
     const wait = row.sentAt ? REPORT_SENDING.minutesBetween - Math.floor((now.getTime() - row.sentAt.getTime()) / 60_000) : 0;
     if (wait > 0) {
-      throw new Refusal("too-many", `This report was e-mailed less than ${REPORT_SENDING.minutesBetween} minutes ago. It can be sent again in ${wait} minute${wait === 1 ? "" : "s"}.`, {
-        code: "sent-recently",
-        details: { retryInMinutes: wait },
-      });
+      throw new Refusal(
+        "too-many",
+        `This report was e-mailed less than ${REPORT_SENDING.minutesBetween} minutes ago. It can be sent again in ${wait} minute${wait === 1 ? "" : "s"}.`,
+        {
+          code: "sent-recently",
+          details: { retryInMinutes: wait },
+        },
+      );
     }
     const [day] = await tx
       .select({ n: count() })
       .from(auditEvents)
-      .where(and(eq(auditEvents.shopId, ctx.shopId), eq(auditEvents.action, "report.sent"), eq(auditEvents.subjectId, reportId), gt(auditEvents.at, new Date(now.getTime() - 86_400_000))));
+      .where(
+        and(
+          eq(auditEvents.shopId, ctx.shopId),
+          eq(auditEvents.action, "report.sent"),
+          eq(auditEvents.subjectId, reportId),
+          gt(auditEvents.at, new Date(now.getTime() - 86_400_000)),
+        ),
+      );
     if ((day?.n ?? 0) >= REPORT_SENDING.perDay) {
-      throw new Refusal("too-many", `This report has been e-mailed ${REPORT_SENDING.perDay} times in the last 24 hours; it can't be sent again today.`, { code: "sent-too-often" });
+      throw new Refusal(
+        "too-many",
+        `This report has been e-mailed ${REPORT_SENDING.perDay} times in the last 24 hours; it can't be sent again today.`,
+        { code: "sent-too-often" },
+      );
     }
     await tx.update(reports).set({ sentAt: now }).where(eq(reports.id, reportId));
     return row.sentAt;
@@ -198,7 +227,8 @@ async function claimSending(ctx: Ctx, reportId: string, now: Date): Promise<{ re
 export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportMailRenderer): Promise<{ to: string; messageId: string }> {
   authorize(ctx, "reports.send");
   const r = await getReport(ctx, reportId);
-  if (!r.site?.contactEmail) throw new Refusal("conflict", "The site has no contact e-mail address: add one on the site's page first.", { code: "no-contact" });
+  if (!r.site?.contactEmail)
+    throw new Refusal("conflict", "The site has no contact e-mail address: add one on the site's page first.", { code: "no-contact" });
   const to = r.site.contactEmail;
   const now = new Date();
   const claim = await claimSending(ctx, reportId, now);
@@ -207,7 +237,9 @@ export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportM
     const { photos, left } = await photosWithBytes(ctx, r.runId);
     const cid = (id: string) => `photo-${id}@cluepath`;
     const shown = { ...r, photos: r.photos.filter((p) => photos.some((x) => x.id === p.id)) };
-    const note = left ? `${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.` : null;
+    const note = left
+      ? `${left} more photo${left === 1 ? " is" : "s are"} kept with the report; ask ${r.shop.name} for ${left === 1 ? "it" : "them"}.`
+      : null;
     const html = renderHtml(shown, (id) => `cid:${cid(id)}`, note);
     const subject = `Service report ${reportNumber(r.number)}${r.unit ? ` — ${r.unit.make} ${r.unit.model}` : ""}${r.site ? ` at ${r.site.name}` : ""}`;
     ({ messageId } = await sendMail({
@@ -217,7 +249,12 @@ export async function sendReport(ctx: Ctx, reportId: string, renderHtml: ReportM
       subject,
       text: reportText(r),
       html,
-      attachments: photos.map((p, i) => ({ filename: `photo-${i + 1}.${p.ext}`, content: p.body, contentType: p.contentType, cid: cid(p.id) })),
+      attachments: photos.map((p, i) => ({
+        filename: `photo-${i + 1}.${p.ext}`,
+        content: p.body,
+        contentType: p.contentType,
+        cid: cid(p.id),
+      })),
     }));
   } catch (e) {
     await claim.release().catch(() => undefined);

@@ -69,7 +69,8 @@ async function versionToWalk(tx: Tx, ctx: Ctx, input: StartInput) {
     .where(and(eq(treeVersions.id, input.versionId), eq(treeVersions.treeId, input.treeId), eq(treeVersions.shopId, ctx.shopId)))
     .limit(1);
   if (!row) throw new Refusal("not-found", "That version of the procedure was not found.");
-  if (row.state === "draft") throw new Refusal("conflict", "That version is a draft; runs walk published versions only.", { code: "unpublished" });
+  if (row.state === "draft")
+    throw new Refusal("conflict", "That version is a draft; runs walk published versions only.", { code: "unpublished" });
   return { id: row.id };
 }
 
@@ -101,13 +102,18 @@ async function insertRun(tx: Tx, ctx: Ctx, input: StartInput): Promise<StartResu
     // Looked up after the call's lock, so a retry that arrives after the first try is answered with it.
     const replayed = await replayOf(tx, ctx, input);
     if (replayed) return replayed;
-    if (call.status === "done" || call.status === "cancelled") throw new Refusal("conflict", "This call is closed. Reopen it before starting another run.", { code: "closed" });
+    if (call.status === "done" || call.status === "cancelled")
+      throw new Refusal("conflict", "This call is closed. Reopen it before starting another run.", { code: "closed" });
     const [busy] = await tx
       .select({ id: runs.id })
       .from(runs)
       .where(and(eq(runs.callId, call.id), inArray(runs.status, OPEN)))
       .limit(1);
-    if (busy) throw new Refusal("conflict", "This call already has a run in progress: carry on with it.", { code: "run-open", details: { runId: busy.id } });
+    if (busy)
+      throw new Refusal("conflict", "This call already has a run in progress: carry on with it.", {
+        code: "run-open",
+        details: { runId: busy.id },
+      });
     unitId = call.unitId;
   } else {
     const replayed = await replayOf(tx, ctx, input);

@@ -40,7 +40,11 @@ export const stepPayload = z.object({
 });
 export type StepInput = z.infer<typeof stepPayload>;
 
-export type StepResult = { replayed: boolean; step: StepView; run: { status: RunStatus; currentNode: string | null; endKind: string | null; stepCount: number } };
+export type StepResult = {
+  replayed: boolean;
+  step: StepView;
+  run: { status: RunStatus; currentNode: string | null; endKind: string | null; stepCount: number };
+};
 
 const sha256 = (s: string) => createHash("sha256").update(s).digest("hex");
 
@@ -88,12 +92,16 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
     // A retry: the stored answer, looked up before the holder and status checks.
     const logged = log.find((e) => e.key === input.key);
     if (logged) {
-      if (logged.hash !== hash) throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
+      if (logged.hash !== hash)
+        throw new Refusal("rejected", "This idempotency key was already used for a different step.", { code: "key-reused" });
       const stored = (await stepByKey(tx, runId, input.key))!;
       return { result: { replayed: true, step: stepView(stored), run: runSummary(run) }, log };
     }
     authorize(ctx, "runs.step", { holder: run.technicianId === ctx.userId });
-    if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", `This run is ${run.status === "done" ? "finished" : run.status}; it takes no more steps.`, { code: "closed" });
+    if (run.status !== "active" && run.status !== "paused")
+      throw new Refusal("conflict", `This run is ${run.status === "done" ? "finished" : run.status}; it takes no more steps.`, {
+        code: "closed",
+      });
     const content = await versionContent(ctx, run.versionId, tx);
 
     // A reading is judged with the accuracy of the shop meter chosen, else the procedure's own.
@@ -112,9 +120,12 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
 
     // Practice runs follow the trainee's call on each reading; the engine's verdict is kept beside it.
     const call = entry.type === "reading" ? (entry as PracticeEntry & { type: "reading" }).call : undefined;
-    if (call && !run.practice) throw new Refusal("rejected", "Only a practice run takes your own call on a reading.", { code: "not-practice" });
+    if (call && !run.practice)
+      throw new Refusal("rejected", "Only a practice run takes your own call on a reading.", { code: "not-practice" });
     const past = log.map(entryOf);
-    const tried = run.practice ? practiceTryEntry(content.tree, past as PracticeEntry[], entry as PracticeEntry) : tryEntry(content.tree, past, entry);
+    const tried = run.practice
+      ? practiceTryEntry(content.tree, past as PracticeEntry[], entry as PracticeEntry)
+      : tryEntry(content.tree, past, entry);
     if (!tried.ok) throw refusalOf(tried.rejection);
 
     const seq = run.stepCount;
@@ -157,13 +168,28 @@ export async function postStep(ctx: Ctx, runId: string, input: StepInput): Promi
       recordedAt: new Date(),
     } satisfies typeof runSteps.$inferInsert & StepViewSource;
     await tx.insert(runSteps).values(row);
-    if (undoneSeq !== null) await tx.update(runSteps).set({ undone: true }).where(and(eq(runSteps.runId, runId), eq(runSteps.seq, undoneSeq)));
+    if (undoneSeq !== null)
+      await tx
+        .update(runSteps)
+        .set({ undone: true })
+        .where(and(eq(runSteps.runId, runId), eq(runSteps.seq, undoneSeq)));
     const next = { status: "active" as RunStatus, currentNode: tried.state.current, ...endOf(tried.state), stepCount: seq + 1 };
     await tx
       .update(runs)
       .set({ ...next, pausedAt: null, updatedAt: new Date() })
       .where(eq(runs.id, runId));
-    const stored: LoggedEntry = { seq, key: row.idempotencyKey, hash, type: row.type, node: row.nodeKey, answer: row.answer, typed: row.typed, meter: row.meter, call: row.call, confirmed: row.confirmed };
+    const stored: LoggedEntry = {
+      seq,
+      key: row.idempotencyKey,
+      hash,
+      type: row.type,
+      node: row.nodeKey,
+      answer: row.answer,
+      typed: row.typed,
+      meter: row.meter,
+      call: row.call,
+      confirmed: row.confirmed,
+    };
     return { result: { replayed: false, step: stepView(row), run: runSummary(next) }, log: [...log, stored] };
   });
   knownLogs.set(runId, { stepCount: result.run.stepCount, log });

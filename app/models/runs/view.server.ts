@@ -2,7 +2,22 @@
 // parts, the shop's meters, escalation and report), for the run's own shop only.
 import { alias } from "drizzle-orm/mysql-core";
 import { and, eq, sql } from "drizzle-orm";
-import { customers, equipmentUnits, escalations, meters, reports, runNotes, runParts, runPhotos, runs, runSteps, serviceCalls, shops, sites, users } from "../../../db/schema";
+import {
+  customers,
+  equipmentUnits,
+  escalations,
+  meters,
+  reports,
+  runNotes,
+  runParts,
+  runPhotos,
+  runs,
+  runSteps,
+  serviceCalls,
+  shops,
+  sites,
+  users,
+} from "../../../db/schema";
 import type { Ctx } from "../../lib/context";
 import { prepared } from "../../lib/db.server";
 import { authorize, can } from "../../lib/policy";
@@ -56,12 +71,25 @@ const runViewQuery = prepared((db) =>
       ),
       steps: jsonRows(STEP_JSON, sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`, sql`${runSteps.seq}`),
       notes: jsonRows(
-        { id: runNotes.id, key: runNotes.idempotencyKey, node: runNotes.nodeKey, text: runNotes.text, author: author.name, createdAt: runNotes.createdAt },
+        {
+          id: runNotes.id,
+          key: runNotes.idempotencyKey,
+          node: runNotes.nodeKey,
+          text: runNotes.text,
+          author: author.name,
+          createdAt: runNotes.createdAt,
+        },
         sql`FROM ${runNotes} JOIN ${users} AS ${author} ON ${author.id} = ${runNotes.authorId} WHERE ${runNotes.runId} = ${runs.id}`,
         sql`${runNotes.createdAt}`,
       ),
       photos: jsonRows(
-        { id: runPhotos.id, key: runPhotos.idempotencyKey, node: runPhotos.nodeKey, bytes: runPhotos.bytes, createdAt: runPhotos.createdAt },
+        {
+          id: runPhotos.id,
+          key: runPhotos.idempotencyKey,
+          node: runPhotos.nodeKey,
+          bytes: runPhotos.bytes,
+          createdAt: runPhotos.createdAt,
+        },
         sql`FROM ${runPhotos} WHERE ${runPhotos.runId} = ${runs.id} AND ${runPhotos.deletedAt} IS NULL`,
         sql`${runPhotos.createdAt}`,
       ),
@@ -85,7 +113,14 @@ const runViewQuery = prepared((db) =>
         sql`${meters.name}, ${meters.id}`,
       ),
       escalation: jsonRow(
-        { id: escalations.id, reason: escalations.reason, raisedBy: raiser.name, raisedAt: escalations.raisedAt, takenBy: taker.name, fromTree: escalations.fromTree },
+        {
+          id: escalations.id,
+          reason: escalations.reason,
+          raisedBy: raiser.name,
+          raisedAt: escalations.raisedAt,
+          takenBy: taker.name,
+          fromTree: escalations.fromTree,
+        },
         sql`FROM ${escalations} JOIN ${users} AS ${raiser} ON ${raiser.id} = ${escalations.raisedBy} LEFT JOIN ${users} AS ${taker} ON ${taker.id} = ${escalations.takenBy}
             WHERE ${escalations.runId} = ${runs.id} ORDER BY ${escalations.raisedAt} DESC`,
       ),

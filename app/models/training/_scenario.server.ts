@@ -24,7 +24,10 @@ export async function scenarioRow(ctx: Ctx, id: string, q: Tx | Db = db(), lock 
 export const scriptOf = (s: Pick<ScenarioRow, "faultNode" | "world">): Script => ({ fault: s.faultNode, world: s.world });
 
 /** The scenario as the trainee may see it on the phone: the hidden fault only once the run is finished. */
-export async function practiceViewOf(ctx: Ctx, run: Pick<typeof runs.$inferSelect, "scenarioId" | "status" | "versionId">): Promise<PracticeView | null> {
+export async function practiceViewOf(
+  ctx: Ctx,
+  run: Pick<typeof runs.$inferSelect, "scenarioId" | "status" | "versionId">,
+): Promise<PracticeView | null> {
   if (!run.scenarioId) return null;
   const s = await scenarioRow(ctx, run.scenarioId);
   if (!s) return null;

@@ -32,12 +32,16 @@ export async function assignScenario(ctx: Ctx, scenarioId: string, input: Assign
   authorize(ctx, "training.write");
   return writeTx(async (tx) => {
     const s = (await scenarioRow(ctx, scenarioId, tx, true)) ?? notFound("That scenario");
-    if (s.retiredAt) throw new Refusal("conflict", "This scenario has been replaced by a copy on a newer version: assign the copy.", { code: "retired" });
+    if (s.retiredAt)
+      throw new Refusal("conflict", "This scenario has been replaced by a copy on a newer version: assign the copy.", { code: "retired" });
     const content = await versionContent(ctx, s.versionId, tx);
     const check = checkScript(content.tree, scriptOf(s));
     if (!check.ok) {
       const first = check.findings.find((f) => f.severity === "error")!;
-      throw new Refusal("rejected", `This scenario can't be assigned until its check passes. ${first.message}`, { code: "script", details: { findings: check.findings } });
+      throw new Refusal("rejected", `This scenario can't be assigned until its check passes. ${first.message}`, {
+        code: "script",
+        details: { findings: check.findings },
+      });
     }
     const ids = [...new Set(input.trainees)];
     const techs = await tx
@@ -49,12 +53,26 @@ export async function assignScenario(ctx: Ctx, scenarioId: string, input: Assign
       .select({ traineeId: trainingAssignments.traineeId, runStatus: runs.status })
       .from(trainingAssignments)
       .leftJoin(runs, eq(runs.id, trainingAssignments.runId))
-      .where(and(eq(trainingAssignments.scenarioId, scenarioId), inArray(trainingAssignments.traineeId, ids), isNull(trainingAssignments.withdrawnAt)));
+      .where(
+        and(
+          eq(trainingAssignments.scenarioId, scenarioId),
+          inArray(trainingAssignments.traineeId, ids),
+          isNull(trainingAssignments.withdrawnAt),
+        ),
+      );
     const busy = new Set(open.filter((a) => a.runStatus !== "done").map((a) => a.traineeId));
     const fresh = ids.filter((id) => !busy.has(id));
     if (fresh.length) {
       await tx.insert(trainingAssignments).values(
-        fresh.map((traineeId) => ({ id: crypto.randomUUID(), shopId: ctx.shopId, scenarioId, traineeId, assignedBy: ctx.userId, dueOn: input.dueOn, createdAt: new Date() })),
+        fresh.map((traineeId) => ({
+          id: crypto.randomUUID(),
+          shopId: ctx.shopId,
+          scenarioId,
+          traineeId,
+          assignedBy: ctx.userId,
+          dueOn: input.dueOn,
+          createdAt: new Date(),
+        })),
       );
     }
     return { assigned: fresh.length, already: ids.length - fresh.length };
@@ -107,12 +125,25 @@ export async function myPractice(ctx: Ctx) {
     .leftJoin(runs, eq(runs.id, trainingAssignments.runId))
     .leftJoin(trainingReviews, eq(trainingReviews.runId, trainingAssignments.runId))
     .leftJoin(reviewer, eq(reviewer.id, trainingReviews.reviewerId))
-    .where(and(eq(trainingAssignments.shopId, ctx.shopId), eq(trainingAssignments.traineeId, ctx.userId), isNull(trainingAssignments.withdrawnAt)))
+    .where(
+      and(
+        eq(trainingAssignments.shopId, ctx.shopId),
+        eq(trainingAssignments.traineeId, ctx.userId),
+        isNull(trainingAssignments.withdrawnAt),
+      ),
+    )
     .orderBy(desc(trainingAssignments.createdAt));
   const runIds = rows.map((r) => r.runId).filter((x): x is string => Boolean(x));
   const comments = runIds.length
     ? await db()
-        .select({ runId: trainingComments.runId, seq: trainingComments.seq, node: trainingComments.nodeKey, text: trainingComments.text, author: users.name, createdAt: trainingComments.createdAt })
+        .select({
+          runId: trainingComments.runId,
+          seq: trainingComments.seq,
+          node: trainingComments.nodeKey,
+          text: trainingComments.text,
+          author: users.name,
+          createdAt: trainingComments.createdAt,
+        })
         .from(trainingComments)
         .innerJoin(users, eq(users.id, trainingComments.authorId))
         .where(and(eq(trainingComments.shopId, ctx.shopId), inArray(trainingComments.runId, runIds)))
@@ -137,7 +168,14 @@ export async function myPractice(ctx: Ctx) {
         runStatus: r.runStatus,
         completedAt: r.completedAt,
         // The hidden fault and the cause reached only once the run is finished.
-        result: done ? { reached: r.endKind === "outcome" ? title(r.endNode) : null, endKind: r.endKind, fault: title(r.faultNode), right: r.endKind === "outcome" && r.endNode === r.faultNode } : null,
+        result: done
+          ? {
+              reached: r.endKind === "outcome" ? title(r.endNode) : null,
+              endKind: r.endKind,
+              fault: title(r.faultNode),
+              right: r.endKind === "outcome" && r.endNode === r.faultNode,
+            }
+          : null,
         review: r.reviewedAt ? { note: r.note ?? "", reviewer: r.reviewer ?? "", reviewedAt: r.reviewedAt } : null,
         comments: done ? comments.filter((c) => c.runId === r.runId).map((c) => ({ ...c, step: title(c.node) ?? c.node })) : [],
       };
@@ -158,7 +196,14 @@ export async function startPractice(ctx: Ctx, assignmentId: string): Promise<{ r
     const [a] = await tx
       .select()
       .from(trainingAssignments)
-      .where(and(eq(trainingAssignments.id, assignmentId), eq(trainingAssignments.shopId, ctx.shopId), eq(trainingAssignments.traineeId, ctx.userId), isNull(trainingAssignments.withdrawnAt)))
+      .where(
+        and(
+          eq(trainingAssignments.id, assignmentId),
+          eq(trainingAssignments.shopId, ctx.shopId),
+          eq(trainingAssignments.traineeId, ctx.userId),
+          isNull(trainingAssignments.withdrawnAt),
+        ),
+      )
       .for("update");
     if (!a) notFound("That practice");
     if (a.runId) {
@@ -168,7 +213,8 @@ export async function startPractice(ctx: Ctx, assignmentId: string): Promise<{ r
     }
     const s = (await scenarioRow(ctx, a.scenarioId, tx)) ?? notFound("That practice");
     const content = await versionContent(ctx, s.versionId, tx);
-    if (!checkScript(content.tree, scriptOf(s)).ok) throw new Refusal("conflict", "This practice needs fixing by your trainer before it can start.", { code: "script" });
+    if (!checkScript(content.tree, scriptOf(s)).ok)
+      throw new Refusal("conflict", "This practice needs fixing by your trainer before it can start.", { code: "script" });
     const runId = crypto.randomUUID();
     const now = new Date();
     await tx.insert(runs).values({
@@ -205,7 +251,8 @@ export async function finishPractice(ctx: Ctx, runId: string): Promise<{ status:
     if (!run.practice) throw new Refusal("conflict", "This is not a practice run.", { code: "not-practice" });
     if (run.status === "done") return { status: "done" as const };
     authorize(ctx, "runs.outcome", { holder: run.technicianId === ctx.userId });
-    if (run.status !== "active" && run.status !== "paused") throw new Refusal("conflict", "This practice run is closed.", { code: "closed" });
+    if (run.status !== "active" && run.status !== "paused")
+      throw new Refusal("conflict", "This practice run is closed.", { code: "closed" });
     if (!run.endKind) throw new Refusal("conflict", "The practice has not reached an end of the procedure yet.", { code: "not-at-end" });
     const now = new Date();
     await tx.update(runs).set({ status: "done", completedAt: now, pausedAt: null, updatedAt: now }).where(eq(runs.id, runId));

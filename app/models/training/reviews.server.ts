@@ -51,7 +51,14 @@ export async function getPracticeReview(ctx: Ctx, runId: string) {
     versionContent(ctx, run.versionId),
     stepRows(runId),
     db()
-      .select({ id: trainingComments.id, seq: trainingComments.seq, node: trainingComments.nodeKey, text: trainingComments.text, author: author.name, createdAt: trainingComments.createdAt })
+      .select({
+        id: trainingComments.id,
+        seq: trainingComments.seq,
+        node: trainingComments.nodeKey,
+        text: trainingComments.text,
+        author: author.name,
+        createdAt: trainingComments.createdAt,
+      })
       .from(trainingComments)
       .innerJoin(author, eq(author.id, trainingComments.authorId))
       .where(and(eq(trainingComments.runId, runId), eq(trainingComments.shopId, ctx.shopId)))
@@ -71,7 +78,14 @@ export async function getPracticeReview(ctx: Ctx, runId: string) {
     startedAt: run.startedAt.getTime(),
   });
   return {
-    run: { id: run.id, status: run.status, startedAt: run.startedAt, completedAt: run.completedAt, trainee: head.trainee, technicianId: run.technicianId },
+    run: {
+      id: run.id,
+      status: run.status,
+      startedAt: run.startedAt,
+      completedAt: run.completedAt,
+      trainee: head.trainee,
+      technicianId: run.technicianId,
+    },
     scenario: { id: s.id, name: s.name, complaint: s.complaint, unitText: s.unitText, fault: s.faultNode, world: s.world },
     version: { id: content.versionId, number: content.number, title: content.title },
     tree: content.tree,
@@ -96,7 +110,16 @@ export async function addComment(ctx: Ctx, runId: string, input: z.infer<typeof 
       .limit(1);
     if (!step?.node) throw fieldRefusal("seq", "Comment on a step the trainee took.");
     const id = crypto.randomUUID();
-    await tx.insert(trainingComments).values({ id, shopId: ctx.shopId, runId, seq: input.seq, nodeKey: step.node, text: input.text, authorId: ctx.userId, createdAt: new Date() });
+    await tx.insert(trainingComments).values({
+      id,
+      shopId: ctx.shopId,
+      runId,
+      seq: input.seq,
+      nodeKey: step.node,
+      text: input.text,
+      authorId: ctx.userId,
+      createdAt: new Date(),
+    });
     return { id };
   });
 }
@@ -107,10 +130,24 @@ export async function saveReview(ctx: Ctx, runId: string, input: z.infer<typeof 
   await writeTx(async (tx) => {
     const run = (await lockOwn(tx, ctx, runs, runId)) ?? notFound("That practice run");
     if (!run.practice) notFound("That practice run");
-    if (run.status !== "done") throw new Refusal("conflict", "The trainee has not finished this practice yet: review it once it is finished.", { code: "not-finished" });
+    if (run.status !== "done")
+      throw new Refusal("conflict", "The trainee has not finished this practice yet: review it once it is finished.", {
+        code: "not-finished",
+      });
     const now = new Date();
-    const [existing] = await tx.select({ id: trainingReviews.id }).from(trainingReviews).where(eq(trainingReviews.runId, runId)).for("update");
-    if (existing) await tx.update(trainingReviews).set({ note: input.note, reviewerId: ctx.userId, reviewedAt: now }).where(eq(trainingReviews.id, existing.id));
-    else await tx.insert(trainingReviews).values({ id: crypto.randomUUID(), shopId: ctx.shopId, runId, reviewerId: ctx.userId, note: input.note, reviewedAt: now });
+    const [existing] = await tx
+      .select({ id: trainingReviews.id })
+      .from(trainingReviews)
+      .where(eq(trainingReviews.runId, runId))
+      .for("update");
+    if (existing)
+      await tx
+        .update(trainingReviews)
+        .set({ note: input.note, reviewerId: ctx.userId, reviewedAt: now })
+        .where(eq(trainingReviews.id, existing.id));
+    else
+      await tx
+        .insert(trainingReviews)
+        .values({ id: crypto.randomUUID(), shopId: ctx.shopId, runId, reviewerId: ctx.userId, note: input.note, reviewedAt: now });
   });
 }

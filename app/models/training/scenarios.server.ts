@@ -26,7 +26,13 @@ export const scenarioForm = z
     fault: z.string().trim().min(1, "Choose the hidden fault.").max(64),
   })
   .catchall(z.string().max(500, "Keep each scripted value under 500 characters."))
-  .transform((v) => ({ name: v.name, complaint: v.complaint, unitText: v.unitText, fault: v.fault, world: worldFromForm(v as Record<string, string>) }));
+  .transform((v) => ({
+    name: v.name,
+    complaint: v.complaint,
+    unitText: v.unitText,
+    fault: v.fault,
+    world: worldFromForm(v as Record<string, string>),
+  }));
 export type ScenarioInput = z.output<typeof scenarioForm>;
 
 /** Only the steps of the version that the script can speak for, and only their own kind. */
@@ -91,14 +97,27 @@ export async function updateScenario(ctx: Ctx, id: string, input: ScenarioInput)
   authorize(ctx, "training.write");
   return writeTx(async (tx) => {
     const s = (await scenarioRow(ctx, id, tx, true)) ?? notFound("That scenario");
-    if (s.retiredAt) throw new Refusal("conflict", "This scenario has been replaced by a copy on a newer version: change the copy.", { code: "retired" });
-    if (await hasRuns(tx, id)) throw new Refusal("conflict", "Practice runs have used this scenario, so it stays as they saw it. Copy it to make a changed one.", { code: "locked" });
+    if (s.retiredAt)
+      throw new Refusal("conflict", "This scenario has been replaced by a copy on a newer version: change the copy.", { code: "retired" });
+    if (await hasRuns(tx, id))
+      throw new Refusal("conflict", "Practice runs have used this scenario, so it stays as they saw it. Copy it to make a changed one.", {
+        code: "locked",
+      });
     const content = await versionContent(ctx, s.versionId, tx);
     const world = worldOn(content.tree, input.world);
     const check = checkScript(content.tree, { fault: input.fault, world });
     await tx
       .update(trainingScenarios)
-      .set({ name: input.name, complaint: input.complaint, unitText: input.unitText, faultNode: input.fault, world, checkStatus: check.ok ? "ready" : "failing", findings: check.findings, updatedAt: new Date() })
+      .set({
+        name: input.name,
+        complaint: input.complaint,
+        unitText: input.unitText,
+        faultNode: input.fault,
+        world,
+        checkStatus: check.ok ? "ready" : "failing",
+        findings: check.findings,
+        updatedAt: new Date(),
+      })
       .where(eq(trainingScenarios.id, id));
     return { id, ok: check.ok };
   });
@@ -116,7 +135,8 @@ export async function copyScenario(ctx: Ctx, id: string): Promise<{ id: string; 
     if (s.retiredAt) throw new Refusal("conflict", "This scenario has already been copied onto a newer version.", { code: "retired" });
     const v = await currentPublished(ctx, s.treeId, tx);
     if (!v) throw new Refusal("conflict", "The tree has no published version now.", { code: "unpublished" });
-    if (v.id === s.versionId) throw new Refusal("conflict", "This scenario is on the newest published version already.", { code: "newest" });
+    if (v.id === s.versionId)
+      throw new Refusal("conflict", "This scenario is on the newest published version already.", { code: "newest" });
     const content = await versionContent(ctx, v.id, tx);
     const world = worldOn(content.tree, s.world);
     const check = checkScript(content.tree, { fault: s.faultNode, world });
@@ -174,7 +194,10 @@ export async function getScenario(ctx: Ctx, id: string) {
       .where(and(eq(trainingAssignments.shopId, ctx.shopId), eq(trainingAssignments.scenarioId, id)))
       .orderBy(desc(trainingAssignments.createdAt)),
     techniciansOf(ctx),
-    db().select({ n: count() }).from(runs).where(and(eq(runs.shopId, ctx.shopId), eq(runs.scenarioId, id))),
+    db()
+      .select({ n: count() })
+      .from(runs)
+      .where(and(eq(runs.shopId, ctx.shopId), eq(runs.scenarioId, id))),
     shopTimeZone(ctx),
   ]);
   return {
@@ -199,7 +222,11 @@ export async function getScenario(ctx: Ctx, id: string) {
     check,
     newer: newest && newest.id !== s.versionId ? { number: newest.number } : null,
     locked: (used[0]?.n ?? 0) > 0,
-    assignments: assignments.map((a) => ({ ...a, state: assignmentState(a), rightFault: a.runStatus === "done" ? a.endNode === s.faultNode : null })),
+    assignments: assignments.map((a) => ({
+      ...a,
+      state: assignmentState(a),
+      rightFault: a.runStatus === "done" ? a.endNode === s.faultNode : null,
+    })),
     technicians,
     timeZone,
   };
@@ -242,5 +269,9 @@ export async function listScenarios(ctx: Ctx) {
         .groupBy(trainingAssignments.scenarioId)
     : [];
   const byId = new Map(counts.map((c) => [c.scenarioId, c.n]));
-  return rows.map(({ findings, ...r }) => ({ ...r, errors: findings.filter((f) => f.severity === "error").length, assigned: byId.get(r.id) ?? 0 }));
+  return rows.map(({ findings, ...r }) => ({
+    ...r,
+    errors: findings.filter((f) => f.severity === "error").length,
+    assigned: byId.get(r.id) ?? 0,
+  }));
 }

@@ -64,7 +64,11 @@ export async function trainingBoard(ctx: Ctx) {
   const waitingRuns = await Promise.all(
     waiting.map(async (w) => {
       const tree = (await versionContent(ctx, w.versionId)).tree;
-      return { ...w, reached: w.endKind === "outcome" ? (nodeOf(tree, w.endNode)?.title ?? w.endNode) : null, right: w.endKind === "outcome" && w.endNode === w.faultNode };
+      return {
+        ...w,
+        reached: w.endKind === "outcome" ? (nodeOf(tree, w.endNode)?.title ?? w.endNode) : null,
+        right: w.endKind === "outcome" && w.endNode === w.faultNode,
+      };
     }),
   );
   return { assignments: open, waiting: waitingRuns, timeZone };
@@ -77,7 +81,12 @@ function monthOf(d: Date, timeZone: string): string {
 }
 
 type Tally = { runs: number; right: number; misjudged: number; toCause: number[] };
-const figures = (t: Tally) => ({ runs: t.runs, rightShare: t.runs ? t.right / t.runs : null, misjudgedPerRun: t.runs ? t.misjudged / t.runs : null, medianToCauseMs: median(t.toCause) });
+const figures = (t: Tally) => ({
+  runs: t.runs,
+  rightShare: t.runs ? t.right / t.runs : null,
+  misjudgedPerRun: t.runs ? t.misjudged / t.runs : null,
+  medianToCauseMs: median(t.toCause),
+});
 
 /**
  * Each trainee's finished practice runs, in all and by month (the shop's time zone), newest month
@@ -97,7 +106,9 @@ export async function traineeProgress(ctx: Ctx) {
     shopTimeZone(ctx),
   ]);
   const ids = done.map((d) => d.run.id);
-  const steps = ids.length ? await db().select().from(runSteps).where(inArray(runSteps.runId, ids)).orderBy(asc(runSteps.runId), asc(runSteps.seq)) : [];
+  const steps = ids.length
+    ? await db().select().from(runSteps).where(inArray(runSteps.runId, ids)).orderBy(asc(runSteps.runId), asc(runSteps.seq))
+    : [];
   const byRun = new Map<string, (typeof steps)[number][]>();
   for (const s of steps) (byRun.get(s.runId) ?? byRun.set(s.runId, []).get(s.runId)!).push(s);
 
@@ -106,11 +117,18 @@ export async function traineeProgress(ctx: Ctx) {
     const tree = (await versionContent(ctx, d.run.versionId)).tree;
     const rows = byRun.get(d.run.id) ?? [];
     const r = reviewPractice(tree, scriptOf(d), {
-      log: rows.map((x) => entryOf({ type: x.type, node: x.nodeKey, answer: x.answer, typed: x.typed, meter: x.meter, call: x.call })) as PracticeEntry[],
+      log: rows.map((x) =>
+        entryOf({ type: x.type, node: x.nodeKey, answer: x.answer, typed: x.typed, meter: x.meter, call: x.call }),
+      ) as PracticeEntry[],
       at: rows.map((x) => (x.clientAt ?? x.recordedAt).getTime()),
       startedAt: d.run.startedAt.getTime(),
     });
-    const p = people.get(d.run.technicianId) ?? { id: d.run.technicianId, name: d.trainee, all: { runs: 0, right: 0, misjudged: 0, toCause: [] }, months: new Map<string, Tally>() };
+    const p = people.get(d.run.technicianId) ?? {
+      id: d.run.technicianId,
+      name: d.trainee,
+      all: { runs: 0, right: 0, misjudged: 0, toCause: [] },
+      months: new Map<string, Tally>(),
+    };
     people.set(p.id, p);
     const month = monthOf(d.run.completedAt ?? d.run.startedAt, timeZone);
     if (!p.months.has(month)) p.months.set(month, { runs: 0, right: 0, misjudged: 0, toCause: [] });
@@ -123,5 +141,10 @@ export async function traineeProgress(ctx: Ctx) {
   }
   return [...people.values()]
     .sort((a, b) => a.name.localeCompare(b.name))
-    .map((p) => ({ id: p.id, name: p.name, all: figures(p.all), months: [...p.months].sort((a, b) => b[0].localeCompare(a[0])).map(([month, t]) => ({ month, ...figures(t) })) }));
+    .map((p) => ({
+      id: p.id,
+      name: p.name,
+      all: figures(p.all),
+      months: [...p.months].sort((a, b) => b[0].localeCompare(a[0])).map(([month, t]) => ({ month, ...figures(t) })),
+    }));
 }

@@ -22,7 +22,12 @@ describe("the editor's draft reducer", () => {
     const m = s.tree.nodes[1]!.id;
     s = run(s, { type: "add-node", kind: "outcome", link: { from: q, key: "answer:yes", label: "yes" }, select: false });
     const o1 = s.tree.nodes[2]!.id;
-    s = run(s, { type: "add-node", kind: "outcome", link: { from: m, key: "within" }, select: false }, { type: "set-branch", from: m, key: "low", to: o1 }, { type: "set-branch", from: m, key: "high", to: o1 });
+    s = run(
+      s,
+      { type: "add-node", kind: "outcome", link: { from: m, key: "within" }, select: false },
+      { type: "set-branch", from: m, key: "low", to: o1 },
+      { type: "set-branch", from: m, key: "high", to: o1 },
+    );
     expect(TreeSchema.safeParse(s.tree).success).toBe(true);
     const q0 = s.tree.nodes[0]!;
     expect(q0.kind === "question" && q0.answers.map((a) => [a.label, a.to])).toEqual([
@@ -39,7 +44,11 @@ describe("the editor's draft reducer", () => {
   });
 
   it("renaming a node's id follows every link to it, the start and the layout", () => {
-    const s = run(initDraft(smallTree(), { "cap-failed": { x: 1, y: 2 } }), { type: "select", id: "cap-failed" }, { type: "rename-node", from: "cap-failed", to: "capacitor-failed" });
+    const s = run(
+      initDraft(smallTree(), { "cap-failed": { x: 1, y: 2 } }),
+      { type: "select", id: "cap-failed" },
+      { type: "rename-node", from: "cap-failed", to: "capacitor-failed" },
+    );
     const ids = s.tree.nodes.map((n) => n.id);
     expect(ids).toContain("capacitor-failed");
     expect(JSON.stringify(s.tree)).not.toContain('"cap-failed"');
@@ -75,15 +84,24 @@ describe("the editor's draft reducer", () => {
     let s = initDraft(empty, {});
     s = run(s, { type: "add-node", kind: "question" });
     const q = s.tree.nodes[0]!.id;
-    for (const [label, kind] of [["no", "measurement"], ["yes", "outcome"], ["unsure", "outcome"]] as const)
+    for (const [label, kind] of [
+      ["no", "measurement"],
+      ["yes", "outcome"],
+      ["unsure", "outcome"],
+    ] as const)
       s = run(s, { type: "add-node", kind, link: { from: q, key: `answer:${label}`, label }, select: false });
     const m = s.tree.nodes[1]!.id;
-    s = run(s, { type: "add-node", kind: "outcome", link: { from: m, key: "low" } }, { type: "add-node", kind: "outcome", link: { from: m, key: "high" } });
+    s = run(
+      s,
+      { type: "add-node", kind: "outcome", link: { from: m, key: "low" } },
+      { type: "add-node", kind: "outcome", link: { from: m, key: "high" } },
+    );
     s = run(s, { type: "add-node", kind: "step" }, { type: "add-node", kind: "caution" });
     const boxes = Object.entries(s.layout);
     expect(boxes).toHaveLength(8);
     for (const [a, p] of boxes)
-      for (const [b, r] of boxes) if (a < b) expect(Math.abs(p.x - r.x) >= NODE_WIDTH || Math.abs(p.y - r.y) >= NODE_HEIGHT, `${a} and ${b} overlap`).toBe(true);
+      for (const [b, r] of boxes)
+        if (a < b) expect(Math.abs(p.x - r.x) >= NODE_WIDTH || Math.abs(p.y - r.y) >= NODE_HEIGHT, `${a} and ${b} overlap`).toBe(true);
     const answers = s.tree.nodes.slice(1, 4).map((n) => s.layout[n.id]!);
     for (const p of answers) expect(p.y).toBeGreaterThanOrEqual(s.layout[q]!.y + NODE_HEIGHT);
     // The answers' nodes stand left to right in the order of the answers, so their lines don't cross.
@@ -92,10 +110,20 @@ describe("the editor's draft reducer", () => {
 
   it("new nodes of one kind get distinct titles, so pickers and the outline can tell them apart", () => {
     let s = initDraft(empty, {});
-    s = run(s, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "outcome" }, { type: "add-node", kind: "question" });
+    s = run(
+      s,
+      { type: "add-node", kind: "outcome" },
+      { type: "add-node", kind: "outcome" },
+      { type: "add-node", kind: "outcome" },
+      { type: "add-node", kind: "question" },
+    );
     expect(s.tree.nodes.map((n) => n.title)).toEqual(["New root cause", "New root cause 2", "New root cause 3", "New question"]);
     // A title the author changed frees its default again.
-    s = run(s, { type: "update-node", node: { ...s.tree.nodes[0]!, title: "Failed run capacitor" } }, { type: "add-node", kind: "outcome" });
+    s = run(
+      s,
+      { type: "update-node", node: { ...s.tree.nodes[0]!, title: "Failed run capacitor" } },
+      { type: "add-node", kind: "outcome" },
+    );
     expect(s.tree.nodes.at(-1)!.title).toBe("New root cause");
   });
 

@@ -19,7 +19,11 @@ function mount(tree: Tree, selected: string | null) {
     const [state, dispatch] = useReducer(draftReducer, undefined, () => ({ ...initDraft(tree, {}), selected }));
     seen.state = state;
     const node = state.tree.nodes.find((n) => n.id === state.selected);
-    return node ? <NodeForm key={node.id} node={node} tree={state.tree} dispatch={dispatch} findings={[]} /> : <TreeForm tree={state.tree} dispatch={dispatch} />;
+    return node ? (
+      <NodeForm key={node.id} node={node} tree={state.tree} dispatch={dispatch} findings={[]} />
+    ) : (
+      <TreeForm tree={state.tree} dispatch={dispatch} />
+    );
   }
   render(<Harness />);
   return seen;
@@ -51,7 +55,11 @@ describe("measurement form", () => {
     type("Rated value (number)", "1.6");
     expect(screen.queryByText("Enter a number, like 1.5.")).toBeNull();
     const m = node(s, "cap-measure");
-    expect(m.kind === "measurement" && m.limits).toEqual({ kind: "nominal", nominal: { value: 1.6 }, tolerance: { kind: "percent", plus: 6, minus: 6 } });
+    expect(m.kind === "measurement" && m.limits).toEqual({
+      kind: "nominal",
+      nominal: { value: 1.6 },
+      tolerance: { kind: "percent", plus: 6, minus: 6 },
+    });
     // The preview follows: 1.6 µF ± 6 % is 1.504–1.696 µF.
     expect(screen.getByText("1.504–1.696 µF")).toBeTruthy();
   });
@@ -99,7 +107,9 @@ describe("measurement form", () => {
     expect(node(s, "cap-measure")).toMatchObject({ meter: { percent: 1, counts: 2, resolution: 0.01 }, acceptance: "guarded" });
     type("Sample reading", "1.42");
     // ILAC-G8:09/2019 guarded acceptance, w = U: the preview states the acceptance limit used (engine, issue 10 item 5).
-    expect(screen.getByText(/1\.42 µF → marginal: below the acceptance limit 1\.444 µF \(the low limit 1\.41 µF \+ the meter's 0\.034 µF\)/)).toBeTruthy();
+    expect(
+      screen.getByText(/1\.42 µF → marginal: below the acceptance limit 1\.444 µF \(the low limit 1\.41 µF \+ the meter's 0\.034 µF\)/),
+    ).toBeTruthy();
   });
 });
 

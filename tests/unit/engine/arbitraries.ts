@@ -17,18 +17,39 @@ import {
 } from "../../../app/engine/types";
 import { QUANTITY_INFO } from "../../../app/engine/units";
 
-export const idArb = fc
-  .array(fc.stringMatching(/^[a-z0-9]{1,6}$/), { minLength: 1, maxLength: 3 })
-  .map((parts) => parts.join("-"));
+export const idArb = fc.array(fc.stringMatching(/^[a-z0-9]{1,6}$/), { minLength: 1, maxLength: 3 }).map((parts) => parts.join("-"));
 
 const PUNCT = [..."abcdefghijklmnopqrstuvwxyz ABCXYZ0123456789 .,;:!?'\"()[]{}<>/\\|@#$%^&*_+=~`-–—→←±°µΩ’‘“”…#*_"];
 /** One line, trimmed, non-empty, with punctuation Markdown cares about. */
 export const lineArb = fc
   .array(fc.constantFrom(...PUNCT), { minLength: 1, maxLength: 40 })
-  .map((cs) => cs.join("").replace(/\s+/g, (m) => (m.length > 1 ? "  " : " ")).trim())
+  .map((cs) =>
+    cs
+      .join("")
+      .replace(/\s+/g, (m) => (m.length > 1 ? "  " : " "))
+      .trim(),
+  )
   .filter((s) => s.length > 0);
 
-const WORDS = ["fan", "capacitor", "µF", "L1–L2", "208 V", "check", "the", "motor", "*hot*", "`code`", "**bold**", "[link](https://example.test/x)", "—", "±6 %", "O'Brien-free", "a_b", "#3"];
+const WORDS = [
+  "fan",
+  "capacitor",
+  "µF",
+  "L1–L2",
+  "208 V",
+  "check",
+  "the",
+  "motor",
+  "*hot*",
+  "`code`",
+  "**bold**",
+  "[link](https://example.test/x)",
+  "—",
+  "±6 %",
+  "O'Brien-free",
+  "a_b",
+  "#3",
+];
 const sentence = fc.array(fc.constantFrom(...WORDS), { minLength: 1, maxLength: 8 }).map((w) => w.join(" "));
 /** Markdown bodies: paragraphs, lists, images, quotes, level-3 headings, fenced code with "##" inside. */
 const block = fc.oneof(
@@ -44,7 +65,11 @@ const block = fc.oneof(
 export const bodyArb = fc.array(block, { minLength: 1, maxLength: 4 }).map((bs) => bs.join("\n\n"));
 
 const VARS = ["rated_uf", "volts", "watts", "t", "r0", "x1", "supply_volts"];
-const numText = fc.oneof(fc.integer({ min: 0, max: 2000 }).map(String), fc.double({ min: 0.001, max: 100, noNaN: true }).map((x) => x.toPrecision(4)), fc.constant("3.9083e-3"));
+const numText = fc.oneof(
+  fc.integer({ min: 0, max: 2000 }).map(String),
+  fc.double({ min: 0.001, max: 100, noNaN: true }).map((x) => x.toPrecision(4)),
+  fc.constant("3.9083e-3"),
+);
 const exprArb: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
   e: fc.oneof(
     { depthSize: "small", withCrossShrink: true },
@@ -82,7 +107,10 @@ const limitsArb = (q: Quantity): fc.Arbitrary<Limits> =>
     fc.record({ kind: fc.constant("nominal" as const), nominal: valueArb(q), tolerance: toleranceArb(q) }),
   );
 const meterArb = (q: Quantity): fc.Arbitrary<Meter> =>
-  fc.record({ percent: finite, counts: finite, resolution: finite, unit: unitFor(q) }, { requiredKeys: ["percent", "counts", "resolution"] });
+  fc.record(
+    { percent: finite, counts: finite, resolution: finite, unit: unitFor(q) },
+    { requiredKeys: ["percent", "counts", "resolution"] },
+  );
 
 const branchArb = (ids: string[]): fc.Arbitrary<Branch> =>
   fc.record(
@@ -109,42 +137,51 @@ const quantityUnit = fc.constantFrom(...QUANTITIES).chain((q) =>
 
 const nodeArb = (id: string, ids: string[]): fc.Arbitrary<TreeNode> => {
   const base = { id: fc.constant(id), title: lineArb, body: optional(bodyArb) };
-  return fc.oneof(
-    fc.record({
-      ...base,
-      kind: fc.constant("question" as const),
-      answers: fc.uniqueArray(fc.record({ label: lineArb, branch: branchArb(ids) }), { selector: (a) => a.label, maxLength: 4 }).map((as) => as.map((a) => ({ label: a.label, ...a.branch }))),
-    }),
-    quantityUnit.chain(({ quantity, unit }) =>
+  return fc
+    .oneof(
       fc.record({
         ...base,
-        kind: fc.constant("measurement" as const),
-        quantity: fc.constant(quantity),
-        unit: fc.constant(unit),
-        limits: limitsArb(quantity),
-        variable: optional(fc.constantFrom(...VARS)),
-        meter: optional(meterArb(quantity)),
-        acceptance: optional(fc.constantFrom("simple" as const, "guarded" as const)),
-        branches: fc
-          .record({ low: branchArb(ids), within: branchArb(ids), high: branchArb(ids), marginal: branchArb(ids) }, { requiredKeys: [] })
-          .map((b) => strip({ ...b })),
+        kind: fc.constant("question" as const),
+        answers: fc
+          .uniqueArray(fc.record({ label: lineArb, branch: branchArb(ids) }), { selector: (a) => a.label, maxLength: 4 })
+          .map((as) => as.map((a) => ({ label: a.label, ...a.branch }))),
       }),
-    ),
-    fc.record({ ...base, kind: fc.constant("step" as const), next: optional(branchArb(ids)) }),
-    fc.record({ ...base, kind: fc.constant("caution" as const), hazard: optional(fc.constantFrom(...HAZARDS)), next: optional(branchArb(ids)) }),
-    quantityUnit.chain(({ quantity, unit }) =>
+      quantityUnit.chain(({ quantity, unit }) =>
+        fc.record({
+          ...base,
+          kind: fc.constant("measurement" as const),
+          quantity: fc.constant(quantity),
+          unit: fc.constant(unit),
+          limits: limitsArb(quantity),
+          variable: optional(fc.constantFrom(...VARS)),
+          meter: optional(meterArb(quantity)),
+          acceptance: optional(fc.constantFrom("simple" as const, "guarded" as const)),
+          branches: fc
+            .record({ low: branchArb(ids), within: branchArb(ids), high: branchArb(ids), marginal: branchArb(ids) }, { requiredKeys: [] })
+            .map((b) => strip({ ...b })),
+        }),
+      ),
+      fc.record({ ...base, kind: fc.constant("step" as const), next: optional(branchArb(ids)) }),
       fc.record({
         ...base,
-        kind: fc.constant("nameplate" as const),
-        variable: fc.constantFrom(...VARS),
-        quantity: fc.constant(quantity),
-        unit: fc.constant(unit),
+        kind: fc.constant("caution" as const),
+        hazard: optional(fc.constantFrom(...HAZARDS)),
         next: optional(branchArb(ids)),
       }),
-    ),
-    fc.record({ ...base, kind: fc.constant("outcome" as const), remedy: lineArb, parts: fc.array(lineArb, { maxLength: 3 }) }),
-    fc.record({ ...base, kind: fc.constant("escalate" as const), reason: lineArb }),
-  ).map((n) => strip(n as TreeNode & Record<string, unknown>) as TreeNode);
+      quantityUnit.chain(({ quantity, unit }) =>
+        fc.record({
+          ...base,
+          kind: fc.constant("nameplate" as const),
+          variable: fc.constantFrom(...VARS),
+          quantity: fc.constant(quantity),
+          unit: fc.constant(unit),
+          next: optional(branchArb(ids)),
+        }),
+      ),
+      fc.record({ ...base, kind: fc.constant("outcome" as const), remedy: lineArb, parts: fc.array(lineArb, { maxLength: 3 }) }),
+      fc.record({ ...base, kind: fc.constant("escalate" as const), reason: lineArb }),
+    )
+    .map((n) => strip(n as TreeNode & Record<string, unknown>) as TreeNode);
 };
 
 export const treeArb: fc.Arbitrary<Tree> = fc.uniqueArray(idArb, { minLength: 1, maxLength: 8 }).chain((ids) =>

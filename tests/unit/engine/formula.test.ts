@@ -83,7 +83,12 @@ describe("a safe evaluator: nothing but numbers, the run's variables and the lis
 });
 
 // Reference model: a random expression tree, printed with full parentheses, evaluated directly.
-type E = { n: number } | { v: "a" | "b" | "c" } | { op: "+" | "-" | "*" | "/" | "^"; l: E; r: E } | { neg: E } | { f: "sqrt" | "abs" | "max"; args: E[] };
+type E =
+  | { n: number }
+  | { v: "a" | "b" | "c" }
+  | { op: "+" | "-" | "*" | "/" | "^"; l: E; r: E }
+  | { neg: E }
+  | { f: "sqrt" | "abs" | "max"; args: E[] };
 const eArb: fc.Arbitrary<E> = fc.letrec<{ e: E }>((tie) => ({
   e: fc.oneof(
     { depthSize: "small" },
@@ -118,12 +123,20 @@ function model(e: E, vars: Record<string, number>): number {
 describe("property: the evaluator agrees with a direct model of the same expression", () => {
   it("for random expressions and variables", () => {
     fc.assert(
-      fc.property(eArb, fc.record({ a: fc.double({ min: -100, max: 100, noNaN: true }), b: fc.double({ min: -100, max: 100, noNaN: true }), c: fc.double({ min: 0, max: 10, noNaN: true }) }), (e, vars) => {
-        const expected = model(e, vars);
-        const src = print(e);
-        if (Number.isFinite(expected)) expect(ev(src, vars)).toBe(expected);
-        else expect(() => ev(src, vars)).toThrow(FormulaError);
-      }),
+      fc.property(
+        eArb,
+        fc.record({
+          a: fc.double({ min: -100, max: 100, noNaN: true }),
+          b: fc.double({ min: -100, max: 100, noNaN: true }),
+          c: fc.double({ min: 0, max: 10, noNaN: true }),
+        }),
+        (e, vars) => {
+          const expected = model(e, vars);
+          const src = print(e);
+          if (Number.isFinite(expected)) expect(ev(src, vars)).toBe(expected);
+          else expect(() => ev(src, vars)).toThrow(FormulaError);
+        },
+      ),
       { numRuns: 500 },
     );
   });

@@ -7,8 +7,14 @@ import type { Limits, MeasurementNode, Meter, Quantity, ToleranceLetter } from "
 type Node = Pick<MeasurementNode, "quantity" | "unit" | "limits" | "meter" | "acceptance">;
 const node = (quantity: Quantity, unit: string, limits: Limits, extra: Partial<Node> = {}): Node => ({ quantity, unit, limits, ...extra });
 const range = (min: number, max: number, unit?: string): Limits =>
-  unit ? { kind: "range", min: { value: min, unit }, max: { value: max, unit } } : { kind: "range", min: { value: min }, max: { value: max } };
-const pct = (nominal: number, p: number): Limits => ({ kind: "nominal", nominal: { value: nominal }, tolerance: { kind: "percent", plus: p, minus: p } });
+  unit
+    ? { kind: "range", min: { value: min, unit }, max: { value: max, unit } }
+    : { kind: "range", min: { value: min }, max: { value: max } };
+const pct = (nominal: number, p: number): Limits => ({
+  kind: "nominal",
+  nominal: { value: nominal },
+  tolerance: { kind: "percent", plus: p, minus: p },
+});
 
 function verdictOf(n: Node, text: string, variables: Record<string, number> = {}, meter?: Meter) {
   const r = evaluateReading(n, text, meter ? { variables, meter } : { variables });
@@ -33,14 +39,23 @@ describe("IEC 60062:2016+A1:2019 clause 5 tolerance letters (read, secondary cop
     M: [20, 20],
     Z: [80, 20], // +80 / −20 %
   };
-  it.each(Object.entries(expected).map(([l, [p, m]]) => [l, p, m] as const))("letter %s on 4.7 kΩ gives +%s % / −%s %", (letter, plus, minus) => {
-    const l = limitsOf(node("resistance", "Ω", { kind: "nominal", nominal: { value: 4.7, unit: "kΩ" }, tolerance: { kind: "letter", letter: letter as ToleranceLetter } }));
-    const lo = 4700 * (1 - minus / 100);
-    const hi = 4700 * (1 + plus / 100);
-    // Computed limits are rounded to a step of at most 1 % of the span, so within half a step.
-    expect(Math.abs(l.lo! - lo)).toBeLessThanOrEqual(0.005 * (hi - lo));
-    expect(Math.abs(l.hi! - hi)).toBeLessThanOrEqual(0.005 * (hi - lo));
-  });
+  it.each(Object.entries(expected).map(([l, [p, m]]) => [l, p, m] as const))(
+    "letter %s on 4.7 kΩ gives +%s % / −%s %",
+    (letter, plus, minus) => {
+      const l = limitsOf(
+        node("resistance", "Ω", {
+          kind: "nominal",
+          nominal: { value: 4.7, unit: "kΩ" },
+          tolerance: { kind: "letter", letter: letter as ToleranceLetter },
+        }),
+      );
+      const lo = 4700 * (1 - minus / 100);
+      const hi = 4700 * (1 + plus / 100);
+      // Computed limits are rounded to a step of at most 1 % of the span, so within half a step.
+      expect(Math.abs(l.lo! - lo)).toBeLessThanOrEqual(0.005 * (hi - lo));
+      expect(Math.abs(l.hi! - hi)).toBeLessThanOrEqual(0.005 * (hi - lo));
+    },
+  );
   it("the engine's letter table is exactly the standard's", () => {
     for (const [letter, [plus, minus]] of Object.entries(expected)) {
       expect(LETTER_PERCENT[letter as ToleranceLetter]).toEqual({ plus, minus });
@@ -60,7 +75,10 @@ describe("IEC 60062:2016+A1:2019 clause 5 tolerance letters (read, secondary cop
     expect(l.lo).toBeCloseTo(99.9, 9);
   });
   it("Z on a 10 µF part: 8–18 µF", () => {
-    const v = verdictOf(node("capacitance", "µF", { kind: "nominal", nominal: { value: 10 }, tolerance: { kind: "letter", letter: "Z" } }), "17.9 µF");
+    const v = verdictOf(
+      node("capacitance", "µF", { kind: "nominal", nominal: { value: 10 }, tolerance: { kind: "letter", letter: "Z" } }),
+      "17.9 µF",
+    );
     expect(v.limits.text).toBe("8–18 µF");
     expect(v.verdict).toBe("within");
   });
@@ -161,20 +179,26 @@ describe("meter accuracy and ILAC-G8:09/2019 §4.1–4.2 decision rules (read)",
           const g = judge(x, lo, hi, u).verdict;
           if (s !== "within") expect(g).toBe(s);
           else expect(["within", "marginal"]).toContain(g);
-          if (g === "within" && u > 0) expect(x >= lo + u - 1e-6 * Math.max(1, Math.abs(x)) && x <= hi - u + 1e-6 * Math.max(1, Math.abs(x))).toBe(true);
+          if (g === "within" && u > 0)
+            expect(x >= lo + u - 1e-6 * Math.max(1, Math.abs(x)) && x <= hi - u + 1e-6 * Math.max(1, Math.abs(x))).toBe(true);
         },
       ),
     );
   });
   it("property: verdicts are ordered along the axis (low < within < high)", () => {
     fc.assert(
-      fc.property(fc.double({ min: -1e3, max: 1e3, noNaN: true }), fc.double({ min: 0, max: 1e3, noNaN: true }), fc.double({ min: -2e3, max: 2e3, noNaN: true }), (lo, width, x) => {
-        const hi = lo + width;
-        const v = judge(x, lo, hi).verdict;
-        if (x < lo - 1e-6 * Math.max(1, Math.abs(lo))) expect(v).toBe("low");
-        if (x > hi + 1e-6 * Math.max(1, Math.abs(hi))) expect(v).toBe("high");
-        if (x >= lo && x <= hi) expect(v).toBe("within");
-      }),
+      fc.property(
+        fc.double({ min: -1e3, max: 1e3, noNaN: true }),
+        fc.double({ min: 0, max: 1e3, noNaN: true }),
+        fc.double({ min: -2e3, max: 2e3, noNaN: true }),
+        (lo, width, x) => {
+          const hi = lo + width;
+          const v = judge(x, lo, hi).verdict;
+          if (x < lo - 1e-6 * Math.max(1, Math.abs(lo))) expect(v).toBe("low");
+          if (x > hi + 1e-6 * Math.max(1, Math.abs(hi))) expect(v).toBe("high");
+          if (x >= lo && x <= hi) expect(v).toBe("within");
+        },
+      ),
     );
   });
 });
@@ -186,7 +210,11 @@ describe("motor-run capacitors (IEC 60252-1 marking; trade practice)", () => {
     expect(l.hi).toBeCloseTo(42.4, 9);
     expect(l.text).toBe("37.6–42.4 µF");
   });
-  const cap = node("capacitance", "µF", { kind: "nominal", nominal: { formula: "rated_uf" }, tolerance: { kind: "percent", plus: 6, minus: 6 } });
+  const cap = node("capacitance", "µF", {
+    kind: "nominal",
+    nominal: { formula: "rated_uf" },
+    tolerance: { kind: "percent", plus: 6, minus: 6 },
+  });
   it.each(["1.47 µF", "1.48 µF", "1.49 µF", "1470 nF", "1.47uF", "1,48 µF"])(
     "a fan-motor run capacitor rated 1.5 µF reading %s is good (common practice)",
     (text) => {
@@ -293,7 +321,11 @@ describe("FDA Food Code 2022 temperatures (read)", () => {
 });
 
 describe("gas manifold pressure (trade practice; the rating plate governs — common practice)", () => {
-  const manifold = node("pressure", "inWC", { kind: "nominal", nominal: { formula: "rated" }, tolerance: { kind: "absolute", plus: 0.3, minus: 0.3, unit: "inWC" } });
+  const manifold = node("pressure", "inWC", {
+    kind: "nominal",
+    nominal: { formula: "rated" },
+    tolerance: { kind: "absolute", plus: 0.3, minus: 0.3, unit: "inWC" },
+  });
   it("natural gas about 3.5 inWC: a 3.5 inWC reading against a 3.5 rating is within", () => {
     expect(verdictOf(manifold, "3.5 inWC", { rated: 3.5 }).verdict).toBe("within");
   });
@@ -307,12 +339,20 @@ describe("gas manifold pressure (trade practice; the rating plate governs — co
 
 describe("limits details", () => {
   it("absolute temperature tolerances are spans: 350 °F ± 15 °F on a °C step", () => {
-    const l = limitsOf(node("temperature", "°C", { kind: "nominal", nominal: { value: 350, unit: "°F" }, tolerance: { kind: "absolute", plus: 15, minus: 15, unit: "°F" } }));
+    const l = limitsOf(
+      node("temperature", "°C", {
+        kind: "nominal",
+        nominal: { value: 350, unit: "°F" },
+        tolerance: { kind: "absolute", plus: 15, minus: 15, unit: "°F" },
+      }),
+    );
     expect(l.lo).toBeCloseTo((335 - 32) / 1.8, 1);
     expect(l.hi).toBeCloseTo((365 - 32) / 1.8, 1);
   });
   it("asymmetric percentages: 120 V +5 % / −10 % → 108–126 V", () => {
-    const l = limitsOf(node("voltage", "V", { kind: "nominal", nominal: { value: 120 }, tolerance: { kind: "percent", plus: 5, minus: 10 } }));
+    const l = limitsOf(
+      node("voltage", "V", { kind: "nominal", nominal: { value: 120 }, tolerance: { kind: "percent", plus: 5, minus: 10 } }),
+    );
     expect([l.lo, l.hi]).toEqual([108, 126]);
     expect(l.derivation).toBe("120 V +5 % / −10 %");
   });
@@ -321,7 +361,9 @@ describe("limits details", () => {
     expect(l.text).toBe("20–2000 Ω");
   });
   it("one-sided limits read as such", () => {
-    expect(verdictOf(node("voltage", "mV", { kind: "atLeast", min: { value: 300 } }), "0.45 V").message).toBe("0.45 V = 450 mV — within: at least 300 mV") // what was typed, then its conversion (issue 10 item 3);
+    expect(verdictOf(node("voltage", "mV", { kind: "atLeast", min: { value: 300 } }), "0.45 V").message).toBe(
+      "0.45 V = 450 mV — within: at least 300 mV",
+    ); // what was typed, then its conversion (issue 10 item 3);
   });
   it("inverted formula limits are an error at run time", () => {
     const r = computeLimits(node("voltage", "V", { kind: "range", min: { formula: "a" }, max: { formula: "b" } }), { a: 5, b: 1 });

@@ -73,11 +73,25 @@ describe("what the format reads", () => {
       branches: { low: { to: "b" }, within: { to: "b", recheck: { max: 2, onExceed: "b" } } },
       body: "Measure it *cold*.\n\n```\n## not a heading\n```",
     });
-    expect(t.nodes[1]).toStrictEqual({ id: "b", kind: "outcome", title: "Done", remedy: "Replace it", parts: ["Capacitor 1.5 µF", "Wire nut"] });
+    expect(t.nodes[1]).toStrictEqual({
+      id: "b",
+      kind: "outcome",
+      title: "Done",
+      remedy: "Replace it",
+      parts: ["Capacitor 1.5 µF", "Wire nut"],
+    });
   });
   it("questions list answers as ‘- label → id’, labels may hold arrows and punctuation", () => {
-    const t = parsed(HEAD + "## Question `a`: Fans?\n- one slow → b\n- yes → maybe → b\n- no: really (sure) → b\n\n## Outcome `b`: Done\n- remedy: x\n");
-    expect(t.nodes[0]).toMatchObject({ answers: [{ label: "one slow", to: "b" }, { label: "yes → maybe", to: "b" }, { label: "no: really (sure)", to: "b" }] });
+    const t = parsed(
+      HEAD + "## Question `a`: Fans?\n- one slow → b\n- yes → maybe → b\n- no: really (sure) → b\n\n## Outcome `b`: Done\n- remedy: x\n",
+    );
+    expect(t.nodes[0]).toMatchObject({
+      answers: [
+        { label: "one slow", to: "b" },
+        { label: "yes → maybe", to: "b" },
+        { label: "no: really (sure)", to: "b" },
+      ],
+    });
   });
   it.each([
     ["191 V to 218 V", { kind: "range", min: { value: 191, unit: "V" }, max: { value: 218, unit: "V" } }],
@@ -85,18 +99,27 @@ describe("what the format reads", () => {
     ["at most 5", { kind: "atMost", max: { value: 5 } }],
     ["100 Ω +5 % / -10 %", { kind: "nominal", nominal: { value: 100, unit: "Ω" }, tolerance: { kind: "percent", plus: 5, minus: 10 } }],
     ["100 Ω +5 % / −10 %", { kind: "nominal", nominal: { value: 100, unit: "Ω" }, tolerance: { kind: "percent", plus: 5, minus: 10 } }],
-    ["350 °F ± 15 °F", { kind: "nominal", nominal: { value: 350, unit: "°F" }, tolerance: { kind: "absolute", plus: 15, minus: 15, unit: "°F" } }],
+    [
+      "350 °F ± 15 °F",
+      { kind: "nominal", nominal: { value: 350, unit: "°F" }, tolerance: { kind: "absolute", plus: 15, minus: 15, unit: "°F" } },
+    ],
     ["1.5 µF ±6%", { kind: "nominal", nominal: { value: 1.5, unit: "µF" }, tolerance: { kind: "percent", plus: 6, minus: 6 } }],
     ["1.5 µF +- 6 %", { kind: "nominal", nominal: { value: 1.5, unit: "µF" }, tolerance: { kind: "percent", plus: 6, minus: 6 } }],
     ["4.7 kΩ letter J", { kind: "nominal", nominal: { value: 4.7, unit: "kΩ" }, tolerance: { kind: "letter", letter: "J" } }],
-    ["`volts^2 / watts` Ω ± 10 %", { kind: "nominal", nominal: { formula: "volts^2 / watts", unit: "Ω" }, tolerance: { kind: "percent", plus: 10, minus: 10 } }],
+    [
+      "`volts^2 / watts` Ω ± 10 %",
+      { kind: "nominal", nominal: { formula: "volts^2 / watts", unit: "Ω" }, tolerance: { kind: "percent", plus: 10, minus: 10 } },
+    ],
     ["at least `rated_manifold + 1`", { kind: "atLeast", min: { formula: "rated_manifold + 1" } }],
   ])("limits: %s", (text, limits) => {
     const t = parsed(HEAD + `## Measurement \`a\`: M\n- quantity: resistance\n- unit: Ω\n- limits: ${text}\n`);
     expect((t.nodes[0] as { limits: unknown }).limits).toStrictEqual(limits);
   });
   it("the quantity can be left out when the unit says it", () => {
-    const t = parsed(HEAD + "## Nameplate `a`: Rated\n- variable: rated_uf\n- unit: MFD\n- quantity: capacitance\n\n## Nameplate `b`: Watts\n- variable: w\n- unit: W\n");
+    const t = parsed(
+      HEAD +
+        "## Nameplate `a`: Rated\n- variable: rated_uf\n- unit: MFD\n- quantity: capacitance\n\n## Nameplate `b`: Watts\n- variable: w\n- unit: W\n",
+    );
     expect(t.nodes.map((n) => (n as { quantity?: string }).quantity)).toEqual(["capacitance", "power"]);
   });
   it("CRLF files parse like LF files", () => {
@@ -114,7 +137,9 @@ describe("parse errors say line:column and what was expected", () => {
     expect(errorsOf(src)).toContain("line 9:3: expected a branch like ‘- within → next-node’, got ‘- within next-node’");
   });
   it("an answer without its arrow", () => {
-    expect(errorsOf(HEAD + "## Question `a`: Fans?\n- one slow shaft-check\n")).toEqual(["line 7:3: expected an answer like ‘- yes → next-step’, got ‘- one slow shaft-check’"]);
+    expect(errorsOf(HEAD + "## Question `a`: Fans?\n- one slow shaft-check\n")).toEqual([
+      "line 7:3: expected an answer like ‘- yes → next-step’, got ‘- one slow shaft-check’",
+    ]);
   });
   it("limits that don't read", () => {
     const [e] = errorsOf(HEAD + "## Measurement `a`: M\n- unit: V\n- limits: 191 V from 218 V\n");
@@ -151,7 +176,9 @@ describe("parse errors say line:column and what was expected", () => {
     expect(errorsOf("Some words\n\n## Step `a`: x\n")[0]).toMatch(/^line 1:1: expected the tree's title first/);
   });
   it("missing required fields", () => {
-    expect(errorsOf(HEAD + "## Outcome `a`: Done\n")).toEqual(["line 6:1: Outcome `a` needs ‘- remedy: …’ (what the technician does about it)"]);
+    expect(errorsOf(HEAD + "## Outcome `a`: Done\n")).toEqual([
+      "line 6:1: Outcome `a` needs ‘- remedy: …’ (what the technician does about it)",
+    ]);
   });
   it("schema problems map back to their line: an id with capitals", () => {
     const errs = errorsOf(HEAD + "## Step `Check_Fans`: x\n- next → a\n");

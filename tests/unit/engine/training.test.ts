@@ -10,7 +10,19 @@ import { parseTree } from "../../../app/engine/markdown/parse";
 import { computeLimits } from "../../../app/engine/limits";
 import { replay, Run, type LogEntry } from "../../../app/engine/traversal";
 import type { MeasurementNode, Tree, TreeNode, VerdictKind } from "../../../app/engine/types";
-import { callsAt, checkScript, median, nodesToward, practiceReplay, practiceTryEntry, reviewPractice, walkScript, type PracticeEntry, type Script, type World } from "../../../app/engine/training";
+import {
+  callsAt,
+  checkScript,
+  median,
+  nodesToward,
+  practiceReplay,
+  practiceTryEntry,
+  reviewPractice,
+  walkScript,
+  type PracticeEntry,
+  type Script,
+  type World,
+} from "../../../app/engine/training";
 import { ROTISSERIE_TO_CAPACITOR } from "../../support/trees";
 
 function load(file: string): Tree {
@@ -31,7 +43,11 @@ const WEAK_CAP: Script = {
     fans: { kind: "question", observation: "The left fan turns slower than the right and its note is lower.", answer: "one slow" },
     "cap-rating": { kind: "nameplate", label: "1.5 µF" },
     "cap-measure": { kind: "measurement", shows: "1.31 µF" },
-    "shaft-free": { kind: "question", observation: "The fan wheel turns smoothly by hand and coasts for a moment.", answer: "spins freely and coasts" },
+    "shaft-free": {
+      kind: "question",
+      observation: "The fan wheel turns smoothly by hand and coasts for a moment.",
+      answer: "spins freely and coasts",
+    },
   },
 };
 
@@ -42,13 +58,24 @@ const LOOP: Tree = {
   symptom: "x",
   start: "m",
   nodes: [
-    { id: "m", kind: "measurement", title: "Volts", quantity: "voltage", unit: "V", variable: "volts", limits: { kind: "range", min: { value: 191 }, max: { value: 218 } }, branches: { low: { to: "m", recheck: { max: 1 } }, within: { to: "ok" } } },
+    {
+      id: "m",
+      kind: "measurement",
+      title: "Volts",
+      quantity: "voltage",
+      unit: "V",
+      variable: "volts",
+      limits: { kind: "range", min: { value: 191 }, max: { value: 218 } },
+      branches: { low: { to: "m", recheck: { max: 1 } }, within: { to: "ok" } },
+    },
     { id: "ok", kind: "outcome", title: "Fine", remedy: "None", parts: [] },
   ],
 };
 
 /** Practice entries: the real-run walk to the capacitor, readings called as the engine judges them. */
-const TO_CAP: PracticeEntry[] = ROTISSERIE_TO_CAPACITOR.map((e) => (e.type === "reading" ? { ...e, call: "within" } : (e as PracticeEntry)));
+const TO_CAP: PracticeEntry[] = ROTISSERIE_TO_CAPACITOR.map((e) =>
+  e.type === "reading" ? { ...e, call: "within" } : (e as PracticeEntry),
+);
 
 describe("practice runs follow the trainee's call", () => {
   it("a call that agrees with the engine walks the same path as a real run", () => {
@@ -81,7 +108,8 @@ describe("practice runs follow the trainee's call", () => {
     // A step with no marginal branch takes no marginal call.
     const bad = practiceTryEntry(LOOP, [], { type: "reading", node: "m", reading: "212 V", call: "marginal" });
     expect(bad.ok).toBe(false);
-    if (!bad.ok) expect(bad.rejection.message).toBe("‘marginal’ isn't a branch of Measurement ‘Volts’; make your call from ‘low’, ‘within’.");
+    if (!bad.ok)
+      expect(bad.rejection.message).toBe("‘marginal’ isn't a branch of Measurement ‘Volts’; make your call from ‘low’, ‘within’.");
     expect(bad.state.current).toBe("m");
     expect(bad.state.steps).toEqual([]);
     expect(bad.state.undone).toEqual([]);
@@ -90,7 +118,11 @@ describe("practice runs follow the trainee's call", () => {
   });
 
   it("an undo takes the reading and its call back together", () => {
-    const log: PracticeEntry[] = [...TO_CAP, { type: "reading", node: "cap-measure", reading: "1.31 µF", call: "within" }, { type: "undo" }];
+    const log: PracticeEntry[] = [
+      ...TO_CAP,
+      { type: "reading", node: "cap-measure", reading: "1.31 µF", call: "within" },
+      { type: "undo" },
+    ];
     const s = practiceReplay(rotisserie, log);
     expect(s.current).toBe("cap-measure");
     expect(s.undone).toEqual([TO_CAP.length]);
@@ -105,14 +137,18 @@ describe("practice runs follow the trainee's call", () => {
     const s = practiceReplay(rotisserie, [...TO_CAP, m, c, m, c, m, c]);
     // Re-check up to 2 times, then cap-borderline (the tree's own bound).
     expect(s.finished).toEqual({ kind: "outcome", node: "cap-borderline" });
-    expect(s.steps.filter((x) => x.node === "cap-measure").every((x) => x.verdict?.verdict === "within" && x.branch === "marginal")).toBe(true);
+    expect(s.steps.filter((x) => x.node === "cap-measure").every((x) => x.verdict?.verdict === "within" && x.branch === "marginal")).toBe(
+      true,
+    );
   });
 
   it("a re-check bound on a measurement's own branch ends as the measurement's", () => {
     const r: PracticeEntry = { type: "reading", node: "m", reading: "180 V", call: "low" };
     const s = practiceReplay(LOOP, [r, r]);
     expect(s.finished).toMatchObject({ kind: "recheck-limit", node: "m", branch: "low", max: 1 });
-    expect(s.finished && "reason" in s.finished ? s.finished.reason : "").toBe("Re-checked 1 time at Measurement ‘Volts’ without settling it: hand the call to a lead.");
+    expect(s.finished && "reason" in s.finished ? s.finished.reason : "").toBe(
+      "Re-checked 1 time at Measurement ‘Volts’ without settling it: hand the call to a lead.",
+    );
   });
 });
 
@@ -122,13 +158,26 @@ describe("the scenario check", () => {
     expect(c.findings).toEqual([]);
     expect(c.ok).toBe(true);
     expect(c.reference.end).toEqual({ kind: "outcome", node: "cap-failed" });
-    expect(c.reference.path).toEqual(["lockout", "discharge-caps", "live-test", "supply-voltage", "fans", "cap-lockout", "cap-rating", "cap-measure", "cap-failed"]);
+    expect(c.reference.path).toEqual([
+      "lockout",
+      "discharge-caps",
+      "live-test",
+      "supply-voltage",
+      "fans",
+      "cap-lockout",
+      "cap-rating",
+      "cap-measure",
+      "cap-failed",
+    ]);
     const cap = c.reference.steps.at(-1)!;
     expect(cap.verdict?.message).toBe("1.31 µF — low: below 1.41 µF (1.5 µF ± 6 %; meter ±0.033 µF)");
   });
 
   it("a script whose reading leads elsewhere is refused at that step, saying where it goes instead", () => {
-    const c = checkScript(rotisserie, { ...WEAK_CAP, world: { ...WEAK_CAP.world, "cap-measure": { kind: "measurement", shows: "1.47 µF" } } });
+    const c = checkScript(rotisserie, {
+      ...WEAK_CAP,
+      world: { ...WEAK_CAP.world, "cap-measure": { kind: "measurement", shows: "1.47 µF" } },
+    });
     expect(c.ok).toBe(false);
     expect(c.findings).toEqual([
       {
@@ -146,13 +195,20 @@ describe("the scenario check", () => {
     const { "cap-rating": _, ...world } = WEAK_CAP.world;
     const c = checkScript(rotisserie, { ...WEAK_CAP, world });
     expect(c.findings.map((f) => [f.code, f.nodeId])).toEqual([["script-missing", "cap-rating"]]);
-    expect(c.findings[0]!.message).toBe("Nothing is scripted for Nameplate input ‘Rated capacitance of the slow fan's run capacitor’, which is on the way to the hidden fault: say what the label says.");
+    expect(c.findings[0]!.message).toBe(
+      "Nothing is scripted for Nameplate input ‘Rated capacitance of the slow fan's run capacitor’, which is on the way to the hidden fault: say what the label says.",
+    );
   });
 
   it("an answer that turns away from the fault before an unscripted step is named as the turn", () => {
-    const c = checkScript(rotisserie, { ...WEAK_CAP, world: { ...WEAK_CAP.world, fans: { kind: "question", observation: "Both wheels spin up together.", answer: "both at full speed" } } });
+    const c = checkScript(rotisserie, {
+      ...WEAK_CAP,
+      world: { ...WEAK_CAP.world, fans: { kind: "question", observation: "Both wheels spin up together.", answer: "both at full speed" } },
+    });
     expect(c.findings.map((f) => [f.code, f.nodeId])).toEqual([["script-leads-elsewhere", "fans"]]);
-    expect(c.findings[0]!.message).toMatch(/^At Question ‘With the elements heating, do both convection fans run at full speed\?’ the scripted answer ‘both at full speed’, which leads to Question ‘Do both fans turn in the direction marked on the housing\?’; the hidden fault is reached by ‘one slow’ or ‘one stopped’\.$/);
+    expect(c.findings[0]!.message).toMatch(
+      /^At Question ‘With the elements heating, do both convection fans run at full speed\?’ the scripted answer ‘both at full speed’, which leads to Question ‘Do both fans turn in the direction marked on the housing\?’; the hidden fault is reached by ‘one slow’ or ‘one stopped’\.$/,
+    );
   });
 
   it("each scripted value must read in its step's quantity, name a real answer, and not give the answer away", () => {
@@ -173,18 +229,24 @@ describe("the scenario check", () => {
     expect(codes).toContainEqual(["script-answer", "shaft-free"]);
     expect(codes).toContainEqual(["script-unknown-step", "no-such"]);
     expect(codes).toContainEqual(["script-kind", "lockout"]);
-    expect(c.findings.find((f) => f.nodeId === "supply-voltage")!.message).toMatch(/^What the meter shows at Measurement ‘Supply voltage across L1–L2’ doesn't read: /);
+    expect(c.findings.find((f) => f.nodeId === "supply-voltage")!.message).toMatch(
+      /^What the meter shows at Measurement ‘Supply voltage across L1–L2’ doesn't read: /,
+    );
     expect(c.ok).toBe(false);
   });
 
   it("the hidden fault must be an outcome of the version", () => {
     expect(checkScript(rotisserie, { ...WEAK_CAP, fault: "fans" }).findings[0]).toMatchObject({ code: "script-fault" });
-    expect(checkScript(rotisserie, { ...WEAK_CAP, fault: "gone" }).findings[0]).toMatchObject({ code: "script-fault", message: "Choose the hidden fault: one of this version's outcomes." });
+    expect(checkScript(rotisserie, { ...WEAK_CAP, fault: "gone" }).findings[0]).toMatchObject({
+      code: "script-fault",
+      message: "Choose the hidden fault: one of this version's outcomes.",
+    });
   });
 
   it("nodesToward: every node with a way to the capacitor outcome, and none without", () => {
     const toward = nodesToward(rotisserie, "cap-failed");
-    for (const id of ["lockout", "supply-voltage", "fans", "cap-lockout", "cap-rating", "cap-measure", "cap-remeasure", "cap-failed"]) expect(toward.has(id), id).toBe(true);
+    for (const id of ["lockout", "supply-voltage", "fans", "cap-lockout", "cap-rating", "cap-measure", "cap-remeasure", "cap-failed"])
+      expect(toward.has(id), id).toBe(true);
     for (const id of ["shaft-free", "motor-winding", "self-test", "fan-direction", "low-supply"]) expect(toward.has(id), id).toBe(false);
   });
 });
@@ -195,9 +257,21 @@ const timed = (log: PracticeEntry[], gap = 20) => ({ log, at: log.map((_, i) => 
 
 describe("the review of a practice run", () => {
   it("a trainee who judges 1.31 µF as within: first wrong turn at the capacitor, the misjudged reading, steps not needed, the wrong cause", () => {
-    const log: PracticeEntry[] = [...TO_CAP, { type: "reading", node: "cap-measure", reading: "1.31 µF", call: "within" }, { type: "answer", node: "shaft-free", answer: "spins freely and coasts" }];
+    const log: PracticeEntry[] = [
+      ...TO_CAP,
+      { type: "reading", node: "cap-measure", reading: "1.31 µF", call: "within" },
+      { type: "answer", node: "shaft-free", answer: "spins freely and coasts" },
+    ];
     const r = reviewPractice(rotisserie, WEAK_CAP, timed(log));
-    expect(r.firstWrongTurn).toMatchObject({ node: "cap-measure", index: 7, referenceIndex: 7, trainee: "within", reference: "low", traineeTo: "shaft-free", referenceTo: "cap-failed" });
+    expect(r.firstWrongTurn).toMatchObject({
+      node: "cap-measure",
+      index: 7,
+      referenceIndex: 7,
+      trainee: "within",
+      reference: "low",
+      traineeTo: "shaft-free",
+      referenceTo: "cap-failed",
+    });
     expect(r.rows.map((x) => [x.kind, x.node])).toEqual([
       ["same", "lockout"],
       ["same", "discharge-caps"],
@@ -246,7 +320,13 @@ describe("the review of a practice run", () => {
     ];
     const r = reviewPractice(rotisserie, WEAK_CAP, { log, at: log.map((_, i) => (i === 3 ? null : T0 + (i + 1) * 10_000)), startedAt: T0 });
     // Same target either way: a different branch at the fans question is still the first wrong turn.
-    expect(r.firstWrongTurn).toMatchObject({ node: "fans", trainee: "answer:one stopped", reference: "answer:one slow", traineeTo: "cap-lockout", referenceTo: "cap-lockout" });
+    expect(r.firstWrongTurn).toMatchObject({
+      node: "fans",
+      trainee: "answer:one stopped",
+      reference: "answer:one slow",
+      traineeTo: "cap-lockout",
+      referenceTo: "cap-lockout",
+    });
     expect(r.misread).toEqual([{ index: 4, node: "fans", answer: "one stopped", scripted: "one slow", undone: false }]);
     expect(r.rows.find((x) => x.node === "cap-measure")!.trainee).toMatchObject({ mistyped: true });
     expect(r.rows[3]!.trainee!.spentMs).toBeNull();
@@ -259,7 +339,13 @@ describe("the review of a practice run", () => {
     expect(r.firstWrongTurn).toBeNull();
     expect(r.end).toBeNull();
     expect(r.timeToCauseMs).toBeNull();
-    expect(r.rows.filter((x) => x.kind === "reference-only").map((x) => x.node)).toEqual(["supply-voltage", "fans", "cap-lockout", "cap-rating", "cap-measure"]);
+    expect(r.rows.filter((x) => x.kind === "reference-only").map((x) => x.node)).toEqual([
+      "supply-voltage",
+      "fans",
+      "cap-lockout",
+      "cap-rating",
+      "cap-measure",
+    ]);
   });
 
   it("median", () => {
@@ -303,7 +389,9 @@ function randomScript(tree: Tree, choices: Choice[]): Script | null {
       const shows = have?.kind === "measurement" ? have.shows : readingFor(node, run.variableValues, c);
       if (!shows) return null;
       world[node.id] = { kind: "measurement", shows };
-      entry = node.meter ? { type: "reading", node: node.id, reading: shows, meter: node.meter } : { type: "reading", node: node.id, reading: shows };
+      entry = node.meter
+        ? { type: "reading", node: node.id, reading: shows, meter: node.meter }
+        : { type: "reading", node: node.id, reading: shows };
     } else if (node.kind === "nameplate") {
       const label = have?.kind === "nameplate" ? have.label : `${[1.5, 12, 208, 350, 2800][c.pick % 5]} ${node.unit}`;
       world[node.id] = { kind: "nameplate", label };
@@ -400,7 +488,9 @@ describe("properties of the review, on every starter tree", () => {
           fc.pre(script !== null);
           const ref = walkScript(tree, script!.world);
           const byId = new Map(tree.nodes.map((n) => [n.id, n]));
-          const can = ref.steps.map((s, i) => (deviation(byId.get(s.node)!, ref.entries[i]!, s.branch, pick) ? i : -1)).filter((i) => i >= 0);
+          const can = ref.steps
+            .map((s, i) => (deviation(byId.get(s.node)!, ref.entries[i]!, s.branch, pick) ? i : -1))
+            .filter((i) => i >= 0);
           fc.pre(can.length > 0);
           const k = can[at % can.length]!;
           const prefix = ref.entries.slice(0, k).map((e, i) => asPractice(e, ref.steps[i]!.branch));

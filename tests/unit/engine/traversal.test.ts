@@ -12,7 +12,18 @@ describe("tree (1): two-fan rotisserie, 208 V unit", () => {
       { type: "answer", node: "shaft-free", answer: "stiff, gritty or seized" },
     ]);
     expect(s.rejected).toEqual([]);
-    expect(s.path).toEqual(["lockout", "discharge-caps", "live-test", "supply-voltage", "fans", "cap-lockout", "cap-rating", "cap-measure", "shaft-free", "motor-seized"]);
+    expect(s.path).toEqual([
+      "lockout",
+      "discharge-caps",
+      "live-test",
+      "supply-voltage",
+      "fans",
+      "cap-lockout",
+      "cap-rating",
+      "cap-measure",
+      "shaft-free",
+      "motor-seized",
+    ]);
     expect(s.finished).toEqual({ kind: "outcome", node: "motor-seized" });
     expect(s.current).toBeNull();
     const supply = s.steps.find((x) => x.node === "supply-voltage")!;
@@ -124,7 +135,8 @@ describe("rejections", () => {
     const byId = new Map(rotisserie.nodes.map((n) => [n.id, n]));
     const next = (id: string): string[] => {
       const n = byId.get(id)!;
-      const bs = n.kind === "question" ? n.answers : n.kind === "measurement" ? Object.values(n.branches) : "next" in n && n.next ? [n.next] : [];
+      const bs =
+        n.kind === "question" ? n.answers : n.kind === "measurement" ? Object.values(n.branches) : "next" in n && n.next ? [n.next] : [];
       // A re-check loop is taken at most its bound, then leaves by its exit: follow the exit instead.
       return bs.flatMap((b) => (b!.recheck ? (b!.recheck.onExceed ? [b!.recheck.onExceed] : []) : [b!.to]));
     };
@@ -150,7 +162,11 @@ describe("rejections", () => {
     expect([...ends].sort()).toEqual(["both-caps-failed", "both-motors-failed", "stopped-cap-slow-motor", "stopped-motor-slow-cap"]);
   });
   it("nothing applies after the end except undo", () => {
-    const s = replay(rotisserie, [...TO_CAPACITOR.slice(0, 4), { type: "answer", node: "fans", answer: "both stopped" }, { type: "acknowledge", node: "fans-both-stopped" }]);
+    const s = replay(rotisserie, [
+      ...TO_CAPACITOR.slice(0, 4),
+      { type: "answer", node: "fans", answer: "both stopped" },
+      { type: "acknowledge", node: "fans-both-stopped" },
+    ]);
     expect(s.finished).toMatchObject({ kind: "escalate", node: "fans-both-stopped" });
     expect(s.rejected.map((r) => r.code)).toEqual(["finished"]);
   });
@@ -170,7 +186,15 @@ describe("re-check loop without an exit escalates when its bound is passed", () 
     symptom: "s",
     start: "m",
     nodes: [
-      { id: "m", kind: "measurement", title: "Volts", quantity: "voltage", unit: "V", limits: { kind: "range", min: { value: 1 }, max: { value: 2 } }, branches: { low: { to: "again" }, within: { to: "ok" }, high: { to: "ok" } } },
+      {
+        id: "m",
+        kind: "measurement",
+        title: "Volts",
+        quantity: "voltage",
+        unit: "V",
+        limits: { kind: "range", min: { value: 1 }, max: { value: 2 } },
+        branches: { low: { to: "again" }, within: { to: "ok" }, high: { to: "ok" } },
+      },
       { id: "again", kind: "step", title: "Again", next: { to: "m", recheck: { max: 1 } } },
       { id: "ok", kind: "outcome", title: "Fine", remedy: "none", parts: [] },
     ],
@@ -206,7 +230,22 @@ function entryFor(node: TreeNode | undefined, pick: number, reading: string): Lo
       return { type: "continue", node: node.id };
   }
 }
-const readingArb = fc.constantFrom("1.5 µF", "1.42 µF", "1.2", "208 V", "240 V", "180 V", "10 Ω", "1000 Ω", "22 °C", "60 °C", "1320 W", "120 V", "bogus", "");
+const readingArb = fc.constantFrom(
+  "1.5 µF",
+  "1.42 µF",
+  "1.2",
+  "208 V",
+  "240 V",
+  "180 V",
+  "10 Ω",
+  "1000 Ω",
+  "22 °C",
+  "60 °C",
+  "1320 W",
+  "120 V",
+  "bogus",
+  "",
+);
 const walkArb = fc.array(fc.tuple(fc.nat(1000), readingArb), { maxLength: 40 });
 function walk(tree: Tree, choices: [number, string][]): LogEntry[] {
   const run = startRun(tree);
@@ -273,7 +312,8 @@ describe("properties of replay", () => {
   it("the path always follows the tree's branches from the start", () => {
     const edges = new Set<string>();
     for (const n of rotisserie.nodes) {
-      const bs = n.kind === "question" ? n.answers : n.kind === "measurement" ? Object.values(n.branches) : "next" in n && n.next ? [n.next] : [];
+      const bs =
+        n.kind === "question" ? n.answers : n.kind === "measurement" ? Object.values(n.branches) : "next" in n && n.next ? [n.next] : [];
       for (const b of bs) {
         edges.add(`${n.id}>${b!.to}`);
         if (b!.recheck?.onExceed) edges.add(`${n.id}>${b!.recheck.onExceed}`);

@@ -24,7 +24,7 @@ describe("readings as technicians type them (issue 3 list)", () => {
     ["350 F", "temperature", "°F", 350],
     ["3.5 inWC", "pressure", "inWC", 3.5],
     ["3.5 in. w.c.", "pressure", "inWC", 3.5],
-    ["3.5 \"WC", "pressure", "inWC", 3.5],
+    ['3.5 "WC', "pressure", "inWC", 3.5],
     ["1.1 kΩ", "resistance", "Ω", 1100],
     ["1.1 kohm", "resistance", "Ω", 1100],
     ["4.7k", "resistance", "Ω", 4700],

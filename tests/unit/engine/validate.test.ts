@@ -67,8 +67,13 @@ describe("findings a lead tech can act on", () => {
     expect(codes(tree([outcome("end")], "begin"))).toContain("error:start-missing");
   });
   it("verdicts with no branch: at least low/within/high, plus marginal under guarded acceptance", () => {
-    const t = tree([measure("a", { branches: { within: { to: "end" } }, acceptance: "guarded", meter: { percent: 1, counts: 1, resolution: 0.1 } }), outcome("end")]);
-    const msgs = validateTree(t).findings.filter((f) => f.code === "missing-branch").map((f) => f.message);
+    const t = tree([
+      measure("a", { branches: { within: { to: "end" } }, acceptance: "guarded", meter: { percent: 1, counts: 1, resolution: 0.1 } }),
+      outcome("end"),
+    ]);
+    const msgs = validateTree(t)
+      .findings.filter((f) => f.code === "missing-branch")
+      .map((f) => f.message);
     expect(msgs).toEqual([
       "Measurement ‘Measure a’ has nowhere to go on a low reading: add ‘- low → …’.",
       "Measurement ‘Measure a’ has nowhere to go on a high reading: add ‘- high → …’.",
@@ -76,20 +81,52 @@ describe("findings a lead tech can act on", () => {
     ]);
   });
   it("one-sided limits need only their two branches; an impossible branch is a warning", () => {
-    expect(codes(tree([measure("a", { limits: { kind: "atLeast", min: { value: 135 } }, branches: { low: { to: "end" }, within: { to: "end" } } }), outcome("end")]))).toEqual([]);
-    expect(codes(tree([measure("a", { limits: { kind: "atLeast", min: { value: 135 } } }), outcome("end")]))).toEqual(["warning:unused-branch@a"]);
+    expect(
+      codes(
+        tree([
+          measure("a", { limits: { kind: "atLeast", min: { value: 135 } }, branches: { low: { to: "end" }, within: { to: "end" } } }),
+          outcome("end"),
+        ]),
+      ),
+    ).toEqual([]);
+    expect(codes(tree([measure("a", { limits: { kind: "atLeast", min: { value: 135 } } }), outcome("end")]))).toEqual([
+      "warning:unused-branch@a",
+    ]);
   });
   it("answers: at least two, no duplicates", () => {
-    expect(codes(tree([{ id: "a", kind: "question", title: "Q", answers: [{ label: "yes", to: "end" }] }, outcome("end")]))).toEqual(["error:too-few-answers@a"]);
+    expect(codes(tree([{ id: "a", kind: "question", title: "Q", answers: [{ label: "yes", to: "end" }] }, outcome("end")]))).toEqual([
+      "error:too-few-answers@a",
+    ]);
     expect(
-      codes(tree([{ id: "a", kind: "question", title: "Q", answers: [{ label: "yes", to: "end" }, { label: "yes", to: "end" }] }, outcome("end")])),
+      codes(
+        tree([
+          {
+            id: "a",
+            kind: "question",
+            title: "Q",
+            answers: [
+              { label: "yes", to: "end" },
+              { label: "yes", to: "end" },
+            ],
+          },
+          outcome("end"),
+        ]),
+      ),
     ).toEqual(["error:duplicate-answer@a"]);
   });
   it("cycles are errors unless marked as a bounded re-check loop", () => {
-    const loop = tree([step("a", "b"), measure("b", { branches: { low: { to: "a" }, within: { to: "end" }, high: { to: "end" } } }), outcome("end")]);
+    const loop = tree([
+      step("a", "b"),
+      measure("b", { branches: { low: { to: "a" }, within: { to: "end" }, high: { to: "end" } } }),
+      outcome("end"),
+    ]);
     const f = find(loop, "cycle");
     expect(f!.message).toMatch(/^These steps loop with no limit: a → b → a\./);
-    const marked = tree([step("a", "b"), measure("b", { branches: { low: { to: "a", recheck: { max: 2 } }, within: { to: "end" }, high: { to: "end" } } }), outcome("end")]);
+    const marked = tree([
+      step("a", "b"),
+      measure("b", { branches: { low: { to: "a", recheck: { max: 2 } }, within: { to: "end" }, high: { to: "end" } } }),
+      outcome("end"),
+    ]);
     expect(codes(marked)).toEqual([]);
   });
   it("every cycle must pass through a marked branch, even one that leaves by the exit", () => {
@@ -112,46 +149,121 @@ describe("findings a lead tech can act on", () => {
     expect(find(tree([measure("a", { quantity: "capacitance", unit: "V" }), outcome("end")]), "unit-quantity")!.message).toBe(
       "Measurement ‘Measure a’ records a capacitance, but its unit ‘V’ is a voltage: use µF, nF, pF, F.",
     );
-    const f = find(tree([measure("a", { limits: { kind: "atMost", max: { value: 2, unit: "µF" } }, branches: { within: { to: "end" }, high: { to: "end" } } }), outcome("end")]), "limit-dimension");
+    const f = find(
+      tree([
+        measure("a", {
+          limits: { kind: "atMost", max: { value: 2, unit: "µF" } },
+          branches: { within: { to: "end" }, high: { to: "end" } },
+        }),
+        outcome("end"),
+      ]),
+      "limit-dimension",
+    );
     expect(f!.message).toBe("A limit of Measurement ‘Measure a’ is in µF (a capacitance), but the step measures a voltage in V.");
     expect(codes(tree([measure("a", { unit: "uFF" }), outcome("end")]))).toContain("error:unit-unknown@a");
-    expect(codes(tree([measure("a", { limits: { kind: "nominal", nominal: { value: 5 }, tolerance: { kind: "absolute", plus: 1, minus: 1, unit: "A" } } }), outcome("end")]))).toContain(
-      "error:limit-dimension@a",
-    );
+    expect(
+      codes(
+        tree([
+          measure("a", {
+            limits: { kind: "nominal", nominal: { value: 5 }, tolerance: { kind: "absolute", plus: 1, minus: 1, unit: "A" } },
+          }),
+          outcome("end"),
+        ]),
+      ),
+    ).toContain("error:limit-dimension@a");
   });
   it("inconsistent limits: min above max, negative tolerance, percent of a temperature", () => {
-    expect(codes(tree([measure("a", { limits: { kind: "range", min: { value: 218 }, max: { value: 191 } } }), outcome("end")]))).toEqual(["error:limits-inverted@a"]);
-    expect(codes(tree([measure("a", { limits: { kind: "range", min: { value: 2, unit: "kV" }, max: { value: 300 } } }), outcome("end")]))).toEqual(["error:limits-inverted@a"]);
-    expect(codes(tree([measure("a", { limits: { kind: "nominal", nominal: { value: 5 }, tolerance: { kind: "percent", plus: 6, minus: -6 } } }), outcome("end")]))).toEqual([
-      "error:negative-tolerance@a",
+    expect(codes(tree([measure("a", { limits: { kind: "range", min: { value: 218 }, max: { value: 191 } } }), outcome("end")]))).toEqual([
+      "error:limits-inverted@a",
     ]);
     expect(
-      codes(tree([measure("a", { quantity: "temperature", unit: "°F", limits: { kind: "nominal", nominal: { value: 350 }, tolerance: { kind: "percent", plus: 5, minus: 5 } } }), outcome("end")])),
+      codes(tree([measure("a", { limits: { kind: "range", min: { value: 2, unit: "kV" }, max: { value: 300 } } }), outcome("end")])),
+    ).toEqual(["error:limits-inverted@a"]);
+    expect(
+      codes(
+        tree([
+          measure("a", { limits: { kind: "nominal", nominal: { value: 5 }, tolerance: { kind: "percent", plus: 6, minus: -6 } } }),
+          outcome("end"),
+        ]),
+      ),
+    ).toEqual(["error:negative-tolerance@a"]);
+    expect(
+      codes(
+        tree([
+          measure("a", {
+            quantity: "temperature",
+            unit: "°F",
+            limits: { kind: "nominal", nominal: { value: 350 }, tolerance: { kind: "percent", plus: 5, minus: 5 } },
+          }),
+          outcome("end"),
+        ]),
+      ),
     ).toEqual(["warning:percent-of-temperature@a"]);
   });
   it("meters and guarded acceptance", () => {
-    expect(codes(tree([measure("a", { meter: { percent: 1, counts: 3, resolution: 0 } }), outcome("end")]))).toEqual(["error:meter-invalid@a"]);
-    expect(codes(tree([measure("a", { acceptance: "guarded", branches: { low: { to: "end" }, within: { to: "end" }, high: { to: "end" }, marginal: { to: "end" } } }), outcome("end")]))).toEqual([
-      "warning:guarded-without-meter@a",
+    expect(codes(tree([measure("a", { meter: { percent: 1, counts: 3, resolution: 0 } }), outcome("end")]))).toEqual([
+      "error:meter-invalid@a",
     ]);
+    expect(
+      codes(
+        tree([
+          measure("a", {
+            acceptance: "guarded",
+            branches: { low: { to: "end" }, within: { to: "end" }, high: { to: "end" }, marginal: { to: "end" } },
+          }),
+          outcome("end"),
+        ]),
+      ),
+    ).toEqual(["warning:guarded-without-meter@a"]);
   });
   it("formulas: syntax, unknown functions and unknown variables", () => {
-    const f = (formula: string) => tree([measure("a", { limits: { kind: "nominal", nominal: { formula }, tolerance: { kind: "percent", plus: 5, minus: 5 } } }), outcome("end")]);
+    const f = (formula: string) =>
+      tree([
+        measure("a", { limits: { kind: "nominal", nominal: { formula }, tolerance: { kind: "percent", plus: 5, minus: 5 } } }),
+        outcome("end"),
+      ]);
     expect(codes(f("volts^^2"))).toContain("error:formula-syntax@a");
     expect(codes(f("cbrt(8)"))).toContain("error:formula-function@a");
-    expect(find(f("rated_uf"), "unknown-variable")!.message).toBe("Measurement ‘Measure a’ uses ‘rated_uf’ in its limits, but no nameplate input or measurement records ‘rated_uf’.");
+    expect(find(f("rated_uf"), "unknown-variable")!.message).toBe(
+      "Measurement ‘Measure a’ uses ‘rated_uf’ in its limits, but no nameplate input or measurement records ‘rated_uf’.",
+    );
   });
   it("variables: one unit per name, no function names", () => {
-    const np = (id: string, unit: string, to: string, variable = "rated"): TreeNode => ({ id, kind: "nameplate", title: `Plate ${id}`, variable, quantity: "capacitance", unit, next: { to } });
+    const np = (id: string, unit: string, to: string, variable = "rated"): TreeNode => ({
+      id,
+      kind: "nameplate",
+      title: `Plate ${id}`,
+      variable,
+      quantity: "capacitance",
+      unit,
+      next: { to },
+    });
     expect(codes(tree([np("a", "µF", "b"), np("b", "nF", "end"), outcome("end")]))).toEqual(["error:variable-units@b"]);
     expect(codes(tree([np("a", "µF", "end", "sqrt"), outcome("end")]))).toEqual(["error:variable-reserved@a"]);
   });
 });
 
 describe("data flow: a formula variable must be recorded on every path into the node", () => {
-  const np = (id: string, variable: string, to: string): TreeNode => ({ id, kind: "nameplate", title: `Plate ${id}`, variable, quantity: "voltage", unit: "V", next: { to } });
-  const uses = (id: string, formula: string): MeasurementNode => measure(id, { limits: { kind: "nominal", nominal: { formula }, tolerance: { kind: "percent", plus: 5, minus: 5 } } });
-  const q = (id: string, a: string, b: string): TreeNode => ({ id, kind: "question", title: `Q ${id}`, answers: [{ label: "x", to: a }, { label: "y", to: b }] });
+  const np = (id: string, variable: string, to: string): TreeNode => ({
+    id,
+    kind: "nameplate",
+    title: `Plate ${id}`,
+    variable,
+    quantity: "voltage",
+    unit: "V",
+    next: { to },
+  });
+  const uses = (id: string, formula: string): MeasurementNode =>
+    measure(id, { limits: { kind: "nominal", nominal: { formula }, tolerance: { kind: "percent", plus: 5, minus: 5 } } });
+  const q = (id: string, a: string, b: string): TreeNode => ({
+    id,
+    kind: "question",
+    title: `Q ${id}`,
+    answers: [
+      { label: "x", to: a },
+      { label: "y", to: b },
+    ],
+  });
 
   it("defined on both arms of a diamond: fine", () => {
     expect(codes(tree([q("s", "p1", "p2"), np("p1", "v", "m"), np("p2", "v", "m"), uses("m", "v * 2"), outcome("end")]))).toEqual([]);
@@ -163,9 +275,15 @@ describe("data flow: a formula variable must be recorded on every path into the 
     );
   });
   it("defined after the use: an error", () => {
-    expect(codes(tree([uses("m", "v"), np("p", "v", "end"), outcome("end")].map((n) => (n.id === "m" ? { ...n, branches: { low: { to: "p" }, within: { to: "p" }, high: { to: "p" } } } : n)) as TreeNode[]))).toContain(
-      "error:variable-not-always-set@m",
-    );
+    expect(
+      codes(
+        tree(
+          [uses("m", "v"), np("p", "v", "end"), outcome("end")].map((n) =>
+            n.id === "m" ? { ...n, branches: { low: { to: "p" }, within: { to: "p" }, high: { to: "p" } } } : n,
+          ) as TreeNode[],
+        ),
+      ),
+    ).toContain("error:variable-not-always-set@m");
   });
   it("a measurement's own reading is not available to its own limits", () => {
     expect(codes(tree([{ ...uses("m", "v"), variable: "v" }, outcome("end")]))).toContain("error:variable-not-always-set@m");
@@ -173,7 +291,10 @@ describe("data flow: a formula variable must be recorded on every path into the 
   it("defined inside a re-check loop body before the use: fine", () => {
     const t = tree([
       np("p", "v", "m"),
-      { ...uses("m", "v"), branches: { low: { to: "p", recheck: { max: 2, onExceed: "end" } }, within: { to: "end" }, high: { to: "end" } } },
+      {
+        ...uses("m", "v"),
+        branches: { low: { to: "p", recheck: { max: 2, onExceed: "end" } }, within: { to: "end" }, high: { to: "end" } },
+      },
       outcome("end"),
     ]);
     expect(codes(t)).toEqual([]);
@@ -186,7 +307,16 @@ describe("data flow: a formula variable must be recorded on every path into the 
     const t = tree([...chain, q("s", "x1", "m"), np("x1", "v33", "m"), uses("m", "v31 + v33 + v39 + v0"), outcome("end")], "p0");
     expect(codes(t)).toEqual([]);
     // …and here v33 is only recorded on one arm.
-    const t2 = tree([...chain.filter((n) => n.id !== "p33").map((n) => (n.id === "p32" ? { ...n, next: { to: "p34" } } : n)), q("s", "x1", "m"), np("x1", "v33", "m"), uses("m", "v31 + v33 + v39"), outcome("end")] as TreeNode[], "p0");
+    const t2 = tree(
+      [
+        ...chain.filter((n) => n.id !== "p33").map((n) => (n.id === "p32" ? { ...n, next: { to: "p34" } } : n)),
+        q("s", "x1", "m"),
+        np("x1", "v33", "m"),
+        uses("m", "v31 + v33 + v39"),
+        outcome("end"),
+      ] as TreeNode[],
+      "p0",
+    );
     expect(codes(t2)).toEqual(["error:variable-not-always-set@m"]);
   });
 
@@ -212,7 +342,15 @@ describe("data flow: a formula variable must be recorded on every path into the 
       const [t0, t1] = s.to.map(id) as [string, string];
       switch (s.kind) {
         case "nameplate":
-          return { id: id(i), kind: "nameplate", title: id(i), variable: s.variable ?? "a", quantity: "voltage", unit: "V", next: { to: t0 } };
+          return {
+            id: id(i),
+            kind: "nameplate",
+            title: id(i),
+            variable: s.variable ?? "a",
+            quantity: "voltage",
+            unit: "V",
+            next: { to: t0 },
+          };
         case "measurement": {
           const m: MeasurementNode = {
             id: id(i),
@@ -220,14 +358,24 @@ describe("data flow: a formula variable must be recorded on every path into the 
             title: id(i),
             quantity: "voltage",
             unit: "V",
-            limits: s.uses.length ? { kind: "nominal", nominal: { formula: s.uses.join(" + ") }, tolerance: { kind: "percent", plus: 1, minus: 1 } } : { kind: "atLeast", min: { value: 1 } },
+            limits: s.uses.length
+              ? { kind: "nominal", nominal: { formula: s.uses.join(" + ") }, tolerance: { kind: "percent", plus: 1, minus: 1 } }
+              : { kind: "atLeast", min: { value: 1 } },
             branches: s.uses.length ? { low: { to: t0 }, within: { to: t1 }, high: { to: t0 } } : { low: { to: t0 }, within: { to: t1 } },
           };
           if (s.variable) m.variable = s.variable;
           return m;
         }
         case "question":
-          return { id: id(i), kind: "question", title: id(i), answers: [{ label: "p", to: t0 }, { label: "q", to: t1 }] };
+          return {
+            id: id(i),
+            kind: "question",
+            title: id(i),
+            answers: [
+              { label: "p", to: t0 },
+              { label: "q", to: t1 },
+            ],
+          };
         case "step":
           return { id: id(i), kind: "step", title: id(i), next: { to: t0 } };
         default:
@@ -239,7 +387,13 @@ describe("data flow: a formula variable must be recorded on every path into the 
   function oracle(t: Tree): Set<string> {
     const byId = new Map(t.nodes.map((n) => [n.id, n]));
     const succ = (n: TreeNode): string[] =>
-      n.kind === "question" ? n.answers.map((a) => a.to) : n.kind === "measurement" ? Object.values(n.branches).map((b) => b!.to) : "next" in n && n.next ? [n.next.to] : [];
+      n.kind === "question"
+        ? n.answers.map((a) => a.to)
+        : n.kind === "measurement"
+          ? Object.values(n.branches).map((b) => b!.to)
+          : "next" in n && n.next
+            ? [n.next.to]
+            : [];
     const records = (n: TreeNode, v: string) => (n.kind === "nameplate" || n.kind === "measurement") && n.variable === v;
     const reachable = new Set<string>([t.start]);
     for (const id of reachable) for (const s of succ(byId.get(id)!)) reachable.add(s);
@@ -277,7 +431,13 @@ describe("data flow: a formula variable must be recorded on every path into the 
 
 describe("data of unknown shape", () => {
   it("goes through the schema first", () => {
-    const r = validateTreeData({ title: "T", category: "toaster", symptom: "s", start: "a", nodes: [{ id: "A B", kind: "step", title: "x" }] });
+    const r = validateTreeData({
+      title: "T",
+      category: "toaster",
+      symptom: "s",
+      start: "a",
+      nodes: [{ id: "A B", kind: "step", title: "x" }],
+    });
     expect(r.tree).toBeNull();
     expect(r.result.findings.map((f) => f.code)).toEqual(["shape", "shape"]);
     expect(r.result.findings[1]).toMatchObject({ nodeIndex: 0, nodeId: "A B" });
@@ -285,7 +445,9 @@ describe("data of unknown shape", () => {
 });
 
 describe("graph walks (one depth-first search under reachability and Tarjan's components)", () => {
-  const graphs = fc.integer({ min: 1, max: 12 }).chain((n) => fc.tuple(fc.constant(n), fc.array(fc.tuple(fc.nat(n - 1), fc.nat(n - 1)), { maxLength: 30 })));
+  const graphs = fc
+    .integer({ min: 1, max: 12 })
+    .chain((n) => fc.tuple(fc.constant(n), fc.array(fc.tuple(fc.nat(n - 1), fc.nat(n - 1)), { maxLength: 30 })));
   // Oracle: plain breadth-first reachability from each node.
   function reaches(n: number, edges: [number, number][]): boolean[][] {
     return Array.from({ length: n }, (_, s) => {
@@ -304,7 +466,12 @@ describe("graph walks (one depth-first search under reachability and Tarjan's co
   it("property: two nodes share a component exactly when each reaches the other; reverse post-order lists what the start reaches", () => {
     fc.assert(
       fc.property(graphs, ([n, edges]) => {
-        const g = adjacency(n, edges.map((e) => e[0]), edges.map((e) => e[1]), () => true);
+        const g = adjacency(
+          n,
+          edges.map((e) => e[0]),
+          edges.map((e) => e[1]),
+          () => true,
+        );
         const r = reaches(n, edges);
         const c = components(g, n);
         for (let a = 0; a < n; a++) for (let b = 0; b < n; b++) expect(c.comp[a] === c.comp[b]).toBe(r[a]![b]! && r[b]![a]!);
@@ -324,9 +491,25 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
   it("item 9: one branch to a missing node reports the cause once and folds what it cuts off into it", () => {
     // The capacitor branch has a typo: 'cap-mesure' for 'cap-measure'; everything behind it is cut off.
     const t = tree([
-      { id: "fans", kind: "question", title: "Fans", answers: [{ label: "ok", to: "end" }, { label: "slow", to: "cap-mesure" }] },
+      {
+        id: "fans",
+        kind: "question",
+        title: "Fans",
+        answers: [
+          { label: "ok", to: "end" },
+          { label: "slow", to: "cap-mesure" },
+        ],
+      },
       measure("cap-measure", { branches: { low: { to: "failed" }, within: { to: "shaft" }, high: { to: "failed" } } }),
-      { id: "shaft", kind: "question", title: "Shaft", answers: [{ label: "free", to: "winding" }, { label: "stiff", to: "seized" }] },
+      {
+        id: "shaft",
+        kind: "question",
+        title: "Shaft",
+        answers: [
+          { label: "free", to: "winding" },
+          { label: "stiff", to: "seized" },
+        ],
+      },
       outcome("failed"),
       outcome("winding"),
       outcome("seized"),
@@ -347,7 +530,9 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
     m.branches.within = { to: `b${k}-cuation` }; // typo for b417-caution
     const r = validateTree(big);
     expect(r.findings).toHaveLength(1);
-    expect(r.findings[0]!.message).toMatch(/did you mean ‘b417-caution’\? Until it is fixed, ‘b417-caution’ and the 4,\d{3} steps after it can't be reached\.$/);
+    expect(r.findings[0]!.message).toMatch(
+      /did you mean ‘b417-caution’\? Until it is fixed, ‘b417-caution’ and the 4,\d{3} steps after it can't be reached\.$/,
+    );
   });
   it("item 9: an unreachable part with no missing branch behind it is one warning at its first node", () => {
     const t = tree([step("a", "end"), outcome("end"), step("lost", "lost2"), step("lost2", "lost3"), outcome("lost3")]);
@@ -357,13 +542,19 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
         code: "unreachable",
         nodeId: "lost",
         nodeIndex: 2,
-        message: "Step ‘Step lost’ can't be reached from the start, nor can the 2 steps after it: link to it from another step or delete them.",
+        message:
+          "Step ‘Step lost’ can't be reached from the start, nor can the 2 steps after it: link to it from another step or delete them.",
         covers: ["lost2", "lost3"],
       },
     ]);
   });
   it("item 10: an unbounded loop is reported at the branch that closes it", () => {
-    const t = tree([step("a", "b"), step("b", "c"), measure("c", { branches: { low: { to: "b" }, within: { to: "end" }, high: { to: "end" } } }), outcome("end")]);
+    const t = tree([
+      step("a", "b"),
+      step("b", "c"),
+      measure("c", { branches: { low: { to: "b" }, within: { to: "end" }, high: { to: "end" } } }),
+      outcome("end"),
+    ]);
     const f = find(t, "cycle")!;
     expect(f).toMatchObject({ nodeId: "c", nodeIndex: 2, field: "low" });
     expect(f.message).toBe(
@@ -373,12 +564,25 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
   it("item 11: the editor's placeholder texts are errors until replaced", () => {
     const t = tree([
       { id: "a", kind: "step", title: DEFAULT_TITLE.step, next: { to: "b" } },
-      { id: "b", kind: "question", title: "Is it hot?", answers: [{ label: "yes", to: "c" }, { label: "no", to: "d" }] },
+      {
+        id: "b",
+        kind: "question",
+        title: "Is it hot?",
+        answers: [
+          { label: "yes", to: "c" },
+          { label: "no", to: "d" },
+        ],
+      },
       { id: "c", kind: "outcome", title: "Element failed", remedy: DEFAULT_REMEDY, parts: [] },
       { id: "d", kind: "escalate", title: DEFAULT_TITLE.escalate, reason: DEFAULT_REASON },
     ]);
     const r = validateTree(t);
-    expect(r.findings.map((f) => `${f.code}@${f.nodeId}:${f.field}`)).toEqual(["default-text@a:title", "default-text@c:remedy", "default-text@d:title", "default-text@d:reason"]);
+    expect(r.findings.map((f) => `${f.code}@${f.nodeId}:${f.field}`)).toEqual([
+      "default-text@a:title",
+      "default-text@c:remedy",
+      "default-text@d:title",
+      "default-text@d:reason",
+    ]);
     expect(r.findings[0]!.message).toBe("Step ‘New step’ still has the editor's placeholder title ‘New step’: say what this step is.");
     expect(r.ok).toBe(false);
   });
@@ -387,7 +591,11 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
       { id: "a", kind: "step", title: "Check fan 2", next: { to: "b" } },
       { id: "b", kind: "outcome", title: `${DEFAULT_TITLE.outcome} 2`, remedy: "Replace the capacitor.", parts: [] },
     ]);
-    expect(validateTree(t).findings.filter((f) => f.code === "default-text").map((f) => `${f.nodeId}:${f.field}`)).toEqual(["b:title"]);
+    expect(
+      validateTree(t)
+        .findings.filter((f) => f.code === "default-text")
+        .map((f) => `${f.nodeId}:${f.field}`),
+    ).toEqual(["b:title"]);
   });
   it("item 11: two nodes with the same title are flagged, so they can be told apart", () => {
     const t = tree([step("a", "b"), { id: "b", kind: "step", title: "Step a", next: { to: "end" } }, outcome("end")]);
@@ -398,7 +606,8 @@ describe("issue 10 items 9–11: findings told once, at their cause, and placeho
         nodeId: "b",
         nodeIndex: 1,
         field: "title",
-        message: "‘b’ and ‘a’ are both titled ‘Step a’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).",
+        message:
+          "‘b’ and ‘a’ are both titled ‘Step a’: give each its own title, so they can be told apart wherever they are picked (branch lists, the run's history, the report).",
       },
     ]);
   });

@@ -27,7 +27,7 @@ describe("CSV", () => {
       ],
       rows: [
         { d: 'Capacitor, 1.5 µF "370 V"', q: 2, s: 0.125 },
-        { d: "=HYPERLINK(\"x\")", q: 1, s: null },
+        { d: '=HYPERLINK("x")', q: 1, s: null },
         { d: "two\nlines", q: 0, s: 1 },
       ],
     };
@@ -91,7 +91,9 @@ describe("found-here sentences", () => {
     causes: { make: "Vantor", model: "RCF-2208", runs: 31, shown: true, outcomes: [{ node: "cap-failed", runs: 14 }] },
   };
   it("reads as the issue asks", () => {
-    expect(stepSentence(found.steps[0]!)).toBe("41 earlier runs at this step: 27 one slow, one stopped · 9 both stopped · 5 both at full speed");
+    expect(stepSentence(found.steps[0]!)).toBe(
+      "41 earlier runs at this step: 27 one slow, one stopped · 9 both stopped · 5 both at full speed",
+    );
     expect(causeSentence(found, "cap-failed")).toBe("Found in 14 of 31 completed runs of this tree on Vantor RCF-2208");
     expect(causeSentence(found, "motor-seized")).toBe("Found in 0 of 31 completed runs of this tree on Vantor RCF-2208");
     expect(causeSentence({ ...found, causes: { ...found.causes!, shown: false } }, "cap-failed")).toBeNull();

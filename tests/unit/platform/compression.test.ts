@@ -73,12 +73,16 @@ describe("compressionStages", () => {
       const ended = new Promise((r) => zip.once("end", r));
       source.end("<script>late data</script></body></html>");
       await ended;
-      expect(inflate(Buffer.concat(out)).toString()).toBe("<!DOCTYPE html><html><body><main>shell</main><script>late data</script></body></html>");
+      expect(inflate(Buffer.concat(out)).toString()).toBe(
+        "<!DOCTYPE html><html><body><main>shell</main><script>late data</script></body></html>",
+      );
     });
   }
 
   it("a page written in many small chunks within one turn is compressed as one (as small as compressing it whole)", async () => {
-    const page = Buffer.from(`<!DOCTYPE html><html><body>${Array.from({ length: 400 }, (_, i) => `<li class="step">Step ${i}: 208 V — within 191–218 V</li>`).join("")}</body></html>`);
+    const page = Buffer.from(
+      `<!DOCTYPE html><html><body>${Array.from({ length: 400 }, (_, i) => `<li class="step">Step ${i}: 208 V — within 191–218 V</li>`).join("")}</body></html>`,
+    );
     const source = new PassThrough();
     const [bursts, zip] = compressionStages("br");
     source.pipe(bursts).pipe(zip);

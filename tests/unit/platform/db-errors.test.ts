@@ -25,13 +25,18 @@ describe("database outages are told apart from other failures", () => {
     const thrown = await answeringOutages(() => Promise.reject(error)).catch((e: unknown) => e);
     expect(thrown).toBeInstanceOf(Response);
     expect((thrown as Response).status).toBe(503);
-    expect(await (thrown as Response).json()).toEqual({ error: expect.stringContaining("can't reach its database"), code: "db_unavailable" });
+    expect(await (thrown as Response).json()).toEqual({
+      error: expect.stringContaining("can't reach its database"),
+      code: "db_unavailable",
+    });
   });
 
   it("a lost connection, a server shutting down and a Galera node not ready are outages; SQL errors and others are not", () => {
     expect(isDatabaseUnavailable(Object.assign(new Error("Connection lost"), { code: "PROTOCOL_CONNECTION_LOST" }))).toBe(true);
     expect(isDatabaseUnavailable(Object.assign(new Error("shutdown"), { errno: 1053 }))).toBe(true);
-    expect(isDatabaseUnavailable(Object.assign(new Error("WSREP has not yet prepared node for application use"), { errno: 1047 }))).toBe(true);
+    expect(isDatabaseUnavailable(Object.assign(new Error("WSREP has not yet prepared node for application use"), { errno: 1047 }))).toBe(
+      true,
+    );
     expect(isDatabaseUnavailable(new Error("Can't add new command when connection is in closed state"))).toBe(true);
     expect(isDatabaseUnavailable(Object.assign(new Error("Duplicate entry"), { code: "ER_DUP_ENTRY", errno: 1062 }))).toBe(false);
     expect(isDatabaseUnavailable(Object.assign(new Error("Deadlock"), { code: "ER_LOCK_DEADLOCK", errno: 1213 }))).toBe(false);

@@ -14,7 +14,14 @@ const problem = (source: Record<string, string>) => {
 describe("configuration: one schema, checked at boot (issue 8 item 8)", () => {
   it("has working defaults for development", () => {
     const env = parseEnv({});
-    expect(env).toMatchObject({ PORT: 3000, HOST: "0.0.0.0", TRUST_PROXY: false, DATABASE_URL: DEFAULT_DATABASE_URL, DB_POOL_SIZE: 20, secureCookies: false });
+    expect(env).toMatchObject({
+      PORT: 3000,
+      HOST: "0.0.0.0",
+      TRUST_PROXY: false,
+      DATABASE_URL: DEFAULT_DATABASE_URL,
+      DB_POOL_SIZE: 20,
+      secureCookies: false,
+    });
     expect(parseEnv({ PORT: "8080", TRUST_PROXY: "1" })).toMatchObject({ PORT: 8080, TRUST_PROXY: true });
   });
 

@@ -8,7 +8,10 @@ const png = Buffer.from(
   "89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082",
   "hex",
 );
-const gif = Buffer.concat([Buffer.from("GIF89a"), Buffer.from("01000100800000ffffff00000021f90401000000002c00000000010001000002024401003b", "hex")]);
+const gif = Buffer.concat([
+  Buffer.from("GIF89a"),
+  Buffer.from("01000100800000ffffff00000021f90401000000002c00000000010001000002024401003b", "hex"),
+]);
 
 describe("uploaded images are judged by their content", () => {
   it("accepts a real PNG and a real GIF whatever they are called", async () => {

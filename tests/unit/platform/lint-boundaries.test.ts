@@ -13,7 +13,22 @@ const imports = (spec: string) => `import x from "${spec}";\nexport default x;\n
 
 describe("import boundaries (DESIGN.md: house rules that the code enforces)", () => {
   it("app/engine imports no React, router, database, Node I/O, server module or other app layer", { timeout: 60_000 }, async () => {
-    for (const spec of ["react", "react-router", "@react-router/node", "drizzle-orm", "drizzle-orm/mysql2", "mysql2/promise", "node:fs", "fs", "path", "../lib/db.server", "~/lib/roles", "../lib/run-log", "../../db/schema", "../components/Field"]) {
+    for (const spec of [
+      "react",
+      "react-router",
+      "@react-router/node",
+      "drizzle-orm",
+      "drizzle-orm/mysql2",
+      "mysql2/promise",
+      "node:fs",
+      "fs",
+      "path",
+      "../lib/db.server",
+      "~/lib/roles",
+      "../lib/run-log",
+      "../../db/schema",
+      "../components/Field",
+    ]) {
       expect((await refused("app/engine/verdict.ts", imports(spec))).length, spec).toBeGreaterThan(0);
     }
     for (const spec of ["./units", "../types", "js-quantities", "zod/mini", "jsep"]) {

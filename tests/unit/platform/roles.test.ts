@@ -30,8 +30,10 @@ describe("the policy", () => {
   });
 
   it("technicians work calls and runs but do not write procedures, keep meters or manage people", () => {
-    for (const action of ["calls.write", "equipment.write", "runs.start"] as const) expect(can(who("technician"), action), action).toBe(true);
-    for (const action of ["trees.author", "meters.manage", "people.manage", "escalations.view", "runs.take-over"] as const) expect(can(who("technician"), action), action).toBe(false);
+    for (const action of ["calls.write", "equipment.write", "runs.start"] as const)
+      expect(can(who("technician"), action), action).toBe(true);
+    for (const action of ["trees.author", "meters.manage", "people.manage", "escalations.view", "runs.take-over"] as const)
+      expect(can(who("technician"), action), action).toBe(false);
   });
 
   it("leads and owners author trees and take over escalated runs; nobody else does", () => {
@@ -40,8 +42,12 @@ describe("the policy", () => {
   });
 
   it("trainers read everything a shop shares but change nothing in the field", () => {
-    for (const action of ACTIONS.filter((a) => a.endsWith(".view") && a !== "escalations.view" && a !== "outbox.view" && a !== "shop.overview" && a !== "audit.view")) expect(can(who("trainer"), action), action).toBe(true);
-    for (const action of ["calls.write", "equipment.write", "runs.start", "trees.author", "meters.manage", "reports.send"] as const) expect(can(who("trainer"), action), action).toBe(false);
+    for (const action of ACTIONS.filter(
+      (a) => a.endsWith(".view") && a !== "escalations.view" && a !== "outbox.view" && a !== "shop.overview" && a !== "audit.view",
+    ))
+      expect(can(who("trainer"), action), action).toBe(true);
+    for (const action of ["calls.write", "equipment.write", "runs.start", "trees.author", "meters.manage", "reports.send"] as const)
+      expect(can(who("trainer"), action), action).toBe(false);
   });
 
   it("service reports are sent by the roles that work calls (issue 9 item 9); the audit trail is the owner's", () => {

@@ -12,10 +12,23 @@ import { precacheList, workerSource } from "../../../server/service-worker";
 
 const dir = join(tmpdir(), `cluepath-sw-${process.pid}`);
 mkdirSync(join(dir, "assets"), { recursive: true });
-writeFileSync(join(dir, "assets/root-1.css"), "@font-face{src:url(/assets/sans-400.woff2) format('woff2'),url(/assets/sans-400.woff) format('woff')}");
+writeFileSync(
+  join(dir, "assets/root-1.css"),
+  "@font-face{src:url(/assets/sans-400.woff2) format('woff2'),url(/assets/sans-400.woff) format('woff')}",
+);
 
 function manifest(runnerChunk = "/assets/runs._runId-1.js"): ServerBuild["assets"] {
-  const route = (id: string, module: string, extra: object = {}) => ({ id, module, hasAction: false, hasLoader: true, hasClientAction: false, hasClientLoader: false, hasClientMiddleware: false, hasErrorBoundary: false, ...extra });
+  const route = (id: string, module: string, extra: object = {}) => ({
+    id,
+    module,
+    hasAction: false,
+    hasLoader: true,
+    hasClientAction: false,
+    hasClientLoader: false,
+    hasClientMiddleware: false,
+    hasErrorBoundary: false,
+    ...extra,
+  });
   return {
     url: "/assets/manifest-1.js",
     version: "1",
@@ -24,7 +37,10 @@ function manifest(runnerChunk = "/assets/runs._runId-1.js"): ServerBuild["assets
       root: route("root", "/assets/root-1.js", { css: ["/assets/root-1.css"] }),
       "routes/runs.$runId": route("routes/runs.$runId", runnerChunk, { parentId: "root", imports: ["/assets/limits-1.js"] }),
       "routes/phone": route("routes/phone", "/assets/phone-1.js", { parentId: "root" }),
-      "routes/trees.$treeId.edit": route("routes/trees.$treeId.edit", "/assets/trees.edit-1.js", { parentId: "root", imports: ["/assets/Canvas-1.js"] }),
+      "routes/trees.$treeId.edit": route("routes/trees.$treeId.edit", "/assets/trees.edit-1.js", {
+        parentId: "root",
+        imports: ["/assets/Canvas-1.js"],
+      }),
     },
   } as unknown as ServerBuild["assets"];
 }
@@ -33,7 +49,17 @@ describe("the service worker", () => {
   it("keeps the runner's and the phone page's code, the styles and their woff2 fonts, and the icons — not the editor", () => {
     const list = precacheList(manifest(), dir);
     expect(list).toEqual(
-      expect.arrayContaining(["/assets/entry.client-1.js", "/assets/react-dom-1.js", "/assets/runs._runId-1.js", "/assets/limits-1.js", "/assets/phone-1.js", "/assets/root-1.css", "/assets/sans-400.woff2", "/manifest.webmanifest", "/icons/icon-192.png"]),
+      expect.arrayContaining([
+        "/assets/entry.client-1.js",
+        "/assets/react-dom-1.js",
+        "/assets/runs._runId-1.js",
+        "/assets/limits-1.js",
+        "/assets/phone-1.js",
+        "/assets/root-1.css",
+        "/assets/sans-400.woff2",
+        "/manifest.webmanifest",
+        "/icons/icon-192.png",
+      ]),
     );
     expect(list).not.toContain("/assets/sans-400.woff");
     expect(list.filter((u) => /edit|Canvas/.test(u))).toEqual([]);

@@ -40,8 +40,14 @@ describe("counting a run's steps", () => {
   });
 
   it("agrees with the engine after every entry of the log", () => {
-    const log: LogEntry[] = [...ROTISSERIE_TO_CAPACITOR.slice(0, 4), { type: "undo" }, { type: "undo" }, ...ROTISSERIE_TO_CAPACITOR.slice(2)];
-    for (let n = 0; n <= log.length; n++) expect(stepsDone(rowsOf(log.slice(0, n))), `after ${n} entries`).toBe(replay(tree, log.slice(0, n)).steps.length);
+    const log: LogEntry[] = [
+      ...ROTISSERIE_TO_CAPACITOR.slice(0, 4),
+      { type: "undo" },
+      { type: "undo" },
+      ...ROTISSERIE_TO_CAPACITOR.slice(2),
+    ];
+    for (let n = 0; n <= log.length; n++)
+      expect(stepsDone(rowsOf(log.slice(0, n))), `after ${n} entries`).toBe(replay(tree, log.slice(0, n)).steps.length);
   });
 });
 
@@ -60,14 +66,18 @@ describe("times in the shop's zone", () => {
 
 describe("labels, not internal names", () => {
   it("a nameplate rating takes the tree's title, or its key in words", () => {
-    expect(ratingLabel("rated_uf", "Rated capacitance of the slow fan's run capacitor")).toBe("Rated capacitance of the slow fan's run capacitor");
+    expect(ratingLabel("rated_uf", "Rated capacitance of the slow fan's run capacitor")).toBe(
+      "Rated capacitance of the slow fan's run capacitor",
+    );
     expect(ratingLabel("fanCapacitor")).toBe("Fan capacitor");
     expect(ratingLabel("rated_manifold")).toBe("Rated manifold");
     expect(ratingLabel("supply")).toBe("Supply");
   });
 
   it("a run a lead has taken over says so on the technician's list", () => {
-    expect(openRunLine({ status: "active", heldByMe: false, holder: "Teodor Vance" })).toBe("Teodor Vance has taken over the run — read it");
+    expect(openRunLine({ status: "active", heldByMe: false, holder: "Teodor Vance" })).toBe(
+      "Teodor Vance has taken over the run — read it",
+    );
     expect(openRunLine({ status: "active", heldByMe: true, holder: "Priya Lindqvist" })).toBe("Carry on with the run");
     expect(openRunLine({ status: "paused", heldByMe: true, holder: "Priya Lindqvist" })).toBe("Resume the paused run");
     expect(openRunLine({ status: "escalated", heldByMe: true, holder: "Priya Lindqvist" })).toBe("Waiting for a lead — open the run");

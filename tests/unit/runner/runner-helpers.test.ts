@@ -92,7 +92,10 @@ describe("the run log", () => {
 
   it("a payload's identity ignores key order, surrounding spaces and the meter snapshot, but not the meter chosen", () => {
     const a = canonicalPayload({ type: "reading", node: "cap-measure", reading: "1.47 µF" }, "m1");
-    const b = canonicalPayload({ reading: " 1.47 µF ", node: "cap-measure", type: "reading", meter: { percent: 1, counts: 1, resolution: 1 } } as never, "m1");
+    const b = canonicalPayload(
+      { reading: " 1.47 µF ", node: "cap-measure", type: "reading", meter: { percent: 1, counts: 1, resolution: 1 } } as never,
+      "m1",
+    );
     expect(b).toBe(a);
     expect(canonicalPayload({ type: "reading", node: "cap-measure", reading: "1.47 µF" }, "m2")).not.toBe(a);
     expect(canonicalPayload({ type: "reading", node: "cap-measure", reading: "1.48 µF" }, "m1")).not.toBe(a);
@@ -105,7 +108,14 @@ describe("step bodies as safe Markdown blocks", () => {
     const blocks = markdownBlocks(
       "Measure **across L1–L2**.\n\n- first\n- second\n\n![terminal block](/trees/t/images/i)\n\n[bad](javascript:alert(1)) ![x](data:image/png;base64,AAAA) <script>alert(1)</script>",
     );
-    expect(blocks[0]).toEqual({ t: "p", c: [{ t: "text", v: "Measure " }, { t: "strong", c: [{ t: "text", v: "across L1–L2" }] }, { t: "text", v: "." }] });
+    expect(blocks[0]).toEqual({
+      t: "p",
+      c: [
+        { t: "text", v: "Measure " },
+        { t: "strong", c: [{ t: "text", v: "across L1–L2" }] },
+        { t: "text", v: "." },
+      ],
+    });
     expect(blocks[1]).toMatchObject({ t: "list", ordered: false, items: [[{ t: "p" }], [{ t: "p" }]] });
     expect(blocks[2]).toEqual({ t: "p", c: [{ t: "img", src: "/trees/t/images/i", alt: "terminal block" }] });
     const last = JSON.stringify(blocks[3]);

@@ -11,10 +11,30 @@ const convectionOven: TreeToMatch = {
   symptom: "The oven takes much longer than usual to reach temperature",
   equipment: "full-size electric convection ovens, 208 V",
 };
-const deckOvenTree: TreeToMatch = { title: "Deck oven bakes unevenly", category: "oven", symptom: "Bottoms burn while tops stay pale", equipment: "electric deck ovens" };
-const anyOven: TreeToMatch = { title: "Oven thermostat calibration", category: "oven", symptom: "Oven runs hotter or cooler than its dial", equipment: null };
-const gasFryer: TreeToMatch = { title: "Gas fryer won't light or recovers slowly", category: "fryer", symptom: "The pilot won't light", equipment: "floor fryers with a standing pilot" };
-const rotisserie: TreeToMatch = { title: "Two-fan convection rotisserie heats unevenly", category: "rotisserie", symptom: "One side browns more slowly", equipment: null };
+const deckOvenTree: TreeToMatch = {
+  title: "Deck oven bakes unevenly",
+  category: "oven",
+  symptom: "Bottoms burn while tops stay pale",
+  equipment: "electric deck ovens",
+};
+const anyOven: TreeToMatch = {
+  title: "Oven thermostat calibration",
+  category: "oven",
+  symptom: "Oven runs hotter or cooler than its dial",
+  equipment: null,
+};
+const gasFryer: TreeToMatch = {
+  title: "Gas fryer won't light or recovers slowly",
+  category: "fryer",
+  symptom: "The pilot won't light",
+  equipment: "floor fryers with a standing pilot",
+};
+const rotisserie: TreeToMatch = {
+  title: "Two-fan convection rotisserie heats unevenly",
+  category: "rotisserie",
+  symptom: "One side browns more slowly",
+  equipment: null,
+};
 
 const deckOven = { category: "oven" as const, make: "Brenmoor", model: "EO-6 electric deck oven" };
 
@@ -60,9 +80,17 @@ describe("ranking trees for a call", () => {
   });
 
   it("tells a gas fryer's tree from an electric fryer, and lets a unit that names no kind take any", () => {
-    expect(fitOf({ category: "fryer", make: "Quellmark", model: "EF-40 electric fryer" }, "won't heat", gasFryer)).toMatchObject({ fits: false, otherKind: "gas, not electric" });
-    expect(fitOf({ category: "fryer", make: "Quellmark", model: "GF-30L gas fryer (LP)" }, "pilot will not stay lit", gasFryer)).toMatchObject({ fits: true, kindsShared: 1 });
-    expect(fitOf({ category: "fryer", make: "Quellmark", model: "F-40" }, "won't light", gasFryer)).toMatchObject({ fits: true, kindsShared: 0 });
+    expect(fitOf({ category: "fryer", make: "Quellmark", model: "EF-40 electric fryer" }, "won't heat", gasFryer)).toMatchObject({
+      fits: false,
+      otherKind: "gas, not electric",
+    });
+    expect(
+      fitOf({ category: "fryer", make: "Quellmark", model: "GF-30L gas fryer (LP)" }, "pilot will not stay lit", gasFryer),
+    ).toMatchObject({ fits: true, kindsShared: 1 });
+    expect(fitOf({ category: "fryer", make: "Quellmark", model: "F-40" }, "won't light", gasFryer)).toMatchObject({
+      fits: true,
+      kindsShared: 0,
+    });
   });
 
   it("a tree of another category never fits, and is not said to be of another kind", () => {

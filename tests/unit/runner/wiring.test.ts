@@ -28,7 +28,16 @@ const toSupply: LogEntry[] = [
 ];
 
 // The demo shop's van multimeter on its AC volts range (db/demo.ts), as a stored meter row.
-const van: MeterView = { id: "m", name: "AC volts, 600 V range", quantity: "voltage", unit: "V", rangeMax: 600, resolution: 0.1, percent: 1, counts: 3 };
+const van: MeterView = {
+  id: "m",
+  name: "AC volts, 600 V range",
+  quantity: "voltage",
+  unit: "V",
+  rangeMax: 600,
+  resolution: 0.1,
+  percent: 1,
+  counts: 3,
+};
 
 describe("confirming an implausible reading", () => {
   // 208 typed with mV chosen on a 191–218 V step is 0.208 V: SI prefix milli = 10⁻³ (BIPM SI
@@ -48,7 +57,15 @@ describe("confirming an implausible reading", () => {
     expect(ok.ok && ok.step?.verdict?.verdict).toBe("low");
 
     // Stored as a row and read back, the entry keeps its confirmation; the log replays without asking.
-    const row = { type: "reading", node: "supply-voltage", answer: null, typed: "208 mV", meter: null, call: null, confirmed: true } as const;
+    const row = {
+      type: "reading",
+      node: "supply-voltage",
+      answer: null,
+      typed: "208 mV",
+      meter: null,
+      call: null,
+      confirmed: true,
+    } as const;
     expect(entryOf(row)).toEqual({ ...slip, confirmed: true });
     expect(entryOf({ ...row, confirmed: false })).toEqual(slip);
     const state = replay(tree, [...toSupply, entryOf(row)]);
@@ -76,12 +93,33 @@ describe("confirming an implausible reading", () => {
   });
 
   it("a log of stored steps carries the confirmation to the engine in order", () => {
-    const base = { key: "k", kind: null, answer: null, value: null, unit: null, si: null, siUnit: null, verdict: null, message: null, limitsText: null, meterId: null, meter: null, to: null, undone: false, undoesSeq: null, enteredBy: "u", recordedAt: "" };
+    const base = {
+      key: "k",
+      kind: null,
+      answer: null,
+      value: null,
+      unit: null,
+      si: null,
+      siUnit: null,
+      verdict: null,
+      message: null,
+      limitsText: null,
+      meterId: null,
+      meter: null,
+      to: null,
+      undone: false,
+      undoesSeq: null,
+      enteredBy: "u",
+      recordedAt: "",
+    };
     const steps: StepView[] = [
       { ...base, seq: 1, type: "reading", node: "supply-voltage", typed: "208 mV", confirmed: true },
       { ...base, seq: 0, type: "acknowledge", node: "lockout", typed: null },
     ];
-    expect(logOf(steps)).toEqual([{ type: "acknowledge", node: "lockout" }, { ...slip, confirmed: true }]);
+    expect(logOf(steps)).toEqual([
+      { type: "acknowledge", node: "lockout" },
+      { ...slip, confirmed: true },
+    ]);
   });
 });
 
@@ -137,15 +175,31 @@ describe("found here before, as the runner words it", () => {
     threshold: 10,
     treeRuns: 31,
     shown: true,
-    steps: [{ node: "fans", runs: 31, branches: [{ branch: "answer:one slow", label: "one slow", runs: 20 }, { branch: "answer:both stopped", label: "both stopped", runs: 11 }] }],
+    steps: [
+      {
+        node: "fans",
+        runs: 31,
+        branches: [
+          { branch: "answer:one slow", label: "one slow", runs: 20 },
+          { branch: "answer:both stopped", label: "both stopped", runs: 11 },
+        ],
+      },
+    ],
     causes: { make: "Larkspur", model: "RT-8", runs: 12, shown: true, outcomes: [{ node: "cap-failed", runs: 7 }] },
   };
   it("a step with earlier runs, and a root cause found before on this make and model, get a line; the rest none", () => {
     expect(foundHereLine(found, { id: "fans", kind: "question" })).toBe("31 earlier runs at this step: 20 one slow · 11 both stopped");
-    expect(foundHereLine(found, { id: "cap-failed", kind: "outcome" })).toBe("Found in 7 of 12 completed runs of this tree on Larkspur RT-8");
+    expect(foundHereLine(found, { id: "cap-failed", kind: "outcome" })).toBe(
+      "Found in 7 of 12 completed runs of this tree on Larkspur RT-8",
+    );
     expect(foundHereLine(found, { id: "motor-seized", kind: "outcome" })).toBeNull();
     expect(foundHereLine(found, { id: "cap-measure", kind: "measurement" })).toBeNull();
-    expect(foundHereLine({ ...found, shown: false, steps: [], causes: { ...found.causes!, shown: false, outcomes: [] } }, { id: "fans", kind: "question" })).toBeNull();
+    expect(
+      foundHereLine(
+        { ...found, shown: false, steps: [], causes: { ...found.causes!, shown: false, outcomes: [] } },
+        { id: "fans", kind: "question" },
+      ),
+    ).toBeNull();
     expect(foundHereLine(undefined, { id: "fans", kind: "question" })).toBeNull();
   });
 });
@@ -155,7 +209,15 @@ describe("node pickers tell same-title nodes apart (issue 10 item 11)", () => {
     const labels = nodeOptionLabels([
       { id: "fan-left", kind: "question", title: "Does the fan turn?", answers: [] },
       { id: "fan-right", kind: "question", title: "Does the fan turn? ", answers: [] },
-      { id: "fan-amps", kind: "measurement", title: "Does the fan turn?", quantity: "current", unit: "A", limits: { kind: "atMost", max: { value: 1 } }, branches: {} },
+      {
+        id: "fan-amps",
+        kind: "measurement",
+        title: "Does the fan turn?",
+        quantity: "current",
+        unit: "A",
+        limits: { kind: "atMost", max: { value: 1 } },
+        branches: {},
+      },
       { id: "done", kind: "outcome", title: "Fan motor worn", remedy: "Replace it.", parts: [] },
     ]);
     const all = [...labels.values()];
@@ -165,6 +227,11 @@ describe("node pickers tell same-title nodes apart (issue 10 item 11)", () => {
     // Another kind with the same title already reads differently.
     expect(labels.get("fan-amps")).not.toContain("· fan-amps");
     expect(labels.get("done")).not.toContain("·");
-    expect(distinctLabels([{ id: "a" }, { id: "b" }], () => "Same")).toEqual(new Map([["a", "Same · a"], ["b", "Same · b"]]));
+    expect(distinctLabels([{ id: "a" }, { id: "b" }], () => "Same")).toEqual(
+      new Map([
+        ["a", "Same · a"],
+        ["b", "Same · b"],
+      ]),
+    );
   });
 });

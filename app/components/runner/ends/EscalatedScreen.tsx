@@ -15,7 +15,9 @@ export function EscalatedScreen({ run }: { run: RunHandle }) {
             <span className="font-semibold">{e.raisedBy}:</span> {e.reason}
           </p>
         )}
-        {!run.view.viewer.canTakeOver && <p className="mt-2 text-lg">A lead will read the run and take it over. Everything you entered is saved.</p>}
+        {!run.view.viewer.canTakeOver && (
+          <p className="mt-2 text-lg">A lead will read the run and take it over. Everything you entered is saved.</p>
+        )}
       </div>
       {run.view.viewer.canTakeOver && <TakeOver run={run} />}
       <History run={run} />

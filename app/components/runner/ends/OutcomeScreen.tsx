@@ -31,7 +31,11 @@ export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle
     setErrors(errs);
     if (Object.keys(errs).length) return;
     await run
-      .recordOutcome({ action: action.trim(), minutes: m, parts: parts.map((p) => ({ partNumber: p.partNumber.trim(), description: p.description.trim(), quantity: Number(p.quantity) })) })
+      .recordOutcome({
+        action: action.trim(),
+        minutes: m,
+        parts: parts.map((p) => ({ partNumber: p.partNumber.trim(), description: p.description.trim(), quantity: Number(p.quantity) })),
+      })
       .catch(() => undefined);
   }
 
@@ -52,7 +56,9 @@ export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle
         }}
       >
         <Labelled label="What you did" labelClassName="text-lg" error={errors.action}>
-          {(control) => <textarea {...control} value={action} onChange={(e) => setAction(e.target.value)} rows={4} className="field-input py-2" />}
+          {(control) => (
+            <textarea {...control} value={action} onChange={(e) => setAction(e.target.value)} rows={4} className="field-input py-2" />
+          )}
         </Labelled>
         <button type="button" className="btn-quiet -mt-3 min-h-14 w-full text-base" onClick={() => setAction(node.remedy)}>
           Start from the usual remedy
@@ -62,31 +68,73 @@ export function OutcomeScreen({ node, run }: { node: OutcomeNode; run: RunHandle
           {node.parts.some((p) => !parts.some((x) => x.description === p)) && (
             <div className="space-y-2">
               <p className="text-base text-ink-soft">The procedure suggests:</p>
-              {node.parts.filter((p) => !parts.some((x) => x.description === p)).map((p) => (
-                <button key={p} type="button" className="btn-quiet min-h-14 w-full justify-start text-left text-base" onClick={() => setParts((ps) => [...ps, { partNumber: "", description: p, quantity: "1" }])}>
-                  + {p}
-                </button>
-              ))}
+              {node.parts
+                .filter((p) => !parts.some((x) => x.description === p))
+                .map((p) => (
+                  <button
+                    key={p}
+                    type="button"
+                    className="btn-quiet min-h-14 w-full justify-start text-left text-base"
+                    onClick={() => setParts((ps) => [...ps, { partNumber: "", description: p, quantity: "1" }])}
+                  >
+                    + {p}
+                  </button>
+                ))}
             </div>
           )}
           {parts.map((p, i) => (
             <div key={i} className="card space-y-2" aria-label={`Part ${i + 1}`}>
-              <Field label="Description" name={`part-desc-${i}`} value={p.description} onChange={(e) => setPart(i, { description: e.target.value })} error={errors[`part-${i}`]} />
+              <Field
+                label="Description"
+                name={`part-desc-${i}`}
+                value={p.description}
+                onChange={(e) => setPart(i, { description: e.target.value })}
+                error={errors[`part-${i}`]}
+              />
               <div className="grid grid-cols-[1fr_6rem] gap-2">
-                <Field label="Part number" name={`part-no-${i}`} value={p.partNumber} onChange={(e) => setPart(i, { partNumber: e.target.value })} autoCapitalize="characters" />
-                <Field label="Qty" name={`part-qty-${i}`} inputMode="numeric" value={p.quantity} onChange={(e) => setPart(i, { quantity: e.target.value })} error={errors[`qty-${i}`]} />
+                <Field
+                  label="Part number"
+                  name={`part-no-${i}`}
+                  value={p.partNumber}
+                  onChange={(e) => setPart(i, { partNumber: e.target.value })}
+                  autoCapitalize="characters"
+                />
+                <Field
+                  label="Qty"
+                  name={`part-qty-${i}`}
+                  inputMode="numeric"
+                  value={p.quantity}
+                  onChange={(e) => setPart(i, { quantity: e.target.value })}
+                  error={errors[`qty-${i}`]}
+                />
               </div>
-              <button type="button" className="btn-quiet min-h-12 w-full text-base" onClick={() => setParts((ps) => ps.filter((_, j) => j !== i))}>
+              <button
+                type="button"
+                className="btn-quiet min-h-12 w-full text-base"
+                onClick={() => setParts((ps) => ps.filter((_, j) => j !== i))}
+              >
                 Remove this part
               </button>
             </div>
           ))}
-          <button type="button" className="btn-quiet min-h-14 w-full" onClick={() => setParts((ps) => [...ps, { partNumber: "", description: "", quantity: "1" }])}>
+          <button
+            type="button"
+            className="btn-quiet min-h-14 w-full"
+            onClick={() => setParts((ps) => [...ps, { partNumber: "", description: "", quantity: "1" }])}
+          >
             + Add another part
           </button>
         </fieldset>
         <Labelled label="Time on the job (minutes)" labelClassName="text-lg" error={errors.minutes}>
-          {(control) => <input {...control} className="field-input text-2xl" inputMode="numeric" value={minutes} onChange={(e) => setMinutes(e.target.value)} />}
+          {(control) => (
+            <input
+              {...control}
+              className="field-input text-2xl"
+              inputMode="numeric"
+              value={minutes}
+              onChange={(e) => setMinutes(e.target.value)}
+            />
+          )}
         </Labelled>
         <button type="submit" className="btn-primary min-h-16 w-full text-xl" disabled={run.outcomePending}>
           {run.outcomePending ? "Saving…" : "Finish and make the report"}

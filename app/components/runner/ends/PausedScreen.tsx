@@ -8,7 +8,12 @@ export function PausedScreen({ run }: { run: RunHandle }) {
         Paused
       </h1>
       <p className="text-lg">Everything so far is saved. Pick up where you left off when you are back at the unit.</p>
-      <button type="button" className="btn-primary min-h-16 w-full text-xl" disabled={run.statusPending} onClick={() => void run.setStatus({ action: "resume" }).catch(() => undefined)}>
+      <button
+        type="button"
+        className="btn-primary min-h-16 w-full text-xl"
+        disabled={run.statusPending}
+        onClick={() => void run.setStatus({ action: "resume" }).catch(() => undefined)}
+      >
         Resume
       </button>
     </section>

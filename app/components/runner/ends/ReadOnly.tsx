@@ -9,7 +9,11 @@ export function ReadOnly({ run }: { run: RunHandle }) {
   return (
     <section className="space-y-3">
       <div className="card">
-        <EndHeading kicker={`${run.view.run.technician.name} holds this run${run.view.run.status === "paused" ? " (paused)" : ""}. It stands at:`} title={at?.title ?? "—"} caps={false} />
+        <EndHeading
+          kicker={`${run.view.run.technician.name} holds this run${run.view.run.status === "paused" ? " (paused)" : ""}. It stands at:`}
+          title={at?.title ?? "—"}
+          caps={false}
+        />
       </div>
       {run.view.viewer.canTakeOver && <TakeOver run={run} />}
       <History run={run} />

@@ -11,7 +11,10 @@ import type { RunHandle } from "../useRun";
 export function SendReport({ run, report }: { run: RunHandle; report: NonNullable<RunView["report"]> }) {
   const { view } = run;
   const pending = run.sendReport.isPending;
-  const send = () => run.sendReport.mutate(report.id, { onSuccess: () => announce(`Report ${reportNumber(report.number)} e-mailed to ${view.unit?.contactName ?? "the site contact"}.`) });
+  const send = () =>
+    run.sendReport.mutate(report.id, {
+      onSuccess: () => announce(`Report ${reportNumber(report.number)} e-mailed to ${view.unit?.contactName ?? "the site contact"}.`),
+    });
 
   return (
     <div className="card space-y-3">
@@ -34,7 +37,9 @@ export function SendReport({ run, report }: { run: RunHandle; report: NonNullabl
       <a className={`${report.sentAt ? "btn-primary min-h-16 text-xl" : "btn-quiet min-h-14"} w-full`} href={`/reports/${report.id}`}>
         Open the report
       </a>
-      {view.unit && report.sentAt && <SendAgain contact={`${view.unit.contactName} (${view.unit.contactEmail})`} pending={pending} send={send} className="w-full" />}
+      {view.unit && report.sentAt && (
+        <SendAgain contact={`${view.unit.contactName} (${view.unit.contactEmail})`} pending={pending} send={send} className="w-full" />
+      )}
     </div>
   );
 }

@@ -21,7 +21,9 @@ export function KeptOnPhone({ userId }: { userId: string }) {
         {refused ? (
           <span className="font-bold text-out">Some entries were not accepted by the server. </span>
         ) : queued ? (
-          <span className="font-bold text-marginal">{queued} {queued === 1 ? "entry waits" : "entries wait"} on this phone for signal. </span>
+          <span className="font-bold text-marginal">
+            {queued} {queued === 1 ? "entry waits" : "entries wait"} on this phone for signal.{" "}
+          </span>
         ) : null}
         {fresh ? (
           <>

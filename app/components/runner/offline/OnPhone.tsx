@@ -23,8 +23,15 @@ function RunCard({ r, snap }: { r: StoredRun; snap: PhoneSnapshot }) {
   const done = stepsDone(v.steps) + waiting.reduce((n, i) => n + (i.kind === "step" && i.entry.type === "undo" ? -1 : 1), 0);
   return (
     <li>
-      <a href={`/runs/${r.id}`} className="card block text-ink no-underline hover:border-copper" aria-label={`Open the run: ${v.version.title}${v.call ? `, call ${v.call.number}` : ""}`}>
-        <p className="text-lg font-bold">{v.call ? `Call ${v.call.number} · ` : ""}{v.version.title}</p>
+      <a
+        href={`/runs/${r.id}`}
+        className="card block text-ink no-underline hover:border-copper"
+        aria-label={`Open the run: ${v.version.title}${v.call ? `, call ${v.call.number}` : ""}`}
+      >
+        <p className="text-lg font-bold">
+          {v.call ? `Call ${v.call.number} · ` : ""}
+          {v.version.title}
+        </p>
         {v.unit && (
           <p className="text-ink-soft">
             {v.unit.make} {v.unit.model} · {v.unit.customer}
@@ -118,7 +125,10 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
           <a href="/" className="flex min-h-12 items-center text-base font-semibold">
             ← My home
           </a>
-          <span role="status" className={`rounded-full px-3 py-1 text-base font-bold ${online ? "bg-within-soft text-within" : "bg-marginal-soft text-marginal"}`}>
+          <span
+            role="status"
+            className={`rounded-full px-3 py-1 text-base font-bold ${online ? "bg-within-soft text-within" : "bg-marginal-soft text-marginal"}`}
+          >
             {online ? "Signal" : "No signal"}
           </span>
         </div>
@@ -132,7 +142,10 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
               {snap.kit ? ` · calls as of ${atShop(snap.kit.savedAt, snap.kit.timeZone, "time")}` : ""}.
             </p>
           ) : (
-            <p className="text-lg">Nothing is kept on this phone. Sign in when there is signal: your calls and the runs you open are then kept here for working without it.</p>
+            <p className="text-lg">
+              Nothing is kept on this phone. Sign in when there is signal: your calls and the runs you open are then kept here for working
+              without it.
+            </p>
           )}
         </div>
         <UpdateReady />
@@ -152,7 +165,15 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
               <h2 id="runs-here" className="text-xl font-bold">
                 Runs in progress
               </h2>
-              {runs.length === 0 ? <p className="text-ink-soft">None kept here.</p> : <ul className="space-y-3">{runs.map((r) => <RunCard key={r.id} r={r} snap={snap} />)}</ul>}
+              {runs.length === 0 ? (
+                <p className="text-ink-soft">None kept here.</p>
+              ) : (
+                <ul className="space-y-3">
+                  {runs.map((r) => (
+                    <RunCard key={r.id} r={r} snap={snap} />
+                  ))}
+                </ul>
+              )}
             </section>
             <section aria-labelledby="calls-here" className="space-y-3">
               <h2 id="calls-here" className="text-xl font-bold">
@@ -163,7 +184,9 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
               ) : calls.length === 0 ? (
                 <p className="text-ink-soft">No other call is kept here.</p>
               ) : (
-                <ul className="space-y-3">{phone && calls.map((c) => <CallCard key={c.id} c={c} phone={phone} running={runningCalls.has(c.id)} />)}</ul>
+                <ul className="space-y-3">
+                  {phone && calls.map((c) => <CallCard key={c.id} c={c} phone={phone} running={runningCalls.has(c.id)} />)}
+                </ul>
               )}
             </section>
           </>

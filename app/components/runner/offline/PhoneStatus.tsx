@@ -51,7 +51,15 @@ export function itemText(i: OutboxItem, view: RunView): { what: string; where: s
       const e = i.entry;
       if (e.type === "undo") return { what: "Went back one step", where: "" };
       const what =
-        e.type === "answer" ? `Answered “${e.answer}”` : e.type === "reading" ? `Reading ${e.reading}` : e.type === "nameplate" ? `Rating ${e.value}` : e.type === "acknowledge" ? "Caution acknowledged" : "Went on";
+        e.type === "answer"
+          ? `Answered “${e.answer}”`
+          : e.type === "reading"
+            ? `Reading ${e.reading}`
+            : e.type === "nameplate"
+              ? `Rating ${e.value}`
+              : e.type === "acknowledge"
+                ? "Caution acknowledged"
+                : "Went on";
       return { what, where: title(e.node) };
     }
   }
@@ -77,7 +85,11 @@ function Refused({ run, items }: { run: RunHandle; items: OutboxItem[] }) {
           {first?.refusal && <p className="text-ink-soft">The server said: “{first.refusal.message}”</p>}
         </>
       )}
-      <p>{view.viewer.holds ? "What you entered is kept on this phone until you decide:" : `What you entered is kept on this phone until you decide. Tell ${view.run.technician.name} what you found, or save the photos, before you remove them:`}</p>
+      <p>
+        {view.viewer.holds
+          ? "What you entered is kept on this phone until you decide:"
+          : `What you entered is kept on this phone until you decide. Tell ${view.run.technician.name} what you found, or save the photos, before you remove them:`}
+      </p>
       <ol className="space-y-2">
         {items.map((i) => {
           const t = itemText(i, view);
@@ -100,7 +112,11 @@ function Refused({ run, items }: { run: RunHandle; items: OutboxItem[] }) {
         <div className="space-y-2">
           <p className="font-semibold">Remove these {items.length} entries from this phone? They are not on the server and will be lost.</p>
           <div className="flex gap-2">
-            <button type="button" className="btn-quiet min-h-12 flex-1 border-2 border-out text-out" onClick={() => void run.phone.discard()}>
+            <button
+              type="button"
+              className="btn-quiet min-h-12 flex-1 border-2 border-out text-out"
+              onClick={() => void run.phone.discard()}
+            >
               Remove them
             </button>
             <button type="button" className="btn-quiet min-h-12 flex-1" onClick={() => setAsking(false)}>
@@ -145,7 +161,8 @@ export function PhoneStatus({ run }: { run: RunHandle }) {
       <UpdateReady />
       {needsSignIn && (
         <p role="alert" className="rounded-xl border-2 border-marginal bg-marginal-soft p-3 text-lg font-semibold">
-          Your sign-in has ended. <a href={`/login?next=${encodeURIComponent(`/runs/${run.view.run.id}`)}`}>Sign in again</a> to send what is on this phone; nothing is lost.
+          Your sign-in has ended. <a href={`/login?next=${encodeURIComponent(`/runs/${run.view.run.id}`)}`}>Sign in again</a> to send what
+          is on this phone; nothing is lost.
         </p>
       )}
       {offline && queued.length === 0 && refused.length === 0 && (

@@ -36,7 +36,10 @@ export function RunFromPhone({ runId, missing }: { runId: string; missing: boole
       ) : (
         <>
           <h1 className="text-2xl font-bold">This run is not on this phone</h1>
-          <p className="text-lg">There is no signal, and this run was not kept here. Runs you open, and the runs of your calls for today, are kept on the phone for next time.</p>
+          <p className="text-lg">
+            There is no signal, and this run was not kept here. Runs you open, and the runs of your calls for today, are kept on the phone
+            for next time.
+          </p>
         </>
       )}
       <p className="flex flex-wrap gap-3">

@@ -6,7 +6,11 @@ import type { NoteView, PhotoView, RunView, StepView } from "~/lib/run-log";
 import type { KitMeta, OutboxItem } from "./db";
 
 /** The server's answer to a step. */
-export type StepResponse = { step: StepView; replayed: boolean; run: { status: RunView["run"]["status"]; currentNode: string | null; endKind: string | null; stepCount: number } };
+export type StepResponse = {
+  step: StepView;
+  replayed: boolean;
+  run: { status: RunView["run"]["status"]; currentNode: string | null; endKind: string | null; stepCount: number };
+};
 
 /** Marks the step an undo took back. */
 export function takeBack(steps: StepView[], undoesSeq: number | null): StepView[] {
@@ -16,7 +20,10 @@ export function takeBack(steps: StepView[], undoesSeq: number | null): StepView[
 /** The stored run after the server accepted a step. */
 export function withAcceptedStep(view: RunView, res: StepResponse): RunView {
   const has = view.steps.some((s) => s.key === res.step.key);
-  const steps = takeBack(has ? view.steps.map((s) => (s.key === res.step.key ? res.step : s)) : [...view.steps, res.step], res.step.undoesSeq);
+  const steps = takeBack(
+    has ? view.steps.map((s) => (s.key === res.step.key ? res.step : s)) : [...view.steps, res.step],
+    res.step.undoesSeq,
+  );
   return { ...view, steps, run: { ...view.run, ...res.run } };
 }
 

@@ -24,7 +24,9 @@ export function stepFor(
   p: { key: string; meterId: string | null; at: string; enteredBy: string; practice: boolean },
 ): { ok: true; step: StepView } | { ok: false; message: string } {
   // A practice run follows the trainee's call on each reading (app/engine/training/practice.ts).
-  const tried = p.practice ? practiceTryEntry(tree, logOf(steps) as PracticeEntry[], entry as PracticeEntry) : tryEntry(tree, logOf(steps), entry);
+  const tried = p.practice
+    ? practiceTryEntry(tree, logOf(steps) as PracticeEntry[], entry as PracticeEntry)
+    : tryEntry(tree, logOf(steps), entry);
   if (!tried.ok) return { ok: false, message: tried.rejection.message };
   const s = tried.step;
   const verdict = s?.verdict;
@@ -74,7 +76,13 @@ export function overlay(server: RunView, items: OutboxItem[], photoUrl: (item: O
   const photos: PhotoView[] = [...server.photos];
   for (const i of queued) {
     if (i.kind === "step") {
-      const r = stepFor(server.tree, steps, i.entry, { key: i.key, meterId: i.meterId, at: i.at, enteredBy: server.viewer.id, practice: server.run.practice });
+      const r = stepFor(server.tree, steps, i.entry, {
+        key: i.key,
+        meterId: i.meterId,
+        at: i.at,
+        enteredBy: server.viewer.id,
+        practice: server.run.practice,
+      });
       if (r.ok) steps = [...takeBack(steps, r.step.undoesSeq), r.step];
     } else if (i.kind === "note") {
       notes.push({ id: i.key, key: i.key, node: i.node, text: i.text, author: "", createdAt: i.at, pending: true });
@@ -84,4 +92,3 @@ export function overlay(server: RunView, items: OutboxItem[], photoUrl: (item: O
   }
   return { ...server, steps, notes, photos };
 }
-

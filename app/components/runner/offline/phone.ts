@@ -44,7 +44,17 @@ function stripMeter(entry: LogEntry): LogEntry {
 const online = () => typeof navigator === "undefined" || navigator.onLine !== false;
 
 export class Phone {
-  private snap: PhoneSnapshot = { ready: false, items: [], runs: {}, calls: [], kit: null, online: online(), sending: false, needsSignIn: false, storageError: null };
+  private snap: PhoneSnapshot = {
+    ready: false,
+    items: [],
+    runs: {},
+    calls: [],
+    kit: null,
+    online: online(),
+    sending: false,
+    needsSignIn: false,
+    storageError: null,
+  };
   private listeners = new Set<() => void>();
   private db: Promise<PhoneDb | null>;
   private lastN = 0;
@@ -109,14 +119,25 @@ export class Phone {
   private async load() {
     const db = await this.db;
     if (!db) return;
-    const [items, runs, calls, kit] = await Promise.all([db.getAll("outbox"), db.getAll("runs"), db.getAll("calls"), db.get("meta", "kit")]);
+    const [items, runs, calls, kit] = await Promise.all([
+      db.getAll("outbox"),
+      db.getAll("runs"),
+      db.getAll("calls"),
+      db.get("meta", "kit"),
+    ]);
     this.lastN = Math.max(this.lastN, ...items.map((i) => i.n));
     const byId: Record<string, StoredRun> = {};
     for (const r of runs) byId[r.id] = r;
     // What this tab keeps in memory and has not written yet stays.
     for (const [id, r] of Object.entries(this.snap.runs)) if (!byId[id] || byId[id].savedAt < r.savedAt) byId[id] = r;
     const mine = this.snap.items.filter((i) => this.unwritten.has(i.n) && !items.some((x) => x.n === i.n));
-    this.set({ ready: true, items: [...items, ...mine].sort((a, b) => a.n - b.n), runs: byId, calls: calls.sort((a, b) => a.number - b.number), kit: kit ?? null });
+    this.set({
+      ready: true,
+      items: [...items, ...mine].sort((a, b) => a.n - b.n),
+      runs: byId,
+      calls: calls.sort((a, b) => a.number - b.number),
+      kit: kit ?? null,
+    });
     this.kick();
   }
 
@@ -144,12 +165,13 @@ export class Phone {
     const now = new Date().toISOString();
     const stored: StoredRun = { id: view.run.id, view, local: false, openedAt: opts.opened ? now : (old?.openedAt ?? null), savedAt: now };
     this.set({ runs: { ...this.snap.runs, [view.run.id]: stored } });
-    if (opts.opened && view.viewer.holds) setPhoneUser({ id: this.userId, name: view.run.technician.id === this.userId ? view.run.technician.name : (this.snap.kit?.user.name ?? "") });
+    if (opts.opened && view.viewer.holds)
+      setPhoneUser({
+        id: this.userId,
+        name: view.run.technician.id === this.userId ? view.run.technician.name : (this.snap.kit?.user.name ?? ""),
+      });
     const keep = opts.keep || this.snap.items.some((i) => i.runId === view.run.id);
-    if (keep)
-      void this.write(
-        this.db.then((db) => db?.put("runs", stored)),
-      ).then(() => this.changed());
+    if (keep) void this.write(this.db.then((db) => db?.put("runs", stored))).then(() => this.changed());
   }
 
   /** The technician opened a run the phone already holds (the page came from the phone, not the server). */
@@ -244,7 +266,9 @@ export class Phone {
   /** Sends the refused and held things of a run again (after the technician decided to). */
   async retry(runId: string): Promise<void> {
     const db = await this.db;
-    const again = this.snap.items.map((i) => (i.runId === runId && i.state !== "queued" ? { ...i, state: "queued" as const, refusal: undefined } : i));
+    const again = this.snap.items.map((i) =>
+      i.runId === runId && i.state !== "queued" ? { ...i, state: "queued" as const, refusal: undefined } : i,
+    );
     this.set({ items: again });
     if (db) {
       const tx = db.transaction("outbox", "readwrite");
@@ -401,7 +425,11 @@ export class Phone {
   private async refuse(i: OutboxItem, err: ApiError) {
     const refusal = { status: err.status, message: err.message, ...(err.code ? { code: err.code } : {}), at: new Date().toISOString() };
     const items = this.snap.items.map((x) =>
-      x.n === i.n ? { ...x, state: "refused" as const, refusal } : x.runId === i.runId && x.state === "queued" ? { ...x, state: "held" as const } : x,
+      x.n === i.n
+        ? { ...x, state: "refused" as const, refusal }
+        : x.runId === i.runId && x.state === "queued"
+          ? { ...x, state: "held" as const }
+          : x,
     );
     this.set({ items });
     const db = await this.db;
@@ -441,7 +469,8 @@ export class Phone {
     await tx.objectStore("calls").clear();
     for (const c of kit.calls) await tx.objectStore("calls").put(c);
     for (const v of Object.values(kit.versions)) await tx.objectStore("versions").put(v);
-    for (const key of (await tx.objectStore("versions").getAllKeys()) as string[]) if (!needed.has(key)) await tx.objectStore("versions").delete(key);
+    for (const key of (await tx.objectStore("versions").getAllKeys()) as string[])
+      if (!needed.has(key)) await tx.objectStore("versions").delete(key);
     await tx.objectStore("meta").put(meta, "kit");
     const now = Date.now();
     const runs = { ...this.snap.runs };

@@ -21,7 +21,13 @@ export function signOutOfPhone(event: FormEvent<HTMLFormElement>): void {
     } catch {
       /* nothing readable: nothing to lose */
     }
-    if (unsent && !window.confirm(`${unsent} on this phone never reached the server. Signing out deletes them. Sign out anyway? (Cancel, find signal, and they will be sent.)`)) return;
+    if (
+      unsent &&
+      !window.confirm(
+        `${unsent} on this phone never reached the server. Signing out deletes them. Sign out anyway? (Cancel, find signal, and they will be sent.)`,
+      )
+    )
+      return;
     await forgetPhoneUser(user.id);
     form.submit();
   })();

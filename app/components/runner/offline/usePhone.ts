@@ -3,7 +3,17 @@
 import { useMemo, useSyncExternalStore } from "react";
 import { phoneFor, type Phone, type PhoneSnapshot } from "./phone";
 
-const EMPTY: PhoneSnapshot = { ready: false, items: [], runs: {}, calls: [], kit: null, online: true, sending: false, needsSignIn: false, storageError: null };
+const EMPTY: PhoneSnapshot = {
+  ready: false,
+  items: [],
+  runs: {},
+  calls: [],
+  kit: null,
+  online: true,
+  sending: false,
+  needsSignIn: false,
+  storageError: null,
+};
 const nothing = () => () => {};
 const empty = () => EMPTY;
 
@@ -24,5 +34,9 @@ function onOffline(fn: () => void) {
 
 /** The browser's own word on the network (true on the server and until hydrated). */
 export function useBrowserOnline(): boolean {
-  return useSyncExternalStore(onOffline, () => navigator.onLine, () => true);
+  return useSyncExternalStore(
+    onOffline,
+    () => navigator.onLine,
+    () => true,
+  );
 }

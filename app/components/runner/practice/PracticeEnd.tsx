@@ -15,10 +15,21 @@ export function PracticeEndScreen({ run }: { run: RunHandle }) {
   const outcome = end.kind === "outcome";
   return (
     <section className="space-y-3 rounded-xl border-2 border-practice bg-practice-soft p-4">
-      <EndHeading kicker={outcome ? "The cause you reached" : "The procedure hands over here"} title={outcome ? (node?.title ?? "") : ""} tone="text-practice" />
+      <EndHeading
+        kicker={outcome ? "The cause you reached" : "The procedure hands over here"}
+        title={outcome ? (node?.title ?? "") : ""}
+        tone="text-practice"
+      />
       {!outcome && "reason" in end && <p className="text-lg font-semibold">{end.reason}</p>}
-      <p className="text-lg">Finish the practice to see the hidden fault and how each of your calls compares. Until then, Undo takes a step back.</p>
-      <button type="button" className="min-h-16 w-full rounded-xl bg-practice px-4 text-xl font-bold text-white disabled:opacity-60" disabled={finish.isPending} onClick={() => finish.mutate()}>
+      <p className="text-lg">
+        Finish the practice to see the hidden fault and how each of your calls compares. Until then, Undo takes a step back.
+      </p>
+      <button
+        type="button"
+        className="min-h-16 w-full rounded-xl bg-practice px-4 text-xl font-bold text-white disabled:opacity-60"
+        disabled={finish.isPending}
+        onClick={() => finish.mutate()}
+      >
         {finish.isPending ? "Finishing…" : "Finish the practice"}
       </button>
     </section>
@@ -40,7 +51,11 @@ export function PracticeDoneScreen({ run }: { run: RunHandle }) {
   return (
     <section className="space-y-4">
       <Result right={right}>
-        <EndHeading kicker={right ? "Practice finished — right cause" : "Practice finished — not the hidden fault"} title={reached ?? "No cause reached: the procedure handed over"} tone={right ? "text-within" : "text-out"} />
+        <EndHeading
+          kicker={right ? "Practice finished — right cause" : "Practice finished — not the hidden fault"}
+          title={reached ?? "No cause reached: the procedure handed over"}
+          tone={right ? "text-within" : "text-out"}
+        />
         {fault && (
           <p className="mt-2 text-lg">
             The hidden fault: <strong>{fault.title}</strong>
@@ -54,7 +69,10 @@ export function PracticeDoneScreen({ run }: { run: RunHandle }) {
             {readings.map((s) => {
               const same = s.call === s.verdict;
               return (
-                <li key={s.key} className={`rounded-lg border-l-8 px-3 py-2 ${s.undone ? "opacity-70" : ""} ${same ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}>
+                <li
+                  key={s.key}
+                  className={`rounded-lg border-l-8 px-3 py-2 ${s.undone ? "opacity-70" : ""} ${same ? "border-within bg-within-soft" : "border-out bg-out-soft"}`}
+                >
                   <p className="font-semibold text-ink">
                     {run.byId.get(s.node ?? "")?.title}
                     {s.undone ? " (taken back)" : ""}

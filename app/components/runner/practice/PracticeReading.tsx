@@ -25,7 +25,10 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
   const { error, setError } = typed;
   const [call, setCall] = useState<VerdictKind | null>(null);
   const callName = useId();
-  const variables = useMemo(() => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])), [run.state.variables]);
+  const variables = useMemo(
+    () => Object.fromEntries(Object.entries(run.state.variables).map(([k, v]) => [k, v.value])),
+    [run.state.variables],
+  );
   const limits = computeLimits(node, variables);
   const reading = composeReading(typed.text, typed.unit);
   // Only what is wrong with the typing is shown here (a unit of another quantity…), never a verdict.
@@ -42,7 +45,11 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
     if (!reading) return refuse("Type the reading first.");
     if (!call) return refuse("Make your call on the reading: which way does it go?");
     if (confirm && !confirmed) return announce(confirm.message, "assertive");
-    refuse(run.submit(confirmed ? { type: "reading", node: node.id, reading, call, confirmed: true } : { type: "reading", node: node.id, reading, call }));
+    refuse(
+      run.submit(
+        confirmed ? { type: "reading", node: node.id, reading, call, confirmed: true } : { type: "reading", node: node.id, reading, call },
+      ),
+    );
   }
 
   return (
@@ -53,21 +60,38 @@ export function PracticeReading({ node, run }: { node: MeasurementNode; run: Run
         {limits.ok && !limits.limits.fixed && <p className="text-base text-ink-soft">{limits.limits.derivation}</p>}
         {node.meter && <p className="text-base text-ink-soft">Meter accuracy {describeMeter(node.meter, node.unit)}</p>}
       </div>
-      <ScriptedBox label="The meter shows" value={shows} missing="This practice gives no meter value here: type the reading you would expect, then make your call.">
+      <ScriptedBox
+        label="The meter shows"
+        value={shows}
+        missing="This practice gives no meter value here: type the reading you would expect, then make your call."
+      >
         {shows && (
           <button type="button" className="btn-quiet mt-2 min-h-14 w-full text-base" onClick={() => typed.put(shows)}>
             Take the reading as shown
           </button>
         )}
       </ScriptedBox>
-      <ValueField label="Reading" unitLabel="Unit of the reading" value={typed} problem={problem} suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}>
+      <ValueField
+        label="Reading"
+        unitLabel="Unit of the reading"
+        value={typed}
+        problem={problem}
+        suggestions={parsed && !parsed.ok ? parsed.suggestions : undefined}
+      >
         {confirm ? <ConfirmBox confirm={confirm} typed={reading} onPick={typed.fill} onConfirm={() => save(true)} /> : null}
       </ValueField>
       <fieldset className="space-y-2">
         <legend className="field-label text-lg">Your call on this reading</legend>
         {callsAt(node).map((c) => (
           <label key={c} className="relative block">
-            <input type="radio" name={callName} value={c} checked={call === c} onChange={() => (setCall(c), setError(null))} className="peer absolute left-4 top-1/2 size-6 -translate-y-1/2 cursor-pointer accent-practice" />
+            <input
+              type="radio"
+              name={callName}
+              value={c}
+              checked={call === c}
+              onChange={() => (setCall(c), setError(null))}
+              className="peer absolute left-4 top-1/2 size-6 -translate-y-1/2 cursor-pointer accent-practice"
+            />
             <span className="flex min-h-16 cursor-pointer flex-col justify-center rounded-xl border-2 border-rule bg-card py-2 pl-14 pr-3 peer-checked:border-practice peer-checked:bg-practice-soft peer-focus-visible:outline-3 peer-focus-visible:outline-offset-2 peer-focus-visible:outline-focus">
               <span className="block text-xl font-bold leading-tight">{CALL_WORDS[c].word}</span>
               <span className="block text-base text-ink-soft">{CALL_WORDS[c].detail}</span>
