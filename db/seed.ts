@@ -13,6 +13,7 @@ import { createPublishedTree } from "../app/models/trees/drafts.server";
 import type { EquipmentCategory } from "./schema";
 import type { Quantity } from "../app/engine/types";
 import { generateHistory } from "./history";
+import { seedDemoTraining } from "./demo-training";
 
 /** A UUID-shaped id derived from a stable key, so the seed can upsert. */
 export function stableId(key: string): string {
@@ -111,6 +112,11 @@ export async function seed(opts: { history?: boolean } = {}): Promise<void> {
   }
   await seedStarterTrees(shopIds.demo, stableId("user:lead@tinderbox.example"));
   await seedFieldWork(shopIds);
+  await seedDemoTraining(shopIds.demo, {
+    trainer: stableId("user:trainer@tinderbox.example"),
+    technician: stableId("user:tech@tinderbox.example"),
+    treeIdOf: (file) => stableId(`tree:${file}`),
+  });
   if (opts.history !== false) await seedDemoHistory(shopIds.demo);
 }
 

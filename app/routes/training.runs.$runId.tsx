@@ -198,7 +198,7 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
       )}
 
       <Section title="The trainee's path beside the reference">
-        <div className="card overflow-x-auto p-0 focus-visible:outline-2" tabIndex={0}>
+        <div className="card relative overflow-x-auto p-0 focus-visible:outline-2" tabIndex={0}>
           <table className="w-full min-w-[48rem]">
             <thead className="border-b border-rule text-left text-sm text-ink-soft">
               <tr>

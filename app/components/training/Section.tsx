@@ -44,8 +44,9 @@ export function CardTable({
 }) {
   if (rows === 0) return <p className="card text-ink-soft">{empty}</p>;
   return (
-    // Focusable, so a keyboard can scroll a table wider than a phone (WCAG 2.1.1).
-    <div className="card overflow-x-auto p-0 focus-visible:outline-2" tabIndex={0}>
+    // Focusable, so a keyboard can scroll a table wider than a phone (WCAG 2.1.1). Relative, so the
+    // visually hidden header text (absolutely placed) scrolls with the table instead of widening the page.
+    <div className="card relative overflow-x-auto p-0 focus-visible:outline-2" tabIndex={0}>
       <table className={`w-full ${minWidth}`}>
         {caption && <caption className="px-3 pt-3 text-left text-lg font-bold">{caption}</caption>}
         <thead className="border-b border-rule">
