@@ -16,7 +16,8 @@ export const IMAGE_TYPES: Record<string, string> = {
 };
 
 let client: S3Client | undefined;
-function s3(): S3Client {
+/** The one S3 client of this process (the tests' storage checks list objects through it too). */
+export function s3(): S3Client {
   const e = env();
   return (client ??= new S3Client({
     endpoint: e.S3_ENDPOINT,

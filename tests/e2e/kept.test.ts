@@ -81,8 +81,8 @@ describe("the runner keeps unsent steps through an outage and its error page", (
     const kept = page.getByRole("region", { name: "Kept on this phone, not sent yet" });
     await kept.waitFor();
     await expect(kept.getByRole("listitem").allTextContents()).resolves.toEqual([
-      "Disconnect and lock out power before opening the panel: acknowledged",
-      "Discharge the fan-motor run capacitors with a rated tool: acknowledged",
+      "Caution acknowledged — Disconnect and lock out power before opening the panel",
+      "Caution acknowledged — Discharge the fan-motor run capacitors with a rated tool",
     ]);
     await page.screenshot({ path: screenshotPath("kept-runner-error-phone"), fullPage: true });
     expect(await db().select().from(runSteps).where(eq(runSteps.runId, runId))).toEqual([]);

@@ -2,48 +2,20 @@
 // lists what this phone holds of the run in its outbox (offline/phone.ts) — steps, notes and photos
 // the server has not accepted yet — so the technician knows nothing entered is lost. They are sent
 // by themselves, in order, once the run opens again and the server answers.
-import type { TreeNode } from "~/engine/types";
-import type { OutboxItem } from "./offline/db";
+import { useEffect, useState } from "react";
+import { describeItems } from "./offline/fold";
+import { itemText } from "./offline/PhoneStatus";
 import { usePhone } from "./offline/usePhone";
 import { phoneUser } from "./offline/who";
-import { useEffect, useState } from "react";
-
-/** "Discharge the capacitors: acknowledged" — an outbox item in the words of the run's steps. */
-export function itemLabel(item: OutboxItem, nodes: ReadonlyMap<string, TreeNode>): string {
-  const title = (node: string) => nodes.get(node)?.title ?? node;
-  switch (item.kind) {
-    case "start":
-      return "The start of this run";
-    case "note":
-      return `Note on ${title(item.node)}: ${item.text.slice(0, 60)}`;
-    case "photo":
-      return `Photo on ${title(item.node)}`;
-    case "step": {
-      const e = item.entry;
-      if (e.type === "undo") return "Undo of the step before";
-      const what =
-        e.type === "reading"
-          ? e.reading
-          : e.type === "nameplate"
-            ? e.value
-            : e.type === "answer"
-              ? e.answer
-              : e.type === "acknowledge"
-                ? "acknowledged"
-                : "done";
-      return `${title(e.node)}: ${what}`;
-    }
-  }
-}
 
 export function RunnerError({ runId, title, detail, again }: { runId: string | undefined; title: string; detail: string; again: boolean }) {
   // Whose phone this is is read after hydration: the server never sees this phone's storage.
   const [userId, setUserId] = useState<string | null>(null);
   useEffect(() => setUserId(phoneUser()?.id ?? null), []);
   const { snap } = usePhone(userId);
-  const ready = userId === null ? false : snap.ready;
+  const ready = userId !== null && snap.ready;
   const kept = snap.items.filter((i) => i.runId === runId);
-  const nodes = new Map((snap.runs[runId ?? ""]?.view.tree.nodes ?? []).map((n) => [n.id, n]));
+  const stored = snap.runs[runId ?? ""]?.view;
   return (
     <main className="mx-auto max-w-xl space-y-4 p-5">
       <h1 className="text-2xl font-bold">{title}</h1>
@@ -53,11 +25,16 @@ export function RunnerError({ runId, title, detail, again }: { runId: string | u
           <h2 id="kept-here" className="text-lg font-bold">
             Kept on this phone, not sent yet
           </h2>
-          <ol className="list-decimal space-y-1 pl-6">
-            {kept.map((u) => (
-              <li key={u.n}>{itemLabel(u, nodes)}</li>
-            ))}
-          </ol>
+          {stored ? (
+            <ol className="list-decimal space-y-1 pl-6">
+              {kept.map((u) => {
+                const t = itemText(u, stored);
+                return <li key={u.n}>{t.where ? `${t.what} — ${t.where}` : t.what}</li>;
+              })}
+            </ol>
+          ) : (
+            <p>{describeItems(kept)}.</p>
+          )}
           <p>
             {again
               ? `Open the run again: Cluepath sends ${kept.length === 1 ? "it" : "them"}, in order, as soon as it can.`

@@ -148,7 +148,8 @@ const LOG = jsonRows(
   sql`FROM ${runSteps} WHERE ${runSteps.runId} = ${runs.id}`,
   sql`${runSteps.seq}`,
 );
-const METER = jsonObject({
+/** A shop meter as a JSON object inside a run's statements (the runner's MeterView). */
+export const METER_JSON = {
   id: meters.id,
   name: meters.name,
   quantity: meters.quantity,
@@ -157,7 +158,8 @@ const METER = jsonObject({
   resolution: meters.resolution,
   percent: meters.percent,
   counts: meters.counts,
-});
+};
+const METER = jsonObject(METER_JSON);
 const RUN = sql`${runs.id} AS id, ${runs.versionId} AS versionId, ${runs.technicianId} AS technicianId, ${runs.status} AS status,
   ${runs.stepCount} AS stepCount, ${runs.currentNode} AS currentNode, ${runs.endKind} AS endKind, ${runs.practice} AS practice`;
 

@@ -24,7 +24,7 @@ import { authorize, can } from "../../lib/policy";
 import { notFound } from "../../lib/refusal";
 import { photoUrl, type NoteView, type PhotoView, type RunView } from "../../lib/run-log";
 import { fromJson, jsonIso, jsonRow, jsonRows } from "../_query.server";
-import { STEP_JSON, stepViewFromJson } from "./_log.server";
+import { METER_JSON, STEP_JSON, stepViewFromJson } from "./_log.server";
 import { practiceViewOf } from "../training/_scenario.server";
 import { OPEN, versionContent } from "./_version.server";
 
@@ -99,16 +99,7 @@ const runViewQuery = prepared((db) =>
         sql`${runParts.position}`,
       ),
       meters: jsonRows(
-        {
-          id: meters.id,
-          name: meters.name,
-          quantity: meters.quantity,
-          unit: meters.unit,
-          rangeMax: meters.rangeMax,
-          resolution: meters.resolution,
-          percent: meters.percent,
-          counts: meters.counts,
-        },
+        METER_JSON,
         sql`FROM ${meters} WHERE ${meters.shopId} = ${runs.shopId} AND ${meters.retiredAt} IS NULL`,
         sql`${meters.name}, ${meters.id}`,
       ),
