@@ -36,14 +36,17 @@ const filters = z.object({
 export const loader = page(async ({ request }: Route.LoaderArgs) => {
   const { ctx } = await requireUser(request);
   const f = filters.parse(Object.fromEntries(new URL(request.url).searchParams));
+  // A range that ends before it starts is said beside "To" (the overview's words) and not applied;
+  // both days stay in their fields.
+  const reversed = f.from !== undefined && f.to !== undefined && f.from > f.to;
   const tz = await shopTimeZone(ctx);
   // "To" includes the whole day: up to the start of the next one.
-  const to = f.to ? dayStartsAt(new Date(Date.parse(f.to) + 86_400_000).toISOString().slice(0, 10), tz) : undefined;
+  const to = f.to && !reversed ? dayStartsAt(new Date(Date.parse(f.to) + 86_400_000).toISOString().slice(0, 10), tz) : undefined;
   const [trail, members] = await Promise.all([
     listAudit(ctx, {
       action: f.action,
       actorId: f.person,
-      from: f.from ? dayStartsAt(f.from, tz) : undefined,
+      from: f.from && !reversed ? dayStartsAt(f.from, tz) : undefined,
       to,
       before: f.before,
       limit: PAGE,
@@ -52,6 +55,7 @@ export const loader = page(async ({ request }: Route.LoaderArgs) => {
   ]);
   return {
     filters: { action: f.action ?? "", person: f.person ?? "", from: f.from ?? "", to: f.to ?? "" },
+    toError: reversed ? "The last day comes before the first day; showing every day." : undefined,
     paged: f.before !== undefined,
     nextBefore: trail.nextBefore,
     people: members.map((m) => ({ id: m.userId, name: m.name })),
@@ -97,7 +101,7 @@ export default function Audit({ loaderData }: Route.ComponentProps) {
           ))}
         </SelectField>
         <Field label="From" name="from" type="date" defaultValue={f.from} />
-        <Field label="To" name="to" type="date" defaultValue={f.to} />
+        <Field label="To" name="to" type="date" defaultValue={f.to} error={loaderData.toError} />
         <div className="flex gap-2">
           <button className="btn-primary">Show</button>
           {filtered && (

@@ -41,6 +41,18 @@ describe("/audit", () => {
         .allTextContents()
         .catch(() => []);
       for (const text of items) expect(text).toContain("Sign-in refused");
+
+      // A range that ends before it starts: said beside "To", both days kept, every day shown.
+      await page.getByLabel("What").selectOption("");
+      await page.getByLabel("From").fill("2026-12-10");
+      await page.getByLabel("To").fill("2026-12-01");
+      await page.getByRole("button", { name: "Show" }).click();
+      await page.waitForURL(/to=2026-12-01/);
+      await page.getByText("The last day comes before the first day; showing every day.").waitFor();
+      await expect(page.getByLabel("From").inputValue()).resolves.toBe("2026-12-10");
+      await expect(page.getByLabel("To").inputValue()).resolves.toBe("2026-12-01");
+      await expect(page.getByRole("list", { name: "Entries, newest first" }).getByRole("listitem").count()).resolves.toBeGreaterThan(0);
+      await page.screenshot({ path: screenshotPath(`audit-reversed-range-${size}`), fullPage: true });
       await context.close();
     });
   }
