@@ -84,7 +84,7 @@ describe("touch targets on the technician's pages (390 × 844)", () => {
     // The unit's nameplate reads as the tree names it, not by its internal key.
     await visit(page, `/equipment/${stableId("unit:larkspur-rotisserie")}`, /Vantor RCF-2208/);
     const plate = page.getByRole("region", { name: "Nameplate" });
-    await expect(plate.getByText("Rated capacitance of the slow fan's run capacitor").isVisible()).resolves.toBe(true);
+    await plate.getByText("Rated capacitance of the slow fan's run capacitor").waitFor();
     await expect(plate.textContent()).resolves.not.toMatch(/rated_uf|fanCapacitor/);
     await page.screenshot({ path: screenshotPath("a11y-unit-phone"), fullPage: true });
     await context.close();

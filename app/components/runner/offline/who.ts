@@ -5,6 +5,10 @@
 
 const KEY = "cluepath.phone.user";
 
+// Set once sign-out has begun on this page: an answer still on its way (the field kit, a run view)
+// must not write the user back after it was forgotten.
+let leaving = false;
+
 export type PhoneUser = { id: string; name: string };
 
 export const phoneDbName = (userId: string) => `cluepath-phone-${userId}`;
@@ -22,6 +26,7 @@ export function phoneUser(): PhoneUser | null {
 
 /** Marks the signed-in user as the phone's (a page that knows them from the server calls it). */
 export function setPhoneUser(user: PhoneUser): void {
+  if (leaving) return;
   try {
     const now = phoneUser();
     if (now?.id !== user.id || now.name !== user.name) localStorage.setItem(KEY, JSON.stringify(user));
@@ -32,6 +37,7 @@ export function setPhoneUser(user: PhoneUser): void {
 
 /** Forgets the user and deletes everything stored for them on this phone. */
 export async function forgetPhoneUser(userId: string): Promise<void> {
+  leaving = true;
   if (phoneUser()?.id === userId) localStorage.removeItem(KEY);
   await new Promise<void>((resolve) => {
     const req = indexedDB.deleteDatabase(phoneDbName(userId));
