@@ -4,6 +4,8 @@
 import { afterAll, inject } from "vitest";
 
 process.env.DATABASE_URL = inject("e2eDatabaseUrl");
+// The project's own database (tests/support/e2e-setup.ts), for tests that start servers of their own.
+process.env.E2E_DATABASE_URL = inject("e2eDatabaseUrl");
 process.env.AUTH_SECRET = inject("e2eAuthSecret");
 
 afterAll(async () => {

@@ -35,11 +35,16 @@ async function waitFor(url: string, child: ChildProcess, log: () => string) {
 }
 
 export default async function setup(project: TestProject) {
-  const dbUrl = process.env.E2E_DATABASE_URL;
-  if (!dbUrl) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test and `npm run test:e2e` set it; see DEVELOPERS.md).");
+  const base = process.env.E2E_DATABASE_URL;
+  if (!base) throw new Error("Browser tests need E2E_DATABASE_URL (scripts/test and `npm run test:e2e` set it; see DEVELOPERS.md).");
   const buildDir = process.env.BUILD_DIR ?? "build";
   if (!existsSync(`${buildDir}/server/index.js`))
     throw new Error(`Browser tests need a build in ${buildDir}/: run \`npm run build\` first.`);
+  // Each browser project has a database of its own (cluepath_e2e, cluepath_e2e_quiet, …), so the
+  // files that need a quiet database get one while the others run.
+  const url = new URL(base);
+  if (project.name !== "e2e") url.pathname = `${url.pathname}_${project.name.replace(/^e2e-/, "")}`;
+  const dbUrl = url.toString();
   await freshSeededDatabase(dbUrl);
 
   const children: ChildProcess[] = [];
