@@ -3,8 +3,26 @@ import tailwindcss from "@tailwindcss/vite";
 import { fileURLToPath } from "node:url";
 import { defineConfig } from "vitest/config";
 
-/** Browser test files that need the database to themselves (see the "e2e-quiet" project). */
-const E2E_QUIET = ["tests/e2e/route-sweep.test.ts", "tests/e2e/insights.test.ts"];
+/**
+ * Browser test files that read a whole database or a shop's totals ("no change anywhere",
+ * root-cause counts), so no other test may write there meanwhile: each is a project of its own,
+ * "e2e-<name>", with its own database and app servers (tests/support/e2e-setup.ts).
+ */
+const E2E_ALONE = { sweep: "tests/e2e/route-sweep.test.ts", insights: "tests/e2e/insights.test.ts" };
+
+const browserProject = (name: string, include: string[], exclude: string[] = []) => ({
+  extends: true,
+  test: {
+    name,
+    include,
+    exclude,
+    globalSetup: ["tests/support/e2e-setup.ts"],
+    setupFiles: ["tests/support/e2e-file.ts"],
+    environment: "node",
+    testTimeout: 90_000,
+    hookTimeout: 90_000,
+  },
+});
 
 // Under Vitest the React Router plugin stays out (it wants to own the whole app build).
 const underVitest = Boolean(process.env.VITEST);
@@ -18,8 +36,9 @@ export default defineConfig(({ isSsrBuild }) => ({
     alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) },
   },
   test: {
-    // Vitest's default on two cores is one worker; the projects' files are mostly waiting (on the
-    // browser, the servers, MariaDB), so two keep both cores busy.
+    // Two files at a time (Vitest's default on two cores is one): the browser files mostly wait on
+    // the browser and the servers. scripts/test runs the browser projects in one Vitest and the unit
+    // and integration projects in another, side by side, each with its own S3 fake and mail catcher.
     maxWorkers: 2,
     projects: [
       {
@@ -38,42 +57,16 @@ export default defineConfig(({ isSsrBuild }) => ({
           globalSetup: ["tests/support/integration-setup.ts"],
           setupFiles: ["tests/support/integration-file.ts"],
           environment: "node",
+          // One file at a time: they share the demo shop's ids in the mail catcher and the S3 fake.
           fileParallelism: false,
           testTimeout: 30_000,
           hookTimeout: 60_000,
         },
       },
-      {
-        extends: true,
-        test: {
-          name: "e2e",
-          include: ["tests/e2e/**/*.test.ts"],
-          exclude: E2E_QUIET,
-          globalSetup: ["tests/support/e2e-setup.ts"],
-          setupFiles: ["tests/support/e2e-file.ts"],
-          environment: "node",
-          // Two files at a time: each drives one browser and mostly waits on it and the servers.
-          // They make their own records, or work the demo shop in ways that do not meet.
-          testTimeout: 90_000,
-          hookTimeout: 90_000,
-        },
-      },
-      {
-        extends: true,
-        test: {
-          // Files that read a whole database or a shop's totals ("no change anywhere", root-cause
-          // counts) and so need no other test writing meanwhile: their own database and servers
-          // (tests/support/e2e-setup.ts), one file at a time.
-          name: "e2e-quiet",
-          include: E2E_QUIET,
-          globalSetup: ["tests/support/e2e-setup.ts"],
-          setupFiles: ["tests/support/e2e-file.ts"],
-          environment: "node",
-          fileParallelism: false,
-          testTimeout: 90_000,
-          hookTimeout: 90_000,
-        },
-      },
+      // Browser files run side by side too: they make their own records, or work the demo shop in
+      // ways that do not meet.
+      browserProject("e2e", ["tests/e2e/**/*.test.ts"], Object.values(E2E_ALONE)),
+      ...Object.entries(E2E_ALONE).map(([name, file]) => browserProject(`e2e-${name}`, [file])),
     ],
   },
 }));

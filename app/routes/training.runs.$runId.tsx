@@ -10,6 +10,7 @@ import type { ReviewRow, ReviewStep, StepFlags } from "~/engine/training/compare
 import type { TreeNode } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
+import { CONFIRMED_NOTE } from "~/lib/run-log";
 import { form, page, readForm } from "~/lib/route.server";
 import { duration } from "~/lib/training";
 import { addComment, commentInput, getPracticeReview, noteInput, saveReview } from "~/models/training/reviews.server";
@@ -56,12 +57,23 @@ const KIND: Partial<Record<TreeNode["kind"], string>> = {
 type Titles = Record<string, { title: string; kind: TreeNode["kind"] }>;
 
 /** What one walk did at a step, in words. */
-function Did({ step, typed, trainee }: { step: ReviewStep & StepFlags; typed?: string | null; trainee?: boolean }) {
+function Did({
+  step,
+  typed,
+  confirmed,
+  trainee,
+}: {
+  step: ReviewStep & StepFlags;
+  typed?: string | null;
+  confirmed?: boolean;
+  trainee?: boolean;
+}) {
   if (step.verdict) {
     return (
       <div>
         <p>
           {typed ?? step.verdict.reading.text}
+          {confirmed && <span className="ml-1 text-ink-soft">{CONFIRMED_NOTE}</span>}
           {step.mistyped && <span className="ml-1 font-semibold text-marginal">(the meter showed otherwise)</span>}
         </p>
         {trainee && step.call ? (
@@ -105,7 +117,7 @@ const ROW_MARK: Record<ReviewRow["kind"], { label: string; cls: string; word: st
 };
 
 export default function ReviewPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { run, scenario, version, review, titles, comments, note, typed, started, finished } = loaderData;
+  const { run, scenario, version, review, titles, comments, note, typed, confirmed, started, finished } = loaderData;
   const t = titles as Titles;
   const title = (id: string | null | undefined) => (id ? (t[id]?.title ?? id) : "");
   const sent = actionData as { ok: boolean; message: string; errors?: Record<string, string>; values?: Record<string, string> } | undefined;
@@ -179,8 +191,9 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                   {m.undone ? " (taken back by an undo)" : ""}
                 </p>
                 <p>
-                  {typed[m.index] ?? m.verdict.reading.text} — the trainee called it <strong>{m.call}</strong>; Cluepath judged it{" "}
-                  <strong>{m.verdict.verdict}</strong>.
+                  {typed[m.index] ?? m.verdict.reading.text}
+                  {confirmed.includes(m.index) && ` ${CONFIRMED_NOTE}`} — the trainee called it <strong>{m.call}</strong>; Cluepath judged
+                  it <strong>{m.verdict.verdict}</strong>.
                 </p>
                 <p className="text-base">{m.verdict.message}</p>
                 <p className="text-sm text-ink-soft">
@@ -228,7 +241,12 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                     <td className="px-3 py-2">{row.reference ? <Did step={row.reference} /> : <p className="text-ink-soft">—</p>}</td>
                     <td className="px-3 py-2">
                       {row.trainee ? (
-                        <Did step={row.trainee} typed={typed[row.trainee.index]} trainee />
+                        <Did
+                          step={row.trainee}
+                          typed={typed[row.trainee.index]}
+                          confirmed={confirmed.includes(row.trainee.index)}
+                          trainee
+                        />
                       ) : (
                         <p className="text-ink-soft">—</p>
                       )}

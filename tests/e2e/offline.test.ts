@@ -3,9 +3,7 @@
 // a reload and a closed tab, and reaches the server once, in order, with the phone's times; a run
 // started with no signal on an assigned call is created at sync; a lead's take-over while the phone
 // was offline shows the technician what was not accepted and what they typed; sign-out deletes what
-// the phone kept for the user. (An update of the app is not driven here: Chromium fetches a worker's
-// script past playwright's routes and the DevTools Fetch domain, so a test cannot serve a second
-// version; tests/unit/platform/service-worker.test.ts checks the version changes with the build.)
+// the phone kept for the user. (An update of the app while steps wait: tests/e2e/update.test.ts.)
 // Screenshots: tests/screenshots/offline-*.png (390×844).
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";

@@ -205,6 +205,7 @@ describe("a practice run follows the trainee's call", () => {
       referenceTo: "cap-failed",
     });
     expect(r.review.misjudged).toHaveLength(1);
+    expect(r.confirmed).toEqual([]);
     expect(r.review.misjudged[0]).toMatchObject({ node: "cap-measure", call: "within", undone: false });
     expect(r.review.misjudged[0]!.verdict).toMatchObject({ verdict: "low", limits: { text: "1.41–1.59 µF" } });
     expect(r.review.rows.filter((x) => x.kind === "trainee-only").map((x) => x.node)).toEqual(["shaft-free"]);
@@ -242,6 +243,26 @@ describe("a practice run follows the trainee's call", () => {
     expect((await listOpenEscalations(owner)).map((e) => e.runId)).not.toContain(runId);
     const [reportRows] = await db().select({ n: count() }).from(reports).where(eq(reports.runId, runId));
     expect(reportRows!.n).toBe(0);
+  });
+
+  it("a reading the trainee confirmed when asked is marked confirmed on the review; the others are not", async () => {
+    const scenarioId = await newScenario(trainer, treeId, "cap-failed", WEAK_CAP_WORLD, "Weak run capacitor, a bare number");
+    const { runId } = await startPractice(tech, await assigned(trainer, tech, scenarioId));
+    await walkToCapacitor(tech, runId);
+    // A bare 1470 on the µF step is 1470 µF; 1470 nF = 1.47 µF is inside 1.5 µF ± 6 % (REFERENCES.md:
+    // motor-run capacitors, common practice), so the engine asks whether it was read right.
+    await expect(
+      postStep(tech, runId, practiceStep({ type: "reading", node: "cap-measure", reading: "1470", call: "low" })),
+    ).rejects.toMatchObject({ status: 422, code: "needs-confirmation" });
+    const yes = await postStep(
+      tech,
+      runId,
+      practiceStep({ type: "reading", node: "cap-measure", reading: "1470", call: "high", confirmed: true }),
+    );
+    expect(yes.step).toMatchObject({ confirmed: true, verdict: "high" });
+    const r = await getPracticeReview(trainer, runId);
+    expect(r.confirmed).toEqual([yes.step.seq]);
+    expect(r.typed[yes.step.seq]).toBe("1470");
   });
 
   it("a call on a real run's reading is refused, and a real run is not a practice one", async () => {

@@ -10,9 +10,9 @@ export const SERVER_TEST_SECRET = "server-test-secret-server-test-secret-0";
 
 export type Started = { url: string; port: number; output: () => string; stop: () => Promise<void>; child: ChildProcess };
 
-/** `node server.js` from the build with these settings; resolves once /healthz answers at all. */
+/** `node server.js` from the build with these settings (PORT: a free one unless given); resolves once /healthz answers at all. */
 export async function startServer(env: Record<string, string>): Promise<Started> {
-  const port = await freePort();
+  const port = env.PORT ? Number(env.PORT) : await freePort();
   let output = "";
   const child = spawn(process.execPath, ["server.js"], {
     env: {

@@ -39,7 +39,7 @@ async function practiceRun(ctx: Ctx, runId: string) {
   return row ?? null;
 }
 
-/** Everything the review page shows: the aligned paths, the misjudged readings, undo entries, times, comments and the note. */
+/** Everything the review page shows: the aligned paths, the misjudged readings, confirmed readings, undo entries, times, comments and the note. */
 export async function getPracticeReview(ctx: Ctx, runId: string) {
   authorize(ctx, "training.review");
   const head = (await practiceRun(ctx, runId)) ?? notFound("That practice run");
@@ -91,6 +91,8 @@ export async function getPracticeReview(ctx: Ctx, runId: string) {
     tree: content.tree,
     review: result,
     typed: Object.fromEntries(rows.map((r) => [r.seq, r.typed])),
+    /** The steps whose reading the trainee confirmed when Cluepath asked whether it was read right. */
+    confirmed: rows.filter((r) => r.confirmed).map((r) => r.seq),
     comments,
     note: review[0] ?? null,
     timeZone,

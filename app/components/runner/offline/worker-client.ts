@@ -23,8 +23,12 @@ export function registerWorker(): void {
     .register("/sw.js", { scope: "/" })
     .then((reg) => {
       const check = () => setReady(Boolean(reg.waiting && navigator.serviceWorker.controller));
+      const watch = (w: ServiceWorker | null) => w?.addEventListener("statechange", check);
       check();
-      reg.addEventListener("updatefound", () => reg.installing?.addEventListener("statechange", check));
+      // The browser checks for a new worker when a page is opened, often before this page asks: an
+      // update already installing is watched as well as those found later.
+      watch(reg.installing);
+      reg.addEventListener("updatefound", () => watch(reg.installing));
       // A phone left on the runner all day still learns of a new version when it comes back to it.
       document.addEventListener("visibilitychange", () => {
         if (document.visibilityState === "visible") void reg.update().catch(() => undefined);
