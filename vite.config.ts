@@ -1,7 +1,7 @@
 import { reactRouter } from "@react-router/dev/vite";
 import tailwindcss from "@tailwindcss/vite";
 import { fileURLToPath } from "node:url";
-import { defineConfig } from "vitest/config";
+import { defineConfig, type TestProjectInlineConfiguration } from "vitest/config";
 
 /**
  * Browser test files that read a whole database or a shop's totals ("no change anywhere",
@@ -10,7 +10,7 @@ import { defineConfig } from "vitest/config";
  */
 const E2E_ALONE = { sweep: "tests/e2e/route-sweep.test.ts", insights: "tests/e2e/insights.test.ts" };
 
-const browserProject = (name: string, include: string[], exclude: string[] = []) => ({
+const browserProject = (name: string, include: string[], exclude: string[] = []): TestProjectInlineConfiguration => ({
   extends: true,
   test: {
     name,
