@@ -5,7 +5,6 @@
 // worker registration). Both reach MariaDB through a relay the test cuts, so the technician's step
 // waits on the phone all through the update. Phone size (390×844); screenshots update-*.png.
 import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
@@ -32,10 +31,12 @@ let server: Started | undefined;
 let browser: Browser;
 let nextBuild: string;
 
-/** A copy of the build whose service worker's text differs by one comment: a new version to the phone. */
+/** A copy of the build whose service worker's text differs by one comment: a new version to the phone (BUILD_DIR, relative to the project). */
 function copyWithNewWorker(): string {
-  const dir = mkdtempSync(join(tmpdir(), "cluepath-next-build-"));
-  cpSync(process.env.BUILD_DIR ?? "build", dir, { recursive: true });
+  // Inside the build folder, so the server bundle finds the project's node_modules as the build does.
+  const build = process.env.BUILD_DIR ?? "build";
+  const dir = mkdtempSync(join(build, ".next-release-"));
+  for (const part of ["client", "server"]) cpSync(join(build, part), join(dir, part), { recursive: true });
   let changed = 0;
   const walk = (d: string) => {
     for (const e of readdirSync(d, { withFileTypes: true })) {
@@ -115,7 +116,9 @@ describe("a new version of the app on a phone with unsent steps (390×844)", () 
     await relay.down();
     await page.getByRole("button", { name: /^I have read this and made the work safe/ }).click();
     await page.getByRole("heading", { level: 1, name: "Discharge the fan-motor run capacitors with a rated tool" }).waitFor();
-    await page.getByText("1 step saved on this phone — it will be sent when there is signal.").waitFor({ timeout: 15_000 });
+    await page
+      .getByText("Cluepath's server can't save just now. 1 step saved on this phone — it will be sent when the server is back.")
+      .waitFor({ timeout: 15_000 });
     await expect(waiting(page)).resolves.toBe(1);
 
     // The new release: same address, a service worker that differs.
@@ -127,7 +130,9 @@ describe("a new version of the app on a phone with unsent steps (390×844)", () 
     await page.getByRole("heading", { level: 1, name: "Discharge the fan-motor run capacitors with a rated tool" }).waitFor();
     const ready = page.getByRole("status").filter({ hasText: "A new version of Cluepath is ready. What is on this phone stays." });
     await ready.waitFor({ timeout: 30_000 });
-    await page.getByText("1 step saved on this phone — it will be sent when there is signal.").waitFor();
+    await page
+      .getByText("Cluepath's server can't save just now. 1 step saved on this phone — it will be sent when the server is back.")
+      .waitFor();
     await page.screenshot({ path: screenshotPath("update-ready-phone") });
 
     await ready.getByRole("button", { name: "Reload" }).click();
@@ -136,7 +141,9 @@ describe("a new version of the app on a phone with unsent steps (390×844)", () 
     await page.getByRole("heading", { level: 1, name: "Discharge the fan-motor run capacitors with a rated tool" }).waitFor();
     await expect(ready.count()).resolves.toBe(0);
     await expect(waiting(page)).resolves.toBe(1);
-    await page.getByText("1 step saved on this phone — it will be sent when there is signal.").waitFor();
+    await page
+      .getByText("Cluepath's server can't save just now. 1 step saved on this phone — it will be sent when the server is back.")
+      .waitFor();
     await page.screenshot({ path: screenshotPath("update-reloaded-phone") });
     expect(await db().select().from(runSteps).where(eq(runSteps.runId, runId))).toEqual([]);
 

@@ -110,6 +110,8 @@ export function useRun(initial: RunView, fromPhone = false) {
 
   const queued = items.filter((i) => i.state === "queued");
   const offline = !snap.online;
+  // Kept on the phone, not on its way: no signal, or a server that cannot store just now.
+  const held = offline || snap.serverAway;
   return {
     view,
     state,
@@ -137,14 +139,15 @@ export function useRun(initial: RunView, fromPhone = false) {
     finish,
     sendReport,
     /** Entries on their way to the server (with signal). */
-    saving: offline ? 0 : queued.length,
-    /** Entries kept on the phone until there is signal. */
-    waiting: offline ? queued.length : 0,
+    saving: held ? 0 : queued.length,
+    /** Entries kept on the phone until there is signal, or until the server can store them. */
+    waiting: held ? queued.length : 0,
     /** What is only on this phone for this run, and what the server refused; see offline/PhoneStatus. */
     phone: {
       items,
       queued,
       offline,
+      serverAway: snap.serverAway,
       sending: snap.sending,
       needsSignIn: snap.needsSignIn,
       retry: () => phone?.retry(id),

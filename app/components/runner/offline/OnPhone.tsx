@@ -5,7 +5,7 @@ import { useEffect, useState } from "react";
 import { atShop, placeName } from "~/lib/display";
 import { stepsDone } from "~/lib/run-log";
 import type { StoredRun } from "./db";
-import { UpdateReady, waitingSentence } from "./PhoneStatus";
+import { serverAwaySentence, UpdateReady, waitingSentence } from "./PhoneStatus";
 import type { Phone, PhoneSnapshot } from "./phone";
 import { useBrowserOnline, usePhone } from "./usePhone";
 import { phoneUser, setPhoneUser } from "./who";
@@ -156,7 +156,7 @@ export function OnPhone({ signedIn }: { signedIn: SignedIn }) {
         )}
         {queued.length > 0 && (
           <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft p-3 text-lg font-semibold">
-            {online ? `Sending what is on this phone…` : waitingSentence(queued)}
+            {!online ? waitingSentence(queued) : snap.serverAway ? serverAwaySentence(queued) : `Sending what is on this phone…`}
           </p>
         )}
         {user && (

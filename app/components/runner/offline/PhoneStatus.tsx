@@ -10,9 +10,14 @@ import { describeItems } from "./fold";
 import { applyUpdate, useUpdateReady } from "./worker-client";
 
 /** "3 steps and 1 photo saved on this phone — they will be sent when there is signal." */
-export function waitingSentence(items: readonly OutboxItem[]): string {
+export function waitingSentence(items: readonly OutboxItem[], until = "there is signal"): string {
   const what = describeItems(items);
-  return `${what.charAt(0).toUpperCase()}${what.slice(1)} saved on this phone — ${items.length === 1 ? "it" : "they"} will be sent when there is signal.`;
+  return `${what.charAt(0).toUpperCase()}${what.slice(1)} saved on this phone — ${items.length === 1 ? "it" : "they"} will be sent when ${until}.`;
+}
+
+/** The same, when the server answers but cannot store (its database is away). */
+export function serverAwaySentence(items: readonly OutboxItem[]): string {
+  return `Cluepath's server can't save just now. ${waitingSentence(items, "the server is back")}`;
 }
 
 export function UpdateReady() {
@@ -154,7 +159,7 @@ function PhotoCopy({ item }: { item: OutboxItem & { kind: "photo" } }) {
 }
 
 export function PhoneStatus({ run }: { run: RunHandle }) {
-  const { queued, offline, needsSignIn, items } = run.phone;
+  const { queued, offline, serverAway, needsSignIn, items } = run.phone;
   const refused = items.filter((i) => i.state !== "queued");
   return (
     <>
@@ -173,6 +178,11 @@ export function PhoneStatus({ run }: { run: RunHandle }) {
       {offline && queued.length > 0 && (
         <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft px-3 py-2 font-semibold">
           No signal. {waitingSentence(queued)}
+        </p>
+      )}
+      {!offline && serverAway && queued.length > 0 && (
+        <p role="status" className="rounded-xl border-2 border-marginal bg-marginal-soft px-3 py-2 font-semibold">
+          {serverAwaySentence(queued)}
         </p>
       )}
       {refused.length > 0 && <Refused run={run} items={refused} />}

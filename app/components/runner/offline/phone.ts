@@ -25,6 +25,8 @@ export type PhoneSnapshot = {
   sending: boolean;
   /** The server answered 401: the session has ended; sending waits for a new sign-in. */
   needsSignIn: boolean;
+  /** The server answered but could not store (a 503: its database is away); sending tries again. */
+  serverAway: boolean;
   /** IndexedDB could not be opened: nothing is kept on this phone. */
   storageError: string | null;
 };
@@ -53,6 +55,7 @@ export class Phone {
     online: online(),
     sending: false,
     needsSignIn: false,
+    serverAway: false,
     storageError: null,
   };
   private listeners = new Set<() => void>();
@@ -362,6 +365,7 @@ export class Phone {
         if (err.retryable) {
           this.failures++;
           if (err.status === 0) this.reach(false);
+          else if (!this.snap.serverAway) this.set({ serverAway: true });
           const delay = Math.min(1000 * 2 ** Math.min(this.failures, 5), MAX_BACKOFF_MS);
           this.timer = setTimeout(this.kick, delay);
           return;
@@ -372,6 +376,7 @@ export class Phone {
       }
       this.failures = 0;
       this.reach(true);
+      if (this.snap.serverAway) this.set({ serverAway: false });
       await this.accept(next, answer);
       touched.add(next.runId);
     }

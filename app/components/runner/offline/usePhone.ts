@@ -12,6 +12,7 @@ const EMPTY: PhoneSnapshot = {
   online: true,
   sending: false,
   needsSignIn: false,
+  serverAway: false,
   storageError: null,
 };
 const nothing = () => () => {};
