@@ -67,7 +67,8 @@ start_throwaway_services() {
   export DB_DIR="$work/db"
   export DB_PORT="$(free_port)"
   trap stop_throwaway_services INT TERM EXIT
-  DB_NAME=cluepath_test scripts/db start >/dev/null
+  # A throwaway server: commits flushed about once a second, not one by one (nothing here outlives it).
+  DB_FSYNC=0 DB_NAME=cluepath_test scripts/db start >/dev/null
   export DATABASE_URL="mysql://root@127.0.0.1:$DB_PORT/cluepath_test"
   export E2E_DATABASE_URL="mysql://root@127.0.0.1:$DB_PORT/cluepath_e2e"
   S3_PORT="$(free_port)" SMTP_PORT="$(free_port)" S3_DIR="$work/s3" MAIL_CAPTURE_DIR="$work/mail"
