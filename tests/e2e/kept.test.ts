@@ -14,8 +14,7 @@ import { startRun } from "../../app/models/runs/start.server";
 import { createDraftTree } from "../../app/models/trees/drafts.server";
 import { loadTreeVersion } from "../../app/models/trees/versions.server";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
-import { freePort } from "../support/e2e-setup";
-import { DatabaseRelay, startServer, type Started } from "../support/server";
+import { relayedDatabase, startServer, type DatabaseRelay, type Started } from "../support/server";
 import { smallTree } from "../support/trees";
 
 // The models below talk to the browser tests' database, as the server does (the configuration is
@@ -32,12 +31,9 @@ let server: Started;
 let browser: Browser;
 
 beforeAll(async () => {
-  const target = new URL(process.env.E2E_DATABASE_URL!);
-  relay = new DatabaseRelay(await freePort(), { host: target.hostname, port: Number(target.port) });
-  await relay.up();
-  const viaRelay = new URL(process.env.E2E_DATABASE_URL!);
-  viaRelay.port = String(relay.port);
-  server = await startServer({ DATABASE_URL: viaRelay.toString(), DB_ACQUIRE_TIMEOUT_MS: "1500", LOG_LEVEL: "warn" });
+  let url: string;
+  ({ relay, url } = await relayedDatabase());
+  server = await startServer({ DATABASE_URL: url, DB_ACQUIRE_TIMEOUT_MS: "1500", LOG_LEVEL: "warn" });
   browser = await launchBrowser();
 });
 

@@ -12,8 +12,7 @@ import type { Browser } from "playwright-core";
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "../../db/demo";
 import { launchBrowser, LAPTOP, PHONE, screenshotPath, signInAs } from "../support/browser";
-import { freePort } from "../support/e2e-setup";
-import { DatabaseRelay, SERVER_TEST_SECRET as SECRET, signIn, startServer, type Started } from "../support/server";
+import { relayedDatabase, SERVER_TEST_SECRET as SECRET, signIn, startServer, type DatabaseRelay, type Started } from "../support/server";
 
 const baseUrl = inject("baseUrl");
 const dbUrl = process.env.E2E_DATABASE_URL!;
@@ -321,12 +320,9 @@ describe("a database outage answers 503 and recovers without a restart (issue 9 
   let relay: DatabaseRelay;
   let server: Started;
   beforeAll(async () => {
-    const target = new URL(dbUrl);
-    relay = new DatabaseRelay(await freePort(), { host: target.hostname, port: Number(target.port) });
-    await relay.up();
-    const viaRelay = new URL(dbUrl);
-    viaRelay.port = String(relay.port);
-    server = await startServer({ DATABASE_URL: viaRelay.toString(), DB_ACQUIRE_TIMEOUT_MS: "1500" });
+    let url: string;
+    ({ relay, url } = await relayedDatabase());
+    server = await startServer({ DATABASE_URL: url, DB_ACQUIRE_TIMEOUT_MS: "1500" });
   });
   afterEach(() => relay.up()); // a failed check must not leave the next one without a database
   afterAll(async () => {

@@ -16,7 +16,7 @@ import { closeDb, db } from "../../app/lib/db.server";
 import { startRun } from "../../app/models/runs/start.server";
 import { launchBrowser, PHONE, screenshotPath, signInAs } from "../support/browser";
 import { freePort } from "../support/e2e-setup";
-import { DatabaseRelay, startServer, type Started } from "../support/server";
+import { relayedDatabase, startServer, type DatabaseRelay, type Started } from "../support/server";
 
 const shopId = stableId("shop:tinderbox");
 const tech: Ctx = { shopId, userId: stableId("user:tech@tinderbox.example"), role: "technician" };
@@ -57,13 +57,10 @@ function copyWithNewWorker(): string {
 }
 
 beforeAll(async () => {
-  const target = new URL(process.env.E2E_DATABASE_URL!);
-  relay = new DatabaseRelay(await freePort(), { host: target.hostname, port: Number(target.port) });
-  await relay.up();
-  const viaRelay = new URL(process.env.E2E_DATABASE_URL!);
-  viaRelay.port = String(relay.port);
+  let url: string;
+  ({ relay, url } = await relayedDatabase());
   port = await freePort();
-  env = { DATABASE_URL: viaRelay.toString(), PORT: String(port), DB_ACQUIRE_TIMEOUT_MS: "1500", LOG_LEVEL: "warn" };
+  env = { DATABASE_URL: url, PORT: String(port), DB_ACQUIRE_TIMEOUT_MS: "1500", LOG_LEVEL: "warn" };
   server = await startServer(env);
   nextBuild = copyWithNewWorker();
   browser = await launchBrowser();
@@ -135,7 +132,10 @@ describe("a new version of the app on a phone with unsent steps (390×844)", () 
       .waitFor();
     await page.screenshot({ path: screenshotPath("update-ready-phone") });
 
+    // The page reloads itself once the new worker has taken over.
+    const reloaded = page.waitForEvent("load", { timeout: 30_000 });
     await ready.getByRole("button", { name: "Reload" }).click();
+    await reloaded;
     await expect.poll(() => appCaches(page), { timeout: 30_000 }).not.toEqual(before);
     await expect(appCaches(page)).resolves.toHaveLength(1);
     await page.getByRole("heading", { level: 1, name: "Discharge the fan-motor run capacitors with a rated tool" }).waitFor();

@@ -87,3 +87,13 @@ export class DatabaseRelay {
     this.server = undefined;
   }
 }
+
+/** A relay to the browser tests' database, up, and the database URL that goes through it. */
+export async function relayedDatabase(): Promise<{ relay: DatabaseRelay; url: string }> {
+  const target = new URL(process.env.E2E_DATABASE_URL!);
+  const relay = new DatabaseRelay(await freePort(), { host: target.hostname, port: Number(target.port) });
+  await relay.up();
+  const viaRelay = new URL(target);
+  viaRelay.port = String(relay.port);
+  return { relay, url: viaRelay.toString() };
+}
