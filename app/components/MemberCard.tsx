@@ -8,7 +8,7 @@ import { useAsk } from "./useAsk";
 export type Member = { userId: string; name: string; email: string; role: Role; active: boolean; you: boolean };
 
 export function MemberCard({ m, busy }: { m: Member; busy: boolean }) {
-  const off = useAsk();
+  const off = useAsk(!busy);
   const roleId = `role-${m.userId}`;
   return (
     <li className={`card space-y-3 ${m.active ? "" : "border-dashed bg-paper"}`}>
