@@ -4,6 +4,15 @@ import { nodeBranches } from "../engine/graph";
 import type { World } from "../engine/training/script";
 import type { Tree, TreeNode } from "../engine/types";
 
+/** The word a review or a scenario's walk puts above a step of each kind (an outcome has none). */
+export const STEP_KIND_WORD: Partial<Record<TreeNode["kind"], string>> = {
+  question: "Question",
+  measurement: "Reading",
+  nameplate: "Rating",
+  caution: "Caution",
+  step: "Instruction",
+};
+
 /** Each part of a scripted step, and the kind of step it belongs to. */
 export const WORLD_PARTS = { observation: "question", answer: "question", shows: "measurement", label: "nameplate" } as const;
 export type WorldPart = keyof typeof WORLD_PARTS;

@@ -12,7 +12,7 @@ import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
 import { CONFIRMED_NOTE } from "~/lib/run-log";
 import { form, page, readForm } from "~/lib/route.server";
-import { duration } from "~/lib/training";
+import { duration, STEP_KIND_WORD } from "~/lib/training";
 import { addComment, commentInput, getPracticeReview, noteInput, saveReview } from "~/models/training/reviews.server";
 import type { Route } from "./+types/training.runs.$runId";
 
@@ -45,14 +45,6 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   await addComment(ctx, params.runId, await readForm(request, commentInput));
   return { ok: true as const, message: "Comment added." };
 });
-
-const KIND: Partial<Record<TreeNode["kind"], string>> = {
-  question: "Question",
-  measurement: "Reading",
-  nameplate: "Rating",
-  caution: "Caution",
-  step: "Instruction",
-};
 
 type Titles = Record<string, { title: string; kind: TreeNode["kind"] }>;
 
@@ -235,7 +227,9 @@ export default function ReviewPage({ loaderData, actionData }: Route.ComponentPr
                   >
                     <td className="px-3 py-2">
                       {mark && <p className={`text-sm font-bold uppercase tracking-wide ${mark.word}`}>{mark.label}</p>}
-                      <p className="text-sm font-semibold uppercase tracking-wide text-copper-dark">{KIND[t[row.node]?.kind ?? "step"]}</p>
+                      <p className="text-sm font-semibold uppercase tracking-wide text-copper-dark">
+                        {STEP_KIND_WORD[t[row.node]?.kind ?? "step"]}
+                      </p>
                       <p className="font-semibold">{title(row.node)}</p>
                     </td>
                     <td className="px-3 py-2">{row.reference ? <Did step={row.reference} /> : <p className="text-ink-soft">—</p>}</td>

@@ -5,13 +5,13 @@ import { Form, Link, redirect } from "react-router";
 import { CauseMark, CheckBadge, StateBadge } from "~/components/training/Badges";
 import { Notice, Section } from "~/components/training/Section";
 import { branchName } from "~/engine/graph";
-import type { TreeNode } from "~/engine/types";
 import { requireUser } from "~/lib/auth.server";
 import { atShop } from "~/lib/display";
 import { Refusal } from "~/lib/refusal";
 import { form, page } from "~/lib/route.server";
 import { assignInput, assignScenario, withdrawAssignment } from "~/models/training/practice.server";
 import { copyScenario, getScenario } from "~/models/training/scenarios.server";
+import { STEP_KIND_WORD } from "~/lib/training";
 import type { Route } from "./+types/training.scenarios.$scenarioId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.scenario.name ?? "Scenario"} · Cluepath` }];
@@ -67,14 +67,6 @@ export const action = form(async ({ request, params }: Route.ActionArgs) => {
   const again = r.already ? ` ${r.already} already had it open.` : "";
   return { ok: true as const, message: `Assigned to ${r.assigned} technician${r.assigned === 1 ? "" : "s"}.${again}` };
 });
-
-const KIND: Partial<Record<TreeNode["kind"], string>> = {
-  question: "Question",
-  measurement: "Reading",
-  nameplate: "Rating",
-  caution: "Caution",
-  step: "Instruction",
-};
 
 export default function ScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
   const { scenario, findings, reference, end, check, newer, locked, assignments, technicians } = loaderData;
@@ -159,7 +151,9 @@ export default function ScenarioPage({ loaderData, actionData }: Route.Component
             <li key={r.index} className="grid gap-1 px-3 py-2 md:grid-cols-[2rem_1fr_1.2fr]">
               <span className="text-ink-soft">{r.index + 1}</span>
               <span>
-                <span className="mr-2 text-sm font-semibold uppercase tracking-wide text-copper-dark">{KIND[r.kind] ?? r.kind}</span>
+                <span className="mr-2 text-sm font-semibold uppercase tracking-wide text-copper-dark">
+                  {STEP_KIND_WORD[r.kind] ?? r.kind}
+                </span>
                 {r.title}
               </span>
               <span className="text-ink-soft">

@@ -65,6 +65,14 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
   const display = unitOk ? resolveUnit(node.unit, node.quantity)! : null;
 
   // Units of limit values.
+  const belowZero = (v: { value: number; unit?: string }) =>
+    add({
+      severity: "error",
+      code: "below-absolute-zero",
+      ...at,
+      field: "limits",
+      message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.`,
+    });
   const fixed: (number | null)[] = [];
   for (const v of limitValues(L)) {
     let x: number | null = null;
@@ -87,26 +95,12 @@ function checkMeasurement(node: MeasurementNode, i: number, add: Add): void {
           message: `A limit of ${describeNode(node)} is in ${v.unit} (${kindNoun(r.kind)}), but the step measures ${QUANTITY_INFO[node.quantity].noun} in ${node.unit}.`,
         });
       } else if (display && "value" in v) {
-        if (belowAbsoluteZero(v.value, r)) {
-          add({
-            severity: "error",
-            code: "below-absolute-zero",
-            ...at,
-            field: "limits",
-            message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.`,
-          });
-        } else x = convertQty(v.value, r.qty, display.qty);
+        if (belowAbsoluteZero(v.value, r)) belowZero(v);
+        else x = convertQty(v.value, r.qty, display.qty);
       }
     } else if ("value" in v) {
-      if (display && belowAbsoluteZero(v.value, display)) {
-        add({
-          severity: "error",
-          code: "below-absolute-zero",
-          ...at,
-          field: "limits",
-          message: `A limit of ${describeNode(node)}, ${describeValue(v, node.unit)}, is below absolute zero.`,
-        });
-      } else x = v.value;
+      if (display && belowAbsoluteZero(v.value, display)) belowZero(v);
+      else x = v.value;
     }
     fixed.push(x);
     if ("formula" in v) checkFormula(v.formula, node, i, "limits", add);

@@ -35,14 +35,21 @@ export const scenarioForm = z
   }));
 export type ScenarioInput = z.output<typeof scenarioForm>;
 
-/** Only the steps of the version that the script can speak for, and only their own kind. */
-function worldOn(tree: Tree, world: World): World {
-  const out: World = {};
-  for (const [id, s] of Object.entries(world)) {
+/**
+ * The scenario's script checked on a version: only the steps of the version that the script can
+ * speak for, and only their own kind, then the engine's check. The columns a scenario row keeps of it.
+ */
+function checkedOn(tree: Tree, fault: string, script: World) {
+  const world: World = {};
+  for (const [id, s] of Object.entries(script)) {
     const n = nodeOf(tree, id);
-    if (n && n.kind === s.kind) out[id] = s;
+    if (n && n.kind === s.kind) world[id] = s;
   }
-  return out;
+  const check = checkScript(tree, { fault, world });
+  return {
+    ok: check.ok,
+    row: { faultNode: fault, world, checkStatus: check.ok ? ("ready" as const) : ("failing" as const), findings: check.findings },
+  };
 }
 
 async function hasRuns(tx: Tx, scenarioId: string): Promise<boolean> {
@@ -68,8 +75,7 @@ export async function createScenario(ctx: Ctx, treeId: string, input: ScenarioIn
     const v = await currentPublished(ctx, treeId, tx);
     if (!v) throw new Refusal("not-found", "That tree has no published version to practise on.");
     const content = await versionContent(ctx, v.id, tx);
-    const world = worldOn(content.tree, input.world);
-    const check = checkScript(content.tree, { fault: input.fault, world });
+    const check = checkedOn(content.tree, input.fault, input.world);
     const id = crypto.randomUUID();
     const now = new Date();
     await tx.insert(trainingScenarios).values({
@@ -80,10 +86,7 @@ export async function createScenario(ctx: Ctx, treeId: string, input: ScenarioIn
       name: input.name,
       complaint: input.complaint,
       unitText: input.unitText,
-      faultNode: input.fault,
-      world,
-      checkStatus: check.ok ? "ready" : "failing",
-      findings: check.findings,
+      ...check.row,
       createdBy: ctx.userId,
       createdAt: now,
       updatedAt: now,
@@ -104,18 +107,14 @@ export async function updateScenario(ctx: Ctx, id: string, input: ScenarioInput)
         code: "locked",
       });
     const content = await versionContent(ctx, s.versionId, tx);
-    const world = worldOn(content.tree, input.world);
-    const check = checkScript(content.tree, { fault: input.fault, world });
+    const check = checkedOn(content.tree, input.fault, input.world);
     await tx
       .update(trainingScenarios)
       .set({
         name: input.name,
         complaint: input.complaint,
         unitText: input.unitText,
-        faultNode: input.fault,
-        world,
-        checkStatus: check.ok ? "ready" : "failing",
-        findings: check.findings,
+        ...check.row,
         updatedAt: new Date(),
       })
       .where(eq(trainingScenarios.id, id));
@@ -138,8 +137,7 @@ export async function copyScenario(ctx: Ctx, id: string): Promise<{ id: string; 
     if (v.id === s.versionId)
       throw new Refusal("conflict", "This scenario is on the newest published version already.", { code: "newest" });
     const content = await versionContent(ctx, v.id, tx);
-    const world = worldOn(content.tree, s.world);
-    const check = checkScript(content.tree, { fault: s.faultNode, world });
+    const check = checkedOn(content.tree, s.faultNode, s.world);
     const copy = crypto.randomUUID();
     const now = new Date();
     await tx.insert(trainingScenarios).values({
@@ -150,10 +148,7 @@ export async function copyScenario(ctx: Ctx, id: string): Promise<{ id: string; 
       name: s.name,
       complaint: s.complaint,
       unitText: s.unitText,
-      faultNode: s.faultNode,
-      world,
-      checkStatus: check.ok ? "ready" : "failing",
-      findings: check.findings,
+      ...check.row,
       copiedFrom: s.id,
       createdBy: ctx.userId,
       createdAt: now,

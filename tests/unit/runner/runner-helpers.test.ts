@@ -8,7 +8,8 @@ import { stepsToGo } from "../../../app/components/runner/progress";
 import { composeReading } from "../../../app/components/runner/Reading";
 import { markdownBlocks } from "../../../app/lib/md.server";
 import { placeName } from "../../../app/lib/display";
-import { canonicalPayload, entryOf, logOf, type StepView } from "../../../app/lib/run-log";
+import { canonicalPayload, entryOf, logOf } from "../../../app/lib/run-log";
+import { storedStep } from "../../support/steps";
 
 const parsed = parseTree(readFileSync("trees/rotisserie-uneven-heat.md", "utf8"));
 if (!parsed.ok) throw new Error("the starter tree does not parse");
@@ -41,30 +42,7 @@ describe("typed readings", () => {
 });
 
 describe("the run log", () => {
-  const row = (over: Partial<StepView>): StepView => ({
-    seq: 0,
-    key: crypto.randomUUID(),
-    type: "acknowledge",
-    node: "lockout",
-    kind: "caution",
-    answer: null,
-    typed: null,
-    value: null,
-    unit: null,
-    si: null,
-    siUnit: null,
-    verdict: null,
-    message: null,
-    limitsText: null,
-    meterId: null,
-    meter: null,
-    to: null,
-    undone: false,
-    undoesSeq: null,
-    enteredBy: "u",
-    recordedAt: new Date(0).toISOString(),
-    ...over,
-  });
+  const row = storedStep;
 
   it("stored steps replay, in seq order, to the state the engine reached when they were taken", () => {
     const meter = { percent: 1.9, counts: 2, resolution: 0.01, unit: "µF" };

@@ -15,7 +15,8 @@ import { foundHereLine } from "../../../app/components/runner/FoundHere";
 import { nodeOptionLabels } from "../../../app/components/editor/BranchFields";
 import { distinctLabels } from "../../../app/lib/node-labels";
 import type { FoundHere } from "../../../app/lib/insights/found-here";
-import { canonicalPayload, entryOf, logOf, meterAccuracy, type MeterView, type StepView } from "../../../app/lib/run-log";
+import { canonicalPayload, entryOf, logOf, meterAccuracy, type MeterView } from "../../../app/lib/run-log";
+import { storedStep } from "../../support/steps";
 
 const parsed = parseTree(readFileSync("trees/rotisserie-uneven-heat.md", "utf8"));
 if (!parsed.ok) throw new Error("the starter tree does not parse");
@@ -93,28 +94,9 @@ describe("confirming an implausible reading", () => {
   });
 
   it("a log of stored steps carries the confirmation to the engine in order", () => {
-    const base = {
-      key: "k",
-      kind: null,
-      answer: null,
-      value: null,
-      unit: null,
-      si: null,
-      siUnit: null,
-      verdict: null,
-      message: null,
-      limitsText: null,
-      meterId: null,
-      meter: null,
-      to: null,
-      undone: false,
-      undoesSeq: null,
-      enteredBy: "u",
-      recordedAt: "",
-    };
-    const steps: StepView[] = [
-      { ...base, seq: 1, type: "reading", node: "supply-voltage", typed: "208 mV", confirmed: true },
-      { ...base, seq: 0, type: "acknowledge", node: "lockout", typed: null },
+    const steps = [
+      storedStep({ seq: 1, type: "reading", node: "supply-voltage", typed: "208 mV", confirmed: true }),
+      storedStep({ seq: 0, type: "acknowledge", node: "lockout" }),
     ];
     expect(logOf(steps)).toEqual([
       { type: "acknowledge", node: "lockout" },
